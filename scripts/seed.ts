@@ -1,0 +1,242 @@
+// Seeds the demo studio of the product brief (an invented business): settings, rooms, gear,
+// people and a few bookings. Idempotent: running it again changes nothing that is already there.
+// Only for demo and test databases (npm start and npm test call it; SEED_DEMO=0 skips it).
+import { eq, sql } from 'drizzle-orm';
+import { hashPassword } from 'better-auth/crypto';
+import { createDb } from '../src/lib/server/db/client';
+import * as t from '../src/lib/server/db/schema';
+import { seedDemoBookings } from './seed-bookings';
+
+const url = process.env.DATABASE_URL;
+if (!url) throw new Error('DATABASE_URL is not set');
+const { db, client } = createDb(url, { max: 2 });
+
+export const DEMO_PASSWORD = 'slateroom-demo';
+
+const people = [
+	{ email: 'owner@slateroom.test', name: 'Maija Kuusela', role: 'owner' },
+	{ email: 'engineer@slateroom.test', name: 'Elias Harmaa', role: 'engineer' },
+	{ email: 'accountant@slateroom.test', name: 'Riikka Laskunen', role: 'accountant' },
+	{ email: 'artist@slateroom.test', name: 'Noa Virta (The Lantern Static)', role: 'artist' },
+	{ email: 'artist2@slateroom.test', name: 'Iiris Sorsa (Pale Orchard)', role: 'artist' }
+] as const;
+
+const minutes = (hhmm: string) => {
+	const [h, m] = hhmm.split(':').map(Number);
+	return (h ?? 0) * 60 + (m ?? 0);
+};
+
+async function seedStudio() {
+	await db
+		.insert(t.studio)
+		.values({
+			id: 1,
+			name: 'Hollow Pine Studio',
+			tagline: 'A converted barn for tracking bands and voices, outside Tampere.',
+			description:
+				'Three rooms under one roof: a timber live room with a high ceiling, a dry vocal booth and a control room with a view of both. Book by the hour, the half day or the full day; an engineer is available for any booking.',
+			addressLines: ['Kuusikkotie 14', '33980 Pirkkala (invented address)', 'Finland'],
+			country: 'FI',
+			email: 'hello@hollowpine.test',
+			vatId: 'FI00000000',
+			timeZone: 'Europe/Helsinki',
+			currency: 'EUR',
+			locale: 'en-GB',
+			vatRateBp: 2550,
+			pricesIncludeVat: true,
+			halfDayMinutes: 240,
+			fullDayMinutes: 480,
+			minBookingMinutes: 120,
+			incrementMinutes: 30,
+			turnaroundMinutes: 30,
+			minNoticeMinutes: 24 * 60,
+			horizonDays: 180,
+			holdMinutes: 30,
+			depositBp: 3000,
+			depositMinimum: 5000,
+			overtimeIncrementMinutes: 15,
+			engineerHourly: 3500,
+			engineerHalfDay: 12000,
+			engineerFullDay: 23000,
+			closedOnPublicHolidays: false,
+			openingHours: [1, 2, 3, 4, 5, 6, 7].map((weekday) => ({
+				weekday,
+				openMinute: minutes('09:00'),
+				closeMinute: minutes('23:00')
+			})),
+			cancellation: [
+				{ minNoticeHours: 7 * 24, refundBp: 10000 },
+				{ minNoticeHours: 48, refundBp: 5000 },
+				{ minNoticeHours: 0, refundBp: 0 }
+			]
+		})
+		.onConflictDoNothing();
+
+	const [{ count } = { count: 0 }] = await db.select({ count: sql<number>`count(*)::int` }).from(t.surchargeRule);
+	if (count === 0) {
+		await db.insert(t.surchargeRule).values([
+			{
+				label: 'Weekday evening',
+				kind: 'window',
+				percentBp: 2500,
+				weekdays: [1, 2, 3, 4, 5],
+				fromMinute: minutes('18:00'),
+				toMinute: minutes('23:00'),
+				sortOrder: 1
+			},
+			{
+				label: 'Weekend',
+				kind: 'window',
+				percentBp: 2000,
+				weekdays: [6, 7],
+				fromMinute: 0,
+				toMinute: 1440,
+				sortOrder: 2
+			},
+			{ label: 'Public holiday', kind: 'holiday', percentBp: 5000, weekdays: [], sortOrder: 3 }
+		]);
+	}
+}
+
+const rooms = [
+	{
+		slug: 'live-room',
+		name: 'Live room',
+		description: 'Timber walls, a five-metre ceiling and room for a five-piece band tracking together.',
+		capacity: 6,
+		hourly: 4500,
+		halfDay: 16000,
+		fullDay: 30000,
+		sortOrder: 1
+	},
+	{
+		slug: 'vocal-booth',
+		name: 'Vocal booth',
+		description: 'A dry, quiet booth for vocals, voice-over and single instruments.',
+		capacity: 2,
+		hourly: 3000,
+		halfDay: 10000,
+		fullDay: 19000,
+		sortOrder: 2
+	},
+	{
+		slug: 'control-room',
+		name: 'Control room',
+		description: 'Mixing, overdubs and editing, with a window onto the live room.',
+		capacity: 4,
+		hourly: 4000,
+		halfDay: 14000,
+		fullDay: 26000,
+		sortOrder: 3
+	}
+];
+
+async function seedRooms() {
+	for (const r of rooms) await db.insert(t.room).values(r).onConflictDoNothing({ target: t.room.slug });
+	return Object.fromEntries((await db.select().from(t.room)).map((r) => [r.slug, r.id]));
+}
+
+const PHANTOM =
+	'Needs 48 V phantom power (IEC 61938): switch phantom off and mute the channel before patching; keep it away from ribbon microphones.';
+
+async function seedGear(roomIds: Record<string, string>) {
+	const [{ count } = { count: 0 }] = await db.select({ count: sql<number>`count(*)::int` }).from(t.gearItem);
+	if (count > 0) return;
+	await db.insert(t.gearItem).values([
+		{
+			name: 'Large-diaphragm condenser, multi-pattern',
+			category: 'microphone',
+			description: 'Vocals, acoustic guitar, room sound.',
+			homeRoomId: roomIds['vocal-booth'],
+			caution: PHANTOM,
+			hireable: false
+		},
+		{
+			name: 'Small-diaphragm condensers, cardioid (matched pair)',
+			category: 'microphone',
+			description: 'Overheads, acoustic guitar, strings.',
+			homeRoomId: roomIds['live-room'],
+			caution: PHANTOM
+		},
+		{
+			name: 'Ribbon microphone, figure-of-eight',
+			category: 'microphone',
+			description: 'Guitar cabinets, brass, room.',
+			homeRoomId: roomIds['live-room'],
+			hireFee: 1500,
+			hireable: true,
+			caution: 'Ribbon element: never send phantom power to it and keep it out of strong air blasts (kick drum ports, plosives).'
+		},
+		{
+			name: 'Dynamic microphone, cardioid (set of four)',
+			category: 'microphone',
+			description: 'Snare, toms, guitar cabinets.',
+			homeRoomId: roomIds['live-room']
+		},
+		{
+			name: 'Two-channel valve preamp',
+			category: 'preamp',
+			description: 'Colour for vocals and bass.',
+			homeRoomId: roomIds['control-room'],
+			hireFee: 2500,
+			hireable: true,
+			caution: 'Valve unit: let it cool before moving; never remove the mains safety earth.'
+		},
+		{
+			name: 'Optical compressor, stereo',
+			category: 'compressor',
+			description: 'Gentle levelling on vocals and bass while tracking.',
+			homeRoomId: roomIds['control-room'],
+			hireFee: 2000,
+			hireable: true
+		},
+		{
+			name: 'Upright piano, acoustic',
+			category: 'instrument',
+			description: 'Tuned monthly.',
+			homeRoomId: roomIds['live-room'],
+			caution: 'About 230 kg: moved only by two or more people with a dolly, never lifted by the lid or keybed.'
+		},
+		{
+			name: 'Headphone amplifier, six outputs',
+			category: 'monitoring',
+			description: 'Cue mixes for the live room.',
+			homeRoomId: roomIds['live-room'],
+			caution: 'Start cue mixes quiet and raise them slowly: long sessions near 85 dB(A) put hearing at risk.'
+		}
+	]);
+}
+
+async function seedPeople() {
+	const ids: Record<string, string> = {};
+	for (const p of people) {
+		const [existing] = await db.select().from(t.user).where(eq(t.user.email, p.email));
+		if (existing) {
+			ids[p.email] = existing.id;
+			continue;
+		}
+		const id = crypto.randomUUID();
+		await db.insert(t.user).values({ id, email: p.email, name: p.name, role: p.role, emailVerified: true });
+		await db.insert(t.account).values({
+			id: crypto.randomUUID(),
+			accountId: id,
+			providerId: 'credential',
+			userId: id,
+			password: await hashPassword(DEMO_PASSWORD),
+			updatedAt: new Date()
+		});
+		ids[p.email] = id;
+	}
+	return ids;
+}
+
+try {
+	await seedStudio();
+	const roomIds = await seedRooms();
+	await seedGear(roomIds);
+	const userIds = await seedPeople();
+	await seedDemoBookings(db, { roomIds, userIds });
+	console.log('demo studio seeded');
+} finally {
+	await client.end();
+}

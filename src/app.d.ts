@@ -1,0 +1,20 @@
+// See https://svelte.dev/docs/kit/types#app.d.ts
+import type { SessionUser, Role } from '$lib/server/auth';
+
+declare global {
+	namespace App {
+		interface Error {
+			message: string;
+			errorId?: string;
+			error?: string;
+			fields?: Record<string, string[]>;
+		}
+		interface Locals {
+			user: SessionUser | null;
+			session: { id: string; expiresAt: Date } | null;
+			role: Role | null;
+		}
+	}
+}
+
+export {};

@@ -1,0 +1,54 @@
+// The four roles and what each may do. Shared by server guards and navigation.
+export const ROLES = ['owner', 'engineer', 'accountant', 'artist'] as const;
+export type Role = (typeof ROLES)[number];
+
+export function isRole(value: unknown): value is Role {
+	return typeof value === 'string' && (ROLES as readonly string[]).includes(value);
+}
+
+export const ROLE_LABELS: Record<Role, string> = {
+	owner: 'Owner',
+	engineer: 'Engineer',
+	accountant: 'Accountant',
+	artist: 'Artist'
+};
+
+/** Where each role lands after signing in. */
+export const HOME_FOR_ROLE: Record<Role, string> = {
+	owner: '/studio',
+	engineer: '/plan',
+	accountant: '/accounts',
+	artist: '/bookings'
+};
+
+export interface NavItem {
+	href: string;
+	label: string;
+}
+
+export function navigationFor(role: Role | null): NavItem[] {
+	const common: NavItem[] = [
+		{ href: '/rooms', label: 'Rooms & rates' },
+		{ href: '/calendar', label: 'Calendar' }
+	];
+	switch (role) {
+		case 'owner':
+			return [
+				{ href: '/studio', label: 'Studio desk' },
+				{ href: '/studio/bookings', label: 'All bookings' },
+				{ href: '/plan', label: 'Day plan' },
+				{ href: '/studio/rooms', label: 'Rooms & gear' },
+				{ href: '/studio/settings', label: 'Rates & policy' },
+				{ href: '/studio/people', label: 'People' },
+				{ href: '/accounts', label: 'Accounts' }
+			];
+		case 'engineer':
+			return [{ href: '/plan', label: 'Day plan' }, ...common];
+		case 'accountant':
+			return [{ href: '/accounts', label: 'Accounts' }];
+		case 'artist':
+			return [{ href: '/book', label: 'Book a session' }, { href: '/bookings', label: 'My bookings' }, ...common];
+		default:
+			return [...common, { href: '/book', label: 'Book a session' }];
+	}
+}

@@ -1,0 +1,62 @@
+import { betterAuth } from 'better-auth';
+import { drizzleAdapter } from 'better-auth/adapters/drizzle';
+import { sveltekitCookies } from 'better-auth/svelte-kit';
+import { getRequestEvent } from '$app/server';
+import { building } from '$app/environment';
+import { env } from '$env/dynamic/private';
+import { db } from './db';
+import { user, session, account, verification } from './db/schema';
+import type { Role } from '$lib/roles';
+
+export type { Role } from '$lib/roles';
+
+export const MIN_PASSWORD_LENGTH = 10;
+
+const origin = env.ORIGIN ?? env.BETTER_AUTH_URL ?? 'http://127.0.0.1:3000';
+
+export const auth = betterAuth({
+	baseURL: env.BETTER_AUTH_URL ?? origin,
+	// The build imports this module to analyse routes; it never signs anything with this placeholder.
+	secret: env.BETTER_AUTH_SECRET ?? (building ? 'build-time-placeholder-secret-not-used' : undefined),
+	trustedOrigins: [origin],
+	database: drizzleAdapter(db, { provider: 'pg', schema: { user, session, account, verification } }),
+	emailAndPassword: {
+		enabled: true,
+		minPasswordLength: MIN_PASSWORD_LENGTH,
+		maxPasswordLength: 128,
+		autoSignIn: true
+	},
+	user: {
+		additionalFields: {
+			// input: false: a role can never be set from the sign-up body (OWASP ASVS 15.3.3, no mass assignment).
+			role: { type: 'string', required: false, defaultValue: 'artist', input: false }
+		}
+	},
+	session: {
+		expiresIn: 60 * 60 * 24 * 14,
+		updateAge: 60 * 60 * 24
+	},
+	rateLimit: {
+		enabled: true,
+		window: 60,
+		max: 100,
+		customRules: {
+			'/sign-in/email': { window: 60, max: 10 },
+			'/sign-up/email': { window: 60, max: 10 }
+		}
+	},
+	advanced: {
+		useSecureCookies: origin.startsWith('https://'),
+		database: { generateId: () => crypto.randomUUID() }
+	},
+	telemetry: { enabled: false },
+	// sveltekitCookies must be the last plugin: it copies better-auth's cookies onto SvelteKit's.
+	plugins: [sveltekitCookies(getRequestEvent)]
+});
+
+export interface SessionUser {
+	id: string;
+	name: string;
+	email: string;
+	role: Role;
+}

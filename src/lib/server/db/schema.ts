@@ -1,0 +1,423 @@
+// Slateroom's data model. Money columns are integers of minor units (bigint where sums may grow);
+// times are timestamptz instants, turned into the studio's zone only at the edges.
+// The exclusion constraints that keep a room, an engineer or a piece of gear out of two bookings
+// at once live in a hand-written migration (drizzle/0001_booking_exclusions.sql): Drizzle has no
+// builder for EXCLUDE constraints.
+import { sql } from 'drizzle-orm';
+import {
+	pgTable,
+	text,
+	integer,
+	bigint,
+	boolean,
+	timestamp,
+	date,
+	jsonb,
+	uuid,
+	uniqueIndex,
+	index,
+	primaryKey,
+	check,
+	serial
+} from 'drizzle-orm/pg-core';
+import { user } from './auth-schema';
+import type { CancellationRung, OpeningHours } from '$lib/domain/types';
+
+export * from './auth-schema';
+
+const ts = (name: string) => timestamp(name, { withTimezone: true });
+const money = (name: string) => bigint(name, { mode: 'number' });
+const created = () => ts('created_at').defaultNow().notNull();
+const updated = () =>
+	ts('updated_at')
+		.defaultNow()
+		.$onUpdate(() => new Date())
+		.notNull();
+
+/** The one studio this installation runs: identity, tax, time and the booking policy. */
+export const studio = pgTable('studio', {
+	id: integer('id').primaryKey().default(1),
+	name: text('name').notNull(),
+	tagline: text('tagline').notNull().default(''),
+	description: text('description').notNull().default(''),
+	addressLines: text('address_lines').array().notNull().default(sql`'{}'::text[]`),
+	country: text('country').notNull(),
+	email: text('email').notNull(),
+	vatId: text('vat_id').notNull().default(''),
+	timeZone: text('time_zone').notNull(),
+	currency: text('currency').notNull(),
+	locale: text('locale').notNull().default('en-GB'),
+	vatRateBp: integer('vat_rate_bp').notNull(),
+	pricesIncludeVat: boolean('prices_include_vat').notNull(),
+	halfDayMinutes: integer('half_day_minutes').notNull().default(240),
+	fullDayMinutes: integer('full_day_minutes').notNull().default(480),
+	minBookingMinutes: integer('min_booking_minutes').notNull(),
+	incrementMinutes: integer('increment_minutes').notNull(),
+	turnaroundMinutes: integer('turnaround_minutes').notNull(),
+	minNoticeMinutes: integer('min_notice_minutes').notNull(),
+	horizonDays: integer('horizon_days').notNull(),
+	holdMinutes: integer('hold_minutes').notNull(),
+	depositBp: integer('deposit_bp').notNull(),
+	depositMinimum: money('deposit_minimum').notNull(),
+	overtimeIncrementMinutes: integer('overtime_increment_minutes').notNull(),
+	engineerHourly: money('engineer_hourly').notNull(),
+	engineerHalfDay: money('engineer_half_day').notNull(),
+	engineerFullDay: money('engineer_full_day').notNull(),
+	closedOnPublicHolidays: boolean('closed_on_public_holidays').notNull().default(false),
+	openingHours: jsonb('opening_hours').$type<OpeningHours[]>().notNull(),
+	cancellation: jsonb('cancellation').$type<CancellationRung[]>().notNull(),
+	updatedAt: updated()
+});
+
+export const surchargeRule = pgTable('surcharge_rule', {
+	id: uuid('id').primaryKey().defaultRandom(),
+	label: text('label').notNull(),
+	/** 'window' (weekdays and a local time span) or 'holiday' (the country's public holidays). */
+	kind: text('kind').notNull(),
+	percentBp: integer('percent_bp').notNull(),
+	weekdays: integer('weekdays').array().notNull().default(sql`'{}'::int[]`),
+	fromMinute: integer('from_minute').notNull().default(0),
+	toMinute: integer('to_minute').notNull().default(1440),
+	active: boolean('active').notNull().default(true),
+	sortOrder: integer('sort_order').notNull().default(0)
+});
+
+export const room = pgTable(
+	'room',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		slug: text('slug').notNull().unique(),
+		name: text('name').notNull(),
+		description: text('description').notNull().default(''),
+		capacity: integer('capacity').notNull().default(1),
+		hourly: money('hourly').notNull(),
+		halfDay: money('half_day').notNull(),
+		fullDay: money('full_day').notNull(),
+		sortOrder: integer('sort_order').notNull().default(0),
+		active: boolean('active').notNull().default(true),
+		createdAt: created(),
+		updatedAt: updated()
+	},
+	(t) => [check('room_rates_non_negative', sql`${t.hourly} >= 0 and ${t.halfDay} >= 0 and ${t.fullDay} >= 0`)]
+);
+
+/** Days the studio is closed: one day or a range of local dates, both ends included. */
+export const blackout = pgTable(
+	'blackout',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		startsOn: date('starts_on').notNull(),
+		endsOn: date('ends_on').notNull(),
+		reason: text('reason').notNull().default(''),
+		createdBy: text('created_by').references(() => user.id, { onDelete: 'set null' }),
+		createdAt: created()
+	},
+	(t) => [check('blackout_range', sql`${t.endsOn} >= ${t.startsOn}`)]
+);
+
+export const gearItem = pgTable(
+	'gear_item',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		name: text('name').notNull(),
+		/** A category such as 'microphone', 'preamp', 'compressor', 'instrument', 'monitoring'. */
+		category: text('category').notNull(),
+		description: text('description').notNull().default(''),
+		homeRoomId: uuid('home_room_id').references(() => room.id, { onDelete: 'set null' }),
+		hireFee: money('hire_fee').notNull().default(0),
+		hireable: boolean('hireable').notNull().default(false),
+		notes: text('notes').notNull().default(''),
+		/** Safety notes shown wherever the item is planned (phantom power, weight, mains). */
+		caution: text('caution').notNull().default(''),
+		active: boolean('active').notNull().default(true),
+		createdAt: created(),
+		updatedAt: updated()
+	},
+	(t) => [check('gear_fee_non_negative', sql`${t.hireFee} >= 0`)]
+);
+
+/** Booking status. A hold keeps its slot until hold_expires_at; expired and cancelled free it. */
+export const BOOKING_STATUSES = ['held', 'pending', 'confirmed', 'completed', 'cancelled', 'expired'] as const;
+export type BookingStatus = (typeof BOOKING_STATUSES)[number];
+/** Statuses that occupy the room, the engineer and the gear (matches the exclusion constraints). */
+export const ACTIVE_BOOKING_STATUSES: BookingStatus[] = ['held', 'pending', 'confirmed', 'completed'];
+
+export const booking = pgTable(
+	'booking',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		/** Short reference shown to people, e.g. "HP-7K3QX". */
+		reference: text('reference').notNull().unique(),
+		roomId: uuid('room_id')
+			.notNull()
+			.references(() => room.id),
+		engineerId: text('engineer_id').references(() => user.id),
+		artistId: text('artist_id')
+			.notNull()
+			.references(() => user.id),
+		startsAt: ts('starts_at').notNull(),
+		endsAt: ts('ends_at').notNull(),
+		/** endsAt plus the studio's turnaround at booking time: what the room is kept for. */
+		busyUntil: ts('busy_until').notNull(),
+		status: text('status').$type<BookingStatus>().notNull().default('held'),
+		holdExpiresAt: ts('hold_expires_at'),
+		project: text('project').notNull().default(''),
+		notes: text('notes').notNull().default(''),
+		/** The quote as computed when booked; later rate changes never alter it. */
+		quote: jsonb('quote').notNull(),
+		currency: text('currency').notNull(),
+		total: money('total').notNull(),
+		deposit: money('deposit').notNull(),
+		actualEndsAt: ts('actual_ends_at'),
+		cancelledAt: ts('cancelled_at'),
+		cancelledBy: text('cancelled_by').references(() => user.id),
+		cancelReason: text('cancel_reason'),
+		/** RFC 5545 SEQUENCE: rises each time the booking is moved. */
+		sequence: integer('sequence').notNull().default(0),
+		createdAt: created(),
+		updatedAt: updated()
+	},
+	(t) => [
+		index('booking_room_time_idx').on(t.roomId, t.startsAt),
+		index('booking_artist_idx').on(t.artistId, t.startsAt),
+		index('booking_status_idx').on(t.status, t.holdExpiresAt),
+		check('booking_times', sql`${t.endsAt} > ${t.startsAt} and ${t.busyUntil} >= ${t.endsAt}`),
+		check('booking_status_known', sql`${t.status} in ('held','pending','confirmed','completed','cancelled','expired')`),
+		check('booking_money', sql`${t.total} >= 0 and ${t.deposit} >= 0 and ${t.deposit} <= ${t.total}`)
+	]
+);
+
+/** Gear on a booking. Times and activity are copied from the booking by trigger for the gear exclusion. */
+export const bookingGear = pgTable(
+	'booking_gear',
+	{
+		bookingId: uuid('booking_id')
+			.notNull()
+			.references(() => booking.id, { onDelete: 'cascade' }),
+		gearItemId: uuid('gear_item_id')
+			.notNull()
+			.references(() => gearItem.id),
+		hireFee: money('hire_fee').notNull().default(0),
+		startsAt: ts('starts_at').notNull(),
+		busyUntil: ts('busy_until').notNull(),
+		active: boolean('active').notNull().default(true)
+	},
+	(t) => [primaryKey({ columns: [t.bookingId, t.gearItemId] })]
+);
+
+/** One source on a recall sheet: how it was captured, so the sound can be rebuilt. */
+export interface RecallChannel {
+	source: string;
+	microphone: string;
+	pattern?: string;
+	placement?: string;
+	preampGainDb?: number | null;
+	pad?: boolean;
+	highPassHz?: number | null;
+	phantom?: boolean;
+	eq?: string;
+	compressor?: string;
+	routing?: string;
+	notes?: string;
+}
+
+export const recallSheet = pgTable(
+	'recall_sheet',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		bookingId: uuid('booking_id')
+			.notNull()
+			.references(() => booking.id, { onDelete: 'cascade' }),
+		artistId: text('artist_id')
+			.notNull()
+			.references(() => user.id),
+		authorId: text('author_id').references(() => user.id),
+		channels: jsonb('channels').$type<RecallChannel[]>().notNull().default(sql`'[]'::jsonb`),
+		notes: text('notes').notNull().default(''),
+		createdAt: created(),
+		updatedAt: updated()
+	},
+	(t) => [uniqueIndex('recall_sheet_booking_idx').on(t.bookingId), index('recall_sheet_artist_idx').on(t.artistId)]
+);
+
+export const payment = pgTable(
+	'payment',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		bookingId: uuid('booking_id')
+			.notNull()
+			.references(() => booking.id),
+		/** 'deposit' or 'balance'. */
+		kind: text('kind').notNull(),
+		amount: money('amount').notNull(),
+		currency: text('currency').notNull(),
+		/** 'open' (checkout started), 'processing', 'paid', 'failed', 'expired'. */
+		status: text('status').notNull().default('open'),
+		checkoutSessionId: text('checkout_session_id').unique(),
+		checkoutUrl: text('checkout_url'),
+		paymentIntentId: text('payment_intent_id'),
+		paidAt: ts('paid_at'),
+		createdAt: created(),
+		updatedAt: updated()
+	},
+	(t) => [index('payment_booking_idx').on(t.bookingId), check('payment_amount', sql`${t.amount} > 0`)]
+);
+
+export const refund = pgTable(
+	'refund',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		bookingId: uuid('booking_id')
+			.notNull()
+			.references(() => booking.id),
+		paymentId: uuid('payment_id').references(() => payment.id),
+		amount: money('amount').notNull(),
+		currency: text('currency').notNull(),
+		/** 'pending', 'succeeded', 'failed'. */
+		status: text('status').notNull().default('pending'),
+		stripeRefundId: text('stripe_refund_id').unique(),
+		failureReason: text('failure_reason'),
+		createdAt: created(),
+		updatedAt: updated()
+	},
+	(t) => [check('refund_amount', sql`${t.amount} >= 0`)]
+);
+
+/** Each Stripe event id is handled once (deliveries are at least once). */
+export const stripeEvent = pgTable('stripe_event', {
+	id: text('id').primaryKey(),
+	type: text('type').notNull(),
+	receivedAt: created(),
+	processedAt: ts('processed_at')
+});
+
+/** Next number per invoice series and year, taken under a row lock so numbers have no gaps. */
+export const invoiceCounter = pgTable(
+	'invoice_counter',
+	{
+		series: text('series').notNull(),
+		year: integer('year').notNull(),
+		lastNumber: integer('last_number').notNull().default(0)
+	},
+	(t) => [primaryKey({ columns: [t.series, t.year] })]
+);
+
+export interface VatBreakdownRow {
+	rateBp: number;
+	base: number;
+	amount: number;
+}
+
+export const invoice = pgTable(
+	'invoice',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		series: text('series').notNull(),
+		year: integer('year').notNull(),
+		number: integer('number').notNull(),
+		/** e.g. "INV-2027-0001". */
+		displayNumber: text('display_number').notNull().unique(),
+		/** UNTDID 1001: 386 prepayment (deposit) invoice, 380 invoice, 381 credit note. */
+		typeCode: integer('type_code').notNull(),
+		bookingId: uuid('booking_id').references(() => booking.id),
+		precedingInvoiceId: uuid('preceding_invoice_id'),
+		issuedAt: ts('issued_at').notNull(),
+		supplyDate: date('supply_date'),
+		supplier: jsonb('supplier').notNull(),
+		customer: jsonb('customer').notNull(),
+		currency: text('currency').notNull(),
+		net: money('net').notNull(),
+		vatTotal: money('vat_total').notNull(),
+		gross: money('gross').notNull(),
+		prepaid: money('prepaid').notNull().default(0),
+		rounding: money('rounding').notNull().default(0),
+		amountDue: money('amount_due').notNull(),
+		vatBreakdown: jsonb('vat_breakdown').$type<VatBreakdownRow[]>().notNull(),
+		note: text('note').notNull().default(''),
+		createdAt: created()
+	},
+	(t) => [
+		uniqueIndex('invoice_series_number_idx').on(t.series, t.year, t.number),
+		index('invoice_issued_idx').on(t.issuedAt),
+		index('invoice_booking_idx').on(t.bookingId)
+	]
+);
+
+export const invoiceLine = pgTable(
+	'invoice_line',
+	{
+		id: serial('id').primaryKey(),
+		invoiceId: uuid('invoice_id')
+			.notNull()
+			.references(() => invoice.id, { onDelete: 'cascade' }),
+		position: integer('position').notNull(),
+		description: text('description').notNull(),
+		quantity: text('quantity').notNull().default('1'),
+		unitCode: text('unit_code').notNull().default('C62'),
+		unitPriceNet: money('unit_price_net').notNull(),
+		net: money('net').notNull(),
+		vatRateBp: integer('vat_rate_bp').notNull()
+	},
+	(t) => [uniqueIndex('invoice_line_position_idx').on(t.invoiceId, t.position)]
+);
+
+export const upload = pgTable('upload', {
+	id: uuid('id').primaryKey().defaultRandom(),
+	bookingId: uuid('booking_id')
+		.notNull()
+		.references(() => booking.id, { onDelete: 'cascade' }),
+	uploaderId: text('uploader_id')
+		.notNull()
+		.references(() => user.id),
+	originalName: text('original_name').notNull(),
+	/** Path chosen by the server under UPLOAD_DIR; never the client's name. */
+	storageKey: text('storage_key').notNull().unique(),
+	contentType: text('content_type').notNull(),
+	sizeBytes: integer('size_bytes').notNull(),
+	sha256: text('sha256').notNull(),
+	createdAt: created()
+});
+
+export const emailOutbox = pgTable(
+	'email_outbox',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		/** Makes each message once, e.g. "booking-confirmed:<booking id>". */
+		dedupeKey: text('dedupe_key').notNull().unique(),
+		to: text('to').notNull(),
+		subject: text('subject').notNull(),
+		text: text('text').notNull(),
+		html: text('html'),
+		attachments: jsonb('attachments').$type<{ filename: string; contentType: string; content: string }[]>(),
+		status: text('status').notNull().default('queued'),
+		attempts: integer('attempts').notNull().default(0),
+		lastError: text('last_error'),
+		sentAt: ts('sent_at'),
+		createdAt: created()
+	},
+	(t) => [index('email_outbox_status_idx').on(t.status, t.createdAt)]
+);
+
+export const auditLog = pgTable(
+	'audit_log',
+	{
+		id: serial('id').primaryKey(),
+		actorId: text('actor_id'),
+		action: text('action').notNull(),
+		entity: text('entity').notNull().default(''),
+		entityId: text('entity_id'),
+		data: jsonb('data'),
+		ip: text('ip'),
+		createdAt: created()
+	},
+	(t) => [index('audit_log_created_idx').on(t.createdAt)]
+);
+
+/** A secret per person for the read-only calendar feed. */
+export const calendarFeed = pgTable('calendar_feed', {
+	userId: text('user_id')
+		.primaryKey()
+		.references(() => user.id, { onDelete: 'cascade' }),
+	token: text('token').notNull().unique(),
+	createdAt: created()
+});

@@ -1,0 +1,40 @@
+// Work that happens on its own, without anyone visiting a page: expired holds free their slot.
+import { and, eq, lt } from 'drizzle-orm';
+import { db } from './db';
+import { booking } from './db/schema';
+
+let started = false;
+
+export async function expireStaleHolds(now = new Date()): Promise<number> {
+	const rows = await db
+		.update(booking)
+		.set({ status: 'expired' })
+		.where(and(eq(booking.status, 'held'), lt(booking.holdExpiresAt, now)))
+		.returning({ id: booking.id });
+	return rows.length;
+}
+
+const extraJobs: Array<() => Promise<unknown>> = [];
+
+/** Other modules add their periodic work here (the mail outbox, for one). */
+export function addPeriodicJob(job: () => Promise<unknown>) {
+	extraJobs.push(job);
+}
+
+export function startBackgroundJobs(intervalMs = 15_000) {
+	if (started) return;
+	started = true;
+	const tick = async () => {
+		for (const job of [expireStaleHolds, ...extraJobs]) {
+			try {
+				await job();
+			} catch (e) {
+				// The database may be down for a while; the next tick tries again.
+				console.warn('[jobs]', (e as Error).message);
+			}
+		}
+	};
+	const timer = setInterval(() => void tick(), intervalMs);
+	timer.unref();
+	void tick();
+}

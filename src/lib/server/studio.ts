@@ -1,0 +1,82 @@
+// The studio's settings as the domain rules want them (StudioPolicy), and its rooms.
+import { asc, eq } from 'drizzle-orm';
+import { db } from './db';
+import { room, studio, surchargeRule } from './db/schema';
+import type { RoomRates, StudioPolicy } from '$lib/domain/types';
+
+export type StudioRow = typeof studio.$inferSelect;
+export type RoomRow = typeof room.$inferSelect;
+
+export async function getStudio(): Promise<StudioRow> {
+	const [row] = await db.select().from(studio).where(eq(studio.id, 1));
+	if (!row) throw new Error('The studio is not set up yet: run the seed (npm start does).');
+	return row;
+}
+
+export function policyFrom(row: StudioRow, surcharges: (typeof surchargeRule.$inferSelect)[]): StudioPolicy {
+	return {
+		timeZone: row.timeZone,
+		currency: row.currency,
+		country: row.country,
+		vatRateBp: row.vatRateBp,
+		pricesIncludeVat: row.pricesIncludeVat,
+		blocks: { halfDayMinutes: row.halfDayMinutes, fullDayMinutes: row.fullDayMinutes },
+		minBookingMinutes: row.minBookingMinutes,
+		incrementMinutes: row.incrementMinutes,
+		turnaroundMinutes: row.turnaroundMinutes,
+		minNoticeMinutes: row.minNoticeMinutes,
+		horizonDays: row.horizonDays,
+		holdMinutes: row.holdMinutes,
+		openingHours: row.openingHours,
+		surcharges: surcharges
+			.filter((s) => s.active)
+			.map((s) => ({
+				id: s.id,
+				label: s.label,
+				kind: s.kind === 'holiday' ? 'holiday' : 'window',
+				percentBp: s.percentBp,
+				weekdays: s.weekdays,
+				fromMinute: s.fromMinute,
+				toMinute: s.toMinute
+			})),
+		depositBp: row.depositBp,
+		depositMinimum: row.depositMinimum,
+		cancellation: row.cancellation,
+		overtimeIncrementMinutes: row.overtimeIncrementMinutes,
+		engineerRates: { hourly: row.engineerHourly, halfDay: row.engineerHalfDay, fullDay: row.engineerFullDay }
+	};
+}
+
+export async function getPolicy(): Promise<{ studio: StudioRow; policy: StudioPolicy }> {
+	const [row, surcharges] = await Promise.all([
+		getStudio(),
+		db.select().from(surchargeRule).orderBy(asc(surchargeRule.sortOrder))
+	]);
+	return { studio: row, policy: policyFrom(row, surcharges) };
+}
+
+export async function listRooms(options: { includeInactive?: boolean } = {}): Promise<RoomRow[]> {
+	const rows = await db.select().from(room).orderBy(asc(room.sortOrder), asc(room.name));
+	return options.includeInactive ? rows : rows.filter((r) => r.active);
+}
+
+export async function getRoomBySlug(slug: string): Promise<RoomRow | undefined> {
+	const [row] = await db.select().from(room).where(eq(room.slug, slug));
+	return row?.active ? row : undefined;
+}
+
+export function roomRates(row: RoomRow): RoomRates {
+	return { slug: row.slug, name: row.name, rates: { hourly: row.hourly, halfDay: row.halfDay, fullDay: row.fullDay } };
+}
+
+/** What anyone may see of a room: its name, description and rate card. */
+export function publicRoom(row: RoomRow, currency: string) {
+	return {
+		slug: row.slug,
+		name: row.name,
+		description: row.description,
+		capacity: row.capacity,
+		currency,
+		rates: { hourly: row.hourly, halfDay: row.halfDay, fullDay: row.fullDay }
+	};
+}

@@ -1,0 +1,20 @@
+// Which roles may enter each zone of the site. The hook turns strangers away early; each page
+// and endpoint still checks for itself.
+import type { Role } from '$lib/roles';
+
+interface Zone {
+	prefix: string;
+	roles: Role[] | 'signed-in';
+}
+
+const ZONES: Zone[] = [
+	{ prefix: '/studio', roles: ['owner'] },
+	{ prefix: '/plan', roles: ['owner', 'engineer'] },
+	{ prefix: '/accounts', roles: ['owner', 'accountant'] },
+	{ prefix: '/bookings', roles: 'signed-in' },
+	{ prefix: '/account', roles: 'signed-in' }
+];
+
+export function zoneFor(pathname: string): Zone | undefined {
+	return ZONES.find((z) => pathname === z.prefix || pathname.startsWith(z.prefix + '/'));
+}

@@ -1,0 +1,19 @@
+import { getStudio, listRooms, publicRoom } from '$lib/server/studio';
+import type { PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async () => {
+	const [studio, rooms] = await Promise.all([getStudio(), listRooms()]);
+	return {
+		about: {
+			tagline: studio.tagline,
+			description: studio.description,
+			addressLines: studio.addressLines,
+			pricesIncludeVat: studio.pricesIncludeVat,
+			vatRatePercent: studio.vatRateBp / 100,
+			halfDayHours: studio.halfDayMinutes / 60,
+			fullDayHours: studio.fullDayMinutes / 60,
+			engineer: { hourly: studio.engineerHourly, halfDay: studio.engineerHalfDay, fullDay: studio.engineerFullDay }
+		},
+		rooms: rooms.map((r) => publicRoom(r, studio.currency))
+	};
+};

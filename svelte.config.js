@@ -1,0 +1,31 @@
+import adapter from '@sveltejs/adapter-node';
+import { vitePreprocess } from '@sveltejs/vite-plugin-svelte';
+
+/** @type {import('@sveltejs/kit').Config} */
+const config = {
+	preprocess: vitePreprocess(),
+	compilerOptions: {
+		// Runes for our own components only: @schedule-x/svelte 3 is written in Svelte 4 syntax.
+		runes: ({ filename }) => (filename.split(/[/\\]/).includes('node_modules') ? undefined : true)
+	},
+	kit: {
+		adapter: adapter({ out: 'build' }),
+		csp: {
+			mode: 'auto',
+			directives: {
+				'default-src': ['self'],
+				'script-src': ['self'],
+				'style-src': ['self', 'unsafe-inline'],
+				'img-src': ['self', 'data:'],
+				'font-src': ['self', 'data:'],
+				'connect-src': ['self'],
+				'frame-ancestors': ['none'],
+				'form-action': ['self', 'http://127.0.0.1:12111', 'https://checkout.stripe.com'],
+				'base-uri': ['self'],
+				'object-src': ['none']
+			}
+		}
+	}
+};
+
+export default config;

@@ -1,0 +1,34 @@
+import tailwindcss from '@tailwindcss/vite';
+import { sveltekit } from '@sveltejs/kit/vite';
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+	plugins: [tailwindcss(), sveltekit()],
+	server: { host: '127.0.0.1' },
+	test: {
+		expect: { requireAssertions: true },
+		// Integration specs share one database: run files one after another.
+		fileParallelism: false,
+		projects: [
+			{
+				extends: './vite.config.ts',
+				test: {
+					name: 'unit',
+					environment: 'node',
+					include: ['src/**/*.spec.ts', 'fake-services/**/*.spec.ts']
+				}
+			},
+			{
+				extends: './vite.config.ts',
+				test: {
+					name: 'integration',
+					environment: 'node',
+					include: ['tests/integration/**/*.test.ts'],
+					testTimeout: 30_000,
+					hookTimeout: 60_000,
+					fileParallelism: false
+				}
+			}
+		]
+	}
+});
