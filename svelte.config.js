@@ -9,6 +9,13 @@ const config = {
 		runes: ({ filename }) => (filename.split(/[/\\]/).includes('node_modules') ? undefined : true)
 	},
 	kit: {
+		typescript: {
+			// Scripts, the fakes and the root config files are checked with the app's settings.
+			config: (config) => {
+				config.include.push('../scripts/**/*.ts', '../fake-services/**/*.ts', '../*.config.ts');
+				return config;
+			}
+		},
 		adapter: adapter({ out: 'build' }),
 		csp: {
 			mode: 'auto',

@@ -28,6 +28,15 @@ export default defineConfig({
 					hookTimeout: 60_000,
 					fileParallelism: false
 				}
+			},
+			{
+				extends: './vite.config.ts',
+				test: {
+					name: 'outage',
+					environment: 'node',
+					include: ['tests/outage/**/*.test.ts'],
+					testTimeout: 60_000
+				}
 			}
 		]
 	}

@@ -41,8 +41,8 @@ export const auth = betterAuth({
 		window: 60,
 		max: 100,
 		customRules: {
-			'/sign-in/email': { window: 60, max: 10 },
-			'/sign-up/email': { window: 60, max: 10 }
+			'/sign-in/email': { window: 60, max: Number(env.AUTH_API_RATE_LIMIT ?? 10) },
+			'/sign-up/email': { window: 60, max: Number(env.AUTH_API_RATE_LIMIT ?? 10) }
 		}
 	},
 	advanced: {

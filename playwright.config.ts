@@ -1,0 +1,37 @@
+import { defineConfig, devices } from '@playwright/test';
+
+// Runs against the production build that scripts/test.sh starts (SvelteKit's origin check only
+// runs there), in Debian's Chromium: no downloaded browser.
+const baseURL = process.env.APP_URL ?? 'http://127.0.0.1:3100';
+
+export default defineConfig({
+	testDir: 'tests/e2e',
+	fullyParallel: false,
+	workers: 1,
+	retries: 0,
+	timeout: 60_000,
+	expect: { timeout: 10_000 },
+	reporter: [['list']],
+	use: {
+		baseURL,
+		trace: 'retain-on-failure',
+		screenshot: 'only-on-failure',
+		locale: 'en-GB',
+		// A visitor far from the studio: pages must still show the studio's own time zone.
+		timezoneId: 'America/New_York',
+		launchOptions: {
+			executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+			args: [
+				'--no-sandbox',
+				'--disable-gpu',
+				'--disable-dev-shm-usage',
+				'--disable-background-networking',
+				'--disable-component-update',
+				'--disable-sync',
+				'--no-first-run',
+				'--disable-quic'
+			]
+		}
+	},
+	projects: [{ name: 'chromium', use: { ...devices['Desktop Chrome'] } }]
+});

@@ -1,0 +1,39 @@
+/**
+ * Slateroom's pricing engine: quotes, overtime, refunds on cancellation and booking-time checks.
+ * Pure TypeScript; every amount is an integer of the currency's minor units.
+ *
+ * Sources by rule: block cover and surcharges — PRODUCT.md and common practice (blocks.ts,
+ * surcharges.ts); VAT and totals — EN 16931-1 BR-CO-10/13/14/15/16/17 (vat.ts); deposit —
+ * PRODUCT.md, whole units per ISO 4217 (deposit.ts); time — IANA tz via @date-fns/tz and
+ * Directive 2000/84/EC (zonedTime.ts); overtime and the cancellation ladder — common practice
+ * (overtime.ts, cancellation.ts).
+ */
+export { quoteBooking, type QuoteInput } from './quote';
+export { overtimeCharge, type OvertimeInput } from './overtime';
+export { refundForCancellation, rungLabel, type RefundInput, type RefundResult } from './cancellation';
+export {
+	validateBookingTimes,
+	toFieldErrors,
+	parseLocalOrOffset,
+	type BookingTimeCode,
+	type BookingTimeField,
+	type BookingTimeIssue,
+	type ParsedTime
+} from './validation';
+export { cheapestCover, hourlyAmount, type BlockCover } from './blocks';
+export { surchargeShares, surchargeAmount, type SurchargeShare } from './surcharges';
+export { summariseCharges, lineNet, vatOf, en16931Violations, type ChargeItem } from './vat';
+export { depositFor, depositAndBalance } from './deposit';
+export { formatDuration, decimalHours, formatPercent } from './labels';
+export {
+	localParts,
+	localToInstant,
+	localSegments,
+	isoWeekdayOf,
+	addDaysToYmd,
+	type LocalParts,
+	type LocalSegment,
+	type ResolvedLocalTime
+} from './zonedTime';
+export type { ChargeTotals, LineKind, OvertimeCharge, PriceLine, Quote, SurchargeMinutes, VatGroup } from './types';
+export { DEMO_POLICY, DEMO_ROOMS, DEMO_STUDIO, demoPolicy, demoRoom } from '../demo';

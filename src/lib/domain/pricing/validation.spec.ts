@@ -1,0 +1,100 @@
+import { describe, expect, it } from 'vitest';
+import { DEMO_POLICY } from '../demo';
+import { parseLocalOrOffset, toFieldErrors, validateBookingTimes } from './validation';
+import { at, HELSINKI, openAllHours } from './spec-fixtures';
+
+// Demo policy (PRODUCT.md): open 09:00–23:00, min 2 h, 30-min grid, 24 h notice, 180 days ahead.
+const now = at('2027-03-01', '12:00');
+const codes = (start: Date, end: Date, policy = DEMO_POLICY, when = now) =>
+	validateBookingTimes(start, end, policy, when).map((i) => `${i.field}:${i.code}`);
+
+describe('validateBookingTimes (source: PRODUCT.md demo policy)', () => {
+	it('accepts a half day on the grid inside opening hours', () => {
+		expect(codes(at('2027-03-02', '14:00'), at('2027-03-02', '18:00'))).toEqual([]);
+		expect(codes(at('2027-03-02', '19:00'), at('2027-03-02', '23:00'))).toEqual([]); // to closing
+	});
+
+	it('refuses an end before the start, and a booking under 2 h', () => {
+		expect(codes(at('2027-03-02', '14:00'), at('2027-03-02', '13:00'))).toEqual(['end:end_not_after_start']);
+		expect(codes(at('2027-03-02', '14:00'), at('2027-03-02', '15:30'))).toEqual(['end:under_minimum']);
+	});
+
+	it('refuses times off the 30-minute local grid', () => {
+		expect(codes(at('2027-03-03', '14:15'), at('2027-03-03', '16:30'))).toEqual(['start:off_grid']);
+		expect(codes(at('2027-03-03', '14:00'), at('2027-03-03', '16:10'))).toEqual(['end:off_grid']);
+		expect(codes(new Date(at('2027-03-03', '14:00').getTime() + 1000), at('2027-03-03', '16:30'))).toEqual(['start:off_grid']);
+	});
+
+	it('refuses time outside opening hours', () => {
+		expect(codes(at('2027-03-03', '08:00'), at('2027-03-03', '10:00'))).toEqual(['start:outside_opening_hours']);
+		expect(codes(at('2027-03-03', '21:00'), at('2027-03-03', '23:30'))).toEqual(['start:outside_opening_hours']);
+		// Across midnight is refused by 09:00–23:00 and allowed by a round-the-clock policy.
+		expect(codes(at('2027-03-03', '22:00'), at('2027-03-04', '02:00'))).toEqual(['start:outside_opening_hours']);
+		expect(codes(at('2027-03-03', '22:00'), at('2027-03-04', '02:00'), openAllHours())).toEqual([]);
+	});
+
+	it('supports opening past midnight (closeMinute > 1440)', () => {
+		const late = { ...DEMO_POLICY, openingHours: [{ weekday: 2, openMinute: 18 * 60, closeMinute: 26 * 60 }] };
+		expect(codes(at('2027-03-02', '22:00'), at('2027-03-03', '02:00'), late)).toEqual([]);
+		expect(codes(at('2027-03-02', '23:00'), at('2027-03-03', '02:30'), late)).toEqual(['start:outside_opening_hours']);
+	});
+
+	it('refuses less than 24 h notice and more than 180 days ahead', () => {
+		expect(codes(at('2027-03-02', '11:30'), at('2027-03-02', '13:30'))).toEqual(['start:under_minimum_notice']);
+		expect(codes(at('2027-03-02', '12:00'), at('2027-03-02', '14:00'))).toEqual([]); // exactly 24 h
+		// 2027-03-01 + 180 days = 2027-08-28 is the last bookable local date.
+		expect(codes(at('2027-08-28', '10:00'), at('2027-08-28', '12:00'))).toEqual([]);
+		expect(codes(at('2027-08-29', '10:00'), at('2027-08-29', '12:00'))).toEqual(['start:past_horizon']);
+	});
+
+	it('bills DST nights by real time and keeps the local grid (Directive 2000/84/EC)', () => {
+		// Round the clock: Sat 2027-03-27 22:00 → Sun 22:00 is 23 real hours and valid.
+		expect(codes(at('2027-03-27', '22:00'), at('2027-03-28', '22:00'), openAllHours(), at('2027-03-01', '00:00'))).toEqual([]);
+	});
+
+	it('turns issues into API field errors, first message per field', () => {
+		const issues = validateBookingTimes(at('2027-03-02', '08:15'), at('2027-03-02', '09:00'), DEMO_POLICY, now);
+		expect(toFieldErrors(issues)).toEqual({
+			start: 'Times go in steps of 30 min from midnight.',
+			end: 'A booking lasts at least 2 h.'
+		});
+		expect(codes(new Date('nonsense'), at('2027-03-02', '09:00'))).toEqual(['start:invalid_time']);
+	});
+});
+
+describe('parseLocalOrOffset (ISO 8601; RFC 5545 first occurrence; IANA tz)', () => {
+	it('reads an instant with an offset or Z', () => {
+		const r = parseLocalOrOffset('2027-03-02T16:00:00+02:00', HELSINKI);
+		expect(r).toEqual({ ok: true, instant: new Date('2027-03-02T14:00:00Z'), ambiguous: false });
+		expect(parseLocalOrOffset('2027-03-02T14:00Z', HELSINKI)).toMatchObject({
+			ok: true,
+			instant: new Date('2027-03-02T14:00:00Z')
+		});
+	});
+
+	it("reads a wall time without an offset in the studio's zone", () => {
+		expect(parseLocalOrOffset('2027-07-01T10:00', HELSINKI)).toEqual({
+			ok: true,
+			instant: new Date('2027-07-01T07:00:00Z'), // summer time, UTC+3
+			ambiguous: false
+		});
+	});
+
+	it('refuses a wall time in the spring-forward gap: 2027-03-28 03:30 does not exist', () => {
+		expect(parseLocalOrOffset('2027-03-28T03:30', HELSINKI)).toMatchObject({ ok: false, code: 'nonexistent_local_time' });
+	});
+
+	it('reads a repeated wall time as its first occurrence: 2027-10-31 03:30 is 00:30 UTC', () => {
+		expect(parseLocalOrOffset('2027-10-31T03:30', HELSINKI)).toEqual({
+			ok: true,
+			instant: new Date('2027-10-31T00:30:00Z'),
+			ambiguous: true
+		});
+	});
+
+	it('refuses malformed input and impossible dates', () => {
+		for (const text of ['2027-02-30T10:00', '2027-03-02 10:00', '2027-03-02T25:00', 'tomorrow', '2027-03-02T10:00+25:00']) {
+			expect(parseLocalOrOffset(text, HELSINKI)).toMatchObject({ ok: false, code: 'invalid_time' });
+		}
+	});
+});

@@ -1,0 +1,62 @@
+import { expect, test } from '@playwright/test';
+import { signIn } from './support';
+
+test('the storefront shows the studio, its three rooms and their rates', async ({ page }) => {
+	await page.goto('/');
+	await expect(page.getByRole('heading', { level: 1, name: 'Hollow Pine Studio' })).toBeVisible();
+	const cards = page.getByTestId('rate-card');
+	await expect(cards.filter({ hasText: 'Live room' })).toContainText('€45.00');
+	await expect(cards.filter({ hasText: 'Live room' })).toContainText('€160.00');
+	await expect(cards.filter({ hasText: 'Live room' })).toContainText('€300.00');
+	await expect(cards.filter({ hasText: 'Vocal booth' })).toContainText('€190.00');
+	await expect(cards.filter({ hasText: 'Control room' })).toContainText('€260.00');
+});
+
+const roles = [
+	{ email: 'owner@slateroom.test', lands: '/studio', nav: ['Studio desk', 'All bookings', 'People', 'Accounts'] },
+	{ email: 'engineer@slateroom.test', lands: '/plan', nav: ['Day plan', 'Calendar'] },
+	{ email: 'accountant@slateroom.test', lands: '/accounts', nav: ['Accounts'] },
+	{ email: 'artist@slateroom.test', lands: '/bookings', nav: ['Book a session', 'My bookings'] },
+	{ email: 'artist2@slateroom.test', lands: '/bookings', nav: ['Book a session', 'My bookings'] }
+];
+
+for (const r of roles) {
+	test(`${r.email} signs in, lands on ${r.lands} and sees their own navigation`, async ({ page }) => {
+		await signIn(page, r.email);
+		await expect(page).toHaveURL(new RegExp(`${r.lands}$`));
+		const nav = page.getByRole('navigation', { name: 'Main' });
+		for (const label of r.nav) await expect(nav.getByRole('link', { name: label })).toBeVisible();
+		if (!r.email.startsWith('owner')) await expect(nav.getByRole('link', { name: 'People' })).toHaveCount(0);
+	});
+}
+
+test('an artist who opens an owner page gets a calm 403', async ({ page }) => {
+	await signIn(page, 'artist@slateroom.test');
+	const res = await page.goto('/studio/people');
+	expect(res?.status()).toBe(403);
+	await expect(page.getByRole('heading', { name: 'Not part of your role' })).toBeVisible();
+});
+
+test('an anonymous visitor is sent to sign-in and comes back after it', async ({ page }) => {
+	await page.goto('/accounts');
+	await expect(page).toHaveURL(/\/sign-in\?next=%2Faccounts/);
+	await page.getByLabel('E-mail').fill('accountant@slateroom.test');
+	await page.getByLabel('Password').fill('slateroom-demo');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page).toHaveURL(/\/accounts$/);
+});
+
+test('a wrong password shows a clear message and keeps the e-mail', async ({ page }) => {
+	await page.goto('/sign-in');
+	await page.getByLabel('E-mail').fill('owner@slateroom.test');
+	await page.getByLabel('Password').fill('wrong-password');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page.getByRole('alert')).toContainText('That e-mail and password do not match');
+	await expect(page.getByLabel('E-mail')).toHaveValue('owner@slateroom.test');
+});
+
+test('an unknown page shows the 404 page', async ({ page }) => {
+	const res = await page.goto('/nothing-here');
+	expect(res?.status()).toBe(404);
+	await expect(page.getByRole('heading', { name: 'This page is not here' })).toBeVisible();
+});
