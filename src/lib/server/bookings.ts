@@ -296,6 +296,12 @@ export async function createHold(artist: SessionUser, input: unknown, now = new 
 		}
 		try {
 			const created = await db.transaction(async (tx) => {
+				// Queue writers of the same room, engineer and gear (always in this order, gear by id, so
+				// the queue itself cannot deadlock). Without it, concurrent inserts that conflict in an
+				// exclusion constraint wait on each other and end in deadlocks (SQLSTATE 40P01) that
+				// PostgreSQL only breaks after deadlock_timeout. The constraint stays the final word.
+				const keys = [`room:${roomRow.id}`, ...(engineerId ? [`engineer:${engineerId}`] : []), ...gear.map((g) => `gear:${g.id}`).sort()];
+				for (const key of keys) await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${key}, 0))`);
 				const [row] = await tx
 					.insert(booking)
 					.values({

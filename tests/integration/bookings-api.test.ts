@@ -1,0 +1,364 @@
+// Quotes, availability and holds over real HTTP against the production build and PostgreSQL.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { and, eq, inArray, sql } from 'drizzle-orm';
+import { TZDate } from '@date-fns/tz';
+import { Client, signedIn } from '../support/http';
+import { DEMO } from '../support/env';
+import { testDb } from '../support/db';
+import { nextDstChange, TZ, weekdayAhead } from '../support/dates';
+import * as t from '../../src/lib/server/db/schema';
+
+const { db, client } = testDb();
+afterAll(() => client.end());
+
+// This file owns the weekdays 61–72 days ahead; a rerun against the same database starts them clean.
+beforeAll(async () => {
+	const days = [...new Set(Array.from({ length: 12 }, (_, i) => weekdayAhead(61 + i)))];
+	await db
+		.update(t.booking)
+		.set({ status: 'cancelled' })
+		.where(and(inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date::text in ${days}`));
+});
+
+interface Quote {
+	lines: { key: string; label: string; amount: number; net: number }[];
+	net: number;
+	vat: { ratePercent: string; base: number; amount: number }[];
+	vatTotal: number;
+	gross: number;
+	rounding: number;
+	total: number;
+	deposit: number;
+	balance: number;
+}
+
+async function quote(body: unknown) {
+	const res = await new Client().json('/api/quote', body);
+	return { status: res.status, body: (await res.json()) as Quote & { error?: string; fields?: Record<string, string[]> } };
+}
+
+/** Helsinki wall time → ISO with the right offset, computed by @date-fns/tz (IANA tz database). */
+function helsinki(ymd: string, hhmm: string): string {
+	const [y, m, d] = ymd.split('-').map(Number) as [number, number, number];
+	const [h, min] = hhmm.split(':').map(Number) as [number, number];
+	return new TZDate(y, m - 1, d, h, min, TZ).toISOString();
+}
+
+describe('POST /api/quote', () => {
+	const day = weekdayAhead(61);
+
+	it('prices 5 h in the live room as a half day plus one hour (PRODUCT.md demo rates)', async () => {
+		// 160.00 (half day, 4 h) + 45.00 (1 h) = 205.00, cheaper than 5 × 45.00 = 225.00.
+		const { status, body } = await quote({ room: 'live-room', start: `${day}T10:00`, end: `${day}T15:00` });
+		expect(status).toBe(200);
+		expect(body.total).toBe(20500);
+		expect(body.lines.map((l) => l.amount)).toEqual([16000, 4500]);
+		// Deposit: 30 % of 205.00 = 61.50, rounded up to whole euros = 62.00 (≥ 50.00 minimum).
+		expect(body.deposit).toBe(6200);
+		expect(body.deposit + body.balance).toBe(body.total);
+	});
+
+	it('prices 7 h 30 min as one full day, and adds the engineer from their own rates', async () => {
+		// Full day 300.00 < half day + 3.5 h = 160.00 + 157.50 = 317.50. Engineer full day 230.00.
+		const { body } = await quote({ room: 'live-room', start: `${day}T09:00`, end: `${day}T16:30`, engineer: true });
+		expect(body.total).toBe(30000 + 23000);
+	});
+
+	it('holds the EN 16931 totals rules on the quote (BR-CO-10, -13, -14, -15, -16, -17)', async () => {
+		const { body } = await quote({ room: 'vocal-booth', start: `${day}T16:00`, end: `${day}T20:30`, engineer: true });
+		const lineNets = body.lines.reduce((s, l) => s + l.net, 0);
+		expect(lineNets).toBe(body.net); // BR-CO-10 (and BR-CO-13: no document allowances or charges)
+		expect(body.vat.reduce((s, v) => s + v.amount, 0)).toBe(body.vatTotal); // BR-CO-14
+		expect(body.net + body.vatTotal).toBe(body.gross); // BR-CO-15
+		expect(body.gross + body.rounding).toBe(body.total); // BR-CO-16, nothing prepaid
+		// BR-CO-17: category VAT = base × rate / 100, rounded half-up to 2 decimals.
+		for (const v of body.vat) expect(v.amount).toBe(Math.round((v.base * Number(v.ratePercent)) / 100));
+		// Prices include VAT: the gross equals the sum of the advertised line amounts.
+		expect(body.total).toBe(body.lines.reduce((s, l) => s + l.amount, 0));
+	});
+
+	it.each([
+		[{ room: 'attic', start: `${day}T10:00`, end: `${day}T12:00` }, 'room'],
+		[{ room: 'live-room', start: `${day}T12:00`, end: `${day}T10:00` }, 'end'],
+		[{ room: 'live-room', start: `${day}T10:00`, end: `${day}T11:00` }, 'end'],
+		[{ room: 'live-room', start: `${day}T10:15`, end: `${day}T12:15` }, 'start'],
+		[{ room: 'live-room', start: `${day}T07:00`, end: `${day}T10:00` }, 'start'],
+		[{ room: 'live-room', start: 'tomorrow', end: `${day}T12:00` }, 'start'],
+		[{ room: 'live-room', start: helsinki(weekdayAhead(0), '23:00'), end: helsinki(weekdayAhead(0), '23:00') }, 'end'],
+		[{ room: 'live-room', start: `${weekdayAhead(400)}T10:00`, end: `${weekdayAhead(400)}T12:00` }, 'start'],
+		[{ room: 'live-room', start: `${day}T10:00`, end: `${day}T12:00`, gear: ['00000000-0000-4000-8000-000000000000'] }, 'gear'],
+		[{ room: 'live-room', start: `${day}T10:00`, end: `${day}T12:00`, engineer: 'yes' }, 'engineer']
+	])('answers 422 with a message on the field for %o', async (body, field) => {
+		const res = await quote(body);
+		expect(res.status).toBe(422);
+		expect(res.body.error).toBe('invalid');
+		expect(res.body.fields?.[field]?.[0]).toMatch(/\w+/);
+	});
+
+	it('refuses less than the minimum notice', async () => {
+		const soon = new Date(Date.now() + 3 * 3600_000);
+		soon.setUTCMinutes(0, 0, 0);
+		const res = await quote({ room: 'live-room', start: soon.toISOString(), end: new Date(soon.getTime() + 2 * 3600_000).toISOString() });
+		expect(res.status).toBe(422);
+		expect(JSON.stringify(res.body.fields)).toMatch(/notice|advance|ahead/i);
+	});
+
+	it('never answers 500, whatever the body', async () => {
+		for (const body of ['', 'null', '[]', '{"room":{}}', '{"start":1e400}', '"x"', '{"gear":"all"}']) {
+			const res = await new Client().fetch('/api/quote', { method: 'POST', headers: { 'content-type': 'application/json' }, body });
+			expect(res.status).toBeLessThan(500);
+			expect([413, 415, 422]).toContain(res.status);
+		}
+	});
+
+	it('refuses a blackout day', async () => {
+		const closed = weekdayAhead(66);
+		const [row] = await db.insert(t.blackout).values({ startsOn: closed, endsOn: closed, reason: 'Roof repairs' }).returning();
+		try {
+			const res = await quote({ room: 'live-room', start: `${closed}T10:00`, end: `${closed}T12:00` });
+			expect(res.status).toBe(422);
+			expect(res.body.fields?.start?.join(' ')).toContain('closed');
+		} finally {
+			await db.delete(t.blackout).where(eq(t.blackout.id, row!.id));
+		}
+	});
+});
+
+describe('GET /api/availability', () => {
+	it('shows open hours, a booking plus its turnaround as busy, and no names', async () => {
+		const day = weekdayAhead(62);
+		const artist = await signedIn(DEMO.artist);
+		const made = await artist.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T14:00`, project: 'Secret demo' });
+		expect(made.status).toBe(201);
+		const res = await new Client().fetch(`/api/availability?room=control-room&from=${day}&to=${day}`);
+		expect(res.status).toBe(200);
+		expect(res.headers.get('cache-control')).toContain('max-age');
+		const text = await res.text();
+		expect(text).not.toContain('Secret demo');
+		expect(text).not.toContain('Noa');
+		const body = JSON.parse(text) as { timeZone: string; busy: { start: string; end: string }[]; open: { start: string; end: string }[] };
+		expect(body.timeZone).toBe(TZ);
+		// Busy: the booking and its 30-minute turnaround (PRODUCT.md), 10:00–14:30 local.
+		expect(body.busy.map((b) => [Date.parse(b.start), Date.parse(b.end)])).toEqual([
+			[Date.parse(helsinki(day, '10:00')), Date.parse(helsinki(day, '14:30'))]
+		]);
+		// Open: 09:00–10:00 is shorter than the 2 h minimum (and a new booking's own turnaround
+		// must end by 10:00), so only 14:30–23:00 remains.
+		expect(body.open.map((o) => [Date.parse(o.start), Date.parse(o.end)])).toEqual([
+			[Date.parse(helsinki(day, '14:30')), Date.parse(helsinki(day, '23:00'))]
+		]);
+		// Offsets as in the IANA database: +02:00 in winter, +03:00 in summer.
+		expect(body.open[0]!.start).toMatch(/\+0[23]:00$/);
+	});
+
+	it('shows a blackout day as closed with no open time', async () => {
+		const closed = weekdayAhead(67);
+		const [row] = await db.insert(t.blackout).values({ startsOn: closed, endsOn: closed, reason: 'Family day' }).returning();
+		try {
+			const res = await new Client().fetch(`/api/availability?room=live-room&from=${closed}&to=${closed}`);
+			const body = (await res.json()) as { open: unknown[]; closed: { date: string; reason: string }[] };
+			expect(body.open).toEqual([]);
+			expect(body.closed).toEqual([{ date: closed, reason: 'Family day' }]);
+		} finally {
+			await db.delete(t.blackout).where(eq(t.blackout.id, row!.id));
+		}
+	});
+
+	it('clips today by the minimum notice of 24 hours', async () => {
+		const today = weekdayAhead(0);
+		const res = await new Client().fetch(`/api/availability?room=live-room&from=${today}&to=${weekdayAhead(3)}`);
+		const body = (await res.json()) as { open: { start: string }[] };
+		for (const o of body.open) expect(Date.parse(o.start)).toBeGreaterThanOrEqual(Date.now() + 24 * 3600_000 - 60_000);
+	});
+
+	it('bills real hours across the next daylight-saving change (Directive 2000/84/EC; IANA tz via @date-fns/tz)', async () => {
+		const change = nextDstChange(2);
+		// The studio opens 09:00–23:00: on a 23 h or 25 h day those are still 14 real hours, since the
+		// change happens at 03:00/04:00 local time, outside opening hours.
+		const [studio] = await db.select().from(t.studio);
+		const horizonNeeded = Math.ceil((Date.parse(change.ymd) - Date.now()) / 86_400_000) + 2;
+		if (horizonNeeded > studio!.horizonDays) await db.update(t.studio).set({ horizonDays: horizonNeeded });
+		try {
+			const res = await new Client().fetch(`/api/availability?room=vocal-booth&from=${change.ymd}&to=${change.ymd}`);
+			const body = (await res.json()) as { open: { start: string; end: string }[] };
+			expect(change.hours === 23 || change.hours === 25).toBe(true);
+			expect(body.open).toHaveLength(1);
+			const [o] = body.open;
+			expect(Date.parse(o!.start)).toBe(Date.parse(helsinki(change.ymd, '09:00')));
+			expect((Date.parse(o!.end) - Date.parse(o!.start)) / 3_600_000).toBe(14);
+			// The offset after the change: +03:00 after the spring change, +02:00 after the autumn one.
+			expect(o!.start.endsWith(change.hours === 23 ? '+03:00' : '+02:00')).toBe(true);
+		} finally {
+			await db.update(t.studio).set({ horizonDays: studio!.horizonDays });
+		}
+	});
+
+	it.each([
+		['room=attic&from=2027-01-01&to=2027-01-02', 'room'],
+		['room=live-room&from=2027-01-05&to=2027-01-01', 'to'],
+		['room=live-room&from=2027-01-01&to=2027-06-01', 'to'],
+		['room=live-room&from=yesterday&to=2027-01-01', 'from'],
+		['from=2027-01-01&to=2027-01-02', 'room']
+	])('answers 422 for %s', async (query, field) => {
+		const res = await new Client().fetch(`/api/availability?${query}`);
+		expect(res.status).toBe(422);
+		const body = (await res.json()) as { fields: Record<string, string[]> };
+		expect(body.fields[field]).toBeDefined();
+	});
+});
+
+describe('POST /api/bookings', () => {
+	it('needs a signed-in person (401)', async () => {
+		const day = weekdayAhead(63);
+		const res = await new Client().json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T12:00` });
+		expect(res.status).toBe(401);
+		expect(((await res.json()) as { error: string }).error).toBe('unauthenticated');
+	});
+
+	it('makes a hold priced by the server, ignoring price, status and artist in the body (OWASP ASVS 15.3.3)', async () => {
+		const day = weekdayAhead(63);
+		const artist = await signedIn(DEMO.artist);
+		const res = await artist.json('/api/bookings', {
+			room: 'live-room',
+			start: `${day}T10:00`,
+			end: `${day}T14:00`,
+			total: 1,
+			deposit: 0,
+			status: 'confirmed',
+			artistId: 'someone-else',
+			holdExpiresAt: '2099-01-01T00:00:00Z'
+		});
+		expect(res.status).toBe(201);
+		const body = (await res.json()) as { id: string; status: string; holdExpiresAt: string; quote: Quote };
+		expect(body.status).toBe('held');
+		expect(body.quote.total).toBe(16000);
+		const holdMs = Date.parse(body.holdExpiresAt) - Date.now();
+		expect(holdMs).toBeGreaterThan(25 * 60_000);
+		expect(holdMs).toBeLessThanOrEqual(30 * 60_000);
+		const [row] = await db.select().from(t.booking).where(eq(t.booking.id, body.id));
+		const [me] = await db.select().from(t.user).where(eq(t.user.email, DEMO.artist));
+		expect(row).toMatchObject({ status: 'held', total: 16000, deposit: 5000, artistId: me!.id });
+		// The stored quote is a snapshot: changing the rate card later does not alter it.
+		await db.update(t.room).set({ halfDay: 99900 }).where(eq(t.room.slug, 'live-room'));
+		try {
+			const again = await artist.fetch(`/api/bookings/${body.id}`);
+			expect(((await again.json()) as { total: number }).total).toBe(16000);
+		} finally {
+			await db.update(t.room).set({ halfDay: 16000 }).where(eq(t.room.slug, 'live-room'));
+		}
+	});
+
+	it('answers 409 for a taken slot and offers the nearest free starts', async () => {
+		const day = weekdayAhead(64);
+		const a = await signedIn(DEMO.artist);
+		const b = await signedIn(DEMO.artist2);
+		expect((await a.json('/api/bookings', { room: 'vocal-booth', start: `${day}T12:00`, end: `${day}T16:00` })).status).toBe(201);
+		const res = await b.json('/api/bookings', { room: 'vocal-booth', start: `${day}T13:00`, end: `${day}T15:00` });
+		expect(res.status).toBe(409);
+		const body = (await res.json()) as { error: string; taken: string; message: string; nearestStarts: string[] };
+		expect(body).toMatchObject({ error: 'slot_taken', taken: 'room' });
+		expect(body.nearestStarts.length).toBeGreaterThan(0);
+		// The first offer after 16:00 is 16:30 (after the 30-minute turnaround); 09:00–11:00 fits before it too.
+		const offered = body.nearestStarts.map((s) => Date.parse(s));
+		expect(offered).toContain(Date.parse(helsinki(day, '16:30')));
+		expect(offered).toContain(Date.parse(helsinki(day, '09:00')));
+	});
+
+	it('frees an expired hold without anyone visiting a page', async () => {
+		const day = weekdayAhead(65);
+		const a = await signedIn(DEMO.artist);
+		const res = await a.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T12:00` });
+		const { id } = (await res.json()) as { id: string };
+		await db.update(t.booking).set({ holdExpiresAt: new Date(Date.now() - 1000) }).where(eq(t.booking.id, id));
+		// The app's background job runs every 15 s.
+		let status = 'held';
+		for (let i = 0; i < 40 && status === 'held'; i++) {
+			await new Promise((r) => setTimeout(r, 500));
+			status = (await db.select().from(t.booking).where(eq(t.booking.id, id)))[0]!.status;
+		}
+		expect(status).toBe('expired');
+		const b = await signedIn(DEMO.artist2);
+		expect((await b.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T12:00` })).status).toBe(201);
+	}, 30_000);
+});
+
+describe('scoping (OWASP ASVS 8.2.2)', () => {
+	it('artist2 cannot read, list or cancel artist’s booking; the owner and engineer can read it', async () => {
+		const day = weekdayAhead(68);
+		const a = await signedIn(DEMO.artist);
+		const made = await a.json('/api/bookings', { room: 'live-room', start: `${day}T18:00`, end: `${day}T20:00` });
+		const { id } = (await made.json()) as { id: string };
+		const b = await signedIn(DEMO.artist2);
+		expect((await b.fetch(`/api/bookings/${id}`)).status).toBe(404);
+		const list = (await (await b.fetch('/api/bookings')).json()) as { bookings: { id: string }[] };
+		expect(list.bookings.map((x) => x.id)).not.toContain(id);
+		const cancel = await b.json(`/api/bookings/${id}/cancel`, {});
+		expect([404, 405]).toContain(cancel.status);
+		const page = await b.fetch(`/bookings/${id}`, { headers: { accept: 'text/html' } });
+		expect(page.status).toBe(404);
+		const [row] = await db.select().from(t.booking).where(eq(t.booking.id, id));
+		expect(row!.status).toBe('held');
+		for (const who of [DEMO.owner, DEMO.engineer]) {
+			expect((await (await signedIn(who)).fetch(`/api/bookings/${id}`)).status).toBe(200);
+		}
+		expect((await (await signedIn(DEMO.accountant)).fetch(`/api/bookings/${id}`)).status).toBe(404);
+		expect((await a.fetch(`/api/bookings/${id}`)).status).toBe(200);
+	});
+});
+
+describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
+	const artists: Client[] = [];
+
+	beforeAll(async () => {
+		const stamp = Date.now();
+		for (let i = 0; i < 50; i++) {
+			const c = new Client();
+			const res = await c.json('/api/auth/sign-up/email', {
+				name: `Racer ${i}`,
+				email: `racer-${stamp}-${i}@slateroom.test`,
+				password: 'racing-password-123'
+			});
+			expect(res.status).toBe(200);
+			artists.push(c);
+		}
+	}, 120_000);
+
+	async function race(bodies: unknown[]) {
+		const results = await Promise.all(bodies.map((body, i) => artists[i]!.json('/api/bookings', body)));
+		return results.map((r) => r.status);
+	}
+
+	it('50 artists, one slot: exactly one 201, 49 409s, no 5xx, one row', async () => {
+		const day = weekdayAhead(70);
+		const body = { room: 'live-room', start: `${day}T10:00`, end: `${day}T14:00` };
+		const statuses = await race(Array.from({ length: 50 }, () => body));
+		expect(statuses.filter((s) => s === 201)).toHaveLength(1);
+		expect(statuses.filter((s) => s === 409)).toHaveLength(49);
+		const [live] = await db.select().from(t.room).where(eq(t.room.slug, 'live-room'));
+		const rows = await db
+			.select({ n: sql<number>`count(*)::int` })
+			.from(t.booking)
+			.where(and(eq(t.booking.roomId, live!.id), inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`${t.booking.startsAt}::date = ${day}::date`));
+		expect(rows[0]!.n).toBe(1);
+	}, 60_000);
+
+	it('one engineer across two rooms: exactly one 201', async () => {
+		const day = weekdayAhead(71);
+		const statuses = await race(
+			Array.from({ length: 50 }, (_, i) => ({ room: i % 2 ? 'live-room' : 'vocal-booth', start: `${day}T10:00`, end: `${day}T14:00`, engineer: true }))
+		);
+		expect(statuses.filter((s) => s === 201)).toHaveLength(1);
+		expect(statuses.filter((s) => s === 409)).toHaveLength(49);
+	}, 60_000);
+
+	it('one piece of gear across two rooms: exactly one 201', async () => {
+		const day = weekdayAhead(72);
+		const [gear] = await db.select().from(t.gearItem).where(eq(t.gearItem.hireable, true)).limit(1);
+		const statuses = await race(
+			Array.from({ length: 50 }, (_, i) => ({ room: i % 2 ? 'live-room' : 'control-room', start: `${day}T10:00`, end: `${day}T14:00`, gear: [gear!.id] }))
+		);
+		// One booking per room could take the room; only one of them may take the gear.
+		expect(statuses.filter((s) => s === 201)).toHaveLength(1);
+		expect(statuses.every((s) => s === 201 || s === 409)).toBe(true);
+	}, 60_000);
+});
