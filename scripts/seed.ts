@@ -6,6 +6,7 @@ import { hashPassword } from 'better-auth/crypto';
 import { createDb } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
 import { seedDemoBookings } from './seed-bookings';
+import { DEMO_POLICY as P, DEMO_ROOMS } from '../src/lib/domain/demo';
 
 const url = process.env.DATABASE_URL;
 if (!url) throw new Error('DATABASE_URL is not set');
@@ -21,11 +22,6 @@ const people = [
 	{ email: 'artist2@slateroom.test', name: 'Iiris Sorsa (Pale Orchard)', role: 'artist' }
 ] as const;
 
-const minutes = (hhmm: string) => {
-	const [h, m] = hhmm.split(':').map(Number);
-	return (h ?? 0) * 60 + (m ?? 0);
-};
-
 async function seedStudio() {
 	await db
 		.insert(t.studio)
@@ -36,65 +32,47 @@ async function seedStudio() {
 			description:
 				'Three rooms under one roof: a timber live room with a high ceiling, a dry vocal booth and a control room with a view of both. Book by the hour, the half day or the full day; an engineer is available for any booking.',
 			addressLines: ['Kuusikkotie 14', '33980 Pirkkala (invented address)', 'Finland'],
-			country: 'FI',
+			country: P.country,
 			email: 'hello@hollowpine.test',
 			vatId: 'FI00000000',
-			timeZone: 'Europe/Helsinki',
-			currency: 'EUR',
+			timeZone: P.timeZone,
+			currency: P.currency,
 			locale: 'en-GB',
-			vatRateBp: 2550,
-			pricesIncludeVat: true,
-			halfDayMinutes: 240,
-			fullDayMinutes: 480,
-			minBookingMinutes: 120,
-			incrementMinutes: 30,
-			turnaroundMinutes: 30,
-			minNoticeMinutes: 24 * 60,
-			horizonDays: 180,
-			holdMinutes: 30,
-			depositBp: 3000,
-			depositMinimum: 5000,
-			overtimeIncrementMinutes: 15,
-			engineerHourly: 3500,
-			engineerHalfDay: 12000,
-			engineerFullDay: 23000,
+			vatRateBp: P.vatRateBp,
+			pricesIncludeVat: P.pricesIncludeVat,
+			halfDayMinutes: P.blocks.halfDayMinutes,
+			fullDayMinutes: P.blocks.fullDayMinutes,
+			minBookingMinutes: P.minBookingMinutes,
+			incrementMinutes: P.incrementMinutes,
+			turnaroundMinutes: P.turnaroundMinutes,
+			minNoticeMinutes: P.minNoticeMinutes,
+			horizonDays: P.horizonDays,
+			holdMinutes: P.holdMinutes,
+			depositBp: P.depositBp,
+			depositMinimum: P.depositMinimum,
+			overtimeIncrementMinutes: P.overtimeIncrementMinutes,
+			engineerHourly: P.engineerRates.hourly,
+			engineerHalfDay: P.engineerRates.halfDay,
+			engineerFullDay: P.engineerRates.fullDay,
 			closedOnPublicHolidays: false,
-			openingHours: [1, 2, 3, 4, 5, 6, 7].map((weekday) => ({
-				weekday,
-				openMinute: minutes('09:00'),
-				closeMinute: minutes('23:00')
-			})),
-			cancellation: [
-				{ minNoticeHours: 7 * 24, refundBp: 10000 },
-				{ minNoticeHours: 48, refundBp: 5000 },
-				{ minNoticeHours: 0, refundBp: 0 }
-			]
+			openingHours: P.openingHours.map((h) => ({ ...h })),
+			cancellation: P.cancellation.map((c) => ({ ...c }))
 		})
 		.onConflictDoNothing();
 
 	const [{ count } = { count: 0 }] = await db.select({ count: sql<number>`count(*)::int` }).from(t.surchargeRule);
 	if (count === 0) {
-		await db.insert(t.surchargeRule).values([
-			{
-				label: 'Weekday evening',
-				kind: 'window',
-				percentBp: 2500,
-				weekdays: [1, 2, 3, 4, 5],
-				fromMinute: minutes('18:00'),
-				toMinute: minutes('23:00'),
-				sortOrder: 1
-			},
-			{
-				label: 'Weekend',
-				kind: 'window',
-				percentBp: 2000,
-				weekdays: [6, 7],
-				fromMinute: 0,
-				toMinute: 1440,
-				sortOrder: 2
-			},
-			{ label: 'Public holiday', kind: 'holiday', percentBp: 5000, weekdays: [], sortOrder: 3 }
-		]);
+		await db.insert(t.surchargeRule).values(
+			P.surcharges.map((r, i) => ({
+				label: r.label,
+				kind: r.kind,
+				percentBp: r.percentBp,
+				weekdays: [...r.weekdays],
+				fromMinute: r.fromMinute,
+				toMinute: r.toMinute,
+				sortOrder: i + 1
+			}))
+		);
 	}
 }
 
@@ -104,9 +82,6 @@ const rooms = [
 		name: 'Live room',
 		description: 'Timber walls, a five-metre ceiling and room for a five-piece band tracking together.',
 		capacity: 6,
-		hourly: 4500,
-		halfDay: 16000,
-		fullDay: 30000,
 		sortOrder: 1
 	},
 	{
@@ -114,9 +89,6 @@ const rooms = [
 		name: 'Vocal booth',
 		description: 'A dry, quiet booth for vocals, voice-over and single instruments.',
 		capacity: 2,
-		hourly: 3000,
-		halfDay: 10000,
-		fullDay: 19000,
 		sortOrder: 2
 	},
 	{
@@ -124,15 +96,18 @@ const rooms = [
 		name: 'Control room',
 		description: 'Mixing, overdubs and editing, with a window onto the live room.',
 		capacity: 4,
-		hourly: 4000,
-		halfDay: 14000,
-		fullDay: 26000,
 		sortOrder: 3
 	}
 ];
 
 async function seedRooms() {
-	for (const r of rooms) await db.insert(t.room).values(r).onConflictDoNothing({ target: t.room.slug });
+	for (const r of rooms) {
+		const rates = DEMO_ROOMS.find((d) => d.slug === r.slug)!.rates;
+		await db
+			.insert(t.room)
+			.values({ ...r, hourly: rates.hourly, halfDay: rates.halfDay, fullDay: rates.fullDay })
+			.onConflictDoNothing({ target: t.room.slug });
+	}
 	return Object.fromEntries((await db.select().from(t.room)).map((r) => [r.slug, r.id]));
 }
 
