@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { DEMO_POLICY } from '../demo';
-import { divRoundHalfUp } from '../money';
+import { divRoundHalfUp, mulDivRoundHalfUp } from '../money';
 import type { BlockLengths, BlockRates } from '../types';
 import { cheapestCover, hourlyAmount } from './blocks';
 import { LIVE_ROOM } from './spec-fixtures';
@@ -9,7 +9,8 @@ import { LIVE_ROOM } from './spec-fixtures';
 const blocks = DEMO_POLICY.blocks; // half day 240 min, full day 480 min (PRODUCT.md)
 const live = LIVE_ROOM.rates; // 45.00 / 160.00 / 300.00 (PRODUCT.md)
 const engineer = DEMO_POLICY.engineerRates; // 35.00 / 120.00 / 230.00 (PRODUCT.md)
-const cover = (minutes: number, rates: BlockRates = live) => cheapestCover(minutes, rates, blocks, 30);
+const cover = (minutes: number, rates: BlockRates = live, surchargeBpMinutes = 0) =>
+	cheapestCover(minutes, rates, blocks, 30, surchargeBpMinutes);
 
 describe('cheapest cover of the booked time (source: PRODUCT.md rate card and worked examples)', () => {
 	it('5 h in the live room = half day + 1 h = 205.00, not 5 × 45 = 225.00', () => {
@@ -121,6 +122,123 @@ describe('cheapest cover, property (fast-check) against a covering DP', () => {
 			fc.property(fc.integer({ min: 0, max: 3000 }), fc.integer({ min: 1, max: 600 }), (a, extra) => {
 				expect(cover(a + extra).price).toBeGreaterThanOrEqual(cover(a).price);
 			})
+		);
+	});
+});
+
+describe('the cover with surcharges included (our rule: price + price × Σ% ÷ capacity)', () => {
+	it('7 h 30 with 4 h 30 at +25 %: a full day, 300.00 + 300.00 × 25 % × 270/480 = 42.19', () => {
+		// Half day + 3 h 30 = 317.50 buying 450 min: 317.50 + 317.50 × 25 % × 270/450 = 47.63 → 365.13.
+		expect(cover(450, live, 270 * 2500)).toMatchObject({ fullDays: 1, halfDays: 0, hourlyMinutes: 0, coveredMinutes: 480 });
+	});
+
+	it('7 h all at +20 %: a full day (352.50) for the room, half day + 3 h (270.00) for the engineer', () => {
+		// Without surcharges half day + 3 h is cheapest for both: 295.00 < 300.00 and 225.00 < 230.00.
+		expect(cover(420)).toMatchObject({ halfDays: 1, hourlyMinutes: 180, price: 29500 });
+		// Room: 295.00 × 1.2 = 354.00 against 300.00 + 300.00 × 20 % × 420/480 = 352.50.
+		expect(cover(420, live, 420 * 2000)).toMatchObject({ fullDays: 1, halfDays: 0, hourlyMinutes: 0, price: 30000 });
+		// Engineer: 225.00 × 1.2 = 270.00 against 230.00 + 230.00 × 20 % × 420/480 = 270.25.
+		expect(cover(420, engineer, 420 * 2000)).toMatchObject({ halfDays: 1, hourlyMinutes: 180, price: 22500 });
+	});
+
+	it('buys more block time than booked when that lowers the total (invented card, 30 min at +1000 %)', () => {
+		// 600.00/h, full day (480 min) 10.00. Hourly: 300.00 + 300.00 × 1000 % × 30/30 = 3300.00;
+		// a full day: 10.00 + 10.00 × 1000 % × 30/480 = 16.25.
+		const card = { hourly: 60_000, halfDay: 0, fullDay: 1000 };
+		expect(cover(30, card, 30 * 100_000)).toMatchObject({ fullDays: 1, hourlyMinutes: 0, coveredMinutes: 480 });
+	});
+
+	it('refuses a negative surcharge weight', () => {
+		expect(() => cover(60, live, -1)).toThrow(RangeError);
+	});
+});
+
+/** price + price × W ÷ (capacity × 10 000) as an exact fraction [numerator, denominator]. */
+function exactTotal(price: number, capacity: number, weight: number): [bigint, bigint] {
+	const d = BigInt(capacity) * 10_000n;
+	return [BigInt(price) * (d + BigInt(weight)), d];
+}
+
+/**
+ * Independent check by brute force: every mix (f, h, i) whose PRICE is at most the total found
+ * (a mix with a higher price has a higher total still, since surcharges are ≥ 0), priced the way
+ * the rate card reads, must not have a lower exact total.
+ */
+function cheaperCoverExists(
+	minutes: number,
+	rates: BlockRates,
+	lengths: BlockLengths,
+	inc: number,
+	weight: number,
+	found: number[]
+) {
+	const [fn, fd] = exactTotal(found[0] ?? 0, found[1] ?? 1, weight);
+	const bound = Number(fn / fd) + 1;
+	const fulls = rates.fullDay > 0 ? Math.floor(bound / rates.fullDay) : 0;
+	for (let f = 0; f <= fulls; f++) {
+		const halves = rates.halfDay > 0 ? Math.floor((bound - f * rates.fullDay) / rates.halfDay) : 0;
+		for (let h = 0; h <= halves; h++) {
+			const blockTime = f * lengths.fullDayMinutes + h * lengths.halfDayMinutes;
+			const firstI = Math.ceil(Math.max(0, minutes - blockTime) / inc);
+			for (let i = firstI; ; i++) {
+				if (i > 0 && rates.hourly <= 0) break;
+				const price = f * rates.fullDay + h * rates.halfDay + hourlyAmount(rates.hourly, i * inc);
+				if (price > bound) break;
+				const [n, d] = exactTotal(price, blockTime + i * inc, weight);
+				if (n * fd < fn * d) return { f, h, i, price };
+				if (rates.hourly <= 0) break;
+			}
+		}
+	}
+	return undefined;
+}
+
+describe('cover with surcharges, property (fast-check) against brute force', () => {
+	it('no mix of full days, half days and increments has a lower price + surcharge', () => {
+		fc.assert(
+			fc.property(
+				fc.constantFrom(15, 30, 60),
+				fc.integer({ min: 1, max: 24 }),
+				fc.record({
+					hourly: fc.integer({ min: 1, max: 20_000 }),
+					halfDay: fc.integer({ min: 0, max: 80_000 }),
+					fullDay: fc.integer({ min: 0, max: 160_000 })
+				}),
+				fc.integer({ min: 1, max: 8 }),
+				fc.integer({ min: 0, max: 15_000 }),
+				(increment, units, rates, halfUnits, maxBp) => {
+					const lengths = { halfDayMinutes: halfUnits * 60, fullDayMinutes: halfUnits * 120 };
+					const minutes = units * increment;
+					const weight = Math.floor((minutes * maxBp) / 2); // half the minutes at up to 150 %
+					const c = cheapestCover(minutes, rates, lengths, increment, weight);
+					expect(c.coveredMinutes).toBeGreaterThanOrEqual(minutes);
+					expect(c.coveredMinutes).toBe(
+						c.fullDays * lengths.fullDayMinutes + c.halfDays * lengths.halfDayMinutes + c.hourlyMinutes
+					);
+					expect(cheaperCoverExists(minutes, rates, lengths, increment, weight, [c.price, c.coveredMinutes])).toBeUndefined();
+				}
+			),
+			{ numRuns: 300 }
+		);
+	});
+
+	it('the rounded price + surcharge never decreases for more minutes and more surcharge', () => {
+		const total = (minutes: number, weight: number) => {
+			const c = cover(minutes, live, weight);
+			return c.price + mulDivRoundHalfUp(c.price, weight, c.coveredMinutes * 10_000);
+		};
+		fc.assert(
+			fc.property(
+				fc.integer({ min: 1, max: 1800 }),
+				fc.integer({ min: 0, max: 600 }),
+				fc.integer({ min: 0, max: 5000 }),
+				fc.integer({ min: 0, max: 5000 }),
+				(minutes, extra, bp, extraBp) => {
+					const weight = minutes * bp;
+					expect(total(minutes + extra, weight + extra * extraBp)).toBeGreaterThanOrEqual(total(minutes, weight));
+				}
+			),
+			{ numRuns: 300 }
 		);
 	});
 });

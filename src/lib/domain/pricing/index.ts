@@ -2,8 +2,9 @@
  * Slateroom's pricing engine: quotes, overtime, refunds on cancellation and booking-time checks.
  * Pure TypeScript; every amount is an integer of the currency's minor units.
  *
- * Sources by rule: block cover and surcharges — PRODUCT.md and common practice (blocks.ts,
- * surcharges.ts); VAT and totals — EN 16931-1 BR-CO-10/13/14/15/16/17 (vat.ts); deposit —
+ * Sources by rule: block cover and surcharges — PRODUCT.md, common practice / our rule: the
+ * cover with the lowest price + surcharge, each surcharged minute paying its percent of its share
+ * of the block time bought (blocks.ts, surcharges.ts); VAT and totals — EN 16931-1 BR-CO-10/13/14/15/16/17 (vat.ts); deposit —
  * PRODUCT.md, whole units per ISO 4217 (deposit.ts); time — IANA tz via @date-fns/tz and
  * Directive 2000/84/EC (zonedTime.ts); overtime and the cancellation ladder — common practice
  * (overtime.ts, cancellation.ts).
@@ -21,7 +22,7 @@ export {
 	type ParsedTime
 } from './validation';
 export { cheapestCover, hourlyAmount, type BlockCover } from './blocks';
-export { surchargeShares, surchargeAmount, type SurchargeShare } from './surcharges';
+export { surchargeShares, surchargeAmount, surchargeSplit, surchargeWeight, type SurchargeShare } from './surcharges';
 export { summariseCharges, lineNet, vatOf, en16931Violations, type ChargeItem } from './vat';
 export { depositFor, depositAndBalance } from './deposit';
 export { formatDuration, decimalHours, formatPercent } from './labels';

@@ -4,7 +4,7 @@ import { isPublicHoliday } from '../holidays';
 import type { BlockLengths, BlockRates, GearHire, Minor, StudioPolicy } from '../types';
 import type { BlockCover } from './blocks';
 import { decimalHours, formatDuration, formatPercent } from './labels';
-import { surchargeAmount, type SurchargeShare } from './surcharges';
+import { surchargeSplit, type SurchargeShare } from './surcharges';
 import type { SurchargeMinutes } from './types';
 import type { ChargeItem } from './vat';
 
@@ -84,32 +84,42 @@ export function blockLines(resource: Resource, cover: BlockCover, blocks: BlockL
 	return lines;
 }
 
+/** What one resource's surcharges are worked out from: the price and capacity of what it bought. */
+export interface SurchargeBase {
+	resource: Resource;
+	/** price(C): the cover's price (or, for overtime, the overtime amount). */
+	price: Minor;
+	/** capacity(C): the minutes of block time that price buys (overtime: the billed minutes). */
+	capacityMinutes: number;
+}
+
 /**
- * One line per surcharge rule that won minutes, for one resource: its price × rule % × share
- * of the minutes. Lines that round to 0 are left out.
+ * The surcharge lines of one or more resources: price × Σ(percent per minute) ÷ capacity per
+ * resource, rounded once and split by rule (surchargeSplit), listed rule by rule and, within a
+ * rule, resource by resource. Lines that come to 0 are left out.
  */
 export function surchargeLines(
-	resource: Resource,
-	price: Minor,
+	bases: readonly SurchargeBase[],
 	shares: readonly SurchargeShare[],
-	totalMinutes: number,
 	vatRateBp: number,
 	keyPrefix = 'surcharge'
 ): ChargeItem[] {
-	return shares.flatMap((share) => {
-		const amount = surchargeAmount(price, share, totalMinutes);
-		if (amount === 0) return [];
-		const { rule, minutes } = share;
-		return [
-			{
-				key: `${keyPrefix}:${rule.id}:${resource.key}`,
-				kind: 'surcharge' as const,
-				label: `${rule.label} on ${resource.surchargeTarget} (${formatPercent(rule.percentBp)}, ${formatDuration(minutes)})`,
-				amount,
-				vatRateBp
-			}
-		];
-	});
+	const amounts = bases.map((base) => surchargeSplit(base.price, shares, base.capacityMinutes));
+	return shares.flatMap(({ rule, minutes }, i) =>
+		bases.flatMap(({ resource }, j) => {
+			const amount = amounts[j]?.[i] ?? 0;
+			if (amount === 0) return [];
+			return [
+				{
+					key: `${keyPrefix}:${rule.id}:${resource.key}`,
+					kind: 'surcharge' as const,
+					label: `${rule.label} on ${resource.surchargeTarget} (${formatPercent(rule.percentBp)}, ${formatDuration(minutes)})`,
+					amount,
+					vatRateBp
+				}
+			];
+		})
+	);
 }
 
 /** Gear hire: a fee per booking per item, a line each (never surcharged). EN 16931 BR-27: no negative price. */

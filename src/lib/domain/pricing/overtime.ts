@@ -5,7 +5,10 @@
  * (15 min = a quarter of the hourly rate): the room's hourly rate, plus the engineer's when an
  * engineer was booked. The billed minutes — from the booked end to the end of the last started
  * increment — carry the surcharges that minute by minute win there (highest per minute), applied
- * to the room and engineer overtime as in a quote. Lines and totals follow the quote's shape.
+ * to the room and engineer overtime as in a quote: the overtime amount buys exactly the billed
+ * minutes, so each resource's surcharge = overtime amount × Σ(percent per billed minute) ÷ billed
+ * minutes, rounded once per resource and split by rule (surcharges.ts). Lines and totals follow
+ * the quote's shape.
  */
 import type { RoomRates, StudioPolicy } from '../types';
 import { hourlyAmount } from './blocks';
@@ -60,10 +63,10 @@ export function overtimeCharge(input: OvertimeInput): OvertimeCharge {
 			vatRateBp
 		});
 	});
-	for (const share of shares) {
-		resources.forEach((resource, i) => {
-			items.push(...surchargeLines(resource, bases[i] ?? 0, [share], billedMinutes, vatRateBp, 'overtime-surcharge'));
-		});
+	if (billedMinutes > 0) {
+		// Overtime buys exactly the billed minutes, so its capacity is billedMinutes.
+		const surchargeBases = resources.map((resource, i) => ({ resource, price: bases[i] ?? 0, capacityMinutes: billedMinutes }));
+		items.push(...surchargeLines(surchargeBases, shares, vatRateBp, 'overtime-surcharge'));
 	}
 
 	return {

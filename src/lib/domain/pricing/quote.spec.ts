@@ -82,8 +82,9 @@ describe('room time (source: PRODUCT.md worked examples)', () => {
 	});
 });
 
-describe('surcharges pro rata, highest per minute (source: PRODUCT.md)', () => {
-	it('Tuesday 16:00–20:00: 2 of 4 h in the +25 % evening → 160.00 × 25 % × 2/4 = 20.00', () => {
+describe('surcharges: each surcharged minute pays its % of its share of the block time bought (PRODUCT.md; our rule)', () => {
+	// surcharge = cover price × Σ(% of each booked minute) ÷ capacity (the minutes of block time bought).
+	it('Tuesday 16:00–20:00: 120 of the 240 min bought are evening → 160.00 × 25 % × 120/240 = 20.00', () => {
 		const q = quote({ start: at('2027-03-02', '16:00'), end: at('2027-03-02', '20:00') });
 		const evening = line(q, 'surcharge:evening:room');
 		expect(evening.amount).toBe(2000);
@@ -95,8 +96,10 @@ describe('surcharges pro rata, highest per minute (source: PRODUCT.md)', () => {
 	});
 
 	it('applies the evening surcharge to engineer time too', () => {
-		// Tuesday 16:00–21:00, 5 h, 3 h in the evening window.
-		// Room 205.00 + 205.00 × 25 % × 3/5 = 30.75; engineer 155.00 + 155.00 × 25 % × 3/5 = 23.25.
+		// Tuesday 16:00–21:00, 5 h, 3 h in the evening window. Each resource buys exactly 300 min
+		// (half day + 1 h): room 205.00 + 205.00 × 25 % × 180/300 = 30.75 → 235.75 (a full day would be
+		// 300.00 + 300.00 × 25 % × 180/480 = 28.13 → 328.13); engineer 155.00 + 155.00 × 25 % × 180/300
+		// = 23.25 → 178.25 (full day 230.00 + 21.56 = 251.56).
 		const q = quote({ start: at('2027-03-02', '16:00'), end: at('2027-03-02', '21:00'), engineer: true });
 		expect(line(q, 'surcharge:evening:room').amount).toBe(3075);
 		expect(line(q, 'surcharge:evening:engineer')).toMatchObject({
@@ -109,7 +112,8 @@ describe('surcharges pro rata, highest per minute (source: PRODUCT.md)', () => {
 		expect(q.balance).toBe(28900);
 	});
 
-	it('10 h Tuesday 09:00–19:00: 390.00 + 390.00 × 25 % × 1/10 = 9.75', () => {
+	it('10 h Tuesday 09:00–19:00: full day + 2 h buys 600 min: 390.00 + 390.00 × 25 % × 60/600 = 9.75', () => {
+		// Two full days: 600.00 + 600.00 × 25 % × 60/960 = 9.38 → 609.38, dearer.
 		const q = quote({ start: at('2027-03-02', '09:00'), end: at('2027-03-02', '19:00') });
 		expect(line(q, 'surcharge:evening:room').amount).toBe(975);
 		expect(q.total).toBe(39975);
@@ -173,8 +177,9 @@ describe('surcharges pro rata, highest per minute (source: PRODUCT.md)', () => {
 
 	it('picks the highest rule per minute when windows overlap', () => {
 		// Invented rules: A +10 % 12:00–20:00 and B +30 % 16:00–18:00 on Tuesdays. Tuesday
-		// 14:00–20:00 (6 h = 160.00 + 2 × 45.00 = 250.00): A wins 4 h, B wins 2 h (not 10 % + 30 %).
-		// A: 250.00 × 10 % × 4/6 = 16.666… → 16.67; B: 250.00 × 30 % × 2/6 = 25.00.
+		// 14:00–20:00 (6 h = 160.00 + 2 × 45.00 = 250.00 buying 360 min): A wins 4 h, B wins 2 h (not
+		// 10 % + 30 %). A: 250.00 × 10 % × 240/360 = 16.666…; B: 250.00 × 30 % × 120/360 = 25.00;
+		// total 41.666… → 41.67, split 16.67 + 25.00.
 		const policy = policyWith({
 			surcharges: [
 				{
@@ -196,8 +201,10 @@ describe('surcharges pro rata, highest per minute (source: PRODUCT.md)', () => {
 	});
 
 	it('splits a night from a Sunday into a holiday Monday by the minute', () => {
-		// Open round the clock. Sun 2027-12-05 20:00 → Mon 2027-12-06 02:00: 6 h = 250.00.
-		// Weekend 4 h: 250.00 × 20 % × 4/6 = 33.333… → 33.33; holiday 2 h: 250.00 × 50 % × 2/6 = 41.666… → 41.67.
+		// Open round the clock. Sun 2027-12-05 20:00 → Mon 2027-12-06 02:00: 6 h, half day + 2 h = 250.00
+		// buying 360 min. Weekend 240 min: 250.00 × 20 % × 240/360 = 33.333…; holiday 120 min:
+		// 250.00 × 50 % × 120/360 = 41.666…; together exactly 75.00, split 33.33 + 41.67 (the spare cent
+		// goes to the larger remainder). A full day instead: 300.00 + 300.00 × (48 + 60)/480 = 367.50.
 		const q = quote({ start: at('2027-12-05', '20:00'), end: at('2027-12-06', '02:00'), policy: openAllHours() });
 		expect(line(q, 'surcharge:weekend:room').amount).toBe(3333);
 		expect(line(q, 'surcharge:holiday:room').amount).toBe(4167);
@@ -274,35 +281,81 @@ describe('daylight-saving nights bill real elapsed time (Directive 2000/84/EC; I
 
 	it('counts surcharge minutes in real time too: Easter Sunday 2027-03-28 has 21 real hours to 22:00', () => {
 		// Sat 22:00–24:00 weekend (120 min); Easter Sunday 00:00–22:00 local is 21 real hours
-		// (1260 min) at +50 % holiday. Room 895.00: weekend 895.00 × 20 % × 120/1380 = 15.565… → 15.57;
-		// holiday 895.00 × 50 % × 1260/1380 = 408.586… → 408.59.
+		// (1260 min) at +50 % holiday: Σ % over the booked minutes = 120 × 20 % + 1260 × 50 % = 654
+		// (as many minutes at 100 %), so a cover pays price × 654/capacity. The 23 h need 1380 min:
+		//   2 full + half + 3 h = 895.00 buying 1380 min: 895.00 + 895.00 × 654/1380 = 895.00 + 424.15 = 1319.15;
+		//   3 full days         = 900.00 buying 1440 min: 900.00 + 900.00 × 654/1440 = 900.00 + 408.75 = 1308.75.
+		// Surcharges included, 3 full days are cheaper: weekend 900.00 × 20 % × 120/1440 = 15.00,
+		// holiday 900.00 × 50 % × 1260/1440 = 393.75.
 		const q = quote({ start: at('2027-03-27', '22:00'), end: at('2027-03-28', '22:00'), policy: openAllHours() });
 		expect(q.surchargeMinutes.map((s) => [s.ruleId, s.minutes])).toEqual([
 			['weekend', 120],
 			['holiday', 1260]
 		]);
-		expect(line(q, 'surcharge:weekend:room').amount).toBe(1557);
-		expect(line(q, 'surcharge:holiday:room').amount).toBe(40859);
+		expect(q.roomBlocks).toMatchObject({ fullDays: 3, halfDays: 0, hourlyMinutes: 0, coveredMinutes: 1440, price: 90000 });
+		expect(line(q, 'surcharge:weekend:room').amount).toBe(1500);
+		expect(line(q, 'surcharge:holiday:room').amount).toBe(39375);
+		expect(q.total).toBe(130875);
 	});
 
 	it('and the 25-hour Sunday 2027-10-31 carries 25 h of weekend surcharge', () => {
-		// 945.00 × 20 % × 1500/1500 = 189.00.
+		// 3 full days + 1 h = 945.00 buys exactly the 1500 min: 945.00 × 20 % × 1500/1500 = 189.00
+		// (4 full days: 1200.00 + 1200.00 × 20 % × 1500/1920 = 1387.50).
 		const q = quote({ start: at('2027-10-30', '22:00'), end: at('2027-10-31', '22:00'), policy: openAllHours() });
 		expect(q.surchargeMinutes).toEqual([{ ruleId: 'weekend', label: 'Weekend surcharge', percentBp: 2000, minutes: 1500 }]);
 		expect(q.total).toBe(94500 + 18900);
 	});
 });
 
-describe('known trade-off of pro rata on the block price (a decision for the lead)', () => {
-	it('a longer booking can cost less when a flat block price dilutes the surcharged share', () => {
-		// Tuesday 15:00–22:30 (7.5 h): full day 300.00, evening 4.5 h: 300.00 × 25 % × 4.5/7.5 = 45.00 → 345.00.
-		// Tuesday 14:30–22:30 (8 h): full day 300.00, evening 4.5 h: 300.00 × 25 % × 4.5/8 = 42.19 → 342.19.
-		// The rule as specified (price × Σ% ÷ booked minutes) makes the extra half hour "free" and
-		// lowers the share. Extending the END of a demo booking within opening hours never does this,
-		// because surcharges in the demo only rise through the day (see properties.spec.ts).
+describe('the cover is chosen with surcharges included (our rule)', () => {
+	it('a longer booking never costs less: Tuesday 15:00–22:30 ≤ 14:30–22:30', () => {
+		// Both buy one full day, 300.00 for 480 min; both have 270 evening minutes (18:00–22:30).
+		// 15:00–22:30 (7 h 30): 300.00 + 300.00 × 25 % × 270/480 = 42.1875 → 42.19 → 342.19
+		//   (half day + 3 h 30 = 317.50 buying 450 min: 317.50 + 317.50 × 25 % × 270/450 = 47.63 → 365.13).
+		// 14:30–22:30 (8 h):    300.00 + 300.00 × 25 % × 270/480 = 42.19 → 342.19, the same.
+		// (The old rule spread the block price over the booked minutes: 345.00 for the shorter booking.)
 		const shorter = quote({ start: at('2027-03-02', '15:00'), end: at('2027-03-02', '22:30') });
 		const longer = quote({ start: at('2027-03-02', '14:30'), end: at('2027-03-02', '22:30') });
-		expect(shorter.total).toBe(34500);
+		expect(shorter.lines.map((l) => [l.key, l.amount])).toEqual([
+			['room:full-day', 30000],
+			['surcharge:evening:room', 4219]
+		]);
+		expect(shorter.total).toBe(34219);
 		expect(longer.total).toBe(34219);
+		expect(shorter.total).toBeLessThanOrEqual(longer.total);
+		// Deposit 30 % of 342.19 = 102.657 → 103.00.
+		expect(shorter.deposit).toBe(10300);
+	});
+
+	it('Saturday 10:00–17:00 (7 h at +20 %): the room takes a full day, the engineer half day + 3 h', () => {
+		// Room:     half day + 3 h = 295.00 buying 420 min: 295.00 + 295.00 × 20 % × 420/420 = 59.00 → 354.00;
+		//           full day       = 300.00 buying 480 min: 300.00 + 300.00 × 20 % × 420/480 = 52.50 → 352.50. Full day.
+		// Engineer: half day + 3 h = 225.00: 225.00 + 225.00 × 20 % × 420/420 = 45.00 → 270.00;
+		//           full day       = 230.00: 230.00 + 230.00 × 20 % × 420/480 = 40.25 → 270.25. Half day + 3 h.
+		const q = quote({ start: at('2027-03-06', '10:00'), end: at('2027-03-06', '17:00'), engineer: true });
+		expect(q.roomBlocks).toMatchObject({ fullDays: 1, halfDays: 0, hourlyMinutes: 0, coveredMinutes: 480, price: 30000 });
+		expect(q.engineerBlocks).toMatchObject({ fullDays: 0, halfDays: 1, hourlyMinutes: 180, coveredMinutes: 420, price: 22500 });
+		expect(q.lines.map((l) => [l.key, l.amount])).toEqual([
+			['room:full-day', 30000],
+			['engineer:half-day', 12000],
+			['engineer:hourly', 10500],
+			['surcharge:weekend:room', 5250],
+			['surcharge:weekend:engineer', 4500]
+		]);
+		expect(q.total).toBe(62250); // 352.50 + 270.00
+		// Deposit 30 % of 622.50 = 186.75 → 187.00.
+		expect(q.deposit).toBe(18700);
+	});
+
+	it('Tuesday 16:00–23:00 (7 h, 5 h evening): a full day, 346.88, beats half day + 3 h, 347.68', () => {
+		// Half day + 3 h: 295.00 + 295.00 × 25 % × 300/420 = 52.678… → 347.68.
+		// Full day:       300.00 + 300.00 × 25 % × 300/480 = 46.875 → 46.88 → 346.88.
+		const q = quote({ start: at('2027-03-02', '16:00'), end: at('2027-03-02', '23:00') });
+		expect(q.roomBlocks).toMatchObject({ fullDays: 1, coveredMinutes: 480 });
+		expect(line(q, 'surcharge:evening:room')).toMatchObject({
+			amount: 4688,
+			label: 'Evening surcharge on Live room (25 %, 5 h)'
+		});
+		expect(q.total).toBe(34688);
 	});
 });

@@ -4,7 +4,7 @@ import { TZDate } from '@date-fns/tz';
 import { DEMO_POLICY } from '../demo';
 import { isPublicHoliday } from '../holidays';
 import type { SurchargeRule } from '../types';
-import { surchargeAmount, surchargeShares } from './surcharges';
+import { surchargeAmount, surchargeShares, surchargeSplit, surchargeWeight, type SurchargeShare } from './surcharges';
 import { at, HELSINKI } from './spec-fixtures';
 
 const fiHoliday = (ymd: string) => isPublicHoliday('FI', ymd);
@@ -85,6 +85,66 @@ describe('surcharge minutes (source: PRODUCT.md: highest surcharge per minute, i
 				}
 			),
 			{ numRuns: 60 }
+		);
+	});
+});
+
+describe("a resource's surcharge: price × Σ(% per minute) ÷ capacity, rounded once, split by rule (our rule)", () => {
+	const rule = (id: string, percentBp: number): SurchargeRule => ({
+		id,
+		label: id,
+		kind: 'window',
+		percentBp,
+		weekdays: [],
+		fromMinute: 0,
+		toMinute: 0
+	});
+	const share = (id: string, percentBp: number, minutes: number): SurchargeShare => ({ rule: rule(id, percentBp), minutes });
+
+	it('weighs each minute by its percent: 120 min at 25 % = 300 000 basis-point minutes', () => {
+		expect(surchargeWeight([share('evening', 2500, 120)])).toBe(300_000);
+		expect(surchargeWeight([share('weekend', 2000, 240), share('holiday', 5000, 120)])).toBe(1_080_000);
+		expect(surchargeWeight([])).toBe(0);
+	});
+
+	it('charges unbooked block time nothing: 7 h 30 in a full day, 4 h 30 at 25 % → 300.00 × 25 % × 270/480 = 42.19', () => {
+		expect(surchargeSplit(30000, [share('evening', 2500, 270)], 480)).toEqual([4219]);
+	});
+
+	it('splits by largest remainder: 250.00 over 360 min, weekend 240 min at 20 %, holiday 120 min at 50 %', () => {
+		// 33.333… + 41.666… = 75.00 exactly → 33.33 + 41.67 (the spare cent to the larger remainder).
+		const shares = [share('weekend', 2000, 240), share('holiday', 5000, 120)];
+		expect(surchargeSplit(25000, shares, 360)).toEqual([3333, 4167]);
+		expect(shares.map((s) => surchargeAmount(25000, s, 360))).toEqual([3333, 4167]);
+	});
+
+	it('rounds once per resource: three rules of exactly half a cent each come to round(1.5) = 2, not 3', () => {
+		// price 1.00 over 100 min; each rule 1 min at 50 %: 100 × 50 % × 1/100 = 0.5 cent each.
+		const shares = [share('a', 5000, 1), share('b', 5000, 1), share('c', 5000, 1)];
+		expect(shares.map((s) => surchargeAmount(100, s, 100))).toEqual([1, 1, 1]); // each on its own
+		expect(surchargeSplit(100, shares, 100)).toEqual([1, 1, 0]); // equal remainders: listed first wins
+	});
+
+	it('the lines always add up to the once-rounded total, each within a cent of its exact share (property)', () => {
+		fc.assert(
+			fc.property(
+				fc.integer({ min: 0, max: 1_000_000 }),
+				fc.integer({ min: 1, max: 3000 }),
+				fc.array(fc.tuple(fc.integer({ min: 1, max: 20_000 }), fc.integer({ min: 1, max: 1000 })), { maxLength: 5 }),
+				(price, capacity, raw) => {
+					const shares = raw.map(([bp, minutes], i) => share(`r${i}`, bp, minutes));
+					const split = surchargeSplit(price, shares, capacity);
+					const d = BigInt(capacity) * 10_000n;
+					const exact = shares.map((s) => BigInt(price) * BigInt(s.rule.percentBp) * BigInt(s.minutes));
+					const sum = exact.reduce((a, b) => a + b, 0n);
+					expect(BigInt(split.reduce((a, b) => a + b, 0))).toBe((2n * sum + d) / (2n * d));
+					split.forEach((amount, i) => {
+						const floor = (exact[i] ?? 0n) / d;
+						expect([floor, floor + 1n]).toContain(BigInt(amount));
+					});
+				}
+			),
+			{ numRuns: 300 }
 		);
 	});
 });

@@ -1,6 +1,7 @@
 /**
- * Surcharges pro rata by minute (PRODUCT.md; evening, weekend and holiday premiums are common
- * practice, the per-minute rule is Slateroom's own).
+ * Surcharges by minute (PRODUCT.md: "surcharges pro rata for the minutes that fall in evening,
+ * weekend or holiday windows, the highest one per minute"; evening, weekend and holiday premiums
+ * are common practice).
  *
  * Every real minute of a booking carries the HIGHEST surcharge whose window contains it, read in
  * the studio's local wall time: a 'window' rule by ISO weekday and local minute of the day, a
@@ -8,8 +9,17 @@
  * add up; on equal percentages the rule listed first in the policy wins. Rules of 0 % or less are
  * ignored (a discount would be an allowance, not a surcharge).
  *
- * A resource's surcharge for a rule = its block price × rule % × (minutes the rule won ÷ booked
- * minutes), i.e. the price times the rule's share of the booked time, rounded half-up once.
+ * What a surcharged minute pays — common practice / our rule (no outside source): a resource's
+ * cover C buys capacity(C) minutes of block time for price(C), i.e. rate(C) = price(C) ÷
+ * capacity(C) per minute, and each surcharged booked minute pays its percent of that share:
+ *
+ *   surcharge(C) = price(C) × Σ over booked minutes of (that minute's percent) ÷ capacity(C)
+ *
+ * Tuesday 16:00–20:00 in the live room: half day 160.00 buys 240 min; 120 evening minutes at 25 %
+ * → 160.00 × 25 % × 120/240 = 20.00. Unbooked block time (a full day bought for 7 h 30) carries
+ * no surcharge. The per-rule lines (evening, weekend, holiday) are that one amount split by rule:
+ * the resource's total is rounded half-up ONCE and shared out by largest remainder (surchargeSplit),
+ * so each line is its exact share rounded down or up and the lines add up to the rounded total.
  */
 import { mulDivRoundHalfUp } from '../money';
 import type { Minor, StudioPolicy, SurchargeRule } from '../types';
@@ -63,8 +73,44 @@ export function surchargeShares(
 	});
 }
 
-/** price × rule % × minutes ÷ totalMinutes, rounded half-up (exact in BigInt before rounding). */
-export function surchargeAmount(price: Minor, share: SurchargeShare, totalMinutes: number): Minor {
-	if (totalMinutes <= 0) return 0;
-	return mulDivRoundHalfUp(price, share.rule.percentBp * share.minutes, 10_000 * totalMinutes);
+/**
+ * Σ over the booked minutes of each minute's winning percent, in basis-point minutes (the W of
+ * cheapestCover): 120 evening minutes at 25 % = 120 × 2500 = 300 000.
+ */
+export function surchargeWeight(shares: readonly SurchargeShare[]): number {
+	return shares.reduce((sum, { rule, minutes }) => sum + rule.percentBp * minutes, 0);
+}
+
+/**
+ * One rule's exact share on its own, rounded half-up: price × rule % × minutes ÷ capacityMinutes
+ * (exact in BigInt before rounding). 160.00 × 25 % × 120/240 = 20.00.
+ */
+export function surchargeAmount(price: Minor, share: SurchargeShare, capacityMinutes: number): Minor {
+	if (capacityMinutes <= 0) return 0;
+	return mulDivRoundHalfUp(price, share.rule.percentBp * share.minutes, 10_000 * capacityMinutes);
+}
+
+/**
+ * A resource's surcharge per rule, in the order of `shares`: the total price × Σ(percent per
+ * minute) ÷ capacity is rounded half-up once; each rule gets its exact share rounded down, and the
+ * cents left over go one each to the largest remainders (on equal remainders, the rule listed
+ * first). With a single rule this is that rule's amount rounded half-up.
+ */
+export function surchargeSplit(price: Minor, shares: readonly SurchargeShare[], capacityMinutes: number): Minor[] {
+	if (capacityMinutes <= 0 || shares.length === 0) return shares.map(() => 0);
+	const denominator = BigInt(capacityMinutes) * 10_000n;
+	const exact = shares.map(({ rule, minutes }) => BigInt(price) * BigInt(rule.percentBp) * BigInt(minutes));
+	const sum = exact.reduce((a, b) => a + b, 0n);
+	const total = (2n * sum + denominator) / (2n * denominator); // half-up, all terms ≥ 0
+	const amounts = exact.map((n) => n / denominator);
+	let left = total - amounts.reduce((a, b) => a + b, 0n);
+	const byRemainder = exact
+		.map((n, i) => ({ i, remainder: n % denominator }))
+		.sort((a, b) => (a.remainder === b.remainder ? a.i - b.i : a.remainder > b.remainder ? -1 : 1));
+	for (const { i } of byRemainder) {
+		if (left === 0n) break;
+		amounts[i] = (amounts[i] ?? 0n) + 1n;
+		left -= 1n;
+	}
+	return amounts.map(Number);
 }

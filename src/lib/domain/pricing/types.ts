@@ -73,8 +73,9 @@ export interface Quote extends ChargeTotals {
 	balance: Minor;
 	/** Real elapsed minutes between start and end. */
 	durationMinutes: number;
+	/** The room's cover: the mix with the lowest price + surcharge (blocks.ts). */
 	roomBlocks: BlockCover;
-	/** null when no engineer is booked. */
+	/** The engineer's own cover, chosen the same way; null when no engineer is booked. */
 	engineerBlocks: BlockCover | null;
 	surchargeMinutes: SurchargeMinutes[];
 }
