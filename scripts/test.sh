@@ -56,6 +56,7 @@ ensure_postgres_binaries
 ensure_chromium
 
 # A fresh cluster for every run: nothing from a previous run can leak into this one.
+pg_stop "$(pg_data_dir test)"
 rm -rf "$(pg_data_dir test)"
 pg_start test "$PG_PORT"
 pg_create_db "$PG_PORT" slateroom_test
