@@ -1,43 +1,67 @@
-import { error } from '@sveltejs/kit';
-import { TZDate } from '@date-fns/tz';
+import { error, fail } from '@sveltejs/kit';
 import { addDays, format } from 'date-fns';
-import { and, asc, eq, gt, inArray, lt } from 'drizzle-orm';
-import { db } from '$lib/server/db';
-import { booking, room, user } from '$lib/server/db/schema';
+import { z } from 'zod';
 import { requireRole } from '$lib/server/guard';
-import { getStudio } from '$lib/server/studio';
-import type { PageServerLoad } from './$types';
+import { dayPlan, isPlanDate, saveRecall, todayInStudio } from '$lib/server/plan';
+import { audit } from '$lib/server/audit';
+import type { RecallChannel } from '$lib/server/db/schema';
+import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
 	requireRole(locals, 'owner', 'engineer');
-	const studio = await getStudio();
-	const today = format(TZDate.tz(studio.timeZone), 'yyyy-MM-dd');
-	const date = url.searchParams.get('date') ?? today;
-	if (!/^\d{4}-\d{2}-\d{2}$/.test(date)) error(400, { message: 'Use a date such as 2027-03-28.' });
-	const [y, m, d] = date.split('-').map(Number) as [number, number, number];
-	const dayStart = new TZDate(y, m - 1, d, studio.timeZone);
-	const dayEnd = addDays(dayStart, 1);
-	const sessions = await db
-		.select({
-			id: booking.id,
-			reference: booking.reference,
-			startsAt: booking.startsAt,
-			endsAt: booking.endsAt,
-			status: booking.status,
-			project: booking.project,
-			roomName: room.name,
-			roomSlug: room.slug,
-			artist: user.name
-		})
-		.from(booking)
-		.innerJoin(room, eq(room.id, booking.roomId))
-		.innerJoin(user, eq(user.id, booking.artistId))
-		.where(and(lt(booking.startsAt, dayEnd), gt(booking.endsAt, dayStart), inArray(booking.status, ['pending', 'confirmed', 'completed'])))
-		.orderBy(asc(room.sortOrder), asc(booking.startsAt));
+	const date = url.searchParams.get('date') ?? (await todayInStudio());
+	if (!isPlanDate(date)) error(400, { message: 'Use a date such as 2027-03-28.' });
+	const day = new Date(`${date}T12:00:00Z`);
 	return {
-		date,
-		prev: format(addDays(dayStart, -1), 'yyyy-MM-dd'),
-		next: format(addDays(dayStart, 1), 'yyyy-MM-dd'),
-		sessions: sessions.map((s) => ({ ...s, startsAt: s.startsAt.toISOString(), endsAt: s.endsAt.toISOString() }))
+		plan: await dayPlan(date),
+		prev: format(addDays(day, -1), 'yyyy-MM-dd'),
+		next: format(addDays(day, 1), 'yyyy-MM-dd')
 	};
+};
+
+const optionalNumber = (min: number, max: number, what: string) =>
+	z
+		.string()
+		.trim()
+		.transform((v) => (v === '' ? null : Number(v)))
+		.refine((v) => v === null || (Number.isFinite(v) && v >= min && v <= max), { error: `${what} must be between ${min} and ${max}.` });
+
+const channelSchema = z.object({
+	source: z.string().trim().max(120),
+	microphone: z.string().trim().max(160),
+	placement: z.string().trim().max(200),
+	preampGainDb: optionalNumber(0, 80, 'Preamp gain'),
+	highPassHz: optionalNumber(20, 500, 'High-pass'),
+	compressor: z.string().trim().max(200),
+	notes: z.string().trim().max(500)
+});
+
+export const actions: Actions = {
+	recall: async ({ request, locals, getClientAddress }) => {
+		const me = requireRole(locals, 'owner', 'engineer');
+		const form = await request.formData();
+		const bookingId = String(form.get('bookingId') ?? '');
+		if (!z.uuid().safeParse(bookingId).success) return fail(422, { bookingId, error: 'Unknown session.' });
+		const count = Math.min(Number(form.get('rows') ?? 0) || 0, 40);
+		const channels: RecallChannel[] = [];
+		for (let i = 0; i < count; i++) {
+			const get = (k: string) => String(form.get(`${k}-${i}`) ?? '');
+			const parsed = channelSchema.safeParse({
+				source: get('source'),
+				microphone: get('microphone'),
+				placement: get('placement'),
+				preampGainDb: get('preampGainDb'),
+				highPassHz: get('highPassHz'),
+				compressor: get('compressor'),
+				notes: get('notes')
+			});
+			if (!parsed.success) return fail(422, { bookingId, error: `Row ${i + 1}: ${parsed.error.issues[0]?.message}` });
+			if (!parsed.data.source && !parsed.data.microphone) continue;
+			channels.push({ ...parsed.data, phantom: form.get(`phantom-${i}`) === 'on' });
+		}
+		const notes = String(form.get('notes') ?? '').slice(0, 4000);
+		if (!(await saveRecall(bookingId, me.id, channels, notes))) return fail(404, { bookingId, error: 'Unknown session.' });
+		await audit({ actorId: me.id, action: 'recall.saved', entity: 'booking', entityId: bookingId, ip: getClientAddress() });
+		return { bookingId, saved: true };
+	}
 };

@@ -1,0 +1,14 @@
+import { json } from '@sveltejs/kit';
+import { apiError } from '$lib/server/api';
+import { dayPlan, isPlanDate, todayInStudio } from '$lib/server/plan';
+import type { RequestHandler } from './$types';
+
+export const GET: RequestHandler = async ({ locals, url }) => {
+	if (!locals.user) return apiError(401, 'unauthenticated', 'Please sign in first.');
+	if (locals.user.role !== 'engineer' && locals.user.role !== 'owner') {
+		return apiError(403, 'forbidden', 'The day plan is for engineers and the owner.');
+	}
+	const date = url.searchParams.get('date') ?? (await todayInStudio());
+	if (!isPlanDate(date)) return apiError(422, 'invalid', 'Use a date such as 2027-03-28.', { fields: { date: ['Use a date such as 2027-03-28.'] } });
+	return json(await dayPlan(date), { headers: { 'cache-control': 'private, no-store' } });
+};

@@ -1,0 +1,63 @@
+// The engineer's day plan over HTTP, on the seeded demo sessions (scripts/seed-bookings.ts puts
+// The Lantern Static in the live room three days from today, with a recall sheet from 14 days ago).
+import { describe, expect, it } from 'vitest';
+import { Client, signedIn } from '../support/http';
+import { DEMO } from '../support/env';
+import { ymdInZone } from '../support/dates';
+
+const day = ymdInZone(new Date(Date.now() + 3 * 86_400_000));
+
+interface Plan {
+	date: string;
+	rooms: { slug: string; sessions: { reference: string; artist: { name: string }; recall: { fromBooking: string; channels: { source: string }[] } | null }[] }[];
+}
+
+describe('GET /api/plan', () => {
+	it('gives the engineer each room’s sessions with the recall sheet carried over', async () => {
+		const res = await (await signedIn(DEMO.engineer)).fetch(`/api/plan?date=${day}`);
+		expect(res.status).toBe(200);
+		const plan = (await res.json()) as Plan;
+		expect(plan.rooms.map((r) => r.slug)).toEqual(['live-room', 'vocal-booth', 'control-room']);
+		const live = plan.rooms.find((r) => r.slug === 'live-room')!.sessions.find((s) => s.reference === 'HP-DEMO3');
+		expect(live?.artist.name).toContain('The Lantern Static');
+		expect(live?.recall?.fromBooking).toBe('HP-DEMO1');
+		expect(live?.recall?.channels.map((c) => c.source)).toContain('Kick drum');
+	});
+
+	it('is for engineers and the owner only', async () => {
+		expect((await new Client().fetch(`/api/plan?date=${day}`)).status).toBe(401);
+		expect((await (await signedIn(DEMO.artist)).fetch(`/api/plan?date=${day}`)).status).toBe(403);
+		expect((await (await signedIn(DEMO.accountant)).fetch(`/api/plan?date=${day}`)).status).toBe(403);
+		expect((await (await signedIn(DEMO.owner)).fetch(`/api/plan?date=${day}`)).status).toBe(200);
+	});
+
+	it('answers 422 for a malformed date', async () => {
+		const res = await (await signedIn(DEMO.engineer)).fetch('/api/plan?date=next-tuesday');
+		expect(res.status).toBe(422);
+	});
+
+	it('lets the engineer write this session’s recall sheet, which the plan then shows', async () => {
+		const c = await signedIn(DEMO.engineer);
+		const plan = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as Plan & { rooms: { sessions: { id: string; ownRecall: unknown }[] }[] };
+		const session = plan.rooms.flatMap((r) => r.sessions).find((s) => s.reference === 'HP-DEMO3') as unknown as { id: string };
+		const res = await c.form(`/plan?/recall`, {
+			bookingId: session.id,
+			rows: '1',
+			'source-0': 'Rhythm guitar',
+			'microphone-0': 'Dynamic, cardioid',
+			'placement-0': 'Off-axis at the speaker cone edge',
+			'preampGainDb-0': '45',
+			'highPassHz-0': '80',
+			'compressor-0': '',
+			'notes-0': '',
+			notes: 'Amp on the riser'
+		});
+		expect(res.status).toBe(200);
+		const after = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as { rooms: { sessions: { id: string; ownRecall: { channels: { source: string; preampGainDb: number }[]; notes: string } | null }[] }[] };
+		const own = after.rooms.flatMap((r) => r.sessions).find((s) => s.id === session.id)!.ownRecall;
+		expect(own).toMatchObject({ notes: 'Amp on the riser', channels: [{ source: 'Rhythm guitar', preampGainDb: 45 }] });
+		const bad = await c.form(`/plan?/recall`, { bookingId: session.id, rows: '1', 'source-0': 'Vox', 'preampGainDb-0': '900' });
+		expect(bad.status).toBe(422);
+		expect((await (await signedIn(DEMO.artist)).form(`/plan?/recall`, { bookingId: session.id, rows: '0' })).status).toBe(403);
+	});
+});
