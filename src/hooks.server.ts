@@ -53,7 +53,9 @@ const zoneGuard: Handle = ({ event, resolve }) => {
 		const next = event.url.pathname + event.url.search;
 		redirect(303, `/sign-in?next=${encodeURIComponent(next)}`);
 	}
-	if (zone.roles !== 'signed-in' && !zone.roles.includes(user.role)) {
+	if (zone.roles !== 'signed-in' && !zone.roles.includes(user.role) && event.request.method !== 'GET') {
+		// Form actions run before any load, so the wrong role is stopped here. Pages (GET) are
+		// stopped by their zone's layout load, which renders the site's own error page.
 		error(403, { error: 'forbidden', message: 'Your role does not give access to this page.' });
 	}
 	return resolve(event);

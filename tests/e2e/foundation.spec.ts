@@ -4,12 +4,13 @@ import { signIn } from './support';
 test('the storefront shows the studio, its three rooms and their rates', async ({ page }) => {
 	await page.goto('/');
 	await expect(page.getByRole('heading', { level: 1, name: 'Hollow Pine Studio' })).toBeVisible();
-	const cards = page.getByTestId('rate-card');
-	await expect(cards.filter({ hasText: 'Live room' })).toContainText('€45.00');
-	await expect(cards.filter({ hasText: 'Live room' })).toContainText('€160.00');
-	await expect(cards.filter({ hasText: 'Live room' })).toContainText('€300.00');
-	await expect(cards.filter({ hasText: 'Vocal booth' })).toContainText('€190.00');
-	await expect(cards.filter({ hasText: 'Control room' })).toContainText('€260.00');
+	const card = (slug: string) => page.locator(`[data-testid="rate-card"][data-room="${slug}"]`);
+	await expect(card('live-room')).toContainText('Live room');
+	await expect(card('live-room')).toContainText('€45.00');
+	await expect(card('live-room')).toContainText('€160.00');
+	await expect(card('live-room')).toContainText('€300.00');
+	await expect(card('vocal-booth')).toContainText('€190.00');
+	await expect(card('control-room')).toContainText('€260.00');
 });
 
 const roles = [
