@@ -1,0 +1,201 @@
+// The choices of a booking in progress, as the calendar, the booking page and its query string
+// share them. Pure and framework-free: the same helpers run in the load and in the browser.
+// Times are local wall times in the studio's zone ('YYYY-MM-DD', 'HH:MM'); the server turns them
+// into instants (parseBookingInstant), refusing a wall time that the clocks skip.
+
+export const BOOKING_KINDS = ['hourly', 'half', 'full'] as const;
+export type BookingKind = (typeof BOOKING_KINDS)[number];
+
+export interface BookingChoices {
+	room: string;
+	kind: BookingKind;
+	date: string;
+	start: string;
+	/** Length of an hourly booking, in hours (half-hour steps); ignored for blocks. */
+	hours: number;
+	engineer: boolean;
+	gear: string[];
+	project: string;
+	notes?: string;
+}
+
+export interface BlockLengths {
+	halfDayMinutes: number;
+	fullDayMinutes: number;
+}
+
+export const YMD_RE = /^\d{4}-\d{2}-\d{2}$/;
+export const HHMM_RE = /^([01]\d|2[0-3]):[0-5]\d$/;
+
+/** Booked length in minutes: a block's length from the studio settings, or the chosen hours. */
+export function lengthMinutes(kind: BookingKind, hours: number, lengths: BlockLengths): number {
+	if (kind === 'half') return lengths.halfDayMinutes;
+	if (kind === 'full') return lengths.fullDayMinutes;
+	return Math.round(hours * 60);
+}
+
+/**
+ * The wall time `minutes` after a local date and time, as 'YYYY-MM-DDTHH:MM' with no offset.
+ * Plain calendar arithmetic on the wall clock (a booking from 10:00 for 4 h ends at 14:00 on the
+ * wall clock, which is what the artist reads on the studio's clock that day).
+ */
+export function addWallMinutes(date: string, time: string, minutes: number): string {
+	const [y = 0, mo = 1, d = 1] = date.split('-').map(Number);
+	const [h = 0, mi = 0] = time.split(':').map(Number);
+	const t = new Date(Date.UTC(y, mo - 1, d, h, mi + minutes));
+	return t.toISOString().slice(0, 16);
+}
+
+/** The body POST /api/quote and createHold take (PRODUCT.md), built from the choices. */
+export function requestBody(c: BookingChoices, lengths: BlockLengths) {
+	const minutes = lengthMinutes(c.kind, c.hours, lengths);
+	return {
+		room: c.room,
+		start: c.date && c.start ? `${c.date}T${c.start}` : '',
+		end: c.date && c.start && minutes > 0 ? addWallMinutes(c.date, c.start, minutes) : '',
+		engineer: c.engineer,
+		gear: c.gear,
+		project: c.project ?? '',
+		notes: c.notes ?? ''
+	};
+}
+
+/** The query string that brings the booking page back with these choices (notes stay out). */
+export function choicesQuery(c: Partial<BookingChoices>): string {
+	const q = new URLSearchParams();
+	if (c.room) q.set('room', c.room);
+	if (c.date) q.set('date', c.date);
+	if (c.start) q.set('start', c.start);
+	if (c.kind) q.set('kind', c.kind);
+	if (c.kind === 'hourly' && c.hours) q.set('hours', String(c.hours));
+	if (c.engineer !== undefined) q.set('engineer', c.engineer ? '1' : '0');
+	for (const g of c.gear ?? []) q.append('gear', g);
+	if (c.project) q.set('project', c.project);
+	return q.toString();
+}
+
+export function bookPath(c: Partial<BookingChoices>): string {
+	const q = choicesQuery(c);
+	return q ? `/book?${q}` : '/book';
+}
+
+/** Reads the choices back from a query string; anything malformed is left out, never guessed. */
+export function choicesFromQuery(q: URLSearchParams): Partial<BookingChoices> {
+	const out: Partial<BookingChoices> = {};
+	const room = q.get('room');
+	if (room && /^[a-z0-9-]{1,80}$/.test(room)) out.room = room;
+	const date = q.get('date');
+	if (date && YMD_RE.test(date)) out.date = date;
+	const start = q.get('start');
+	if (start && HHMM_RE.test(start)) out.start = start;
+	const kind = q.get('kind');
+	if (kind && (BOOKING_KINDS as readonly string[]).includes(kind)) out.kind = kind as BookingKind;
+	const hours = Number(q.get('hours'));
+	if (q.has('hours') && Number.isFinite(hours) && hours > 0 && hours <= 24 && Number.isInteger(hours * 2)) {
+		out.hours = hours;
+		out.kind ??= 'hourly';
+	}
+	const engineer = q.get('engineer');
+	if (engineer === '1' || engineer === '0') out.engineer = engineer === '1';
+	const gear = q.getAll('gear').filter((g) => /^[0-9a-f-]{36}$/i.test(g));
+	if (gear.length) out.gear = [...new Set(gear)].slice(0, 20);
+	const project = q.get('project');
+	if (project) out.project = project.slice(0, 200);
+	return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Wall clock of an instant in the studio's zone, for showing and for picking starts.
+
+const partsCache = new Map<string, Intl.DateTimeFormat>();
+
+function partsFormat(timeZone: string): Intl.DateTimeFormat {
+	let f = partsCache.get(timeZone);
+	if (!f) {
+		f = new Intl.DateTimeFormat('en-GB', {
+			timeZone,
+			year: 'numeric',
+			month: '2-digit',
+			day: '2-digit',
+			hour: '2-digit',
+			minute: '2-digit',
+			hourCycle: 'h23'
+		});
+		partsCache.set(timeZone, f);
+	}
+	return f;
+}
+
+/** The local date and time of an instant in a zone: { date: 'YYYY-MM-DD', time: 'HH:MM' }. */
+export function wallClock(instant: string | Date | number, timeZone: string): { date: string; time: string } {
+	const parts = partsFormat(timeZone).formatToParts(new Date(instant));
+	const get = (type: string) => parts.find((p) => p.type === type)?.value ?? '00';
+	return { date: `${get('year')}-${get('month')}-${get('day')}`, time: `${get('hour')}:${get('minute')}` };
+}
+
+export interface Window {
+	start: string;
+	end: string;
+}
+
+export interface StartOption {
+	date: string;
+	time: string;
+	/** The start as an ISO instant, for ordering and distance. */
+	at: number;
+}
+
+/**
+ * Every start on the increment grid at which a booking of `minutes` fits wholly inside one of
+ * the open windows (as GET /api/availability returns them), in time order. The windows are
+ * already snapped to the studio's grid, so stepping by the increment from a window's start stays
+ * on it (the studio's zone has whole-hour offsets in the demo; a half-hour zone still steps from
+ * an on-grid start).
+ */
+export function startsInWindows(
+	open: readonly Window[],
+	minutes: number,
+	incrementMinutes: number,
+	timeZone: string
+): StartOption[] {
+	const out: StartOption[] = [];
+	if (minutes <= 0 || incrementMinutes <= 0) return out;
+	const length = minutes * 60_000;
+	const step = incrementMinutes * 60_000;
+	for (const w of open) {
+		const end = Date.parse(w.end);
+		for (let s = Date.parse(w.start); s + length <= end; s += step) {
+			out.push({ ...wallClock(s, timeZone), at: s });
+		}
+	}
+	return out;
+}
+
+/** 'YYYY-MM-DD' plus days, by the calendar. */
+export function addDays(ymd: string, days: number): string {
+	const [y = 0, m = 1, d = 1] = ymd.split('-').map(Number);
+	return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10);
+}
+
+/** ISO weekday of a calendar date, Monday 1 … Sunday 7. */
+export function isoWeekday(ymd: string): number {
+	const [y = 0, m = 1, d = 1] = ymd.split('-').map(Number);
+	return ((new Date(Date.UTC(y, m - 1, d)).getUTCDay() + 6) % 7) + 1;
+}
+
+/** The Monday of the week a date falls in (weeks start on Monday, ISO 8601). */
+export function mondayOf(ymd: string): string {
+	return addDays(ymd, 1 - isoWeekday(ymd));
+}
+
+export function daysBetween(from: string, to: string): string[] {
+	const out: string[] = [];
+	for (let d = from; d <= to && out.length < 70; d = addDays(d, 1)) out.push(d);
+	return out;
+}
+
+/** '10:00' → 600. */
+export function clockMinutes(hhmm: string): number {
+	const [h = 0, m = 0] = hhmm.split(':').map(Number);
+	return h * 60 + m;
+}

@@ -1,0 +1,155 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { message, setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { and, asc, eq, isNotNull } from 'drizzle-orm';
+import { db } from '$lib/server/db';
+import { gearItem } from '$lib/server/db/schema';
+import { availability, createHold } from '$lib/server/bookings';
+import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
+import { startDepositCheckout } from '$lib/server/payments';
+import { audit } from '$lib/server/audit';
+import {
+	bookPath,
+	choicesFromQuery,
+	requestBody,
+	wallClock,
+	addDays,
+	type BookingChoices
+} from '$lib/components/booking/choices';
+import type { AvailabilityBody } from '$lib/components/calendar/availability';
+import { bookFormSchema, type BookForm, type BookMessage } from './schema';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async ({ url, locals }) => {
+	const [{ studio, policy }, rows, gearRows] = await Promise.all([
+		getPolicy(),
+		listRooms(),
+		db
+			.select({
+				id: gearItem.id,
+				name: gearItem.name,
+				category: gearItem.category,
+				description: gearItem.description,
+				hireFee: gearItem.hireFee,
+				caution: gearItem.caution,
+				homeRoomId: gearItem.homeRoomId
+			})
+			.from(gearItem)
+			.where(and(eq(gearItem.active, true), eq(gearItem.hireable, true), isNotNull(gearItem.homeRoomId)))
+			.orderBy(asc(gearItem.category), asc(gearItem.name))
+	]);
+	const rooms = rows.map((r) => ({ ...publicRoom(r, studio.currency), id: r.id }));
+	const slugOf = new Map(rooms.map((r) => [r.id, r.slug]));
+
+	const asked = choicesFromQuery(url.searchParams);
+	const room = rooms.find((r) => r.slug === asked.room)?.slug ?? rooms[0]?.slug ?? '';
+	const initial: Partial<BookForm> = {
+		kind: 'half',
+		hours: studio.minBookingMinutes / 60,
+		engineer: false,
+		...asked,
+		room
+	};
+	const form = await superValidate<BookForm, BookMessage>(initial, zod4(bookFormSchema), { errors: false });
+
+	// The chosen day's open windows, so the starts that fit are there on the first paint; the page
+	// asks GET /api/availability again when the room or the day changes.
+	let open: AvailabilityBody | null = null;
+	if (room && form.data.date) {
+		const result = await availability({ room, from: form.data.date, to: form.data.date });
+		if (result.ok) open = result.body;
+	}
+
+	const today = wallClock(Date.now(), studio.timeZone).date;
+	return {
+		form,
+		signedIn: !!locals.user,
+		rooms: rooms.map(({ id: _id, ...r }) => r),
+		gear: gearRows.map(({ homeRoomId, ...g }) => ({ ...g, room: slugOf.get(homeRoomId!) ?? '' })),
+		open,
+		rules: {
+			halfDayMinutes: studio.halfDayMinutes,
+			fullDayMinutes: studio.fullDayMinutes,
+			minBookingMinutes: studio.minBookingMinutes,
+			incrementMinutes: studio.incrementMinutes,
+			minNoticeHours: studio.minNoticeMinutes / 60,
+			holdMinutes: studio.holdMinutes,
+			depositPercent: studio.depositBp / 100,
+			pricesIncludeVat: studio.pricesIncludeVat,
+			// Hourly lengths offered: up to the longest opening of any day.
+			maxMinutes: Math.max(studio.fullDayMinutes, ...policy.openingHours.map((h) => h.closeMinute - h.openMinute)),
+			earliestDate: today,
+			latestDate: addDays(today, studio.horizonDays),
+			engineer: { hourly: studio.engineerHourly, halfDay: studio.engineerHalfDay, fullDay: studio.engineerFullDay }
+		}
+	};
+};
+
+/** Where each of the server's field names shows on this form. */
+function formField(field: string, kind: BookForm['kind']): Exclude<keyof BookForm, 'gear'> | 'gear._errors' | null {
+	switch (field) {
+		case 'gear':
+			return 'gear._errors';
+		case 'room':
+		case 'start':
+		case 'project':
+		case 'notes':
+		case 'engineer':
+			return field;
+		// The end follows from the start and the length: its problems belong to the length.
+		case 'end':
+			return kind === 'hourly' ? 'hours' : 'kind';
+		default:
+			return null;
+	}
+}
+
+export const actions: Actions = {
+	default: async ({ request, locals, url, getClientAddress }) => {
+		const form = await superValidate<BookForm, BookMessage>(request, zod4(bookFormSchema));
+		// Signed out (a session that ended while choosing): keep every choice through sign-in.
+		if (!locals.user) redirect(303, `/sign-in?next=${encodeURIComponent(bookPath(form.data as BookingChoices))}`);
+		if (!form.valid) return fail(422, { form });
+
+		const { studio } = await getPolicy();
+		const outcome = await createHold(locals.user, requestBody(form.data, studio));
+		if (!outcome.ok) {
+			if (outcome.status === 409) {
+				return message(
+					form,
+					{
+						kind: 'taken',
+						text:
+							outcome.taken === 'room'
+								? 'That time was just taken. These starts nearby still fit the same booking:'
+								: outcome.message,
+						nearestStarts: outcome.nearestStarts.map((iso) => wallClock(iso, studio.timeZone))
+					},
+					{ status: 409 }
+				);
+			}
+			const general: string[] = [];
+			for (const [field, messages] of Object.entries(outcome.fields)) {
+				const target = formField(field, form.data.kind);
+				if (target) setError(form, target, messages);
+				else general.push(...messages);
+			}
+			return message(form, { kind: 'error', text: general.join(' ') || outcome.message }, { status: 422 });
+		}
+
+		const booking = outcome.booking;
+		await audit({
+			actorId: locals.user.id,
+			action: 'booking.held',
+			entity: 'booking',
+			entityId: booking.id,
+			ip: getClientAddress()
+		});
+		const checkout = await startDepositCheckout(booking.id, url.origin).catch((e: unknown) => {
+			// The hold stands; the booking page offers the deposit payment again.
+			console.warn('[book] could not start the deposit checkout', (e as Error).message);
+			return null;
+		});
+		redirect(303, checkout?.url ?? `/bookings/${booking.id}`);
+	}
+};

@@ -1,0 +1,58 @@
+import { listForViewer } from '$lib/server/bookings';
+import { requireRole } from '$lib/server/guard';
+import { getStudio, listRooms } from '$lib/server/studio';
+import { BOOKING_STATUSES, type BookingStatus } from '$lib/server/db/schema';
+import { localDayBounds } from '$lib/domain/availability';
+import { YMD_RE } from '$lib/components/booking/choices';
+import type { PageServerLoad } from './$types';
+
+const isStatus = (s: string): s is BookingStatus => (BOOKING_STATUSES as readonly string[]).includes(s);
+const validDate = (s: string | null) => (s && YMD_RE.test(s) && !Number.isNaN(Date.parse(s)) ? s : '');
+
+export const load: PageServerLoad = async ({ locals, url }) => {
+	const owner = requireRole(locals, 'owner');
+	const [studio, rooms] = await Promise.all([getStudio(), listRooms({ includeInactive: true })]);
+	const tz = studio.timeZone;
+
+	const status = url.searchParams.getAll('status').filter(isStatus);
+	const room = rooms.some((r) => r.slug === url.searchParams.get('room')) ? url.searchParams.get('room')! : '';
+	let from = validDate(url.searchParams.get('from'));
+	let to = validDate(url.searchParams.get('to'));
+	if (from && to && to < from) [from, to] = [to, from];
+	const q = (url.searchParams.get('q') ?? '').trim().slice(0, 100);
+
+	// Local dates of the studio, both ends included: from its midnight to the midnight after `to`.
+	const rows = await listForViewer(owner, {
+		status: status.length ? status : undefined,
+		from: from ? localDayBounds(from, tz).start : undefined,
+		to: to ? localDayBounds(to, tz).end : undefined
+	});
+	const needle = q.toLowerCase();
+	const bookings = rows
+		.filter((b) => !room || b.roomSlug === room)
+		.filter((b) => !needle || [b.reference, b.artistName, b.project].some((v) => v?.toLowerCase().includes(needle)))
+		.map((b) => ({
+			id: b.id,
+			reference: b.reference,
+			status: b.status,
+			// A hold whose time ran out frees the slot even before the sweep marks it expired.
+			holdLapsed: b.status === 'held' && !!b.holdExpiresAt && b.holdExpiresAt.getTime() <= Date.now(),
+			startsAt: b.startsAt,
+			endsAt: b.endsAt,
+			roomName: b.roomName,
+			artistName: b.artistName,
+			project: b.project,
+			engineer: !!b.engineerId,
+			currency: b.currency,
+			total: b.total,
+			deposit: b.deposit
+		}));
+
+	return {
+		filters: { status, room, from, to, q },
+		rooms: rooms.map((r) => ({ slug: r.slug, name: r.name })),
+		statuses: [...BOOKING_STATUSES],
+		bookings,
+		truncated: rows.length >= 500
+	};
+};
