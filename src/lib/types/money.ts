@@ -1,16 +1,74 @@
-// Shapes shared by the server and the pages about a booking's money.
-/** What the booking page shows about money: payments, refunds, invoices and what the viewer may do. */
+// Shapes shared by the server and the pages about a booking's money. Amounts are integer minor
+// units of `currency`; instants are ISO 8601 strings.
+
+export type PaymentKind = 'deposit' | 'balance';
+
+export interface MoneyPanelPayment {
+	id: string;
+	kind: PaymentKind;
+	amount: number;
+	/** 'open', 'processing', 'paid', 'failed', 'expired' */
+	status: string;
+	paidAt: string | null;
+	createdAt: string;
+}
+
+export interface MoneyPanelRefund {
+	id: string;
+	amount: number;
+	/** 'pending', 'succeeded', 'failed' */
+	status: string;
+	/** 'cancellation', 'slot_unavailable', 'cancelled_before_payment', 'duplicate' */
+	reason: string;
+	/** Stripe's reason, shown to the owner only. */
+	failureReason: string | null;
+	/** A failed refund nobody has tried again yet. */
+	unresolved: boolean;
+	createdAt: string;
+}
+
+export interface MoneyPanelDocument {
+	id: string;
+	number: string;
+	/** UNTDID 1001: 380 invoice, 381 credit note, 386 deposit invoice. */
+	typeCode: number;
+	kind: string;
+	issuedAt: string;
+	/** Total incl. VAT as the customer reads it. */
+	total: number;
+	amountDue: number;
+	pdfUrl: string;
+}
+
+/** What the booking page shows about money: payments, refunds, documents and what the viewer may do. */
 export interface MoneyPanelData {
 	bookingId: string;
 	status: string;
 	currency: string;
+	timeZone: string;
+	viewerRole: 'owner' | 'engineer' | 'accountant' | 'artist';
+	/** The quoted total and deposit. */
 	total: number;
 	deposit: number;
+	/** Σ paid payments; Σ refunds under way or done; what the studio holds. */
 	paid: number;
 	refunded: number;
-	due: number;
-	checkoutUrl: string | null;
-	actions: { payDeposit: boolean; payBalance: boolean; cancel: boolean; recordEnd: boolean };
-	invoices: { id: string; number: string; kind: string; gross: number; pdfUrl: string }[];
+	held: number;
+	/** From the final invoice once the session is closed. */
+	invoicedTotal: number | null;
+	balanceDue: number | null;
+	/** A delayed deposit payment is on its way. */
+	awaitingPayment: boolean;
+	payments: MoneyPanelPayment[];
+	refunds: MoneyPanelRefund[];
+	invoices: MoneyPanelDocument[];
+	actions: {
+		/** checkoutUrl: the open Checkout page, when one is ready. */
+		payDeposit: { amount: number; checkoutUrl: string | null } | null;
+		payBalance: { amount: number; checkoutUrl: string | null } | null;
+		cancel: { refund: number; rule: string; noticeHours: number; paid: number } | null;
+		/** bookedEnd: a datetime-local value in the studio's zone. */
+		recordEnd: { bookedEnd: string; gear: { id: string; name: string; booked: boolean; hireFee: number }[] } | null;
+		retryRefunds: boolean;
+	};
 }
-

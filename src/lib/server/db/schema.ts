@@ -18,7 +18,8 @@ import {
 	index,
 	primaryKey,
 	check,
-	serial
+	serial,
+	type AnyPgColumn
 } from 'drizzle-orm/pg-core';
 import { user } from './auth-schema';
 import type { CancellationRung, OpeningHours } from '$lib/domain/types';
@@ -257,10 +258,22 @@ export const payment = pgTable(
 		checkoutUrl: text('checkout_url'),
 		paymentIntentId: text('payment_intent_id'),
 		paidAt: ts('paid_at'),
+		/** Checkout attempt of this booking and kind: part of the Stripe Idempotency-Key. */
+		attempt: integer('attempt').notNull().default(1),
+		/** The Checkout Session's expires_at, fixed when the row is made so a retried create sends the same params. */
+		expiresAt: ts('expires_at'),
+		failureReason: text('failure_reason'),
 		createdAt: created(),
 		updatedAt: updated()
 	},
-	(t) => [index('payment_booking_idx').on(t.bookingId), check('payment_amount', sql`${t.amount} > 0`)]
+	(t) => [
+		index('payment_booking_idx').on(t.bookingId),
+		uniqueIndex('payment_booking_kind_attempt_idx').on(t.bookingId, t.kind, t.attempt),
+		index('payment_status_idx').on(t.status),
+		check('payment_amount', sql`${t.amount} > 0`),
+		check('payment_kind_known', sql`${t.kind} in ('deposit','balance')`),
+		check('payment_status_known', sql`${t.status} in ('open','processing','paid','failed','expired')`)
+	]
 );
 
 export const refund = pgTable(
@@ -277,10 +290,25 @@ export const refund = pgTable(
 		status: text('status').notNull().default('pending'),
 		stripeRefundId: text('stripe_refund_id').unique(),
 		failureReason: text('failure_reason'),
+		/**
+		 * Why the money goes back: 'cancellation' (the policy's refund), 'slot_unavailable' (a late
+		 * deposit for a slot that was freed and taken), 'cancelled_before_payment', 'duplicate'.
+		 */
+		reason: text('reason').notNull().default('cancellation'),
+		/** Sent as Stripe's Idempotency-Key: a double click or a retry makes one refund. */
+		idempotencyKey: text('idempotency_key').unique(),
+		requestedBy: text('requested_by').references(() => user.id),
+		/** When the refund request reached Stripe (null: not sent yet; the payments job retries). */
+		sentAt: ts('sent_at'),
 		createdAt: created(),
 		updatedAt: updated()
 	},
-	(t) => [check('refund_amount', sql`${t.amount} >= 0`)]
+	(t) => [
+		index('refund_booking_idx').on(t.bookingId),
+		index('refund_status_idx').on(t.status),
+		check('refund_amount', sql`${t.amount} >= 0`),
+		check('refund_status_known', sql`${t.status} in ('pending','succeeded','failed')`)
+	]
 );
 
 /** Each Stripe event id is handled once (deliveries are at least once). */
@@ -320,7 +348,8 @@ export const invoice = pgTable(
 		/** UNTDID 1001: 386 prepayment (deposit) invoice, 380 invoice, 381 credit note. */
 		typeCode: integer('type_code').notNull(),
 		bookingId: uuid('booking_id').references(() => booking.id),
-		precedingInvoiceId: uuid('preceding_invoice_id'),
+		/** EN 16931 BT-25: the invoice a credit note corrects, or the deposit invoice a final invoice deducts. */
+		precedingInvoiceId: uuid('preceding_invoice_id').references((): AnyPgColumn => invoice.id),
 		issuedAt: ts('issued_at').notNull(),
 		supplyDate: date('supply_date'),
 		supplier: jsonb('supplier').notNull(),
@@ -331,13 +360,25 @@ export const invoice = pgTable(
 		gross: money('gross').notNull(),
 		prepaid: money('prepaid').notNull().default(0),
 		rounding: money('rounding').notNull().default(0),
+		/** Line amounts are shown incl. VAT (a rate card with VAT in, or money received or refunded). */
+		amountsIncludeVat: boolean('amounts_include_vat').notNull().default(true),
 		amountDue: money('amount_due').notNull(),
 		vatBreakdown: jsonb('vat_breakdown').$type<VatBreakdownRow[]>().notNull(),
+		/** On a final invoice: the VAT breakdown of the deposit invoice it deducts (already declared there). */
+		prepaidVatBreakdown: jsonb('prepaid_vat_breakdown').$type<VatBreakdownRow[]>().notNull().default(sql`'[]'::jsonb`),
+		/** BT-106 sum of line nets and BT-109 taxable total, kept as issued. */
+		lineNetTotal: money('line_net_total').notNull().default(0),
+		/** One document per business fact: 'deposit:<payment id>', 'final:<booking id>', 'credit:<refund id>'. */
+		sourceKey: text('source_key').unique(),
+		paymentId: uuid('payment_id').references(() => payment.id),
+		refundId: uuid('refund_id').references(() => refund.id),
 		note: text('note').notNull().default(''),
 		createdAt: created()
 	},
 	(t) => [
 		uniqueIndex('invoice_series_number_idx').on(t.series, t.year, t.number),
+		check('invoice_type_known', sql`${t.typeCode} in (380, 381, 386)`),
+		check('invoice_number_positive', sql`${t.number} > 0`),
 		index('invoice_issued_idx').on(t.issuedAt),
 		index('invoice_booking_idx').on(t.bookingId)
 	]
@@ -356,7 +397,12 @@ export const invoiceLine = pgTable(
 		unitCode: text('unit_code').notNull().default('C62'),
 		unitPriceNet: money('unit_price_net').notNull(),
 		net: money('net').notNull(),
-		vatRateBp: integer('vat_rate_bp').notNull()
+		vatRateBp: integer('vat_rate_bp').notNull(),
+		/** 'room', 'engineer', 'surcharge', 'gear', 'overtime', 'deposit', 'refund'. */
+		kind: text('kind').notNull().default(''),
+		/** Price of one unit and the line amount as the rate card shows them (incl. VAT when prices include it). */
+		unitAmount: money('unit_amount').notNull().default(0),
+		amount: money('amount').notNull().default(0)
 	},
 	(t) => [uniqueIndex('invoice_line_position_idx').on(t.invoiceId, t.position)]
 );

@@ -1,14 +1,20 @@
-// Payments through Stripe Checkout. Deposit checkout for a held booking.
-export async function startDepositCheckout(_bookingId: string, _origin: string): Promise<{ url: string; sessionId: string } | null> {
-	return null;
+// Payments through Stripe Checkout: deposits, balances, refunds and the webhook that confirms
+// them. The booking routes and the booking page use these entry points.
+import { registerPaymentJobs } from './jobs';
+import { startCheckout } from './checkout';
+
+registerPaymentJobs();
+
+/** Creates (or hands back the open) Checkout Session for a held booking's deposit. */
+export async function startDepositCheckout(bookingId: string, origin: string): Promise<{ url: string; sessionId: string }> {
+	return startCheckout(bookingId, 'deposit', origin);
 }
 
-import type { MoneyPanelData } from '$lib/types/money';
-export type { MoneyPanelData };
-
-export async function loadMoneyPanel(
-	_viewer: import('../auth').SessionUser,
-	_booking: { id: string; status: string; currency: string; total: number; deposit: number }
-): Promise<MoneyPanelData | null> {
-	return null;
-}
+export { startCheckout, CheckoutError, type CheckoutKind } from './checkout';
+export { loadMoneyPanel } from './panel';
+export { cancelBooking, previewCancellation, retryFailedRefunds, cancelAccess } from './refunds';
+export { closeBooking } from './close';
+export { processStripeEvent } from './webhook';
+export { onBookingConfirmed } from './state';
+export { registerPaymentJobs } from './jobs';
+export type { MoneyPanelData } from '$lib/types/money';

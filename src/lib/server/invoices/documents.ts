@@ -1,0 +1,265 @@
+// The three documents a booking can carry, built from what the database holds and issued in the
+// caller's transaction (no SvelteKit imports: tests issue with their own handle):
+//
+// - deposit invoice, UNTDID 1001 code 386, when a deposit is received: Directive 2006/112/EC,
+//   Article 65 makes VAT chargeable on a payment on account when it is received;
+// - final invoice, code 380, when the session is closed: every line of the quote plus overtime
+//   and gear added on the day, the deposit shown as paid (EN 16931 BT-113) and referred to
+//   (BT-25), amount due = gross − paid + rounding (BR-CO-16);
+// - credit note, code 381, when a refund has gone through: positive amounts (the type says they
+//   are credited), referring to the invoice it corrects (BT-25; Article 219).
+//
+// Each is issued once per business fact (invoice.source_key), so a webhook delivered twice or two
+// events carrying one payment never make a second document.
+import { and, eq, inArray } from 'drizzle-orm';
+import { booking, invoice, payment, refund, room, studio, user } from '../db/schema';
+import { findBySource, issueDocument, type InvoiceRow, type Party, type Tx } from './issue';
+import {
+	DOCUMENT_TYPE,
+	documentTotals,
+	grossByRate,
+	linesFromPriceLines,
+	lumpSumLines,
+	payableTotal,
+	type DocumentLineInput,
+	type VatRow
+} from '$lib/domain/invoice';
+import type { PriceLine, Quote } from '$lib/domain/pricing';
+import { formatDate, formatMoney, formatTime } from '$lib/format';
+
+type StudioRow = typeof studio.$inferSelect;
+
+export function supplierOf(s: StudioRow): Party {
+	return { name: s.name, addressLines: s.addressLines, country: s.country, vatId: s.vatId, email: s.email };
+}
+
+export function localYmd(instant: Date, timeZone: string): string {
+	return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(instant);
+}
+
+async function studioOf(tx: Tx): Promise<StudioRow> {
+	const [row] = await tx.select().from(studio).where(eq(studio.id, 1));
+	if (!row) throw new Error('The studio is not set up yet: run the seed.');
+	return row;
+}
+
+export interface BookingForDocuments {
+	id: string;
+	reference: string;
+	startsAt: Date;
+	endsAt: Date;
+	currency: string;
+	quote: Quote;
+	roomName: string;
+	customer: Party;
+}
+
+export async function bookingForDocuments(tx: Tx, bookingId: string): Promise<BookingForDocuments> {
+	const [row] = await tx
+		.select({
+			id: booking.id,
+			reference: booking.reference,
+			startsAt: booking.startsAt,
+			endsAt: booking.endsAt,
+			currency: booking.currency,
+			quote: booking.quote,
+			roomName: room.name,
+			artistName: user.name,
+			artistEmail: user.email
+		})
+		.from(booking)
+		.innerJoin(room, eq(room.id, booking.roomId))
+		.innerJoin(user, eq(user.id, booking.artistId))
+		.where(eq(booking.id, bookingId));
+	if (!row) throw new Error(`no booking ${bookingId}`);
+	return {
+		...row,
+		quote: row.quote as Quote,
+		// Article 226(5): the customer's full name; Slateroom keeps no postal address of artists.
+		customer: { name: row.artistName, email: row.artistEmail, addressLines: [] }
+	};
+}
+
+/** "Live room, Tuesday 2 March 2027, 10:00–15:00 (booking HP-7K3QX)". */
+export function sessionWords(
+	b: Pick<BookingForDocuments, 'roomName' | 'startsAt' | 'endsAt' | 'reference'>,
+	timeZone: string
+): string {
+	return `${b.roomName}, ${formatDate(b.startsAt, timeZone)}, ${formatTime(b.startsAt, timeZone)}–${formatTime(b.endsAt, timeZone)} (booking ${b.reference})`;
+}
+
+/** The deposit invoice (386) for a paid deposit payment; the existing one if already issued. */
+export async function issueDepositInvoice(tx: Tx, input: { paymentId: string; issuedAt?: Date }): Promise<InvoiceRow> {
+	const sourceKey = `deposit:${input.paymentId}`;
+	const existing = await findBySource(tx, sourceKey);
+	if (existing) return existing;
+	const [pay] = await tx.select().from(payment).where(eq(payment.id, input.paymentId));
+	if (!pay || pay.status !== 'paid') throw new Error(`payment ${input.paymentId} is not paid`);
+	const [s, b] = await Promise.all([studioOf(tx), bookingForDocuments(tx, pay.bookingId)]);
+	const tz = s.timeZone;
+	const paidAt = pay.paidAt ?? new Date();
+	const lines = lumpSumLines(pay.amount, 'deposit', `Deposit on account for ${sessionWords(b, tz)}`, grossByRate(b.quote.vat));
+	// Money received is an amount incl. VAT; it is paid in full, so nothing is due (BR-CO-16).
+	const totals = documentTotals(lines, { currency: pay.currency, amountsIncludeVat: true, prepaid: pay.amount });
+	const { invoice: row } = await issueDocument(tx, {
+		typeCode: DOCUMENT_TYPE.prepayment,
+		issuedAt: input.issuedAt,
+		timeZone: tz,
+		supplyDate: localYmd(paidAt, tz),
+		supplier: supplierOf(s),
+		customer: b.customer,
+		bookingId: b.id,
+		paymentId: pay.id,
+		sourceKey,
+		totals,
+		note:
+			`Payment on account of ${formatMoney(pay.amount, pay.currency)} received on ${formatDate(paidAt, tz)} by card. ` +
+			'VAT is due on a payment on account when it is received (Directive 2006/112/EC, Article 65); ' +
+			'the invoice issued after the session deducts it.'
+	});
+	return row;
+}
+
+/** Deposit invoices of a booking and what is left of them after credit notes: the prepaid amount and its VAT. */
+async function prepaidOf(tx: Tx, bookingId: string) {
+	const docs = await tx
+		.select()
+		.from(invoice)
+		.where(
+			and(eq(invoice.bookingId, bookingId), inArray(invoice.typeCode, [DOCUMENT_TYPE.prepayment, DOCUMENT_TYPE.creditNote]))
+		);
+	const deposits = docs.filter((d) => d.typeCode === DOCUMENT_TYPE.prepayment);
+	const depositIds = new Set(deposits.map((d) => d.id));
+	const credits = docs.filter(
+		(d) => d.typeCode === DOCUMENT_TYPE.creditNote && d.precedingInvoiceId && depositIds.has(d.precedingInvoiceId)
+	);
+	let amount = 0;
+	const vat = new Map<number, VatRow>();
+	const add = (rows: readonly VatRow[], sign: number) => {
+		for (const g of rows) {
+			const r = vat.get(g.rateBp) ?? { rateBp: g.rateBp, base: 0, amount: 0 };
+			r.base += sign * g.base;
+			r.amount += sign * g.amount;
+			vat.set(g.rateBp, r);
+		}
+	};
+	for (const d of deposits) {
+		amount += payableTotal(d);
+		add(d.vatBreakdown, 1);
+	}
+	for (const c of credits) {
+		amount -= payableTotal(c);
+		add(c.vatBreakdown, -1);
+	}
+	return { amount, vat: [...vat.values()].filter((r) => r.base !== 0 || r.amount !== 0), deposits };
+}
+
+export interface FinalInvoiceInput {
+	bookingId: string;
+	/** Overtime lines from the pricing engine (overtimeCharge), if any. */
+	overtimeLines?: readonly Omit<PriceLine, 'net'>[];
+	/** Gear hire lines added on the day, from the pricing engine. */
+	extraLines?: readonly Omit<PriceLine, 'net'>[];
+	issuedAt?: Date;
+}
+
+/** The final invoice (380) of a booking; the existing one if already issued. */
+export async function issueFinalInvoice(tx: Tx, input: FinalInvoiceInput): Promise<InvoiceRow> {
+	const sourceKey = `final:${input.bookingId}`;
+	const existing = await findBySource(tx, sourceKey);
+	if (existing) return existing;
+	const [s, b] = await Promise.all([studioOf(tx), bookingForDocuments(tx, input.bookingId)]);
+	const tz = s.timeZone;
+	const prepaid = await prepaidOf(tx, b.id);
+	const lines: DocumentLineInput[] = linesFromPriceLines([
+		...b.quote.lines,
+		...(input.overtimeLines ?? []),
+		...(input.extraLines ?? [])
+	]);
+	const totals = documentTotals(lines, {
+		currency: b.currency,
+		amountsIncludeVat: b.quote.pricesIncludeVat,
+		prepaid: prepaid.amount
+	});
+	const depositWords = prepaid.deposits.length
+		? `Paid on account: ${prepaid.deposits.map((d) => `${d.displayNumber} (${formatMoney(payableTotal(d), d.currency)})`).join(', ')}; ` +
+			'the VAT on it was declared on that deposit invoice. '
+		: '';
+	const { invoice: row } = await issueDocument(tx, {
+		typeCode: DOCUMENT_TYPE.invoice,
+		issuedAt: input.issuedAt,
+		timeZone: tz,
+		supplyDate: localYmd(b.startsAt, tz),
+		supplier: supplierOf(s),
+		customer: b.customer,
+		bookingId: b.id,
+		precedingInvoiceId: prepaid.deposits[0]?.id ?? null,
+		sourceKey,
+		totals,
+		prepaidVat: prepaid.vat,
+		note: `Session: ${sessionWords(b, tz)}. ${depositWords}Amount due: ${formatMoney(totals.amountDue, b.currency)}.`
+	});
+	return row;
+}
+
+const REFUND_WORDS: Record<string, string> = {
+	cancellation: 'refund after cancellation',
+	slot_unavailable: 'refund: the slot was no longer free when the payment arrived',
+	cancelled_before_payment: 'refund: the booking was cancelled before the payment arrived',
+	duplicate: 'refund of a second payment'
+};
+
+/**
+ * The credit note (381) for a refund that has gone through, referring to the invoice of the
+ * refunded payment; null when that payment was never invoiced (then nothing needs correcting).
+ */
+export async function issueCreditNote(tx: Tx, input: { refundId: string; issuedAt?: Date }): Promise<InvoiceRow | null> {
+	const sourceKey = `credit:${input.refundId}`;
+	const existing = await findBySource(tx, sourceKey);
+	if (existing) return existing;
+	const [r] = await tx.select().from(refund).where(eq(refund.id, input.refundId));
+	if (!r || r.status !== 'succeeded' || r.amount <= 0 || !r.paymentId) return null;
+	const [pay] = await tx.select().from(payment).where(eq(payment.id, r.paymentId));
+	if (!pay) return null;
+	const [preceding] =
+		pay.kind === 'deposit'
+			? await tx
+					.select()
+					.from(invoice)
+					.where(eq(invoice.sourceKey, `deposit:${pay.id}`))
+			: await tx
+					.select()
+					.from(invoice)
+					.where(eq(invoice.sourceKey, `final:${pay.bookingId}`));
+	if (!preceding) return null;
+	const [s, b] = await Promise.all([studioOf(tx), bookingForDocuments(tx, pay.bookingId)]);
+	const tz = s.timeZone;
+	const issuedAt = input.issuedAt ?? new Date();
+	const what = REFUND_WORDS[r.reason] ?? 'refund';
+	const lines = lumpSumLines(
+		r.amount,
+		'refund',
+		`${what.charAt(0).toUpperCase()}${what.slice(1)}, ${sessionWords(b, tz)}`,
+		grossByRate(preceding.vatBreakdown)
+	);
+	// The refund has been paid out already: shown as paid, nothing left to settle (BR-CO-16).
+	const totals = documentTotals(lines, { currency: r.currency, amountsIncludeVat: true, prepaid: r.amount });
+	const { invoice: row } = await issueDocument(tx, {
+		typeCode: DOCUMENT_TYPE.creditNote,
+		issuedAt,
+		timeZone: tz,
+		supplyDate: localYmd(issuedAt, tz),
+		supplier: supplierOf(s),
+		customer: preceding.customer as Party,
+		bookingId: b.id,
+		precedingInvoiceId: preceding.id,
+		paymentId: pay.id,
+		refundId: r.id,
+		sourceKey,
+		totals,
+		note:
+			`Credit note for ${preceding.displayNumber} of ${formatDate(preceding.issuedAt, tz)}: ${formatMoney(r.amount, r.currency)} ` +
+			'refunded to the card that paid. It reduces the taxable amount of that invoice (Directive 2006/112/EC, Articles 90 and 219).'
+	});
+	return row;
+}

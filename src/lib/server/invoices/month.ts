@@ -1,0 +1,236 @@
+// A month of the books, for the accountant and the owner: the documents issued in it, the
+// payments received and refunds made in it, what is still owed, refunds that failed, and VAT by
+// rate (ledger.ts). Months are calendar months in the studio's zone.
+import { TZDate } from '@date-fns/tz';
+import { addMonths, format } from 'date-fns';
+import { and, asc, eq, gte, inArray, lt } from 'drizzle-orm';
+import { db } from '../db';
+import { booking, invoice, payment, refund, user } from '../db/schema';
+import { documentKindLabel, payableTotal, vatLedger, type LedgerRow } from '$lib/domain/invoice';
+import { unresolvedFailures } from '../payments/state';
+
+export const MONTH_PATTERN = /^\d{4}-(0[1-9]|1[0-2])$/;
+
+export function monthRange(month: string, timeZone: string): { from: Date; to: Date; prev: string; next: string } {
+	const [y, m] = month.split('-').map(Number) as [number, number];
+	const from = new TZDate(y, m - 1, 1, timeZone);
+	const to = addMonths(from, 1);
+	return {
+		from: new Date(from.getTime()),
+		to: new Date(to.getTime()),
+		prev: format(addMonths(from, -1), 'yyyy-MM'),
+		next: format(to, 'yyyy-MM')
+	};
+}
+
+export function currentMonth(timeZone: string): string {
+	return format(TZDate.tz(timeZone), 'yyyy-MM');
+}
+
+export interface MonthReport {
+	month: string;
+	currency: string;
+	documents: {
+		id: string;
+		number: string;
+		typeCode: number;
+		kind: string;
+		issuedAt: string;
+		bookingId: string | null;
+		bookingReference: string | null;
+		customer: string;
+		precedingNumber: string | null;
+		net: number;
+		vat: number;
+		gross: number;
+		rounding: number;
+		total: number;
+		prepaid: number;
+		amountDue: number;
+		currency: string;
+		pdfUrl: string;
+	}[];
+	payments: {
+		id: string;
+		bookingId: string;
+		bookingReference: string;
+		artist: string;
+		kind: string;
+		amount: number;
+		paidAt: string;
+		currency: string;
+	}[];
+	refunds: {
+		id: string;
+		bookingId: string;
+		bookingReference: string;
+		artist: string;
+		amount: number;
+		status: string;
+		reason: string;
+		failureReason: string | null;
+		createdAt: string;
+		currency: string;
+	}[];
+	/** Failed refunds not yet tried again, whatever their month: to resolve. */
+	failedRefunds: MonthReport['refunds'];
+	/** Final invoices issued up to the end of the month whose balance is not paid (as of now). */
+	outstanding: {
+		bookingId: string;
+		bookingReference: string;
+		artist: string;
+		invoiceNumber: string;
+		amountDue: number;
+		paid: number;
+		owed: number;
+		currency: string;
+	}[];
+	vatByRate: LedgerRow[];
+	/** invoiced: final invoices (380); deposits: deposit invoices (386, deducted again on the 380s); credited: credit notes (381). */
+	totals: { invoiced: number; deposits: number; credited: number; received: number; refunded: number; owed: number; vat: number };
+}
+
+export async function monthReport(month: string, timeZone: string, currency: string): Promise<MonthReport> {
+	const { from, to } = monthRange(month, timeZone);
+	const [docs, paid, refunds, failedAll, finals] = await Promise.all([
+		db
+			.select({ doc: invoice, reference: booking.reference })
+			.from(invoice)
+			.leftJoin(booking, eq(booking.id, invoice.bookingId))
+			.where(and(gte(invoice.issuedAt, from), lt(invoice.issuedAt, to)))
+			.orderBy(asc(invoice.issuedAt), asc(invoice.displayNumber)),
+		db
+			.select({ p: payment, reference: booking.reference, artist: user.name })
+			.from(payment)
+			.innerJoin(booking, eq(booking.id, payment.bookingId))
+			.innerJoin(user, eq(user.id, booking.artistId))
+			.where(and(eq(payment.status, 'paid'), gte(payment.paidAt, from), lt(payment.paidAt, to)))
+			.orderBy(asc(payment.paidAt)),
+		db
+			.select({ r: refund, reference: booking.reference, artist: user.name })
+			.from(refund)
+			.innerJoin(booking, eq(booking.id, refund.bookingId))
+			.innerJoin(user, eq(user.id, booking.artistId))
+			.where(and(gte(refund.createdAt, from), lt(refund.createdAt, to)))
+			.orderBy(asc(refund.createdAt)),
+		db
+			.select({ r: refund, reference: booking.reference, artist: user.name })
+			.from(refund)
+			.innerJoin(booking, eq(booking.id, refund.bookingId))
+			.innerJoin(user, eq(user.id, booking.artistId))
+			.where(inArray(refund.bookingId, db.select({ id: refund.bookingId }).from(refund).where(eq(refund.status, 'failed')))),
+		db
+			.select({ doc: invoice, reference: booking.reference, artist: user.name })
+			.from(invoice)
+			.innerJoin(booking, eq(booking.id, invoice.bookingId))
+			.innerJoin(user, eq(user.id, booking.artistId))
+			.where(and(eq(invoice.typeCode, 380), lt(invoice.issuedAt, to)))
+	]);
+	const byId = new Map(docs.map((d) => [d.doc.id, d.doc.displayNumber]));
+	const precedingIds = docs.map((d) => d.doc.precedingInvoiceId).filter((x): x is string => !!x && !byId.has(x));
+	if (precedingIds.length) {
+		for (const p of await db
+			.select({ id: invoice.id, n: invoice.displayNumber })
+			.from(invoice)
+			.where(inArray(invoice.id, precedingIds)))
+			byId.set(p.id, p.n);
+	}
+
+	const balancePaid = finals.length
+		? await db
+				.select({ bookingId: payment.bookingId, amount: payment.amount })
+				.from(payment)
+				.where(
+					and(
+						eq(payment.kind, 'balance'),
+						eq(payment.status, 'paid'),
+						inArray(
+							payment.bookingId,
+							finals.map((f) => f.doc.bookingId!)
+						)
+					)
+				)
+		: [];
+	const outstanding = finals
+		.map((f) => {
+			const got = balancePaid.filter((p) => p.bookingId === f.doc.bookingId).reduce((s, p) => s + p.amount, 0);
+			return {
+				bookingId: f.doc.bookingId!,
+				bookingReference: f.reference,
+				artist: f.artist,
+				invoiceNumber: f.doc.displayNumber,
+				amountDue: f.doc.amountDue,
+				paid: got,
+				owed: f.doc.amountDue - got,
+				currency: f.doc.currency
+			};
+		})
+		.filter((o) => o.owed > 0);
+
+	const refundRow = (x: { r: typeof refund.$inferSelect; reference: string; artist: string }) => ({
+		id: x.r.id,
+		bookingId: x.r.bookingId,
+		bookingReference: x.reference,
+		artist: x.artist,
+		amount: x.r.amount,
+		status: x.r.status,
+		reason: x.r.reason,
+		failureReason: x.r.failureReason,
+		createdAt: x.r.createdAt.toISOString(),
+		currency: x.r.currency
+	});
+	const unresolved = new Set(unresolvedFailures(failedAll.map((x) => x.r)).map((r) => r.id));
+
+	const documents = docs.map(({ doc: d, reference }) => ({
+		id: d.id,
+		number: d.displayNumber,
+		typeCode: d.typeCode,
+		kind: documentKindLabel(d.typeCode),
+		issuedAt: d.issuedAt.toISOString(),
+		bookingId: d.bookingId,
+		bookingReference: reference,
+		customer: (d.customer as { name?: string }).name ?? '',
+		precedingNumber: d.precedingInvoiceId ? (byId.get(d.precedingInvoiceId) ?? null) : null,
+		net: d.net,
+		vat: d.vatTotal,
+		gross: d.gross,
+		rounding: d.rounding,
+		total: payableTotal(d),
+		prepaid: d.prepaid,
+		amountDue: d.amountDue,
+		currency: d.currency,
+		pdfUrl: `/invoices/${d.id}/pdf`
+	}));
+	const vatByRate = vatLedger(
+		docs.map(({ doc: d }) => ({ typeCode: d.typeCode, vat: d.vatBreakdown, prepaidVat: d.prepaidVatBreakdown }))
+	);
+	const refundRows = refunds.map(refundRow);
+	return {
+		month,
+		currency,
+		documents,
+		payments: paid.map(({ p, reference, artist }) => ({
+			id: p.id,
+			bookingId: p.bookingId,
+			bookingReference: reference,
+			artist,
+			kind: p.kind,
+			amount: p.amount,
+			paidAt: p.paidAt!.toISOString(),
+			currency: p.currency
+		})),
+		refunds: refundRows,
+		failedRefunds: failedAll.filter((x) => unresolved.has(x.r.id)).map(refundRow),
+		outstanding,
+		vatByRate,
+		totals: {
+			invoiced: documents.filter((d) => d.typeCode === 380).reduce((s, d) => s + d.total, 0),
+			deposits: documents.filter((d) => d.typeCode === 386).reduce((s, d) => s + d.total, 0),
+			credited: documents.filter((d) => d.typeCode === 381).reduce((s, d) => s + d.total, 0),
+			received: paid.reduce((s, x) => s + x.p.amount, 0),
+			refunded: refundRows.filter((r) => r.status === 'succeeded').reduce((s, r) => s + r.amount, 0),
+			owed: outstanding.reduce((s, o) => s + o.owed, 0),
+			vat: vatByRate.reduce((s, r) => s + r.vat, 0)
+		}
+	};
+}

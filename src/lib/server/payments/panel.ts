@@ -1,0 +1,154 @@
+// What the booking page shows about money, scoped to the viewer (OWASP ASVS 8.2.2): the artist
+// sees their own booking's payments, refunds and documents; the owner also sees why a refund
+// failed and may try it again; the owner and engineers record the end of a session.
+import { and, asc, eq } from 'drizzle-orm';
+import { z } from 'zod';
+import { db } from '../db';
+import { booking, bookingGear, gearItem, invoice } from '../db/schema';
+import { getStudio } from '../studio';
+import type { SessionUser } from '../auth';
+import { loadMoneyState } from './core';
+import { unresolvedFailures } from './state';
+import { cancelAccess, isCancellable, previewCancellation } from './refunds';
+import { documentKindLabel, payableTotal } from '$lib/domain/invoice';
+import type { MoneyPanelData } from '$lib/types/money';
+
+/** A datetime-local value ('2027-03-02T15:00') of an instant in a zone. */
+export function localInputValue(instant: Date, timeZone: string): string {
+	const parts = Object.fromEntries(
+		new Intl.DateTimeFormat('en-GB', {
+			timeZone,
+			year: 'numeric',
+			month: '2-digit',
+			day: '2-digit',
+			hour: '2-digit',
+			minute: '2-digit',
+			hourCycle: 'h23'
+		})
+			.formatToParts(instant)
+			.map((p) => [p.type, p.value])
+	);
+	return `${parts.year}-${parts.month}-${parts.day}T${parts.hour}:${parts.minute}`;
+}
+
+const OPEN_LINK_MARGIN_MS = 60_000;
+
+export async function loadMoneyPanel(
+	viewer: SessionUser,
+	b: { id: string; status?: string; currency?: string; total?: number; deposit?: number }
+): Promise<MoneyPanelData | null> {
+	if (!z.uuid().safeParse(b.id).success) return null;
+	const [row] = await db.select().from(booking).where(eq(booking.id, b.id));
+	if (!row) return null;
+	const isArtist = viewer.role === 'artist';
+	if (isArtist && row.artistId !== viewer.id) return null;
+	const now = new Date();
+	const [studioRow, state, docs] = await Promise.all([
+		getStudio(),
+		loadMoneyState(db, row.id),
+		db.select().from(invoice).where(eq(invoice.bookingId, row.id)).orderBy(asc(invoice.issuedAt))
+	]);
+	const isOwner = viewer.role === 'owner';
+	const mayPay = isOwner || (isArtist && row.artistId === viewer.id);
+	const final = docs.find((d) => d.typeCode === 380);
+	const paidBalance = state.payments.filter((p) => p.kind === 'balance' && p.status === 'paid').reduce((s, p) => s + p.amount, 0);
+	const balanceDue = final ? Math.max(0, final.amountDue - paidBalance) : null;
+	const unresolved = new Set(unresolvedFailures(state.refunds).map((r) => r.id));
+	const openLink = (kind: 'deposit' | 'balance') => {
+		const open = state.payments
+			.filter(
+				(p) =>
+					p.kind === kind &&
+					p.status === 'open' &&
+					p.checkoutUrl &&
+					p.expiresAt &&
+					p.expiresAt.getTime() > now.getTime() + OPEN_LINK_MARGIN_MS
+			)
+			.at(-1);
+		return open?.checkoutUrl ?? null;
+	};
+
+	const depositPaid = state.payments.some((p) => p.kind === 'deposit' && (p.status === 'paid' || p.status === 'processing'));
+	const holdLive = row.status === 'held' && (!row.holdExpiresAt || row.holdExpiresAt > now);
+	const canCancel = mayPay && isCancellable(row.status) && cancelAccess(viewer, row) === 'ok';
+	const preview = canCancel ? await previewCancellation(row, now) : null;
+
+	let recordEnd: MoneyPanelData['actions']['recordEnd'] = null;
+	if ((isOwner || viewer.role === 'engineer') && row.status === 'confirmed') {
+		const [items, booked] = await Promise.all([
+			db
+				.select({ id: gearItem.id, name: gearItem.name, hireFee: gearItem.hireFee, hireable: gearItem.hireable })
+				.from(gearItem)
+				.where(and(eq(gearItem.active, true)))
+				.orderBy(asc(gearItem.name)),
+			db.select({ id: bookingGear.gearItemId }).from(bookingGear).where(eq(bookingGear.bookingId, row.id))
+		]);
+		const bookedIds = new Set(booked.map((g) => g.id));
+		recordEnd = {
+			bookedEnd: localInputValue(row.endsAt, studioRow.timeZone),
+			gear: items.map((g) => ({ id: g.id, name: g.name, booked: bookedIds.has(g.id), hireFee: g.hireable ? g.hireFee : 0 }))
+		};
+	}
+
+	return {
+		bookingId: row.id,
+		status: row.status,
+		currency: row.currency,
+		timeZone: studioRow.timeZone,
+		viewerRole: viewer.role,
+		total: row.total,
+		deposit: row.deposit,
+		paid: state.paid,
+		refunded: state.refunded,
+		held: state.held,
+		invoicedTotal: final ? payableTotal(final) : null,
+		balanceDue,
+		awaitingPayment: state.payments.some((p) => p.kind === 'deposit' && p.status === 'processing'),
+		payments: state.payments
+			.filter((p) => p.status !== 'open' || p.checkoutSessionId)
+			.map((p) => ({
+				id: p.id,
+				kind: p.kind === 'balance' ? 'balance' : 'deposit',
+				amount: p.amount,
+				status: p.status,
+				paidAt: p.paidAt?.toISOString() ?? null,
+				createdAt: p.createdAt.toISOString()
+			})),
+		refunds: state.refunds.map((r) => ({
+			id: r.id,
+			amount: r.amount,
+			status: r.status,
+			reason: r.reason,
+			failureReason: isOwner ? r.failureReason : null,
+			unresolved: unresolved.has(r.id),
+			createdAt: r.createdAt.toISOString()
+		})),
+		invoices: docs.map((d) => ({
+			id: d.id,
+			number: d.displayNumber,
+			typeCode: d.typeCode,
+			kind: documentKindLabel(d.typeCode),
+			issuedAt: d.issuedAt.toISOString(),
+			total: payableTotal(d),
+			amountDue: d.amountDue,
+			pdfUrl: `/invoices/${d.id}/pdf`
+		})),
+		actions: {
+			payDeposit:
+				mayPay && holdLive && !depositPaid && row.deposit > 0 ? { amount: row.deposit, checkoutUrl: openLink('deposit') } : null,
+			payBalance:
+				mayPay &&
+				row.status === 'completed' &&
+				balanceDue !== null &&
+				balanceDue > 0 &&
+				!state.payments.some((p) => p.kind === 'balance' && p.status === 'processing')
+					? { amount: balanceDue, checkoutUrl: openLink('balance') }
+					: null,
+			cancel: preview
+				? { refund: preview.refund, rule: preview.rule, noticeHours: preview.noticeHours, paid: preview.paid }
+				: null,
+			recordEnd,
+			retryRefunds: isOwner && unresolved.size > 0
+		}
+	};
+}

@@ -1,0 +1,261 @@
+// Cancelling a booking and refunding by the policy, and sending refunds to Stripe.
+//
+// The refund is decided and recorded in the transaction that cancels (under the booking's row
+// lock, so a double click cancels once and records one refund), then sent to Stripe after commit
+// with an Idempotency-Key from the booking and the payment (Stripe docs, "Idempotent requests").
+// Stripe may answer `pending` and fail later (refund.failed): the refund row follows what Stripe
+// says (state.ts), a credit note is issued only once the money has gone back, and a failed refund
+// stays visible to the owner and the accountant until someone tries again.
+import { and, eq, isNull, isNotNull, lt } from 'drizzle-orm';
+import { db } from '../db';
+import { payment, refund } from '../db/schema';
+import { getPolicy } from '../studio';
+import type { SessionUser } from '../auth';
+import { inTransaction, loadMoneyState, lockBooking, setBookingStatus, type BookingRow, type RefundRow } from './core';
+import { applyRefundObject, auditTx, queueRefund, unresolvedFailures } from './state';
+import { expireSession } from './checkout';
+import { stripe } from './stripe';
+import { refundForCancellation } from '$lib/domain/pricing';
+import { toStripeAmount } from '$lib/domain/money';
+
+export const CANCELLABLE = ['held', 'pending', 'confirmed'] as const;
+
+export function isCancellable(status: string): boolean {
+	return (CANCELLABLE as readonly string[]).includes(status);
+}
+
+/** Who may cancel: the booking's artist and the owner (PRODUCT.md, public API). */
+export function cancelAccess(actor: SessionUser, b: Pick<BookingRow, 'artistId'>): 'ok' | 'not_found' | 'forbidden' {
+	if (actor.role === 'owner') return 'ok';
+	if (actor.role === 'artist') return b.artistId === actor.id ? 'ok' : 'not_found';
+	return 'forbidden';
+}
+
+export interface CancellationPreview {
+	cancellable: boolean;
+	status: string;
+	/** What would be refunded now, minor units. */
+	refund: number;
+	currency: string;
+	/** Notice from now to the start, hours (2 decimals, floored). */
+	noticeHours: number;
+	/** The rung of the ladder that applies, in words. */
+	rule: string;
+	/** What the studio holds for the booking: paid − refunded. */
+	paid: number;
+}
+
+export async function previewCancellation(b: BookingRow, now = new Date()): Promise<CancellationPreview> {
+	const [{ policy }, state] = await Promise.all([getPolicy(), loadMoneyState(db, b.id)]);
+	const r = refundForCancellation({ paid: state.held, deposit: b.deposit, bookingStart: b.startsAt, cancelledAt: now, policy });
+	return {
+		cancellable: isCancellable(b.status),
+		status: b.status,
+		refund: r.refund,
+		currency: b.currency,
+		noticeHours: r.noticeHours,
+		rule: r.rungLabel,
+		paid: state.held
+	};
+}
+
+export type CancelOutcome =
+	| { ok: true; already: boolean; preview: CancellationPreview; refunds: RefundRow[] }
+	| { ok: false; status: 404 | 403 | 409; code: string; message: string };
+
+export async function cancelBooking(
+	actor: SessionUser,
+	bookingId: string,
+	input: { reason?: string } = {},
+	now = new Date()
+): Promise<CancelOutcome> {
+	const { policy } = await getPolicy();
+	const result = await inTransaction<CancelOutcome>(async (tx, after) => {
+		const b = await lockBooking(tx, bookingId);
+		if (!b) return { ok: false, status: 404, code: 'not_found', message: 'No such booking.' };
+		const access = cancelAccess(actor, b);
+		if (access === 'not_found') return { ok: false, status: 404, code: 'not_found', message: 'No such booking.' };
+		if (access === 'forbidden')
+			return { ok: false, status: 403, code: 'forbidden', message: 'Only the artist or the owner may cancel.' };
+		const state = await loadMoneyState(tx, b.id);
+		if (b.status === 'cancelled') {
+			// A second click: the first one decided everything.
+			const refunded = state.refunds.filter((r) => r.reason === 'cancellation');
+			const preview: CancellationPreview = {
+				cancellable: false,
+				status: b.status,
+				refund: refunded.filter((r) => r.status !== 'failed').reduce((s, r) => s + r.amount, 0),
+				currency: b.currency,
+				noticeHours: Math.floor((b.startsAt.getTime() - (b.cancelledAt ?? now).getTime()) / 36_000) / 100,
+				rule: 'Already cancelled',
+				paid: state.held
+			};
+			return { ok: true, already: true, preview, refunds: refunded };
+		}
+		if (!isCancellable(b.status)) {
+			const message =
+				b.status === 'completed'
+					? 'This session has taken place; it can no longer be cancelled.'
+					: 'This booking has lapsed already.';
+			return { ok: false, status: 409, code: 'not_cancellable', message };
+		}
+		const r = refundForCancellation({ paid: state.held, deposit: b.deposit, bookingStart: b.startsAt, cancelledAt: now, policy });
+		await setBookingStatus(tx, b.id, 'cancelled', {
+			cancelledAt: now,
+			cancelledBy: actor.id,
+			cancelReason: input.reason?.trim() || null,
+			holdExpiresAt: null
+		});
+		// The refund comes out of the paid payments, the deposit first.
+		const refunds: RefundRow[] = [];
+		let left = r.refund;
+		const paid = state.payments
+			.filter((p) => p.status === 'paid')
+			.sort((a, b2) => (a.kind === b2.kind ? 0 : a.kind === 'deposit' ? -1 : 1));
+		for (const p of paid) {
+			if (left <= 0) break;
+			const part = Math.min(left, state.refundable.get(p.id) ?? 0);
+			if (part <= 0) continue;
+			refunds.push(
+				await queueRefund(tx, after, { booking: b, payment: p, amount: part, reason: 'cancellation', requestedBy: actor.id })
+			);
+			left -= part;
+		}
+		// Nobody should be able to pay for a cancelled booking; if a payment still slips in, it is refunded.
+		for (const p of state.payments) {
+			if (p.status === 'open' && p.checkoutSessionId) {
+				const id = p.checkoutSessionId;
+				after.push(() => expireSession(id));
+			}
+		}
+		await auditTx(tx, 'booking.cancelled', b.id, { refund: r.refund, rule: r.rungLabel, noticeHours: r.noticeHours }, actor.id);
+		const preview: CancellationPreview = {
+			cancellable: false,
+			status: 'cancelled',
+			refund: r.refund,
+			currency: b.currency,
+			noticeHours: r.noticeHours,
+			rule: r.rungLabel,
+			paid: state.held
+		};
+		return { ok: true, already: false, preview, refunds };
+	});
+	if (!result.ok || result.refunds.length === 0) return result;
+	// After commit the refunds have been sent: report them as they stand now.
+	const fresh = await db.select().from(refund).where(eq(refund.bookingId, bookingId));
+	const ids = new Set(result.refunds.map((r) => r.id));
+	return { ...result, refunds: fresh.filter((r) => ids.has(r.id)) };
+}
+
+/** The owner tries failed refunds of a booking again (each with a new Idempotency-Key). */
+export async function retryFailedRefunds(actor: SessionUser, bookingId: string): Promise<{ ok: boolean; retried: number }> {
+	if (actor.role !== 'owner') return { ok: false, retried: 0 };
+	const retried = await inTransaction(async (tx, after) => {
+		const b = await lockBooking(tx, bookingId);
+		if (!b) return 0;
+		const state = await loadMoneyState(tx, b.id);
+		let n = 0;
+		for (const failed of unresolvedFailures(state.refunds)) {
+			if (!failed.paymentId) continue;
+			const amount = Math.min(failed.amount, state.refundable.get(failed.paymentId) ?? 0);
+			if (amount <= 0) continue;
+			const reason = failed.reason as 'cancellation' | 'slot_unavailable' | 'cancelled_before_payment' | 'duplicate';
+			await queueRefund(tx, after, { booking: b, payment: { id: failed.paymentId }, amount, reason, requestedBy: actor.id });
+			n++;
+		}
+		if (n) await auditTx(tx, 'refund.retried', b.id, { count: n }, actor.id);
+		return n;
+	});
+	return { ok: true, retried };
+}
+
+function isStripeRequestError(e: unknown): e is { type: string; statusCode?: number; message: string; code?: string } {
+	const err = e as { type?: string; statusCode?: number };
+	return (
+		typeof err?.type === 'string' &&
+		['StripeInvalidRequestError', 'StripeCardError'].includes(err.type) &&
+		(err.statusCode ?? 0) >= 400 &&
+		(err.statusCode ?? 0) < 500
+	);
+}
+
+/** Sends one recorded refund to Stripe (idempotent); the payments job retries what could not be sent. */
+export async function sendRefund(refundId: string): Promise<void> {
+	const [row] = await db
+		.select({ refund, paymentIntentId: payment.paymentIntentId, sessionId: payment.checkoutSessionId })
+		.from(refund)
+		.innerJoin(payment, eq(payment.id, refund.paymentId))
+		.where(eq(refund.id, refundId));
+	if (!row || row.refund.stripeRefundId || row.refund.status !== 'pending') return;
+	const r = row.refund;
+	let paymentIntent = row.paymentIntentId;
+	if (!paymentIntent && row.sessionId) {
+		// payment_intent is null on a session until it is paid; the paid session names it.
+		const s = await stripe().checkout.sessions.retrieve(row.sessionId);
+		paymentIntent = typeof s.payment_intent === 'string' ? s.payment_intent : (s.payment_intent?.id ?? null);
+	}
+	if (!paymentIntent) {
+		await markSendFailed(r, 'The payment to refund was not found at Stripe.');
+		return;
+	}
+	try {
+		const created = await stripe().refunds.create(
+			{
+				payment_intent: paymentIntent,
+				amount: toStripeAmount(r.amount, r.currency),
+				reason: r.reason === 'duplicate' ? 'duplicate' : 'requested_by_customer',
+				metadata: { bookingId: r.bookingId, refundId: r.id, paymentId: r.paymentId ?? '', reason: r.reason }
+			},
+			{ idempotencyKey: r.idempotencyKey ?? `slateroom-refund-${r.id}` }
+		);
+		await inTransaction((tx) => applyRefundObject(tx, created));
+	} catch (e) {
+		// Stripe refused the request itself (already refunded, too large…): no retry will change that.
+		if (isStripeRequestError(e)) await markSendFailed(r, e.message);
+		else throw e;
+	}
+}
+
+async function markSendFailed(r: RefundRow, reason: string) {
+	await inTransaction(async (tx) => {
+		await lockBooking(tx, r.bookingId);
+		const [updated] = await tx
+			.update(refund)
+			.set({ status: 'failed', failureReason: reason.slice(0, 500) })
+			.where(and(eq(refund.id, r.id), eq(refund.status, 'pending'), isNull(refund.stripeRefundId)))
+			.returning({ id: refund.id });
+		if (updated) await auditTx(tx, 'refund.failed', r.bookingId, { refundId: r.id, reason });
+	});
+}
+
+/** Refunds recorded but not sent (a crash or an outage after commit), and pending ones Stripe went quiet about. */
+export async function sweepRefunds(now = new Date()): Promise<void> {
+	const unsent = await db
+		.select({ id: refund.id })
+		.from(refund)
+		.where(
+			and(eq(refund.status, 'pending'), isNull(refund.stripeRefundId), lt(refund.createdAt, new Date(now.getTime() - 10_000)))
+		)
+		.limit(20);
+	for (const { id } of unsent) await sendRefund(id);
+	const quiet = await db
+		.select({ stripeRefundId: refund.stripeRefundId })
+		.from(refund)
+		.where(
+			and(
+				eq(refund.status, 'pending'),
+				isNotNull(refund.stripeRefundId),
+				lt(refund.updatedAt, new Date(now.getTime() - 5 * 60_000))
+			)
+		)
+		.limit(20);
+	for (const { stripeRefundId } of quiet) {
+		const r = await stripe().refunds.retrieve(stripeRefundId!);
+		await inTransaction((tx) => applyRefundObject(tx, r));
+		// Still pending at Stripe: ask again in five minutes, not on every tick.
+		await db
+			.update(refund)
+			.set({ updatedAt: now })
+			.where(and(eq(refund.stripeRefundId, stripeRefundId!), eq(refund.status, 'pending')));
+	}
+}

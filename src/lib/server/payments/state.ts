@@ -1,0 +1,317 @@
+// What a payment fact does to a booking. Called from the webhook (and the payments job when it
+// reconciles), always inside a transaction that holds the booking's row lock, and written so
+// that a fact applied twice, or two events carrying one fact, or facts in any order end in one
+// state (Stripe docs, "Webhooks": delivery at least once, in no guaranteed order):
+//
+// - a payment only moves forward: open → processing → paid, open/processing → failed or expired;
+//   nothing moves a paid payment back, so `expired` after `completed` changes nothing;
+// - a booking is confirmed once, by its first paid deposit, and issues one deposit invoice;
+// - a deposit that arrives for a booking that can no longer take it (the hold ran out and the slot
+//   was taken, the booking was cancelled, or a deposit was already paid) is refunded in full,
+//   automatically. Whether a freed slot is still free is for the exclusion constraints to say.
+import { and, eq, isNull, sql } from 'drizzle-orm';
+import { auditLog, booking, invoice, payment, refund } from '../db/schema';
+import { issueCreditNote, issueDepositInvoice } from '../invoices/documents';
+import {
+	HOLDING_STATUSES,
+	isLiveDeposit,
+	lockBooking,
+	paymentsOf,
+	pgCode,
+	refundsOf,
+	setBookingStatus,
+	type AfterCommit,
+	type BookingRow,
+	type PaymentRow,
+	type RefundRow,
+	type Tx
+} from './core';
+import type Stripe from 'stripe';
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+type ConfirmationListener = (tx: Tx, bookingId: string) => Promise<void>;
+const confirmationListeners: ConfirmationListener[] = [];
+
+/**
+ * Other modules (the confirmation e-mail, for one) run inside the transaction that confirms a
+ * booking, so their work is made exactly once with the confirmation (e.g. an email_outbox row).
+ */
+export function onBookingConfirmed(listener: ConfirmationListener) {
+	confirmationListeners.push(listener);
+}
+
+// Late imports of sending functions would make a cycle; the sender registers itself here.
+let refundSender: ((refundId: string) => Promise<void>) | null = null;
+let sessionExpirer: ((sessionId: string) => Promise<void>) | null = null;
+export function setSenders(senders: { refund: (id: string) => Promise<void>; expireSession: (id: string) => Promise<void> }) {
+	refundSender = senders.refund;
+	sessionExpirer = senders.expireSession;
+}
+
+export async function auditTx(tx: Tx, action: string, bookingId: string, data: unknown, actorId: string | null = null) {
+	await tx.insert(auditLog).values({ actorId, action, entity: 'booking', entityId: bookingId, data: data ?? null });
+}
+
+function paymentIntentOf(session: Pick<Stripe.Checkout.Session, 'payment_intent'>): string | null {
+	const pi = session.payment_intent;
+	if (!pi) return null;
+	return typeof pi === 'string' ? pi : pi.id;
+}
+
+/** The payment row of a Checkout Session: by session id, else by the paymentId we put in its metadata. */
+async function paymentForSession(tx: Tx, session: Stripe.Checkout.Session): Promise<PaymentRow | undefined> {
+	const [bySession] = await tx.select().from(payment).where(eq(payment.checkoutSessionId, session.id));
+	if (bySession) return bySession;
+	const paymentId = session.metadata?.paymentId;
+	const bookingId = session.metadata?.bookingId;
+	if (!paymentId || !UUID.test(paymentId) || !bookingId || !UUID.test(bookingId)) return undefined;
+	const [byMeta] = await tx
+		.select()
+		.from(payment)
+		.where(and(eq(payment.id, paymentId), eq(payment.bookingId, bookingId), isNull(payment.checkoutSessionId)));
+	return byMeta;
+}
+
+export type SessionFact = 'completed' | 'async_succeeded' | 'async_failed' | 'expired';
+
+/** Applies what a Checkout Session event says; returns a word for the log and the webhook's answer. */
+export async function applySession(
+	tx: Tx,
+	session: Stripe.Checkout.Session,
+	fact: SessionFact,
+	after: AfterCommit
+): Promise<string> {
+	const found = await paymentForSession(tx, session);
+	if (!found) return 'unknown_session';
+	const b = await lockBooking(tx, found.bookingId);
+	if (!b) return 'unknown_booking';
+	const [p] = await tx.select().from(payment).where(eq(payment.id, found.id)).for('update');
+	if (!p) return 'unknown_session';
+	if (!p.checkoutSessionId) {
+		await tx
+			.update(payment)
+			.set({ checkoutSessionId: session.id, checkoutUrl: session.url ?? null })
+			.where(eq(payment.id, p.id));
+	}
+	switch (fact) {
+		case 'completed':
+			// Checkout fulfilment (Stripe docs): a completed session may still be unpaid for delayed methods.
+			if (session.payment_status === 'paid' || session.payment_status === 'no_payment_required') {
+				return markPaid(tx, b, p, session, after);
+			}
+			return markProcessing(tx, b, p);
+		case 'async_succeeded':
+			return markPaid(tx, b, p, session, after);
+		case 'async_failed':
+			return markEnded(tx, b, p, 'failed', 'The delayed payment failed.');
+		case 'expired':
+			return markEnded(tx, b, p, 'expired', null);
+	}
+}
+
+async function markPaid(
+	tx: Tx,
+	b: BookingRow,
+	p: PaymentRow,
+	session: Stripe.Checkout.Session,
+	after: AfterCommit
+): Promise<string> {
+	if (p.status === 'paid') return 'already_paid';
+	const [paid] = await tx
+		.update(payment)
+		.set({
+			status: 'paid',
+			paidAt: new Date(),
+			paymentIntentId: paymentIntentOf(session) ?? p.paymentIntentId,
+			failureReason: null
+		})
+		.where(eq(payment.id, p.id))
+		.returning();
+	await auditTx(tx, `payment.${p.kind}.paid`, b.id, { paymentId: p.id, amount: p.amount, session: session.id });
+	return p.kind === 'deposit' ? depositArrived(tx, b, paid!, after) : balanceArrived(tx, b, paid!, after);
+}
+
+/** Tries to put a freed booking back in the calendar; false when its slot has gone (SQLSTATE 23P01). */
+async function revive(tx: Tx, bookingId: string, status: 'confirmed' | 'pending'): Promise<boolean> {
+	try {
+		await tx.transaction(async (sp) => {
+			await sp.update(booking).set({ status, holdExpiresAt: null }).where(eq(booking.id, bookingId));
+		});
+		return true;
+	} catch (e) {
+		if (pgCode(e).code === '23P01') return false;
+		throw e;
+	}
+}
+
+async function depositArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: AfterCommit): Promise<string> {
+	const otherPaid = (await paymentsOf(tx, b.id)).some((x) => x.kind === 'deposit' && x.status === 'paid' && x.id !== p.id);
+	if (otherPaid || b.status === 'confirmed' || b.status === 'completed') {
+		await queueRefund(tx, after, { booking: b, payment: p, amount: p.amount, reason: 'duplicate' });
+		return 'refunded_duplicate';
+	}
+	if (b.status === 'cancelled') {
+		await queueRefund(tx, after, { booking: b, payment: p, amount: p.amount, reason: 'cancelled_before_payment' });
+		return 'refunded_cancelled';
+	}
+	if (b.status === 'expired') {
+		// The hold ran out before the payment came (a Checkout Session lives at least 30 minutes).
+		if (!(await revive(tx, b.id, 'confirmed'))) {
+			await queueRefund(tx, after, { booking: b, payment: p, amount: p.amount, reason: 'slot_unavailable' });
+			await auditTx(tx, 'booking.late_payment_refunded', b.id, { paymentId: p.id });
+			return 'refunded_slot_unavailable';
+		}
+		await auditTx(tx, 'booking.confirmed_late', b.id, { paymentId: p.id });
+	} else {
+		await setBookingStatus(tx, b.id, 'confirmed', { holdExpiresAt: null });
+	}
+	await confirmed(tx, b, p, after);
+	return 'confirmed';
+}
+
+async function confirmed(tx: Tx, b: BookingRow, p: PaymentRow, after: AfterCommit) {
+	await issueDepositInvoice(tx, { paymentId: p.id });
+	await auditTx(tx, 'booking.confirmed', b.id, { paymentId: p.id });
+	for (const listener of confirmationListeners) await listener(tx, b.id);
+	// Other open deposit sessions of this booking can no longer be wanted.
+	for (const other of await paymentsOf(tx, b.id)) {
+		if (other.kind === 'deposit' && other.status === 'open' && other.checkoutSessionId && other.id !== p.id) {
+			const id = other.checkoutSessionId;
+			after.push(() => sessionExpirer?.(id) ?? Promise.resolve());
+		}
+	}
+}
+
+async function balanceArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: AfterCommit): Promise<string> {
+	const [final] = await tx
+		.select()
+		.from(invoice)
+		.where(eq(invoice.sourceKey, `final:${b.id}`));
+	const paidBalance = (await paymentsOf(tx, b.id))
+		.filter((x) => x.kind === 'balance' && x.status === 'paid')
+		.reduce((s, x) => s + x.amount, 0);
+	const over = paidBalance - (final?.amountDue ?? 0);
+	if (over > 0) {
+		await queueRefund(tx, after, { booking: b, payment: p, amount: Math.min(over, p.amount), reason: 'duplicate' });
+		return 'refunded_overpayment';
+	}
+	return 'balance_paid';
+}
+
+async function markProcessing(tx: Tx, b: BookingRow, p: PaymentRow): Promise<string> {
+	if (p.status !== 'open') return `already_${p.status}`;
+	await tx.update(payment).set({ status: 'processing' }).where(eq(payment.id, p.id));
+	if (p.kind === 'deposit') {
+		// A delayed method (bank debit): the slot stays the artist's while the money is on its way.
+		if (b.status === 'held') await setBookingStatus(tx, b.id, 'pending', { holdExpiresAt: null });
+		else if (b.status === 'expired') await revive(tx, b.id, 'pending'); // if the slot has gone, the settled payment is refunded
+	}
+	return 'processing';
+}
+
+async function markEnded(
+	tx: Tx,
+	b: BookingRow,
+	p: PaymentRow,
+	status: 'failed' | 'expired',
+	reason: string | null
+): Promise<string> {
+	if (p.status === 'paid' || p.status === 'failed' || p.status === 'expired') return `already_${p.status}`;
+	await tx.update(payment).set({ status, failureReason: reason }).where(eq(payment.id, p.id));
+	if (p.kind === 'deposit' && HOLDING_STATUSES.includes(b.status)) {
+		const live = (await paymentsOf(tx, b.id)).some((x) => x.id !== p.id && isLiveDeposit(x));
+		if (!live) {
+			// The deposit did not come: the slot goes back to the calendar.
+			await setBookingStatus(tx, b.id, 'expired');
+			await auditTx(tx, 'booking.expired_unpaid', b.id, { paymentId: p.id, status });
+			return `${status}_booking_expired`;
+		}
+	}
+	return status;
+}
+
+export interface QueueRefund {
+	booking: Pick<BookingRow, 'id' | 'currency'>;
+	payment: Pick<PaymentRow, 'id'>;
+	amount: number;
+	reason: 'cancellation' | 'slot_unavailable' | 'cancelled_before_payment' | 'duplicate';
+	requestedBy?: string | null;
+}
+
+/**
+ * Records a refund to make and sends it after commit. Its Idempotency-Key comes from the booking,
+ * the payment and how many refunds that payment already has: the same click or retry makes one
+ * refund at Stripe; a deliberate new attempt (after a failure) makes a new one.
+ */
+export async function queueRefund(tx: Tx, after: AfterCommit, r: QueueRefund): Promise<RefundRow> {
+	const [{ n } = { n: 0 }] = await tx
+		.select({ n: sql<number>`count(*)::int` })
+		.from(refund)
+		.where(eq(refund.paymentId, r.payment.id));
+	const [row] = await tx
+		.insert(refund)
+		.values({
+			bookingId: r.booking.id,
+			paymentId: r.payment.id,
+			amount: r.amount,
+			currency: r.booking.currency,
+			status: 'pending',
+			reason: r.reason,
+			requestedBy: r.requestedBy ?? null,
+			idempotencyKey: `slateroom-refund-${r.booking.id}-${r.payment.id}-${n + 1}`
+		})
+		.returning();
+	after.push(() => refundSender?.(row!.id) ?? Promise.resolve());
+	return row!;
+}
+
+/** Applies what Stripe says about a refund (its create answer, refund.created/updated/failed). */
+export async function applyRefundObject(
+	tx: Tx,
+	r: Pick<Stripe.Refund, 'id' | 'status' | 'metadata' | 'failure_reason'>
+): Promise<string> {
+	let [row] = await tx.select().from(refund).where(eq(refund.stripeRefundId, r.id));
+	if (!row) {
+		const refundId = r.metadata?.refundId;
+		if (!refundId || !UUID.test(refundId)) return 'unknown_refund';
+		[row] = await tx
+			.select()
+			.from(refund)
+			.where(and(eq(refund.id, refundId), isNull(refund.stripeRefundId)));
+		if (!row) return 'unknown_refund';
+	}
+	await lockBooking(tx, row.bookingId);
+	const [cur] = await tx.select().from(refund).where(eq(refund.id, row.id)).for('update');
+	if (!cur) return 'unknown_refund';
+	if (!cur.stripeRefundId) {
+		await tx
+			.update(refund)
+			.set({ stripeRefundId: r.id, sentAt: cur.sentAt ?? new Date() })
+			.where(eq(refund.id, cur.id));
+	}
+	const target = r.status === 'succeeded' ? 'succeeded' : r.status === 'failed' || r.status === 'canceled' ? 'failed' : 'pending';
+	// A failed refund is final (Stripe docs, "Refunds": refund.failed); pending never overwrites an outcome.
+	if (cur.status === 'failed' || target === 'pending' || target === cur.status) return `refund_${cur.status}`;
+	if (target === 'succeeded') {
+		await tx.update(refund).set({ status: 'succeeded', failureReason: null }).where(eq(refund.id, cur.id));
+		const note = await issueCreditNote(tx, { refundId: cur.id });
+		await auditTx(tx, 'refund.succeeded', cur.bookingId, { refundId: cur.id, creditNote: note?.displayNumber ?? null });
+		return note ? 'refund_succeeded_credit_note' : 'refund_succeeded';
+	}
+	await tx
+		.update(refund)
+		.set({ status: 'failed', failureReason: r.failure_reason ?? 'failed' })
+		.where(eq(refund.id, cur.id));
+	await auditTx(tx, 'refund.failed', cur.bookingId, { refundId: cur.id, reason: r.failure_reason ?? null });
+	return 'refund_failed';
+}
+
+/** Failed refunds nobody has tried again yet (no later refund of the same payment): to resolve. */
+export function unresolvedFailures(refunds: readonly RefundRow[]): RefundRow[] {
+	return refunds.filter(
+		(r) => r.status === 'failed' && !refunds.some((o) => o.paymentId === r.paymentId && o.createdAt > r.createdAt)
+	);
+}
+
+export { refundsOf };

@@ -1,0 +1,16 @@
+// POST (owner): tries the booking's failed refunds again, each with a new Idempotency-Key.
+import { json } from '@sveltejs/kit';
+import { apiError } from '$lib/server/api';
+import { retryFailedRefunds } from '$lib/server/payments';
+import { backToBooking, readInput, unauthenticated } from '$lib/server/payments/http';
+import type { RequestHandler } from './$types';
+
+export const POST: RequestHandler = async ({ locals, params, request }) => {
+	if (!locals.user) return unauthenticated();
+	if (locals.user.role !== 'owner') return apiError(403, 'forbidden', 'Only the owner may retry a refund.');
+	const read = await readInput(request);
+	if (!read.ok) return read.response;
+	const result = await retryFailedRefunds(locals.user, params.id);
+	if (read.input.isForm) backToBooking(params.id, result.retried ? 'refund-retried' : 'refund-nothing');
+	return json({ retried: result.retried });
+};

@@ -1,0 +1,633 @@
+// Payments over real HTTP: the app, the Stripe fake (fake-services/stripe) over real sockets with
+// signed webhooks, and the real database. Rules checked, by source:
+// - Stripe docs, "Webhooks": signature HMAC-SHA256 over "<t>.<raw body>", 300 s tolerance;
+//   delivery at least once, in no guaranteed order; non-2xx is retried; handlers deduplicate on
+//   the event id and on the business key (the session id).
+// - Stripe docs, "Fulfill orders": fulfil on checkout.session.completed with payment_status paid,
+//   or on async_payment_succeeded; never on the success page.
+// - Stripe docs, "Idempotent requests" and "Refunds": one session and one refund per click;
+//   a refund can fail after it was created (refund.failed).
+// - PRODUCT.md: deposit 30 % rounded up to whole euros, at least 50.00; cancellation with 7 days'
+//   notice or more refunds the whole deposit, 48 hours to 7 days half.
+// - Directive 2006/112/EC Article 65 (deposit invoice on receipt), Article 219 and UNTDID 1001
+//   (credit note 381 referring to the invoice it corrects, EN 16931 BT-25).
+import { afterAll, describe, expect, it } from 'vitest';
+import { and, eq, sql } from 'drizzle-orm';
+import Stripe from 'stripe';
+import { Client, signedIn } from '../support/http';
+import { APP_URL, DEMO, STRIPE_API_BASE } from '../support/env';
+import { testDb } from '../support/db';
+import * as t from '../../src/lib/server/db/schema';
+import { publicHolidayChecker } from '../../src/lib/domain/holidays';
+
+const { db, client } = testDb();
+afterAll(() => client.end());
+
+const WEBHOOK_SECRET = process.env.STRIPE_WEBHOOK_SECRET ?? 'whsec_slateroom_test';
+const fakeUrl = new URL(STRIPE_API_BASE);
+const stripe = new Stripe('sk_test_payments_spec', { host: fakeUrl.hostname, port: Number(fakeUrl.port), protocol: 'http' });
+
+// ---- helpers ---------------------------------------------------------------------------------
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+async function waitFor<T>(check: () => Promise<T | undefined | null | false>, what: string, ms = 10_000): Promise<T> {
+	const until = Date.now() + ms;
+	for (;;) {
+		const v = await check();
+		if (v !== undefined && v !== null && v !== false) return v;
+		if (Date.now() > until) throw new Error(`timed out after ${ms} ms waiting for ${what}`);
+		await sleep(100);
+	}
+}
+
+async function control(path: string, body?: unknown) {
+	const res = await fetch(`${STRIPE_API_BASE}/_control${path}`, {
+		method: body === undefined ? 'GET' : 'POST',
+		headers: { 'content-type': 'application/json' },
+		body: body === undefined ? undefined : JSON.stringify(body)
+	});
+	return { status: res.status, body: (await res.json()) as Record<string, unknown> };
+}
+
+interface Delivery {
+	eventId: string;
+	type: string;
+	statusCode: number | null;
+	kind: string;
+	signature: string;
+}
+async function deliveries(eventId: string): Promise<Delivery[]> {
+	const { body } = await control(`/deliveries?event=${eventId}`);
+	return body.data as Delivery[];
+}
+
+const finnishHoliday = publicHolidayChecker('FI');
+
+/** A working weekday 100–170 days ahead (far from anyone else's tests, no surcharge), as a local date. */
+function farWeekday(minDays = 100, spread = 70): string {
+	for (;;) {
+		const d = new Date(Date.now() + (minDays + Math.floor(Math.random() * spread)) * 86_400_000);
+		const ymd = d.toISOString().slice(0, 10);
+		const day = d.getUTCDay();
+		if (day !== 0 && day !== 6 && !finnishHoliday(ymd)) return ymd;
+	}
+}
+
+interface Booked {
+	id: string;
+	status: string;
+	checkoutUrl: string;
+	sessionId: string;
+	quote: { total: number; deposit: number; gross: number };
+	start: string;
+	end: string;
+}
+
+/** Half days on a weekday that no surcharge touches (the turnaround fits between them). */
+const HALF_DAYS: [string, string][] = [
+	['09:00', '13:00'],
+	['13:30', '17:30']
+];
+
+/** Books a half day as `who` on a free far weekday; a taken slot tries another. */
+async function book(who: Client, room = 'vocal-booth', when: () => string = farWeekday, hours?: [string, string]): Promise<Booked> {
+	for (let attempt = 0; attempt < 30; attempt++) {
+		const ymd = when();
+		const [from, to] = hours ?? HALF_DAYS[attempt % HALF_DAYS.length]!;
+		const start = `${ymd}T${from}`;
+		const end = `${ymd}T${to}`;
+		const res = await who.json('/api/bookings', { room, start, end });
+		if (res.status === 409) continue;
+		const body = (await res.json()) as Omit<Booked, 'sessionId' | 'start' | 'end'>;
+		expect(res.status, JSON.stringify(body)).toBe(201);
+		expect(body.checkoutUrl).toMatch(/\/pay\/cs_test_/);
+		return { ...body, sessionId: body.checkoutUrl.split('/pay/')[1]!, start, end };
+	}
+	throw new Error('no free slot found');
+}
+
+/** A local 'YYYY-MM-DDTHH:mm' plus minutes (same day). */
+function plusMinutes(local: string, minutes: number): string {
+	const [date, time] = local.split('T') as [string, string];
+	const [h, m] = time.split(':').map(Number) as [number, number];
+	const total = h * 60 + m + minutes;
+	return `${date}T${String(Math.floor(total / 60)).padStart(2, '0')}:${String(total % 60).padStart(2, '0')}`;
+}
+
+async function bookingRow(id: string) {
+	const [row] = await db.select().from(t.booking).where(eq(t.booking.id, id));
+	return row!;
+}
+
+const waitStatus = (id: string, status: string, ms = 10_000) =>
+	waitFor(async () => ((await bookingRow(id)).status === status ? true : undefined), `booking ${id} ${status}`, ms);
+
+async function money(id: string) {
+	const [payments, refunds, invoices, events] = await Promise.all([
+		db.select().from(t.payment).where(eq(t.payment.bookingId, id)),
+		db.select().from(t.refund).where(eq(t.refund.bookingId, id)),
+		db.select().from(t.invoice).where(eq(t.invoice.bookingId, id)),
+		db
+			.select()
+			.from(t.auditLog)
+			.where(and(eq(t.auditLog.entityId, id), eq(t.auditLog.action, 'booking.confirmed')))
+	]);
+	return { payments, refunds, invoices, confirmations: events.length };
+}
+
+/** The checkout.session.completed event of a session, as the fake recorded it. */
+async function completedEventOf(sessionId: string, type = 'checkout.session.completed'): Promise<Stripe.Event> {
+	return waitFor(async () => {
+		const list = await stripe.events.list({ type, limit: 100 });
+		return list.data.find((e) => (e.data.object as { id?: string }).id === sessionId);
+	}, `${type} of ${sessionId}`);
+}
+
+/** Posts an event to the app signed as Stripe signs it (SDK generateTestHeaderString). */
+async function postSigned(event: unknown, opts: { secret?: string; timestamp?: number } = {}) {
+	const payload = JSON.stringify(event);
+	const header = stripe.webhooks.generateTestHeaderString({
+		payload,
+		secret: opts.secret ?? WEBHOOK_SECRET,
+		timestamp: opts.timestamp
+	});
+	const res = await fetch(`${APP_URL}/api/stripe/webhook`, {
+		method: 'POST',
+		headers: { 'content-type': 'application/json', 'stripe-signature': header },
+		body: payload
+	});
+	return { status: res.status, body: (await res.json()) as { duplicate?: boolean; outcome?: string; error?: string } };
+}
+
+/** A copy of a real event under a new id (and any changes), as another delivery path could carry it. */
+const crafted = (e: Stripe.Event, patch: Record<string, unknown> = {}) => ({
+	...e,
+	id: `evt_crafted_${crypto.randomUUID().replaceAll('-', '')}`,
+	...patch
+});
+
+async function payAndConfirm(b: Booked) {
+	const paid = await control(`/sessions/${b.sessionId}/pay`, {});
+	expect(paid.status).toBe(200);
+	await waitStatus(b.id, 'confirmed');
+}
+
+// ---- the deposit -------------------------------------------------------------------------------
+
+describe('deposit through Stripe Checkout', () => {
+	it('holds the slot, opens a Checkout Session with the booking in its metadata, and confirms on the webhook', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await book(artist, 'vocal-booth');
+		expect(b.status).toBe('held');
+		// PRODUCT.md: 30 % of 100.00 = 30.00, at least 50.00.
+		expect(b.quote.deposit).toBe(5000);
+
+		const { body: s } = await control(`/sessions/${b.sessionId}`);
+		const session = s.session as Stripe.Checkout.Session;
+		expect(session.metadata).toMatchObject({ bookingId: b.id, kind: 'deposit' });
+		expect(session.amount_total).toBe(5000);
+		expect(session.currency).toBe('eur');
+		expect(session.customer_email).toBe(DEMO.artist);
+		expect(session.success_url).toBe(`${APP_URL}/bookings/${b.id}?paid=1`);
+		expect(session.payment_intent).toBeNull(); // null until paid (fake README)
+		// Stripe: at least 30 minutes; the hold is 30 minutes, so the session ends just after it.
+		const hold = Date.parse((await bookingRow(b.id)).holdExpiresAt!.toISOString()) / 1000;
+		expect(session.expires_at).toBeGreaterThanOrEqual(Math.floor(hold));
+		expect(session.expires_at - session.created).toBeGreaterThanOrEqual(30 * 60);
+		expect(session.expires_at - session.created).toBeLessThan(32 * 60);
+		const pi = (s.line_items as { description: string }[])[0]!;
+		expect(pi.description).toMatch(/^Deposit for Vocal booth /);
+
+		// Asking again reuses the open session (same Idempotency-Key, one payment row).
+		const again = await artist.json(`/api/bookings/${b.id}/pay`, { kind: 'deposit' });
+		expect(again.status).toBe(200);
+		expect(((await again.json()) as { checkoutUrl: string }).checkoutUrl).toBe(b.checkoutUrl);
+
+		await payAndConfirm(b);
+		const m = await money(b.id);
+		expect(m.payments).toHaveLength(1);
+		expect(m.payments[0]).toMatchObject({ status: 'paid', amount: 5000, kind: 'deposit' });
+		expect(m.payments[0]!.paymentIntentId).toMatch(/^pi_/);
+		expect((await bookingRow(b.id)).holdExpiresAt).toBeNull();
+		// Article 65: the deposit invoice (UNTDID 1001 code 386) is issued on receipt.
+		expect(m.invoices.map((i) => [i.typeCode, i.displayNumber.slice(0, 4), i.gross + i.rounding, i.amountDue])).toEqual([
+			[386, 'DEP-', 5000, 0]
+		]);
+	});
+
+	it('one event delivered 51 times (50 resends, many at once) makes one payment, one confirmation, one invoice', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'control-room');
+		await payAndConfirm(b);
+		const event = await completedEventOf(b.sessionId);
+		for (let batch = 0; batch < 5; batch++) {
+			const sent = await Promise.all(Array.from({ length: 10 }, () => control(`/events/${event.id}/resend`, {})));
+			expect(sent.every((r) => r.status === 202)).toBe(true);
+		}
+		const all = await waitFor(
+			async () => {
+				const d = await deliveries(event.id);
+				return d.length >= 51 && d.every((x) => x.statusCode !== null) ? d : undefined;
+			},
+			'51 deliveries',
+			20_000
+		);
+		expect(all.every((d) => d.statusCode === 200)).toBe(true);
+		const m = await money(b.id);
+		expect(m.payments.filter((p) => p.status === 'paid')).toHaveLength(1);
+		expect(m.invoices).toHaveLength(1);
+		expect(m.confirmations).toBe(1);
+		const recorded = await db.select().from(t.stripeEvent).where(eq(t.stripeEvent.id, event.id));
+		expect(recorded).toHaveLength(1);
+	});
+
+	it('deduplicates by session as well as by event id: other events carrying the same payment change nothing', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'live-room');
+		await payAndConfirm(b);
+		const event = await completedEventOf(b.sessionId);
+
+		// A new event id with the same session (as a second delivery path would carry it).
+		const copy = crafted(event);
+		const first = await postSigned(copy);
+		expect(first).toMatchObject({ status: 200, body: { duplicate: false, outcome: 'already_paid' } });
+		// The same crafted event ten times at once: recorded once, processed once.
+		const again = await Promise.all(Array.from({ length: 10 }, () => postSigned(copy)));
+		expect(again.map((r) => r.status)).toEqual(Array(10).fill(200));
+		expect(again.every((r) => r.body.duplicate === true)).toBe(true);
+		// async_payment_succeeded for the same session: the same fact, once more.
+		const async = await postSigned(crafted(event, { type: 'checkout.session.async_payment_succeeded' }));
+		expect(async.body.outcome).toBe('already_paid');
+		// checkout.session.expired arriving after completed must not un-confirm.
+		const expired = await postSigned(
+			crafted(event, {
+				type: 'checkout.session.expired',
+				data: { object: { ...(event.data.object as object), status: 'expired', url: null } }
+			})
+		);
+		expect(expired.status).toBe(200);
+		expect((await bookingRow(b.id)).status).toBe('confirmed');
+
+		const m = await money(b.id);
+		expect(m.payments.map((p) => p.status)).toEqual(['paid']);
+		expect(m.invoices).toHaveLength(1);
+		expect(m.confirmations).toBe(1);
+	});
+
+	it('events released in reverse order end in the same state as in order', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'vocal-booth');
+		expect((await control('/hold-deliveries', {})).status).toBe(200);
+		try {
+			await control(`/sessions/${b.sessionId}/pay`, {});
+			await sleep(200);
+			expect((await bookingRow(b.id)).status).toBe('held'); // nothing confirmed without the webhook
+		} finally {
+			const released = await control('/release-deliveries?order=reverse', {});
+			expect(released.body.released).toBeGreaterThanOrEqual(4);
+		}
+		await waitStatus(b.id, 'confirmed');
+		const m = await money(b.id);
+		expect(m.payments.map((p) => p.status)).toEqual(['paid']);
+		expect(m.invoices.map((i) => i.typeCode)).toEqual([386]);
+	});
+
+	it('a delayed payment keeps the slot as pending; a stale "completed, unpaid" after the success changes nothing', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'control-room');
+		await control(`/sessions/${b.sessionId}/pay-later`, {});
+		await waitStatus(b.id, 'pending');
+		expect((await money(b.id)).payments[0]!.status).toBe('processing');
+
+		await control('/hold-deliveries', {});
+		try {
+			await control(`/sessions/${b.sessionId}/settle`, {});
+			const completed = await completedEventOf(b.sessionId);
+			// The old "completed, unpaid" event once more, after the success: it must not step back.
+			await control(`/events/${completed.id}/resend`, {});
+			await sleep(100);
+		} finally {
+			await control('/release-deliveries', {});
+		}
+		await waitStatus(b.id, 'confirmed');
+		const m = await money(b.id);
+		expect(m.payments.map((p) => p.status)).toEqual(['paid']);
+		expect(m.invoices).toHaveLength(1);
+		expect(m.confirmations).toBe(1);
+	});
+
+	it('a failed delayed payment frees the slot', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'vocal-booth');
+		await control(`/sessions/${b.sessionId}/pay-later`, {});
+		await waitStatus(b.id, 'pending');
+		await control(`/sessions/${b.sessionId}/settle`, { outcome: 'fail' });
+		await waitStatus(b.id, 'expired');
+		expect((await money(b.id)).payments[0]!.status).toBe('failed');
+		expect((await money(b.id)).invoices).toHaveLength(0);
+	});
+
+	it('an abandoned checkout expires the hold', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'live-room');
+		await control(`/sessions/${b.sessionId}/abandon`, {});
+		await waitStatus(b.id, 'expired');
+		expect((await money(b.id)).payments[0]!.status).toBe('expired');
+	});
+});
+
+// ---- signatures ---------------------------------------------------------------------------------
+
+describe('webhook signatures (Stripe-Signature, 300 s tolerance)', () => {
+	it('refuses a bad signature and a stale one with 400, in the fake’s delivery log', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'control-room');
+		await payAndConfirm(b);
+		const event = await completedEventOf(b.sessionId);
+		await control(`/events/${event.id}/resend`, { signature: 'bad' });
+		await control(`/events/${event.id}/resend`, { timestampOffsetSeconds: -600 });
+		const log = await waitFor(async () => {
+			const d = (await deliveries(event.id)).filter((x) => x.kind === 'resend');
+			return d.length === 2 && d.every((x) => x.statusCode !== null) ? d : undefined;
+		}, 'two resends');
+		expect(log.map((d) => d.statusCode)).toEqual([400, 400]);
+	});
+
+	it('a badly signed or stale event changes nothing; the same event properly signed does', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'vocal-booth');
+		// The fake's own completed event for another, paid session is the template of a "paid" event.
+		const other = await book(await signedIn(DEMO.artist2), 'live-room');
+		await payAndConfirm(other);
+		const template = await completedEventOf(other.sessionId);
+		const { body: s } = await control(`/sessions/${b.sessionId}`);
+		const forged = crafted(template, {
+			data: { object: { ...(s.session as object), status: 'complete', payment_status: 'paid', payment_intent: 'pi_forged' } }
+		});
+
+		const bad = await postSigned(forged, { secret: 'whsec_not_the_secret' });
+		const stale = await postSigned(forged, { timestamp: Math.floor(Date.now() / 1000) - 600 });
+		const unsigned = await fetch(`${APP_URL}/api/stripe/webhook`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/json' },
+			body: JSON.stringify(forged)
+		});
+		expect([bad.status, stale.status, unsigned.status]).toEqual([400, 400, 400]);
+		expect((await bookingRow(b.id)).status).toBe('held');
+		expect(await db.select().from(t.stripeEvent).where(eq(t.stripeEvent.id, forged.id))).toHaveLength(0);
+		expect((await money(b.id)).payments.map((p) => p.status)).toEqual(['open']);
+	});
+});
+
+// ---- failure and retry ---------------------------------------------------------------------------
+
+describe('a failed delivery is retried and processed once', () => {
+	it('answers 500 while the booking row is locked, then processes the retry once', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'control-room');
+		let sawFailure = false;
+		// Hold the booking's row lock in our own transaction: the webhook times out on it (lock_timeout) and answers 500.
+		await db.transaction(async (tx) => {
+			await tx.execute(sql`select id from booking where id = ${b.id} for update`);
+			await control(`/sessions/${b.sessionId}/pay`, {});
+			const event = await completedEventOf(b.sessionId);
+			await waitFor(async () => (await deliveries(event.id)).some((d) => d.statusCode === 500), 'a 500', 15_000);
+			sawFailure = true;
+			expect((await bookingRow(b.id)).status).toBe('held');
+		});
+		expect(sawFailure).toBe(true);
+		await waitStatus(b.id, 'confirmed', 20_000);
+		const event = await completedEventOf(b.sessionId);
+		const log = await deliveries(event.id);
+		expect(log[0]!.statusCode).toBe(500);
+		expect(log.at(-1)!.statusCode).toBe(200);
+		expect(log.slice(1).every((d) => d.kind === 'retry')).toBe(true);
+		const m = await money(b.id);
+		expect(m.payments.map((p) => p.status)).toEqual(['paid']);
+		expect(m.invoices).toHaveLength(1);
+		expect(m.confirmations).toBe(1);
+	}, 40_000);
+});
+
+// ---- late payments for a freed slot --------------------------------------------------------------
+
+describe('a deposit that arrives after the hold ran out', () => {
+	it('confirms when the slot is still free', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'vocal-booth');
+		await control('/hold-deliveries', {});
+		try {
+			await control(`/sessions/${b.sessionId}/pay`, {});
+			// The hold ran out meanwhile (what the hold job does).
+			await db
+				.update(t.booking)
+				.set({ status: 'expired', holdExpiresAt: new Date(Date.now() - 1000) })
+				.where(eq(t.booking.id, b.id));
+		} finally {
+			await control('/release-deliveries', {});
+		}
+		await waitStatus(b.id, 'confirmed');
+		expect((await money(b.id)).invoices.map((i) => i.typeCode)).toEqual([386]);
+	});
+
+	it('refunds in full, automatically, when someone else has taken the slot (the exclusion constraint decides)', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await book(artist, 'live-room');
+		await control('/hold-deliveries', {});
+		let taker: Booked;
+		try {
+			await control(`/sessions/${b.sessionId}/pay`, {});
+			await db
+				.update(t.booking)
+				.set({ status: 'expired', holdExpiresAt: new Date(Date.now() - 1000) })
+				.where(eq(t.booking.id, b.id));
+			const ymd = b.start.slice(0, 10);
+			taker = await book(await signedIn(DEMO.artist2), 'live-room', () => ymd, [b.start.slice(11), b.end.slice(11)]);
+			expect(taker.start).toBe(b.start);
+		} finally {
+			await control('/release-deliveries', {});
+		}
+		const refunded = await waitFor(async () => {
+			const m = await money(b.id);
+			return m.refunds.find((r) => r.status === 'succeeded');
+		}, 'the automatic refund');
+		expect(refunded).toMatchObject({ amount: 5000, reason: 'slot_unavailable' });
+		expect((await bookingRow(b.id)).status).toBe('expired');
+		expect((await bookingRow(taker!.id)).status).toBe('held');
+		const m = await money(b.id);
+		expect(m.payments.map((p) => p.status)).toEqual(['paid']);
+		expect(m.invoices).toHaveLength(0); // never a sale: no deposit invoice, no credit note
+		const refunds = await stripe.refunds.list({ payment_intent: m.payments[0]!.paymentIntentId! });
+		expect(refunds.data.map((r) => [r.amount, r.status])).toEqual([[5000, 'succeeded']]);
+	});
+});
+
+// ---- cancellation and refunds ----------------------------------------------------------------------
+
+/** A two-hour booking `days` (to `days` + 1) ahead at a free hour: close dates meet other tests' bookings. */
+async function bookSoon(who: Client, room: string, days: number): Promise<Booked> {
+	const tries: string[] = [];
+	for (const extra of [0, 1]) {
+		const ymd = new Date(Date.now() + (days + extra) * 86_400_000).toISOString().slice(0, 10);
+		const hours = [10, 12, 14, 16, 11, 13, 15].sort(() => Math.random() - 0.5);
+		for (const h of hours) {
+			const start = `${ymd}T${String(h).padStart(2, '0')}:00`;
+			const end = `${ymd}T${String(h + 2).padStart(2, '0')}:00`;
+			const res = await who.json('/api/bookings', { room, start, end });
+			if (res.status === 201) {
+				const body = (await res.json()) as Omit<Booked, 'sessionId' | 'start' | 'end'>;
+				return { ...body, sessionId: body.checkoutUrl.split('/pay/')[1]!, start, end };
+			}
+			tries.push(`${start} ${res.status}`);
+		}
+	}
+	throw new Error(`no free slot soon: ${tries.join(', ')}`);
+}
+
+describe('cancellation', () => {
+	it('previews, then cancels with 8 days’ notice: the whole deposit back and a credit note', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await bookSoon(artist, 'control-room', 8);
+		await payAndConfirm(b);
+
+		// Who may look: the booking's artist and the owner; another artist 404, the engineer 403, nobody 401.
+		expect((await (await signedIn(DEMO.artist2)).fetch(`/api/bookings/${b.id}/cancellation`)).status).toBe(404);
+		expect((await (await signedIn(DEMO.engineer)).fetch(`/api/bookings/${b.id}/cancellation`)).status).toBe(403);
+		expect((await new Client().fetch(`/api/bookings/${b.id}/cancellation`)).status).toBe(401);
+		expect((await (await signedIn(DEMO.owner)).fetch(`/api/bookings/${b.id}/cancellation`)).status).toBe(200);
+
+		const res = await artist.fetch(`/api/bookings/${b.id}/cancellation`);
+		const preview = (await res.json()) as { refund: number; currency: string; noticeHours: number; rule: string; paid: number };
+		expect(preview.currency).toBe('EUR');
+		expect(preview.paid).toBe(b.quote.deposit);
+		expect(preview.noticeHours).toBeGreaterThanOrEqual(7 * 24); // PRODUCT.md: 7 days or more → whole deposit
+		expect(preview.rule).toMatch(/7 days' notice or more/);
+		expect(preview.refund).toBe(b.quote.deposit);
+
+		// A double click: two cancels at once make one refund at Stripe.
+		const [one, two] = await Promise.all([
+			artist.json(`/api/bookings/${b.id}/cancel`, {}),
+			artist.json(`/api/bookings/${b.id}/cancel`, {})
+		]);
+		expect([one.status, two.status]).toEqual([200, 200]);
+		const bodies = (await Promise.all([one.json(), two.json()])) as { alreadyCancelled: boolean; refund: number }[];
+		expect(bodies.map((x) => x.alreadyCancelled).sort()).toEqual([false, true]);
+		expect(bodies.every((x) => x.refund === b.quote.deposit)).toBe(true);
+
+		const row = await bookingRow(b.id);
+		expect(row.status).toBe('cancelled');
+		expect(row.cancelledAt).not.toBeNull();
+		const refund = await waitFor(
+			async () => (await money(b.id)).refunds.find((r) => r.status === 'succeeded'),
+			'refund succeeded'
+		);
+		expect(refund.amount).toBe(b.quote.deposit);
+		const m = await money(b.id);
+		expect(m.refunds).toHaveLength(1);
+		const atStripe = await stripe.refunds.list({ payment_intent: m.payments[0]!.paymentIntentId! });
+		expect(atStripe.data).toHaveLength(1);
+
+		const credit = await waitFor(async () => (await money(b.id)).invoices.find((i) => i.typeCode === 381), 'credit note');
+		const deposit = m.invoices.find((i) => i.typeCode === 386)!;
+		expect(credit.displayNumber).toMatch(/^CN-\d{4}-\d{4}$/);
+		expect(credit.precedingInvoiceId).toBe(deposit.id); // BT-25
+		expect(credit.gross + credit.rounding).toBe(b.quote.deposit);
+		expect(credit.net).toBeGreaterThan(0); // positive amounts: code 381 says they are credited
+		expect(credit.vatTotal).toBe(deposit.vatTotal);
+
+		// The slot is free again: someone else can book it.
+		const other = await signedIn(DEMO.artist2);
+		const again = await other.json('/api/bookings', { room: 'control-room', start: b.start, end: b.end });
+		expect(again.status).toBe(201);
+		await other.json(`/api/bookings/${((await again.json()) as { id: string }).id}/cancel`, {});
+	});
+
+	it('with 3 days’ notice refunds half the deposit (PRODUCT.md: 48 hours to 7 days)', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await bookSoon(artist, 'vocal-booth', 3);
+		await payAndConfirm(b);
+		const res = await artist.json(`/api/bookings/${b.id}/cancel`, {});
+		const body = (await res.json()) as { refund: number; rule: string };
+		expect(body.refund).toBe(b.quote.deposit / 2);
+		expect(body.rule).toMatch(/half the deposit/);
+		const credit = await waitFor(async () => (await money(b.id)).invoices.find((i) => i.typeCode === 381), 'credit note');
+		expect(credit.gross + credit.rounding).toBe(b.quote.deposit / 2);
+	});
+
+	it('a held booking cancelled before paying refunds nothing and closes its checkout', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await book(artist, 'control-room');
+		const res = await artist.json(`/api/bookings/${b.id}/cancel`, {});
+		expect(((await res.json()) as { refund: number }).refund).toBe(0);
+		expect((await money(b.id)).refunds).toHaveLength(0);
+		await waitFor(
+			async () => ((await control(`/sessions/${b.sessionId}`)).body.session as { status: string }).status === 'expired',
+			'session expired'
+		);
+	});
+
+	it('records a failed refund as failed, shows it to the owner, and a retry goes through', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await book(artist, 'live-room');
+		await payAndConfirm(b);
+		await control('/next-refund-fails', { delayMs: 300, failureReason: 'expired_or_canceled_card' });
+		const res = await artist.json(`/api/bookings/${b.id}/cancel`, {});
+		expect(res.status).toBe(200);
+		const failed = await waitFor(async () => (await money(b.id)).refunds.find((r) => r.status === 'failed'), 'refund failed');
+		expect(failed.failureReason).toBe('expired_or_canceled_card');
+		expect(failed.stripeRefundId).toMatch(/^re_/);
+		expect((await money(b.id)).invoices.filter((i) => i.typeCode === 381)).toHaveLength(0); // no money back, no credit note
+
+		const owner = await signedIn(DEMO.owner);
+		const month = new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/Helsinki', year: 'numeric', month: '2-digit' })
+			.format(failed.createdAt)
+			.slice(0, 7);
+		const report = (await (await owner.fetch(`/api/invoices?month=${month}`)).json()) as { failedRefunds: { id: string }[] };
+		expect(report.failedRefunds.map((r) => r.id)).toContain(failed.id);
+		expect((await artist.json(`/api/bookings/${b.id}/cancel/retry`, {})).status).toBe(403);
+
+		const retry = await owner.json(`/api/bookings/${b.id}/cancel/retry`, {});
+		expect(((await retry.json()) as { retried: number }).retried).toBe(1);
+		await waitFor(async () => (await money(b.id)).refunds.find((r) => r.status === 'succeeded'), 'retried refund succeeded');
+		const after = (await (await owner.fetch(`/api/invoices?month=${month}`)).json()) as { failedRefunds: { id: string }[] };
+		expect(after.failedRefunds.map((r) => r.id)).not.toContain(failed.id);
+		expect((await money(b.id)).invoices.filter((i) => i.typeCode === 381)).toHaveLength(1);
+	});
+});
+
+// ---- the balance ---------------------------------------------------------------------------------
+
+describe('closing a session and paying the balance', () => {
+	it('prices overtime, issues the final invoice, and takes the balance through Checkout once', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await book(artist, 'control-room');
+		await payAndConfirm(b);
+		expect((await artist.json(`/api/bookings/${b.id}/close`, { actualEnd: b.end })).status).toBe(403);
+
+		const engineer = await signedIn(DEMO.engineer);
+		// 20 minutes past the booked end: two started 15-minute increments at 40.00/h = 20.00 (PRODUCT.md).
+		const end = plusMinutes(b.end, 20);
+		const closed = await engineer.json(`/api/bookings/${b.id}/close`, { actualEnd: end });
+		const body = (await closed.json()) as {
+			invoice: { number: string; gross: number; amountDue: number };
+			overtime: { total: number; billedMinutes: number };
+		};
+		expect(closed.status, JSON.stringify(body)).toBe(200);
+		expect(body.overtime).toMatchObject({ total: 2000, billedMinutes: 30 });
+		expect(body.invoice.number).toMatch(/^INV-\d{4}-\d{4}$/);
+		expect(body.invoice.gross).toBe(b.quote.total + 2000);
+		expect(body.invoice.amountDue).toBe(b.quote.total + 2000 - b.quote.deposit); // BR-CO-16
+		expect((await bookingRow(b.id)).status).toBe('completed');
+		// Closing twice issues nothing new.
+		const twice = await engineer.json(`/api/bookings/${b.id}/close`, { actualEnd: end });
+		expect(((await twice.json()) as { alreadyClosed: boolean }).alreadyClosed).toBe(true);
+		expect((await money(b.id)).invoices.filter((i) => i.typeCode === 380)).toHaveLength(1);
+
+		const pay1 = (await (await artist.json(`/api/bookings/${b.id}/pay`, {})).json()) as { checkoutUrl: string; kind: string };
+		const pay2 = (await (await artist.json(`/api/bookings/${b.id}/pay`, { kind: 'balance' })).json()) as { checkoutUrl: string };
+		expect(pay1.kind).toBe('balance');
+		expect(pay2.checkoutUrl).toBe(pay1.checkoutUrl);
+		const sessionId = pay1.checkoutUrl.split('/pay/')[1]!;
+		const { body: s } = await control(`/sessions/${sessionId}`);
+		expect((s.session as Stripe.Checkout.Session).amount_total).toBe(body.invoice.amountDue);
+		expect((s.session as Stripe.Checkout.Session).metadata).toMatchObject({ bookingId: b.id, kind: 'balance' });
+		await control(`/sessions/${sessionId}/pay`, {});
+		await waitFor(
+			async () => (await money(b.id)).payments.find((p) => p.kind === 'balance' && p.status === 'paid'),
+			'balance paid'
+		);
+		const nothing = await artist.json(`/api/bookings/${b.id}/pay`, { kind: 'balance' });
+		expect(nothing.status).toBe(409);
+	});
+});
