@@ -10,6 +10,8 @@ export default defineConfig({
 	workers: 1,
 	retries: 0,
 	timeout: 60_000,
+	// A hung run must fail well inside CI's budget rather than eat it.
+	globalTimeout: 20 * 60_000,
 	expect: { timeout: 10_000 },
 	reporter: [['list']],
 	use: {

@@ -133,6 +133,7 @@ pg_create_db() {
 
 # Start a background service and remember its pid for stop_services.
 SERVICE_PIDS=()
+SERVICES_KILLED=0
 start_service() {
 	local name="$1"
 	shift
@@ -142,11 +143,26 @@ start_service() {
 }
 
 stop_services() {
-	local pid
+	local pid i alive
 	for pid in "${SERVICE_PIDS[@]:-}"; do
 		[ -n "$pid" ] && kill "$pid" 2>/dev/null || true
 	done
+	# Give each service up to 10 s to finish what it is doing, then stop it for good: a service
+	# that hangs on shutdown must never keep a test run (or CI) waiting.
+	for ((i = 0; i < 50; i++)); do
+		alive=0
+		for pid in "${SERVICE_PIDS[@]:-}"; do
+			[ -n "$pid" ] && kill -0 "$pid" 2>/dev/null && alive=1
+		done
+		[ "$alive" = "0" ] && break
+		sleep 0.2
+	done
 	for pid in "${SERVICE_PIDS[@]:-}"; do
+		if [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null; then
+			log "process $pid did not stop within 10 s of SIGTERM; killing it"
+			SERVICES_KILLED=$((SERVICES_KILLED + 1))
+			kill -9 "$pid" 2>/dev/null || true
+		fi
 		[ -n "$pid" ] && wait "$pid" 2>/dev/null || true
 	done
 	SERVICE_PIDS=()

@@ -57,7 +57,7 @@ if [ -z "${STRIPE_FAKE_OFF:-}" ] && [[ "$STRIPE_API_BASE" == http://127.0.0.1* ]
 		start_service stripe-fake node --import tsx fake-services/stripe/server.ts
 fi
 if [[ "$SMTP_URL" == smtp://127.0.0.1* ]]; then
-	start_service mail-catcher npx maildev --ip 127.0.0.1 --web-ip 127.0.0.1 -s "$SMTP_PORT" -w "$MAIL_WEB_PORT" --silent
+	start_service mail-catcher node_modules/.bin/maildev --ip 127.0.0.1 --web-ip 127.0.0.1 -s "$SMTP_PORT" -w "$MAIL_WEB_PORT" --silent
 fi
 
 if [ "${SKIP_BUILD:-0}" != "1" ] || [ ! -f build/index.js ]; then

@@ -22,6 +22,8 @@ export SMTP_URL="smtp://127.0.0.1:$SMTP_PORT"
 export MAIL_API="http://127.0.0.1:$MAIL_WEB_PORT"
 export APP_URL="$ORIGIN"
 export SLATEROOM_TEST=1
+# adapter-node waits this long for open connections on SIGTERM before closing them.
+export SHUTDOWN_TIMEOUT=3
 # Sign-in limits stay on in tests, with room for the suite's own sign-ins from one address.
 export AUTH_RATE_LIMIT_PER_IP="${AUTH_RATE_LIMIT_PER_IP:-400}"
 export AUTH_API_RATE_LIMIT="${AUTH_API_RATE_LIMIT:-1000}"
@@ -40,12 +42,20 @@ cleanup() {
 	stop_services
 	pg_stop "$PGDATA_DIR"
 	[ -n "$PGDATA_DIR" ] && rm -rf "$PGDATA_DIR"
+	if [ "$code" = "0" ] && [ "$SERVICES_KILLED" != "0" ]; then
+		printf '\033[1;31m[slateroom]\033[0m a service ignored SIGTERM and had to be killed (see %s)\n' "$LOG_DIR" >&2
+		code=1
+	fi
 	if [ "$code" != "0" ]; then
 		for f in "$LOG_DIR"/*.log; do
 			[ -f "$f" ] || continue
 			echo "----- $(basename "$f") (last 30 lines) -----"
 			tail -n 30 "$f"
 		done
+	fi
+	# The run's one closing line, last of all: "slateroom: N passed, N failed".
+	if ls "$LOG_DIR"/*.json >/dev/null 2>&1; then
+		node scripts/test-summary.mjs "$LOG_DIR" || code=1
 	fi
 	exit "$code"
 }
@@ -77,19 +87,19 @@ log "building the app"
 npx vite build --logLevel warn >"$LOG_DIR/build.log" 2>&1 || { tail -n 40 "$LOG_DIR/build.log"; die "build failed"; }
 
 start_service stripe-fake node --import tsx fake-services/stripe/server.ts
-start_service mail-catcher npx maildev --ip 127.0.0.1 --web-ip 127.0.0.1 -s "$SMTP_PORT" -w "$MAIL_WEB_PORT" --silent
+start_service mail-catcher node_modules/.bin/maildev --ip 127.0.0.1 --web-ip 127.0.0.1 -s "$SMTP_PORT" -w "$MAIL_WEB_PORT" --silent
 start_service app node build/index.js
 wait_port "$STRIPE_FAKE_PORT" 30
 wait_port "$MAIL_WEB_PORT" 30
 wait_http "$ORIGIN/api/health" 60
 
 log "unit and integration tests (Vitest)"
-npx vitest run --project unit --project integration ${VITEST_FILTER:-}
+npx vitest run --project unit --project integration --reporter=default --reporter=json --outputFile.json="$LOG_DIR/vitest.json" ${VITEST_FILTER:-}
 
 log "end-to-end tests (Playwright, Chromium)"
-npx playwright test ${PLAYWRIGHT_FILTER:-}
+PLAYWRIGHT_JSON_OUTPUT_NAME="$LOG_DIR/playwright.json" npx playwright test --reporter=list,json ${PLAYWRIGHT_FILTER:-}
 
 log "database outage and recovery"
-npx vitest run --project outage
+npx vitest run --project outage --reporter=default --reporter=json --outputFile.json="$LOG_DIR/outage.json"
 
-log "all tests passed"
+log "all tests passed; stopping the services"

@@ -6,9 +6,19 @@ import { auth } from '$lib/server/auth';
 import { isRole } from '$lib/roles';
 import { zoneFor } from '$lib/server/zones';
 import { isDatabaseDown } from '$lib/server/db/health';
-import { startBackgroundJobs } from '$lib/server/jobs';
+import { startBackgroundJobs, stopBackgroundJobs } from '$lib/server/jobs';
+import { sqlClient } from '$lib/server/db';
 
-if (!building) startBackgroundJobs();
+if (!building) {
+	startBackgroundJobs();
+	// adapter-node emits this once the HTTP server has closed (after SIGTERM or SIGINT). The
+	// periodic jobs keep pooled database connections busy, so without this the process would
+	// never exit on its own.
+	process.once('sveltekit:shutdown', () => {
+		stopBackgroundJobs();
+		void sqlClient.end({ timeout: 5 });
+	});
+}
 
 /** better-auth answers its own routes under /api/auth. */
 const authRoutes: Handle = ({ event, resolve }) => svelteKitHandler({ event, resolve, auth, building });

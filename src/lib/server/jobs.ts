@@ -4,6 +4,7 @@ import { db } from './db';
 import { booking } from './db/schema';
 
 let started = false;
+let timer: ReturnType<typeof setInterval> | null = null;
 
 export async function expireStaleHolds(now = new Date()): Promise<number> {
 	const rows = await db
@@ -34,7 +35,14 @@ export function startBackgroundJobs(intervalMs = 15_000) {
 			}
 		}
 	};
-	const timer = setInterval(() => void tick(), intervalMs);
+	timer = setInterval(() => void tick(), intervalMs);
 	timer.unref();
 	void tick();
+}
+
+/** Stops the periodic work (on shutdown); a tick already running finishes on its own. */
+export function stopBackgroundJobs() {
+	if (timer) clearInterval(timer);
+	timer = null;
+	started = false;
 }
