@@ -8,8 +8,12 @@ import { zoneFor } from '$lib/server/zones';
 import { isDatabaseDown } from '$lib/server/db/health';
 import { startBackgroundJobs, stopBackgroundJobs } from '$lib/server/jobs';
 import { sqlClient } from '$lib/server/db';
+import { registerPaymentJobs } from '$lib/server/payments';
 
 if (!building) {
+	// Payment sweeps (expiring lapsed sessions, sending recorded refunds) must run from start-up,
+	// not only once some page happens to import the payments module.
+	registerPaymentJobs();
 	startBackgroundJobs();
 	// adapter-node emits this once the HTTP server has closed (after SIGTERM or SIGINT). The
 	// periodic jobs keep pooled database connections busy, so without this the process would
