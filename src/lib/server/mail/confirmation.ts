@@ -1,0 +1,114 @@
+// The confirmation an artist gets once the deposit has come in: when and where, the price as
+// booked, what is still to pay, what to prepare, and a calendar file.
+//
+// The calendar file follows RFC 5545: one VEVENT with one UID (the booking's random UUID, so no
+// host or user data, RFC 7986 §5.3) and one DTSTAMP in UTC; DTSTART and DTEND are written as UTC
+// times (RFC 5545 §3.3.5, form 2), so the file needs no VTIMEZONE and means the same instant
+// whatever zone the server or the reader's device is in; SEQUENCE is the booking's own, which
+// rises when a booking is moved. ical-generator writes CRLF line ends and folds at 75 octets.
+import ical, { ICalCalendarMethod } from 'ical-generator';
+import { formatMoney } from '$lib/domain/money';
+import { preparationChecklist } from '$lib/domain/preparation';
+import { formatDate, formatTime } from '$lib/format';
+
+export interface ConfirmationFacts {
+	bookingId: string;
+	reference: string;
+	sequence: number;
+	startsAt: Date;
+	endsAt: Date;
+	roomName: string;
+	engineerName: string | null;
+	gear: string[];
+	artistName: string;
+	artistEmail: string;
+	project: string;
+	currency: string;
+	total: number;
+	deposit: number;
+	lines: { label: string; amount: number }[];
+	studio: { name: string; email: string; timeZone: string; locale: string; addressLines: string[]; country: string };
+	/** Where the booking's own page is, e.g. https://studio.example/bookings/<id>. */
+	bookingUrl: string;
+}
+
+export interface ComposedMail {
+	subject: string;
+	text: string;
+	ics: string;
+}
+
+export function bookingCalendarFile(f: ConfirmationFacts, now = new Date()): string {
+	const cal = ical({
+		prodId: { company: 'Slateroom', product: 'Bookings', language: 'EN' },
+		method: ICalCalendarMethod.PUBLISH,
+		name: f.studio.name
+	});
+	const description = [
+		`Booking ${f.reference}`,
+		f.engineerName ? `Engineer: ${f.engineerName}` : 'No engineer booked',
+		f.gear.length ? `Gear: ${f.gear.join('; ')}` : '',
+		f.bookingUrl
+	]
+		.filter(Boolean)
+		.join('\n');
+	cal.createEvent({
+		id: f.bookingId,
+		sequence: f.sequence,
+		stamp: now,
+		start: f.startsAt,
+		end: f.endsAt,
+		summary: `${f.roomName} at ${f.studio.name}`,
+		description,
+		location: [...f.studio.addressLines, f.studio.country === 'FI' ? 'Finland' : f.studio.country].filter(Boolean).join(', '),
+		url: f.bookingUrl
+	});
+	return cal.toString();
+}
+
+export function composeConfirmation(f: ConfirmationFacts, now = new Date()): ComposedMail {
+	const { timeZone, locale } = f.studio;
+	const money = (minor: number) => formatMoney(minor, f.currency, locale);
+	const day = formatDate(f.startsAt, timeZone, locale);
+	const from = formatTime(f.startsAt, timeZone, locale);
+	const to = formatTime(f.endsAt, timeZone, locale);
+	const balance = f.total - f.deposit;
+	const checklist = preparationChecklist(f.engineerName !== null)
+		.map((g) => [`${g.title}:`, ...g.items.map((i) => `  - ${i}`)].join('\n'))
+		.join('\n\n');
+	const text = [
+		`Hello ${f.artistName},`,
+		'',
+		`your deposit has arrived and your session at ${f.studio.name} is booked.`,
+		'',
+		`  When:      ${day}, ${from}–${to} (${timeZone} time)`,
+		`  Room:      ${f.roomName}`,
+		`  Engineer:  ${f.engineerName ?? 'none booked'}`,
+		f.gear.length ? `  Gear:      ${f.gear.join('; ')}` : '',
+		f.project ? `  Project:   ${f.project}` : '',
+		`  Reference: ${f.reference}`,
+		'',
+		'Price as booked:',
+		...f.lines.map((l) => `  ${l.label}: ${money(l.amount)}`),
+		`  Total: ${money(f.total)}`,
+		`  Deposit received: ${money(f.deposit)}`,
+		`  Balance after the session: ${money(balance)}, plus any overtime or extra gear used`,
+		'',
+		'What to prepare',
+		'',
+		checklist,
+		'',
+		`Your booking, its invoices and the cancellation terms: ${f.bookingUrl}`,
+		'The attached calendar file adds the session to your calendar.',
+		'',
+		f.studio.name,
+		f.studio.email
+	]
+		.filter((line, i, all) => line !== '' || all[i - 1] !== '')
+		.join('\n');
+	return {
+		subject: `Booked: ${f.roomName} on ${day}, ${from}–${to}`,
+		text,
+		ics: bookingCalendarFile(f, now)
+	};
+}

@@ -1,0 +1,68 @@
+// E-mail: the outbox, the messages the studio sends, and their registration with the periodic
+// jobs and the payment facts. hooks.server.ts calls registerMail() once at start-up.
+import { and, eq } from 'drizzle-orm';
+import { booking, bookingGear, gearItem, room, studio, user } from '../db/schema';
+import { addPeriodicJob } from '../jobs';
+import { onBookingConfirmed } from '../payments';
+import type { Tx } from '../payments/core';
+import { composeConfirmation } from './confirmation';
+import { enqueueMail, flushOutbox, flushSoon } from './outbox';
+import { publicOrigin } from './transport';
+
+export { flushOutbox } from './outbox';
+
+/** Queues the confirmation of a booking inside the transaction that confirms it. */
+export async function queueConfirmation(tx: Tx, bookingId: string): Promise<void> {
+	const [row] = await tx
+		.select({ b: booking, roomName: room.name, artistName: user.name, artistEmail: user.email })
+		.from(booking)
+		.innerJoin(room, eq(room.id, booking.roomId))
+		.innerJoin(user, eq(user.id, booking.artistId))
+		.where(eq(booking.id, bookingId));
+	const [s] = await tx.select().from(studio).where(eq(studio.id, 1));
+	if (!row || !s) return;
+	const b = row.b;
+	const [engineer] = b.engineerId ? await tx.select({ name: user.name }).from(user).where(eq(user.id, b.engineerId)) : [];
+	const gear = await tx
+		.select({ name: gearItem.name })
+		.from(bookingGear)
+		.innerJoin(gearItem, eq(gearItem.id, bookingGear.gearItemId))
+		.where(and(eq(bookingGear.bookingId, b.id), eq(bookingGear.active, true)));
+	const quote = b.quote as { lines?: { label: string; amount: number }[] };
+	const mail = composeConfirmation({
+		bookingId: b.id,
+		reference: b.reference,
+		sequence: b.sequence,
+		startsAt: b.startsAt,
+		endsAt: b.endsAt,
+		roomName: row.roomName,
+		engineerName: b.engineerId ? (engineer?.name ?? 'an engineer') : null,
+		gear: gear.map((g) => g.name),
+		artistName: row.artistName,
+		artistEmail: row.artistEmail,
+		project: b.project,
+		currency: b.currency,
+		total: b.total,
+		deposit: b.deposit,
+		lines: (quote.lines ?? []).map((l) => ({ label: l.label, amount: l.amount })),
+		studio: s,
+		bookingUrl: `${publicOrigin()}/bookings/${b.id}`
+	});
+	await enqueueMail(tx, {
+		dedupeKey: `booking-confirmed:${b.id}`,
+		to: row.artistEmail,
+		subject: mail.subject,
+		text: mail.text,
+		attachments: [{ filename: `${b.reference}.ics`, contentType: 'text/calendar; charset=utf-8; method=PUBLISH', content: mail.ics }]
+	});
+	flushSoon();
+}
+
+let registered = false;
+
+export function registerMail() {
+	if (registered) return;
+	registered = true;
+	onBookingConfirmed(queueConfirmation);
+	addPeriodicJob(() => flushOutbox());
+}

@@ -1,0 +1,121 @@
+// The confirmation e-mail over real sockets: the app, the Stripe fake's signed webhook, the
+// outbox in the real database and the mail catcher's HTTP API. RFC 5545 for the calendar file,
+// parsed back independently with node-ical.
+import { afterAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import ical from 'node-ical';
+import Stripe from 'stripe';
+import { signedIn, type Client } from '../support/http';
+import { APP_URL, DEMO, MAIL_API, STRIPE_API_BASE } from '../support/env';
+import { testDb } from '../support/db';
+import * as t from '../../src/lib/server/db/schema';
+
+const { db, client } = testDb();
+afterAll(() => client.end());
+
+const fakeUrl = new URL(STRIPE_API_BASE);
+const stripe = new Stripe('sk_test_mail_spec', { host: fakeUrl.hostname, port: Number(fakeUrl.port), protocol: 'http' });
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+async function waitFor<T>(check: () => Promise<T | undefined | null | false>, what: string, ms = 20_000): Promise<T> {
+	const until = Date.now() + ms;
+	for (;;) {
+		const v = await check();
+		if (v !== undefined && v !== null && v !== false) return v;
+		if (Date.now() > until) throw new Error(`timed out after ${ms} ms waiting for ${what}`);
+		await sleep(200);
+	}
+}
+
+interface CaughtMail {
+	id: string;
+	subject: string;
+	text: string;
+	to: { address: string }[];
+	from: { address: string; name: string }[];
+	attachments?: { filename: string; generatedFileName: string; contentType: string }[];
+}
+
+async function mailTo(address: string): Promise<CaughtMail[]> {
+	const all = (await (await fetch(`${MAIL_API}/api/email`)).json()) as CaughtMail[];
+	return all.filter((m) => m.to.some((t) => t.address === address));
+}
+
+/** A two-hour evening in the control room with an engineer, 140–175 days ahead (clear of other specs). */
+async function bookWithEngineer(who: Client) {
+	for (let attempt = 0; attempt < 20; attempt++) {
+		const ymd = new Date(Date.now() + (140 + Math.floor(Math.random() * 35)) * 86_400_000).toISOString().slice(0, 10);
+		const start = `${ymd}T19:00`;
+		const res = await who.json('/api/bookings', { room: 'control-room', start, end: `${ymd}T21:00`, engineer: true, project: 'Night vocals' });
+		if (res.status === 409) continue;
+		const body = (await res.json()) as { id: string; checkoutUrl: string; quote: { total: number; deposit: number } };
+		expect(res.status, JSON.stringify(body)).toBe(201);
+		return { ...body, sessionId: body.checkoutUrl.split('/pay/')[1]! };
+	}
+	throw new Error('no free evening found');
+}
+
+describe('the confirmation e-mail', () => {
+	it('is sent once, after the deposit is paid, with the times, price, checklist and a calendar file', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await bookWithEngineer(artist);
+		const [row] = await db.select().from(t.booking).where(eq(t.booking.id, b.id));
+
+		// Nothing is sent for a hold: the slot is not the artist's until the deposit arrives.
+		await sleep(1500);
+		expect((await mailTo(DEMO.artist)).filter((m) => m.text.includes(b.id))).toHaveLength(0);
+
+		const paid = await fetch(`${STRIPE_API_BASE}/_control/sessions/${b.sessionId}/pay`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/json' },
+			body: '{}'
+		});
+		expect(paid.status).toBe(200);
+
+		const mail = await waitFor(
+			async () => (await mailTo(DEMO.artist)).find((m) => m.text.includes(`/bookings/${b.id}`)),
+			'the confirmation in the mail catcher'
+		);
+		expect(mail.subject).toMatch(/^Booked: Control room on \w+, \d{1,2} \w+ \d{4}, 19:00–21:00$/);
+		expect(mail.from[0]!.name).toBe('Hollow Pine Studio');
+		expect(mail.text).toContain('Engineer:  ');
+		expect(mail.text).not.toContain('none booked');
+		expect(mail.text).toContain('Project:   Night vocals');
+		expect(mail.text).toContain(`${APP_URL}/bookings/${b.id}`);
+		expect(mail.text).toContain('tune again with the capo on');
+		const euros = (minor: number) => `€${(minor / 100).toFixed(2)}`; // display only; amounts are integers
+		expect(mail.text).toContain(`Total: ${euros(b.quote.total)}`);
+		expect(mail.text).toContain(`Deposit received: ${euros(b.quote.deposit)}`);
+		expect(mail.text).toContain(`Balance after the session: ${euros(b.quote.total - b.quote.deposit)}`);
+
+		const file = mail.attachments?.find((a) => a.filename.endsWith('.ics'));
+		expect(file?.contentType).toMatch(/^text\/calendar/);
+		const ics = await (await fetch(`${MAIL_API}/api/email/${mail.id}/attachment/${file!.generatedFileName}`)).text();
+		const vevents = Object.values(ical.sync.parseICS(ics)).filter((c) => c?.type === 'VEVENT') as ical.VEvent[];
+		expect(vevents).toHaveLength(1);
+		expect(vevents[0]!.uid).toBe(b.id);
+		expect(new Date(vevents[0]!.start!).getTime()).toBe(row!.startsAt.getTime());
+		expect(new Date(vevents[0]!.end!).getTime()).toBe(row!.endsAt.getTime());
+		expect(ics).toMatch(/^DTSTAMP:\d{8}T\d{6}Z\r$/m);
+
+		const [outbox] = await db.select().from(t.emailOutbox).where(eq(t.emailOutbox.dedupeKey, `booking-confirmed:${b.id}`));
+		expect(outbox?.status).toBe('sent');
+
+		// The same payment told again (Stripe delivers at least once) makes no second message.
+		const events = await stripe.events.list({ type: 'checkout.session.completed', limit: 100 });
+		const completed = events.data.find((e) => (e.data.object as { id?: string }).id === b.sessionId);
+		expect(completed).toBeDefined();
+		const resend = await fetch(`${STRIPE_API_BASE}/_control/events/${completed!.id}/resend`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/json' },
+			body: '{}'
+		});
+		await sleep(2500);
+		const copies = (await mailTo(DEMO.artist)).filter((m) => m.text.includes(`/bookings/${b.id}`));
+		expect(resend.status).toBe(202);
+		expect(copies).toHaveLength(1);
+		const rows = await db.select().from(t.emailOutbox).where(eq(t.emailOutbox.dedupeKey, `booking-confirmed:${b.id}`));
+		expect(rows).toHaveLength(1);
+	});
+});
