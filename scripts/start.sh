@@ -26,21 +26,28 @@ LOG_DIR="$ROOT/.data/logs"
 mkdir -p "$LOG_DIR" "$UPLOAD_DIR"
 
 PGDATA_DIR=""
+STARTED_PG=0
 cleanup() {
+	local code=$?
 	trap - EXIT INT TERM
 	log "stopping"
 	stop_services
-	# Only stop PostgreSQL when this script started it and the database is local.
-	[ "${KEEP_DB_RUNNING:-0}" = "1" ] || pg_stop "$PGDATA_DIR"
-	exit 0
+	# Only stop PostgreSQL when this script started it (a cluster already running stays up).
+	[ "$STARTED_PG" = "1" ] && [ "${KEEP_DB_RUNNING:-0}" != "1" ] && pg_stop "$PGDATA_DIR"
+	# Ctrl-C is how a person stops the server: that is a clean stop, anything else keeps its code.
+	[ "$code" = "130" ] && code=0
+	exit "$code"
 }
-trap cleanup EXIT INT TERM
+on_interrupt() { exit 130; }
+trap cleanup EXIT
+trap on_interrupt INT TERM
 
 ensure_node_modules
 LOCAL_DB=1
 case "$DATABASE_URL" in *"127.0.0.1:$PG_PORT"* | *"localhost:$PG_PORT"*) ;; *) LOCAL_DB=0 ;; esac
 if [ "$LOCAL_DB" = "1" ]; then
 	ensure_postgres_binaries
+	if ! as_pg "$PG_BIN/pg_ctl" -D "$(pg_data_dir main)" status >/dev/null 2>&1; then STARTED_PG=1; fi
 	pg_start main "$PG_PORT"
 	pg_create_db "$PG_PORT" slateroom
 fi
@@ -80,4 +87,10 @@ cat <<MSG
 MSG
 tail -f "$LOG_DIR/app.log" &
 SERVICE_PIDS+=("$!")
-wait -n || true
+# Runs until Ctrl-C, or until a service dies: then say which log to read, and fail.
+set +e
+wait -n
+code=$?
+set -e
+log "a service stopped (exit $code); its log is in $LOG_DIR"
+exit $((code == 0 ? 1 : code))
