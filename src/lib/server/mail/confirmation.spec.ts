@@ -57,6 +57,7 @@ describe('the confirmation calendar file (RFC 5545)', () => {
 		expect(file.match(/^DTSTAMP:(\d{8}T\d{6}Z)\r$/gm)).toEqual(['DTSTAMP:20270301T093000Z\r']);
 		expect(file).toMatch(/^DTSTART:20270328T070000Z\r$/m);
 		expect(file).toMatch(/^SEQUENCE:0\r$/m);
+		expect(ev.location).toBe('Kuusikkotie 14, 33980 Pirkkala, Finland');
 	});
 
 	it('uses CRLF line ends and folds lines at 75 octets (RFC 5545 §3.1)', () => {
@@ -102,6 +103,7 @@ describe('the confirmation message', () => {
 		expect(m.text).toContain('Engineer:  none booked');
 		expect(m.text).not.toContain('Gear:');
 		expect(m.text).not.toContain('Project:');
+		expect(m.text).toContain('Engineer:  none booked\n  Reference: HP-7K3QX');
 		expect(m.text).toContain('Write a running order');
 	});
 });

@@ -38,6 +38,15 @@ export interface ComposedMail {
 	ics: string;
 }
 
+/** An ISO 3166 country code in words, e.g. FI → Finland (ECMA-402 Intl.DisplayNames). */
+function countryName(code: string, locale: string): string {
+	try {
+		return new Intl.DisplayNames([locale], { type: 'region' }).of(code) ?? code;
+	} catch {
+		return code;
+	}
+}
+
 export function bookingCalendarFile(f: ConfirmationFacts, now = new Date()): string {
 	const cal = ical({
 		prodId: { company: 'Slateroom', product: 'Bookings', language: 'EN' },
@@ -60,7 +69,7 @@ export function bookingCalendarFile(f: ConfirmationFacts, now = new Date()): str
 		end: f.endsAt,
 		summary: `${f.roomName} at ${f.studio.name}`,
 		description,
-		location: [...f.studio.addressLines, f.studio.country === 'FI' ? 'Finland' : f.studio.country].filter(Boolean).join(', '),
+		location: [...f.studio.addressLines, countryName(f.studio.country, f.studio.locale)].filter(Boolean).join(', '),
 		url: f.bookingUrl
 	});
 	return cal.toString();
@@ -84,8 +93,8 @@ export function composeConfirmation(f: ConfirmationFacts, now = new Date()): Com
 		`  When:      ${day}, ${from}–${to} (${timeZone} time)`,
 		`  Room:      ${f.roomName}`,
 		`  Engineer:  ${f.engineerName ?? 'none booked'}`,
-		f.gear.length ? `  Gear:      ${f.gear.join('; ')}` : '',
-		f.project ? `  Project:   ${f.project}` : '',
+		f.gear.length ? `  Gear:      ${f.gear.join('; ')}` : null,
+		f.project ? `  Project:   ${f.project}` : null,
 		`  Reference: ${f.reference}`,
 		'',
 		'Price as booked:',
@@ -104,7 +113,7 @@ export function composeConfirmation(f: ConfirmationFacts, now = new Date()): Com
 		f.studio.name,
 		f.studio.email
 	]
-		.filter((line, i, all) => line !== '' || all[i - 1] !== '')
+		.filter((line) => line !== null)
 		.join('\n');
 	return {
 		subject: `Booked: ${f.roomName} on ${day}, ${from}–${to}`,
