@@ -631,3 +631,281 @@ describe('closing a session and paying the balance', () => {
 		expect(nothing.status).toBe(409);
 	});
 });
+
+// ---- what Stripe reports must match what was asked -------------------------------------------------
+
+/** A signed checkout.session.completed for a booking's own session, as Stripe would send it, with changes. */
+async function completedFor(b: Booked, patch: Record<string, unknown>) {
+	const other = await book(await signedIn(DEMO.artist2), 'live-room');
+	await payAndConfirm(other);
+	const template = await completedEventOf(other.sessionId);
+	const { body: s } = await control(`/sessions/${b.sessionId}`);
+	return crafted(template, {
+		data: {
+			object: {
+				...(s.session as object),
+				status: 'complete',
+				payment_status: 'paid',
+				payment_intent: `pi_mismatch_${crypto.randomUUID().slice(0, 8)}`,
+				...patch
+			}
+		}
+	});
+}
+
+describe('a payment whose amount or currency differs from what was asked', () => {
+	// Stripe docs, "Fulfill orders": check what was paid before fulfilling. A mismatch confirms
+	// nothing, is shown to the owner, and is answered 2xx (Stripe docs, "Webhooks": non-2xx is retried,
+	// and a retry carries the same amount).
+	it('is not confirmed, answers 200, and the owner sees why on the booking', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await book(artist, 'vocal-booth');
+		const event = await completedFor(b, { amount_total: 1 });
+		const res = await postSigned(event);
+		expect(res).toMatchObject({ status: 200, body: { duplicate: false, outcome: 'amount_mismatch' } });
+		// Delivered again (a retry): still 200, still nothing confirmed.
+		expect((await postSigned({ ...event, id: `${event.id}_again` })).body.outcome).toBe('amount_mismatch');
+
+		const row = await bookingRow(b.id);
+		expect(row.status).not.toBe('confirmed');
+		const m = await money(b.id);
+		expect(m.payments.map((p) => p.status)).toEqual(['failed']);
+		expect(m.payments[0]!.paidAt).toBeNull();
+		expect(m.payments[0]!.failureReason).toMatch(/€0\.01.*€50\.00/);
+		expect(m.invoices).toHaveLength(0);
+		expect(m.confirmations).toBe(0);
+		const logged = await db
+			.select()
+			.from(t.auditLog)
+			.where(and(eq(t.auditLog.entityId, b.id), eq(t.auditLog.action, 'payment.amount_mismatch')));
+		expect(logged).toHaveLength(1);
+
+		const ownerPage = await (await (await signedIn(DEMO.owner)).fetch(`/bookings/${b.id}`)).text();
+		expect(ownerPage).toContain('data-testid="payment-problem"');
+		expect(ownerPage).toMatch(/Nothing was confirmed/);
+		const artistPage = await (await artist.fetch(`/bookings/${b.id}`)).text();
+		expect(artistPage).not.toContain('data-testid="payment-problem"');
+	});
+
+	it('another currency with the same number is a mismatch too', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'control-room');
+		const res = await postSigned(await completedFor(b, { currency: 'sek' }));
+		expect(res).toMatchObject({ status: 200, body: { outcome: 'amount_mismatch' } });
+		expect((await bookingRow(b.id)).status).not.toBe('confirmed');
+		expect((await money(b.id)).invoices).toHaveLength(0);
+	});
+});
+
+// ---- when the money was paid ---------------------------------------------------------------------
+
+describe('the time of a payment', () => {
+	// Directive 2006/112/EC Article 226(7): the deposit invoice states the date of the payment on
+	// account. Stripe retries a failed delivery for up to three days (Stripe docs, "Webhooks"), so the
+	// event's `created`, not the moment it is processed, is when the money was paid.
+	it('is the event’s time, even when the event is delivered days late', async () => {
+		const b = await book(await signedIn(DEMO.artist), 'vocal-booth');
+		await control('/hold-deliveries', {});
+		let created = 0;
+		try {
+			await control(`/sessions/${b.sessionId}/pay`, {});
+			const event = await completedEventOf(b.sessionId);
+			// The same payment, as a delivery retried since two days ago would carry it.
+			created = event.created - 2 * 86_400;
+			const late = await postSigned(crafted(event, { created }));
+			expect(late.body.outcome).toBe('confirmed');
+		} finally {
+			await control('/release-deliveries', {});
+		}
+		const m = await money(b.id);
+		expect(m.payments[0]!.paidAt!.getTime()).toBe(created * 1000);
+		const deposit = m.invoices.find((i) => i.typeCode === 386)!;
+		const paidDay = new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/Helsinki' }).format(new Date(created * 1000));
+		expect(deposit.supplyDate).toBe(paidDay);
+		expect(deposit.issuedAt.getTime()).toBeGreaterThan(created * 1000 + 86_400_000);
+	});
+});
+
+// ---- refunds Stripe refuses for good ----------------------------------------------------------------
+
+describe('a refund whose Idempotency-Key Stripe refuses', () => {
+	// Stripe docs, "Idempotent requests": a key reused with other parameters is refused, every time;
+	// retrying it can never succeed, so it is a failed refund the owner must resolve.
+	it('is marked failed and shown to the owner, not retried on every tick', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await book(artist, 'live-room');
+		await payAndConfirm(b);
+		const [paid] = (await money(b.id)).payments;
+		// The key the cancellation will use (state.ts queueRefund), already spent at Stripe on other parameters.
+		const appStripe = new Stripe(process.env.STRIPE_SECRET_KEY ?? 'sk_test_slateroom_test', {
+			host: fakeUrl.hostname,
+			port: Number(fakeUrl.port),
+			protocol: 'http'
+		});
+		await appStripe.refunds.create(
+			{ payment_intent: paid!.paymentIntentId!, amount: 100 },
+			{ idempotencyKey: `slateroom-refund-${b.id}-${paid!.id}-1` }
+		);
+
+		expect((await artist.json(`/api/bookings/${b.id}/cancel`, {})).status).toBe(200);
+		const failed = await waitFor(async () => (await money(b.id)).refunds.find((r) => r.status === 'failed'), 'refund failed');
+		expect(failed.amount).toBe(b.quote.deposit);
+		expect(failed.stripeRefundId).toBeNull();
+		expect(failed.failureReason).toMatch(/Stripe refused the refund request/);
+		const owner = await signedIn(DEMO.owner);
+		const month = new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/Helsinki', year: 'numeric', month: '2-digit' })
+			.format(failed.createdAt)
+			.slice(0, 7);
+		const report = (await (await owner.fetch(`/api/invoices?month=${month}`)).json()) as { failedRefunds: { id: string }[] };
+		expect(report.failedRefunds.map((r) => r.id)).toContain(failed.id);
+		const atStripe = await stripe.refunds.list({ payment_intent: paid!.paymentIntentId! });
+		expect(atStripe.data.map((r) => r.amount)).toEqual([100]);
+	});
+});
+
+// ---- cancelling while the deposit is on its way ---------------------------------------------------
+
+describe('cancelling a booking whose bank payment is still on its way', () => {
+	// PRODUCT.md: 48 hours to 7 days' notice refunds half the deposit. The notice is the one given
+	// when cancelling, whenever the delayed payment (Stripe docs, "Fulfill orders":
+	// async_payment_succeeded) arrives.
+	it('says what will happen, and refunds the settled payment by the same ladder', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await bookSoon(artist, 'live-room', 4);
+		await control(`/sessions/${b.sessionId}/pay-later`, {});
+		await waitStatus(b.id, 'pending');
+
+		const preview = (await (await artist.fetch(`/api/bookings/${b.id}/cancellation`)).json()) as {
+			refund: number;
+			onArrival: { amount: number; refund: number } | null;
+			rule: string;
+		};
+		expect(preview.refund).toBe(0);
+		expect(preview.rule).toMatch(/half the deposit/);
+		expect(preview.onArrival).toEqual({ amount: b.quote.deposit, refund: b.quote.deposit / 2 });
+		const page = await (await artist.fetch(`/bookings/${b.id}`)).text();
+		expect(page).toContain('data-testid="cancel-on-arrival"');
+
+		const cancelled = (await (await artist.json(`/api/bookings/${b.id}/cancel`, {})).json()) as {
+			refund: number;
+			onArrival: { amount: number; refund: number } | null;
+		};
+		expect(cancelled.refund).toBe(0);
+		expect(cancelled.onArrival).toEqual(preview.onArrival);
+
+		await control(`/sessions/${b.sessionId}/settle`, {});
+		const refund = await waitFor(
+			async () => (await money(b.id)).refunds.find((r) => r.status === 'succeeded'),
+			'the refund of the settled payment'
+		);
+		expect(refund).toMatchObject({ amount: b.quote.deposit / 2, reason: 'cancellation' });
+		expect((await bookingRow(b.id)).status).toBe('cancelled');
+		const m = await money(b.id);
+		expect(m.payments.map((p) => p.status)).toEqual(['paid']);
+		expect(m.refunds).toHaveLength(1);
+		const atStripe = await stripe.refunds.list({ payment_intent: m.payments[0]!.paymentIntentId! });
+		expect(atStripe.data.map((r) => r.amount)).toEqual([b.quote.deposit / 2]);
+		// The deposit kept is a payment on account (Article 65); the half returned is credited (Article 219).
+		const deposit = m.invoices.find((i) => i.typeCode === 386)!;
+		const credit = await waitFor(async () => (await money(b.id)).invoices.find((i) => i.typeCode === 381), 'credit note');
+		expect(deposit.gross + deposit.rounding).toBe(b.quote.deposit);
+		expect(credit.gross + credit.rounding).toBe(b.quote.deposit / 2);
+		expect(credit.precedingInvoiceId).toBe(deposit.id);
+		expect(m.confirmations).toBe(0);
+	});
+});
+
+// ---- who may open documents --------------------------------------------------------------------
+
+describe('documents on the booking page', () => {
+	// PRODUCT.md roles: invoices are for the artist, the owner and the accountant; the engineer
+	// may see that a document exists but is not offered a link the PDF route refuses (403).
+	it('an engineer sees the deposit invoice listed without a link; the owner and the artist get the link', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await book(artist, 'control-room');
+		await payAndConfirm(b);
+		const deposit = (await money(b.id)).invoices.find((i) => i.typeCode === 386)!;
+		const link = `/invoices/${deposit.id}/pdf`;
+
+		const engineer = await signedIn(DEMO.engineer);
+		const engineerPage = await (await engineer.fetch(`/bookings/${b.id}`)).text();
+		expect(engineerPage).toContain(deposit.displayNumber);
+		expect(engineerPage).not.toContain(link);
+		expect((await engineer.fetch(link)).status).toBe(403);
+
+		for (const who of [artist, await signedIn(DEMO.owner)]) {
+			expect(await (await who.fetch(`/bookings/${b.id}`)).text()).toContain(link);
+			expect((await who.fetch(link)).status).toBe(200);
+		}
+	});
+});
+
+// ---- the payments job -------------------------------------------------------------------------------
+
+describe('the payments job', () => {
+	// The job runs every 15 s in the app (src/lib/server/jobs.ts). One checkout Stripe does not know
+	// (404, as after the fake restarts) must not stop the rest: each item is tried on its own and the
+	// refunds are a job of their own.
+	it('expires a checkout Stripe does not know, still sends recorded refunds, and backs off slow checkouts', async () => {
+		const artist = await signedIn(DEMO.artist);
+
+		// 1. A held booking whose hold ran out, with a session Stripe has never heard of.
+		const lost = await book(artist, 'vocal-booth');
+		const goneId = `cs_test_gone_${crypto.randomUUID().replaceAll('-', '')}`;
+		await db.update(t.payment).set({ checkoutSessionId: goneId }).where(eq(t.payment.bookingId, lost.id));
+		await db
+			.update(t.booking)
+			.set({ holdExpiresAt: new Date(Date.now() - 60_000) })
+			.where(eq(t.booking.id, lost.id));
+
+		// 2. A refund recorded but never sent (a crash after commit).
+		const paidBooking = await book(artist, 'control-room');
+		await payAndConfirm(paidBooking);
+		const [paid] = (await money(paidBooking.id)).payments;
+		const [unsent] = await db
+			.insert(t.refund)
+			.values({
+				bookingId: paidBooking.id,
+				paymentId: paid!.id,
+				amount: 1000,
+				currency: 'EUR',
+				status: 'pending',
+				reason: 'cancellation',
+				idempotencyKey: `slateroom-refund-spec-${crypto.randomUUID()}`,
+				createdAt: new Date(Date.now() - 60_000)
+			})
+			.returning();
+
+		// 3. A bank payment on its way past its session's end: asked about, then left alone for a while.
+		const slow = await book(artist, 'live-room');
+		await control(`/sessions/${slow.sessionId}/pay-later`, {});
+		await waitStatus(slow.id, 'pending');
+		await db
+			.update(t.payment)
+			.set({ expiresAt: new Date(Date.now() - 10 * 60_000) })
+			.where(eq(t.payment.bookingId, slow.id));
+
+		await waitFor(
+			async () => (await money(lost.id)).payments[0]!.status === 'expired',
+			'the unknown checkout expired',
+			40_000
+		);
+		expect((await bookingRow(lost.id)).status).toBe('expired');
+		const sent = await waitFor(
+			async () => (await money(paidBooking.id)).refunds.find((r) => r.id === unsent!.id && r.status === 'succeeded'),
+			'the recorded refund sent',
+			40_000
+		);
+		expect(sent.stripeRefundId).toMatch(/^re_/);
+		const checked = await waitFor(
+			async () => (await money(slow.id)).payments[0]!.lastCheckedAt,
+			'the slow checkout asked about',
+			40_000
+		);
+		// A later tick (every 15 s) does not ask again so soon; the payment stays on its way.
+		await sleep(17_000);
+		const again = (await money(slow.id)).payments[0]!;
+		expect(again.lastCheckedAt!.getTime()).toBe(checked.getTime());
+		expect(again.status).toBe('processing');
+		expect((await bookingRow(slow.id)).status).toBe('pending');
+	}, 120_000);
+});

@@ -11,6 +11,8 @@ export interface MoneyPanelPayment {
 	status: string;
 	paidAt: string | null;
 	createdAt: string;
+	/** Why a payment did not go through (another amount reported by Stripe, a failed bank payment): owner only. */
+	problem: string | null;
 }
 
 export interface MoneyPanelRefund {
@@ -37,7 +39,8 @@ export interface MoneyPanelDocument {
 	/** Total incl. VAT as the customer reads it. */
 	total: number;
 	amountDue: number;
-	pdfUrl: string;
+	/** Null for a viewer who may know the document exists but not open it (an engineer). */
+	pdfUrl: string | null;
 }
 
 /** What the booking page shows about money: payments, refunds, documents and what the viewer may do. */
@@ -66,7 +69,14 @@ export interface MoneyPanelData {
 		/** checkoutUrl: the open Checkout page, when one is ready. */
 		payDeposit: { amount: number; checkoutUrl: string | null } | null;
 		payBalance: { amount: number; checkoutUrl: string | null } | null;
-		cancel: { refund: number; rule: string; noticeHours: number; paid: number } | null;
+		/** onArrival: a deposit still on its way and what of it goes back when it arrives. */
+		cancel: {
+			refund: number;
+			rule: string;
+			noticeHours: number;
+			paid: number;
+			onArrival: { amount: number; refund: number } | null;
+		} | null;
 		/** bookedEnd: a datetime-local value in the studio's zone. */
 		recordEnd: { bookedEnd: string; gear: { id: string; name: string; booked: boolean; hireFee: number }[] } | null;
 		retryRefunds: boolean;

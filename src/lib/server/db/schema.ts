@@ -263,6 +263,13 @@ export const payment = pgTable(
 		/** The Checkout Session's expires_at, fixed when the row is made so a retried create sends the same params. */
 		expiresAt: ts('expires_at'),
 		failureReason: text('failure_reason'),
+		/** When the payments job last asked Stripe about this checkout (it backs off from there). */
+		lastCheckedAt: ts('last_checked_at'),
+		/**
+		 * Set when the booking is cancelled while this deposit is still on its way (a delayed
+		 * method): how much of it goes back if it arrives, by the ladder at the cancellation.
+		 */
+		refundOnArrival: money('refund_on_arrival'),
 		createdAt: created(),
 		updatedAt: updated()
 	},

@@ -122,3 +122,17 @@ export async function setBookingStatus(tx: Tx, bookingId: string, status: Bookin
 		.set({ ...extra, status })
 		.where(and(eq(booking.id, bookingId)));
 }
+
+/** Runs work for each item on its own: a failure is logged and the next item still runs. */
+export async function eachIsolated<T>(items: readonly T[], what: string, work: (item: T) => Promise<unknown>): Promise<number> {
+	let failed = 0;
+	for (const item of items) {
+		try {
+			await work(item);
+		} catch (e) {
+			failed++;
+			console.warn(`[payments] ${what} ${JSON.stringify(item)}:`, (e as Error).message);
+		}
+	}
+	return failed;
+}

@@ -3,39 +3,93 @@
 //   them (fake-services/stripe/README.md: expire the session when the hold frees the slot);
 // - reconcile sessions past their end that no webhook told us about (Stripe's answer decides);
 // - send refunds recorded but not sent, and ask about refunds Stripe went quiet on.
-import { and, eq, inArray, isNotNull, lt, or } from 'drizzle-orm';
+//
+// Checkouts and refunds are two separate jobs, and each item is tried on its own: one session or
+// refund Stripe will not answer for is logged and left for a later tick, never blocking the rest.
+import { and, asc, eq, inArray, isNotNull, isNull, lt, or, sql } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import { db } from '../db';
 import { booking, payment } from '../db/schema';
 import { addPeriodicJob } from '../jobs';
-import { inTransaction } from './core';
+import { eachIsolated, inTransaction } from './core';
 import { applySession, setSenders } from './state';
 import { sendRefund, sweepRefunds } from './refunds';
 import { stripe } from './stripe';
 
+/** How long the job leaves a checkout it has asked about before asking again. */
+export const RECHECK_AFTER_MS = 10 * 60_000;
+const BATCH = 20;
+
+/**
+ * When the money was paid: the successful charge's time, else now. (A webhook carries its event's
+ * `created`; this is for the job, which learns of a payment without an event.)
+ */
+async function paymentTime(session: Stripe.Checkout.Session): Promise<Date | undefined> {
+	const pi = session.payment_intent;
+	if (!pi || session.payment_status !== 'paid') return undefined;
+	try {
+		const intent = await stripe().paymentIntents.retrieve(typeof pi === 'string' ? pi : pi.id, { expand: ['latest_charge'] });
+		const charge = intent.latest_charge;
+		if (charge && typeof charge !== 'string' && charge.status === 'succeeded') return new Date(charge.created * 1000);
+		return new Date(intent.created * 1000);
+	} catch {
+		return undefined;
+	}
+}
+
 /** Applies a session's state as Stripe reports it now (the same rules as its webhook events). */
 export async function reconcileSession(session: Stripe.Checkout.Session): Promise<string> {
 	if (session.status === 'expired') return inTransaction((tx, after) => applySession(tx, session, 'expired', after));
-	if (session.status === 'complete') return inTransaction((tx, after) => applySession(tx, session, 'completed', after));
+	if (session.status === 'complete') {
+		const paidAt = await paymentTime(session);
+		return inTransaction((tx, after) => applySession(tx, session, 'completed', after, paidAt));
+	}
 	return 'open';
+}
+
+function isMissing(e: unknown): boolean {
+	const err = e as { statusCode?: number; code?: string };
+	return err?.statusCode === 404 || err?.code === 'resource_missing';
+}
+
+/**
+ * A session Stripe no longer knows (the fake restarted, or it belongs to other keys): no money can
+ * come through it, so it ends as expired; a booking still waiting for it frees its slot.
+ */
+export async function forgetSession(sessionId: string): Promise<string> {
+	const gone = { id: sessionId, object: 'checkout.session', status: 'expired', metadata: {} } as unknown as Stripe.Checkout.Session;
+	const outcome = await inTransaction((tx, after) => applySession(tx, gone, 'expired', after));
+	console.warn(`[payments] Stripe does not know checkout ${sessionId}; treated as expired (${outcome})`);
+	return outcome;
+}
+
+/** Retrieves a session; null when Stripe answers that it does not exist. */
+async function retrieveSession(sessionId: string): Promise<Stripe.Checkout.Session | null> {
+	try {
+		return await stripe().checkout.sessions.retrieve(sessionId);
+	} catch (e) {
+		if (isMissing(e)) return null;
+		throw e;
+	}
 }
 
 /** Expires a session and applies the answer at once; a session that is no longer open is looked up instead. */
 export async function expireAndReconcile(sessionId: string): Promise<void> {
-	let session: Stripe.Checkout.Session;
+	let session: Stripe.Checkout.Session | null;
 	try {
 		session = await stripe().checkout.sessions.expire(sessionId);
 	} catch (e) {
 		const status = (e as { statusCode?: number }).statusCode ?? 0;
 		if (status < 400 || status >= 500) throw e;
-		session = await stripe().checkout.sessions.retrieve(sessionId);
+		session = await retrieveSession(sessionId);
 	}
-	await reconcileSession(session);
+	if (session) await reconcileSession(session);
+	else await forgetSession(sessionId);
 }
 
 export async function sweepCheckouts(now = new Date()): Promise<void> {
 	const orphans = await db
-		.select({ sessionId: payment.checkoutSessionId })
+		.select({ id: payment.id, sessionId: payment.checkoutSessionId })
 		.from(payment)
 		.innerJoin(booking, eq(booking.id, payment.bookingId))
 		.where(
@@ -49,25 +103,38 @@ export async function sweepCheckouts(now = new Date()): Promise<void> {
 				)
 			)
 		)
-		.limit(20);
-	for (const o of orphans) await expireAndReconcile(o.sessionId!);
+		.orderBy(sql`${payment.lastCheckedAt} asc nulls first`, asc(payment.expiresAt))
+		.limit(BATCH);
+	await eachIsolated(orphans, 'could not close checkout', async (o) => {
+		// Marked first: one Stripe keeps refusing goes behind the others on the next tick.
+		await db.update(payment).set({ lastCheckedAt: now }).where(eq(payment.id, o.id));
+		await expireAndReconcile(o.sessionId!);
+	});
 
+	// Past their end and still not final here: the oldest-checked first, each asked again only
+	// after RECHECK_AFTER_MS (a delayed payment can stay processing for days), so a few slow ones
+	// never starve the rest.
 	const overdue = await db
-		.select({ sessionId: payment.checkoutSessionId })
+		.select({ id: payment.id, sessionId: payment.checkoutSessionId })
 		.from(payment)
 		.where(
 			and(
 				inArray(payment.status, ['open', 'processing']),
 				isNotNull(payment.checkoutSessionId),
-				lt(payment.expiresAt, new Date(now.getTime() - 2 * 60_000))
+				lt(payment.expiresAt, new Date(now.getTime() - 2 * 60_000)),
+				or(isNull(payment.lastCheckedAt), lt(payment.lastCheckedAt, new Date(now.getTime() - RECHECK_AFTER_MS)))
 			)
 		)
-		.limit(20);
-	for (const o of overdue) {
-		const session = await stripe().checkout.sessions.retrieve(o.sessionId!);
-		// A delayed payment can stay processing for days; only a final answer changes anything.
-		if (session.status !== 'open') await reconcileSession(session);
-	}
+		.orderBy(sql`${payment.lastCheckedAt} asc nulls first`, asc(payment.expiresAt))
+		.limit(BATCH);
+	await eachIsolated(overdue, 'could not reconcile checkout', async (o) => {
+		// Marked first: a session that keeps failing waits its turn like the others.
+		await db.update(payment).set({ lastCheckedAt: now }).where(eq(payment.id, o.id));
+		const session = await retrieveSession(o.sessionId!);
+		if (!session) await forgetSession(o.sessionId!);
+		// Only a final answer changes anything.
+		else if (session.status !== 'open') await reconcileSession(session);
+	});
 }
 
 let registered = false;
@@ -77,8 +144,7 @@ export function registerPaymentJobs() {
 	if (registered) return;
 	registered = true;
 	setSenders({ refund: sendRefund, expireSession: expireAndReconcile });
-	addPeriodicJob(async () => {
-		await sweepCheckouts();
-		await sweepRefunds();
-	});
+	// Two jobs: a failure of one never keeps the other from running.
+	addPeriodicJob(() => sweepCheckouts());
+	addPeriodicJob(() => sweepRefunds());
 }

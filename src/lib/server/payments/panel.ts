@@ -1,6 +1,8 @@
 // What the booking page shows about money, scoped to the viewer (OWASP ASVS 8.2.2): the artist
 // sees their own booking's payments, refunds and documents; the owner also sees why a refund
-// failed and may try it again; the owner and engineers record the end of a session.
+// failed and may try it again; the owner and engineers record the end of a session. Engineers see
+// the money (PRODUCT.md: bookings with their price) and which documents exist, but not the
+// documents themselves (those are for the artist, the owner and the accountant).
 import { and, asc, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { db } from '../db';
@@ -49,6 +51,9 @@ export async function loadMoneyPanel(
 		db.select().from(invoice).where(eq(invoice.bookingId, row.id)).orderBy(asc(invoice.issuedAt))
 	]);
 	const isOwner = viewer.role === 'owner';
+	// The same rule as the PDF route (invoices/access.ts): the booking's artist, the owner and the
+	// accountant open documents; an engineer sees that they exist, not a link that would answer 403.
+	const mayOpenDocuments = isOwner || viewer.role === 'accountant' || (isArtist && row.artistId === viewer.id);
 	const mayPay = isOwner || (isArtist && row.artistId === viewer.id);
 	const final = docs.find((d) => d.typeCode === 380);
 	const paidBalance = state.payments.filter((p) => p.kind === 'balance' && p.status === 'paid').reduce((s, p) => s + p.amount, 0);
@@ -112,7 +117,8 @@ export async function loadMoneyPanel(
 				amount: p.amount,
 				status: p.status,
 				paidAt: p.paidAt?.toISOString() ?? null,
-				createdAt: p.createdAt.toISOString()
+				createdAt: p.createdAt.toISOString(),
+				problem: isOwner && p.status === 'failed' ? p.failureReason : null
 			})),
 		refunds: state.refunds.map((r) => ({
 			id: r.id,
@@ -131,7 +137,7 @@ export async function loadMoneyPanel(
 			issuedAt: d.issuedAt.toISOString(),
 			total: payableTotal(d),
 			amountDue: d.amountDue,
-			pdfUrl: `/invoices/${d.id}/pdf`
+			pdfUrl: mayOpenDocuments ? `/invoices/${d.id}/pdf` : null
 		})),
 		actions: {
 			payDeposit:
@@ -145,7 +151,13 @@ export async function loadMoneyPanel(
 					? { amount: balanceDue, checkoutUrl: openLink('balance') }
 					: null,
 			cancel: preview
-				? { refund: preview.refund, rule: preview.rule, noticeHours: preview.noticeHours, paid: preview.paid }
+				? {
+						refund: preview.refund,
+						rule: preview.rule,
+						noticeHours: preview.noticeHours,
+						paid: preview.paid,
+						onArrival: preview.onArrival
+					}
 				: null,
 			recordEnd,
 			retryRefunds: isOwner && unresolved.size > 0

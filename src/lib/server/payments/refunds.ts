@@ -6,12 +6,23 @@
 // Stripe may answer `pending` and fail later (refund.failed): the refund row follows what Stripe
 // says (state.ts), a credit note is issued only once the money has gone back, and a failed refund
 // stays visible to the owner and the accountant until someone tries again.
-import { and, eq, isNull, isNotNull, lt } from 'drizzle-orm';
+import { and, asc, eq, isNull, isNotNull, lt } from 'drizzle-orm';
+import type Stripe from 'stripe';
 import { db } from '../db';
 import { payment, refund } from '../db/schema';
 import { getPolicy } from '../studio';
 import type { SessionUser } from '../auth';
-import { inTransaction, loadMoneyState, lockBooking, setBookingStatus, type BookingRow, type RefundRow } from './core';
+import {
+	eachIsolated,
+	inTransaction,
+	loadMoneyState,
+	lockBooking,
+	setBookingStatus,
+	type BookingRow,
+	type MoneyState,
+	type PaymentRow,
+	type RefundRow
+} from './core';
 import { applyRefundObject, auditTx, queueRefund, unresolvedFailures } from './state';
 import { expireSession } from './checkout';
 import { stripe } from './stripe';
@@ -43,11 +54,39 @@ export interface CancellationPreview {
 	rule: string;
 	/** What the studio holds for the booking: paid − refunded. */
 	paid: number;
+	/**
+	 * A deposit still on its way (a delayed bank payment): its amount, and how much of it goes back
+	 * when it arrives after the cancellation (the same ladder, at the same moment). Null when none.
+	 */
+	onArrival: { amount: number; refund: number } | null;
+}
+
+/** Deposits on their way (processing) and the ladder's refund on them if they arrive. */
+function onArrivalOf(
+	state: MoneyState,
+	b: Pick<BookingRow, 'deposit' | 'startsAt'>,
+	now: Date,
+	policy: Parameters<typeof refundForCancellation>[0]['policy'],
+	refundNow: number
+): { amount: number; refund: number; payments: PaymentRow[] } | null {
+	const coming = state.payments.filter((p) => p.kind === 'deposit' && p.status === 'processing');
+	const amount = coming.reduce((s, p) => s + p.amount, 0);
+	if (amount <= 0) return null;
+	const whenAll = refundForCancellation({
+		paid: state.held + amount,
+		deposit: b.deposit,
+		bookingStart: b.startsAt,
+		cancelledAt: now,
+		policy
+	});
+	const refund = Math.min(amount, Math.max(0, whenAll.refund - refundNow));
+	return { amount, refund, payments: coming };
 }
 
 export async function previewCancellation(b: BookingRow, now = new Date()): Promise<CancellationPreview> {
 	const [{ policy }, state] = await Promise.all([getPolicy(), loadMoneyState(db, b.id)]);
 	const r = refundForCancellation({ paid: state.held, deposit: b.deposit, bookingStart: b.startsAt, cancelledAt: now, policy });
+	const coming = onArrivalOf(state, b, now, policy, r.refund);
 	return {
 		cancellable: isCancellable(b.status),
 		status: b.status,
@@ -55,7 +94,8 @@ export async function previewCancellation(b: BookingRow, now = new Date()): Prom
 		currency: b.currency,
 		noticeHours: r.noticeHours,
 		rule: r.rungLabel,
-		paid: state.held
+		paid: state.held,
+		onArrival: coming && { amount: coming.amount, refund: coming.refund }
 	};
 }
 
@@ -88,7 +128,8 @@ export async function cancelBooking(
 				currency: b.currency,
 				noticeHours: Math.floor((b.startsAt.getTime() - (b.cancelledAt ?? now).getTime()) / 36_000) / 100,
 				rule: 'Already cancelled',
-				paid: state.held
+				paid: state.held,
+				onArrival: null
 			};
 			return { ok: true, already: true, preview, refunds: refunded };
 		}
@@ -121,6 +162,17 @@ export async function cancelBooking(
 			);
 			left -= part;
 		}
+		// A deposit on its way is refunded, when it arrives, by this same ladder at this moment
+		// (what the preview said), not in full: the cancellation happened with this notice.
+		const coming = onArrivalOf(state, b, now, policy, r.refund);
+		if (coming) {
+			let share = coming.refund;
+			for (const p of coming.payments) {
+				const part = Math.min(share, p.amount);
+				share -= part;
+				await tx.update(payment).set({ refundOnArrival: part }).where(eq(payment.id, p.id));
+			}
+		}
 		// Nobody should be able to pay for a cancelled booking; if a payment still slips in, it is refunded.
 		for (const p of state.payments) {
 			if (p.status === 'open' && p.checkoutSessionId) {
@@ -128,7 +180,13 @@ export async function cancelBooking(
 				after.push(() => expireSession(id));
 			}
 		}
-		await auditTx(tx, 'booking.cancelled', b.id, { refund: r.refund, rule: r.rungLabel, noticeHours: r.noticeHours }, actor.id);
+		await auditTx(
+			tx,
+			'booking.cancelled',
+			b.id,
+			{ refund: r.refund, rule: r.rungLabel, noticeHours: r.noticeHours, refundOnArrival: coming?.refund ?? null },
+			actor.id
+		);
 		const preview: CancellationPreview = {
 			cancellable: false,
 			status: 'cancelled',
@@ -136,7 +194,8 @@ export async function cancelBooking(
 			currency: b.currency,
 			noticeHours: r.noticeHours,
 			rule: r.rungLabel,
-			paid: state.held
+			paid: state.held,
+			onArrival: coming && { amount: coming.amount, refund: coming.refund }
 		};
 		return { ok: true, already: false, preview, refunds };
 	});
@@ -169,11 +228,16 @@ export async function retryFailedRefunds(actor: SessionUser, bookingId: string):
 	return { ok: true, retried };
 }
 
-function isStripeRequestError(e: unknown): e is { type: string; statusCode?: number; message: string; code?: string } {
+/**
+ * Stripe refused the request itself: no retry with the same Idempotency-Key will change that.
+ * StripeIdempotencyError (the key was used with other parameters) is one of them (Stripe docs,
+ * "Idempotent requests": a key reused with different parameters is an error, every time).
+ */
+export function isStripeRequestError(e: unknown): e is { type: string; statusCode?: number; message: string; code?: string } {
 	const err = e as { type?: string; statusCode?: number };
 	return (
 		typeof err?.type === 'string' &&
-		['StripeInvalidRequestError', 'StripeCardError'].includes(err.type) &&
+		['StripeInvalidRequestError', 'StripeCardError', 'StripeIdempotencyError'].includes(err.type) &&
 		(err.statusCode ?? 0) >= 400 &&
 		(err.statusCode ?? 0) < 500
 	);
@@ -189,16 +253,16 @@ export async function sendRefund(refundId: string): Promise<void> {
 	if (!row || row.refund.stripeRefundId || row.refund.status !== 'pending') return;
 	const r = row.refund;
 	let paymentIntent = row.paymentIntentId;
-	if (!paymentIntent && row.sessionId) {
-		// payment_intent is null on a session until it is paid; the paid session names it.
-		const s = await stripe().checkout.sessions.retrieve(row.sessionId);
-		paymentIntent = typeof s.payment_intent === 'string' ? s.payment_intent : (s.payment_intent?.id ?? null);
-	}
-	if (!paymentIntent) {
-		await markSendFailed(r, 'The payment to refund was not found at Stripe.');
-		return;
-	}
 	try {
+		if (!paymentIntent && row.sessionId) {
+			// payment_intent is null on a session until it is paid; the paid session names it.
+			const s = await stripe().checkout.sessions.retrieve(row.sessionId);
+			paymentIntent = typeof s.payment_intent === 'string' ? s.payment_intent : (s.payment_intent?.id ?? null);
+		}
+		if (!paymentIntent) {
+			await markSendFailed(r, 'The payment to refund was not found at Stripe.');
+			return;
+		}
 		const created = await stripe().refunds.create(
 			{
 				payment_intent: paymentIntent,
@@ -210,9 +274,14 @@ export async function sendRefund(refundId: string): Promise<void> {
 		);
 		await inTransaction((tx) => applyRefundObject(tx, created));
 	} catch (e) {
-		// Stripe refused the request itself (already refunded, too large…): no retry will change that.
-		if (isStripeRequestError(e)) await markSendFailed(r, e.message);
-		else throw e;
+		// Stripe refused the request itself (already refunded, too large, a reused key…): no retry will change that.
+		if (isStripeRequestError(e)) {
+			await markSendFailed(r, e.type === 'StripeIdempotencyError' ? `Stripe refused the refund request: ${e.message}` : e.message);
+			return;
+		}
+		// Anything else (Stripe unreachable): tried again on a later tick, behind the others.
+		await db.update(refund).set({ updatedAt: new Date() }).where(eq(refund.id, r.id));
+		throw e;
 	}
 }
 
@@ -236,8 +305,10 @@ export async function sweepRefunds(now = new Date()): Promise<void> {
 		.where(
 			and(eq(refund.status, 'pending'), isNull(refund.stripeRefundId), lt(refund.createdAt, new Date(now.getTime() - 10_000)))
 		)
+		.orderBy(asc(refund.updatedAt))
 		.limit(20);
-	for (const { id } of unsent) await sendRefund(id);
+	// Each refund on its own: one Stripe will not take never keeps the others from going out.
+	await eachIsolated(unsent, 'could not send refund', ({ id }) => sendRefund(id));
 	const quiet = await db
 		.select({ stripeRefundId: refund.stripeRefundId })
 		.from(refund)
@@ -248,14 +319,38 @@ export async function sweepRefunds(now = new Date()): Promise<void> {
 				lt(refund.updatedAt, new Date(now.getTime() - 5 * 60_000))
 			)
 		)
+		.orderBy(asc(refund.updatedAt))
 		.limit(20);
-	for (const { stripeRefundId } of quiet) {
-		const r = await stripe().refunds.retrieve(stripeRefundId!);
-		await inTransaction((tx) => applyRefundObject(tx, r));
-		// Still pending at Stripe: ask again in five minutes, not on every tick.
+	await eachIsolated(quiet, 'could not look up refund', async ({ stripeRefundId }) => {
+		// Asked about now: asked again in five minutes, not on every tick, whatever Stripe answers.
 		await db
 			.update(refund)
 			.set({ updatedAt: now })
 			.where(and(eq(refund.stripeRefundId, stripeRefundId!), eq(refund.status, 'pending')));
-	}
+		let r: Stripe.Refund;
+		try {
+			r = await stripe().refunds.retrieve(stripeRefundId!);
+		} catch (e) {
+			if ((e as { statusCode?: number }).statusCode !== 404) throw e;
+			await markUnknownRefundFailed(stripeRefundId!);
+			return;
+		}
+		await inTransaction((tx) => applyRefundObject(tx, r));
+	});
+}
+
+/** A refund Stripe says it has never heard of: no money went back; the owner sees it as failed. */
+async function markUnknownRefundFailed(stripeRefundId: string) {
+	await inTransaction(async (tx) => {
+		const [row] = await tx.select().from(refund).where(eq(refund.stripeRefundId, stripeRefundId));
+		if (!row) return;
+		await lockBooking(tx, row.bookingId);
+		const reason = 'Stripe no longer knows this refund.';
+		const [updated] = await tx
+			.update(refund)
+			.set({ status: 'failed', failureReason: reason })
+			.where(and(eq(refund.id, row.id), eq(refund.status, 'pending')))
+			.returning({ id: refund.id });
+		if (updated) await auditTx(tx, 'refund.failed', row.bookingId, { refundId: row.id, reason });
+	});
 }

@@ -27,6 +27,7 @@ import {
 	type Tx
 } from './core';
 import type Stripe from 'stripe';
+import { formatMoney, fromStripeAmount, toStripeAmount } from '$lib/domain/money';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
@@ -75,12 +76,43 @@ async function paymentForSession(tx: Tx, session: Stripe.Checkout.Session): Prom
 
 export type SessionFact = 'completed' | 'async_succeeded' | 'async_failed' | 'expired';
 
-/** Applies what a Checkout Session event says; returns a word for the log and the webhook's answer. */
+const MISMATCH_PREFIX = 'Stripe reported a payment of';
+
+/**
+ * What Stripe says was charged differs from what this payment asked for (another amount or
+ * currency): a description of the difference, or null when they agree. Compared in Stripe's own
+ * units (toStripeAmount), as the session was made.
+ */
+export function amountMismatch(
+	session: Pick<Stripe.Checkout.Session, 'amount_total' | 'currency'>,
+	p: Pick<PaymentRow, 'amount' | 'currency'>
+): string | null {
+	const expected = toStripeAmount(p.amount, p.currency);
+	const currency = (session.currency ?? '').toUpperCase();
+	if (session.amount_total === expected && currency === p.currency.toUpperCase()) return null;
+	let reported = `${session.amount_total ?? 'no amount'} ${currency || '(no currency)'} in Stripe's units`;
+	try {
+		if (typeof session.amount_total === 'number' && /^[A-Z]{3}$/.test(currency)) {
+			reported = formatMoney(fromStripeAmount(session.amount_total, currency), currency);
+		}
+	} catch {
+		// An amount or currency we cannot read: shown as Stripe wrote it.
+	}
+	return `${MISMATCH_PREFIX} ${reported} where ${formatMoney(p.amount, p.currency)} was asked. Nothing was confirmed: check this payment at Stripe and refund it there.`;
+}
+
+/**
+ * Applies what a Checkout Session event says; returns a word for the log and the webhook's answer.
+ * `paidAt` is when Stripe took the money (the event's `created`, or the charge's time), not when
+ * we heard of it: deliveries can be late by days, and the deposit invoice states the date of the
+ * payment on account (Directive 2006/112/EC, Article 226(7)).
+ */
 export async function applySession(
 	tx: Tx,
 	session: Stripe.Checkout.Session,
 	fact: SessionFact,
-	after: AfterCommit
+	after: AfterCommit,
+	paidAt?: Date
 ): Promise<string> {
 	const found = await paymentForSession(tx, session);
 	if (!found) return 'unknown_session';
@@ -94,15 +126,20 @@ export async function applySession(
 			.set({ checkoutSessionId: session.id, checkoutUrl: session.url ?? null })
 			.where(eq(payment.id, p.id));
 	}
+	if (fact === 'completed' || fact === 'async_succeeded') {
+		// The money Stripe took must be the money we asked for, or nothing is confirmed.
+		const mismatch = amountMismatch(session, p);
+		if (mismatch) return markMismatch(tx, b, p, session, mismatch);
+	}
 	switch (fact) {
 		case 'completed':
 			// Checkout fulfilment (Stripe docs): a completed session may still be unpaid for delayed methods.
 			if (session.payment_status === 'paid' || session.payment_status === 'no_payment_required') {
-				return markPaid(tx, b, p, session, after);
+				return markPaid(tx, b, p, session, after, paidAt);
 			}
 			return markProcessing(tx, b, p);
 		case 'async_succeeded':
-			return markPaid(tx, b, p, session, after);
+			return markPaid(tx, b, p, session, after, paidAt);
 		case 'async_failed':
 			return markEnded(tx, b, p, 'failed', 'The delayed payment failed.');
 		case 'expired':
@@ -115,14 +152,15 @@ async function markPaid(
 	b: BookingRow,
 	p: PaymentRow,
 	session: Stripe.Checkout.Session,
-	after: AfterCommit
+	after: AfterCommit,
+	paidAt: Date = new Date()
 ): Promise<string> {
 	if (p.status === 'paid') return 'already_paid';
 	const [paid] = await tx
 		.update(payment)
 		.set({
 			status: 'paid',
-			paidAt: new Date(),
+			paidAt,
 			paymentIntentId: paymentIntentOf(session) ?? p.paymentIntentId,
 			failureReason: null
 		})
@@ -152,6 +190,7 @@ async function depositArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: After
 		return 'refunded_duplicate';
 	}
 	if (b.status === 'cancelled') {
+		if (p.refundOnArrival !== null) return settledAfterCancellation(tx, b, p, after);
 		await queueRefund(tx, after, { booking: b, payment: p, amount: p.amount, reason: 'cancelled_before_payment' });
 		return 'refunded_cancelled';
 	}
@@ -168,6 +207,20 @@ async function depositArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: After
 	}
 	await confirmed(tx, b, p, after);
 	return 'confirmed';
+}
+
+/**
+ * A delayed deposit that was on its way when the booking was cancelled has arrived: it is a
+ * payment on account for that booking (its invoice, Directive 2006/112/EC Article 65), and what
+ * the cancellation preview said goes back of it (refundOnArrival, by the ladder at the moment of
+ * cancelling) is refunded; the credit note follows the refund.
+ */
+async function settledAfterCancellation(tx: Tx, b: BookingRow, p: PaymentRow, after: AfterCommit): Promise<string> {
+	const back = Math.min(p.amount, Math.max(0, p.refundOnArrival ?? p.amount));
+	await issueDepositInvoice(tx, { paymentId: p.id });
+	if (back > 0) await queueRefund(tx, after, { booking: b, payment: p, amount: back, reason: 'cancellation' });
+	await auditTx(tx, 'booking.cancelled_payment_settled', b.id, { paymentId: p.id, refund: back, kept: p.amount - back });
+	return back > 0 ? 'refunded_by_cancellation' : 'kept_by_cancellation';
 }
 
 async function confirmed(tx: Tx, b: BookingRow, p: PaymentRow, after: AfterCommit) {
@@ -197,6 +250,37 @@ async function balanceArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: After
 		return 'refunded_overpayment';
 	}
 	return 'balance_paid';
+}
+
+/**
+ * Stripe reports another amount or currency than the payment asked for: the payment is not taken
+ * as paid and the booking is not confirmed; the owner sees why on the booking and in the log.
+ * The webhook still answers 2xx: Stripe retrying the same event would not change its amount.
+ */
+async function markMismatch(
+	tx: Tx,
+	b: BookingRow,
+	p: PaymentRow,
+	session: Stripe.Checkout.Session,
+	reason: string
+): Promise<string> {
+	if (p.status === 'paid') return 'already_paid';
+	if (p.status === 'failed' && p.failureReason?.startsWith(MISMATCH_PREFIX)) return 'amount_mismatch';
+	await tx
+		.update(payment)
+		.set({ status: 'failed', failureReason: reason, paymentIntentId: paymentIntentOf(session) ?? p.paymentIntentId })
+		.where(eq(payment.id, p.id));
+	await auditTx(tx, 'payment.amount_mismatch', b.id, {
+		paymentId: p.id,
+		session: session.id,
+		asked: { amount: p.amount, currency: p.currency },
+		reported: { amount: session.amount_total ?? null, currency: session.currency ?? null }
+	});
+	if (p.kind === 'deposit' && HOLDING_STATUSES.includes(b.status)) {
+		const live = (await paymentsOf(tx, b.id)).some((x) => x.id !== p.id && isLiveDeposit(x));
+		if (!live) await setBookingStatus(tx, b.id, 'expired');
+	}
+	return 'amount_mismatch';
 }
 
 async function markProcessing(tx: Tx, b: BookingRow, p: PaymentRow): Promise<string> {

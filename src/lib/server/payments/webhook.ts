@@ -36,7 +36,12 @@ export async function processStripeEvent(event: Stripe.Event): Promise<{ duplica
 			let outcome = 'ignored';
 			const fact = SESSION_FACTS[event.type];
 			if (fact) {
-				outcome = await applySession(tx, event.data.object as Stripe.Checkout.Session, fact, after);
+				// The event's time is when the payment happened, however late it is delivered.
+				const happened =
+					typeof event.created === 'number' && Number.isFinite(event.created)
+						? new Date(Math.min(event.created * 1000, Date.now()))
+						: undefined;
+				outcome = await applySession(tx, event.data.object as Stripe.Checkout.Session, fact, after, happened);
 			} else if (REFUND_EVENTS.has(event.type)) {
 				outcome = await applyRefundObject(tx, event.data.object as Stripe.Refund);
 			}

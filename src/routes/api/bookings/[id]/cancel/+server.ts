@@ -37,6 +37,7 @@ export const POST: RequestHandler = async ({ locals, params, request, getClientA
 		noticeHours: p.noticeHours,
 		rule: p.rule,
 		paid: p.paid,
+		onArrival: p.onArrival,
 		refunds: outcome.refunds.map((r) => ({ id: r.id, amount: r.amount, status: r.status, failureReason: r.failureReason }))
 	});
 };

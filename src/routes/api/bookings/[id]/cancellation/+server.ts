@@ -24,6 +24,7 @@ export const GET: RequestHandler = async ({ locals, params }) => {
 			noticeHours: p.noticeHours,
 			rule: p.rule,
 			paid: p.paid,
+			onArrival: p.onArrival,
 			cancellable: p.cancellable,
 			status: p.status
 		},
