@@ -42,6 +42,8 @@ export interface MonthReport {
 		precedingNumber: string | null;
 		net: number;
 		vat: number;
+		/** This document's part of the month's VAT by rate (ledger.ts): credit notes negative, deposits deducted from final invoices. */
+		vatDeclared: number;
 		gross: number;
 		rounding: number;
 		total: number;
@@ -193,6 +195,7 @@ export async function monthReport(month: string, timeZone: string, currency: str
 		precedingNumber: d.precedingInvoiceId ? (byId.get(d.precedingInvoiceId) ?? null) : null,
 		net: d.net,
 		vat: d.vatTotal,
+		vatDeclared: vatLedger([{ typeCode: d.typeCode, vat: d.vatBreakdown, prepaidVat: d.prepaidVatBreakdown }]).reduce((s, r) => s + r.vat, 0),
 		gross: d.gross,
 		rounding: d.rounding,
 		total: payableTotal(d),

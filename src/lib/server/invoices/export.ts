@@ -1,0 +1,87 @@
+// The month for the accountant, as files: CSV registers (RFC 4180, see $lib/domain/csv) of the
+// documents, payments, refunds and VAT by rate, and a ZIP archive of those registers with every
+// document's PDF. Amounts are exact decimal text in the currency's ISO 4217 minor unit; credit
+// notes and refunds count negatively, so each amount column adds up to the month's figure.
+import { zipSync, strToU8 } from 'fflate';
+import { toDecimalString } from '$lib/domain/money';
+import { toCsv, type CsvColumn } from '$lib/domain/csv';
+import { DOCUMENT_TYPE } from '$lib/domain/invoice/numbering';
+import { documentForViewer } from './access';
+import type { MonthReport } from './month';
+import { renderInvoicePdf } from './pdf';
+import type { SessionUser } from '../auth';
+
+type Doc = MonthReport['documents'][number];
+type Pay = MonthReport['payments'][number];
+type Ref = MonthReport['refunds'][number];
+type Vat = MonthReport['vatByRate'][number];
+
+function localDate(iso: string, timeZone: string): string {
+	return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(iso));
+}
+
+export function monthRegisters(report: MonthReport, timeZone: string): Record<string, string> {
+	const amount = (minor: number) => toDecimalString(minor, report.currency);
+	const signOf = (d: Doc) => (d.typeCode === DOCUMENT_TYPE.creditNote ? -1 : 1);
+	const documents: CsvColumn<Doc>[] = [
+		{ header: 'Number', kind: 'text', value: (d) => d.number },
+		{ header: 'Type code (UNTDID 1001)', kind: 'number', value: (d) => String(d.typeCode) },
+		{ header: 'Kind', kind: 'text', value: (d) => d.kind },
+		{ header: 'Issue date', kind: 'date', value: (d) => localDate(d.issuedAt, timeZone) },
+		{ header: 'Booking', kind: 'text', value: (d) => d.bookingReference ?? '' },
+		{ header: 'Customer', kind: 'text', value: (d) => d.customer },
+		{ header: 'Refers to', kind: 'text', value: (d) => d.precedingNumber ?? '' },
+		{ header: 'Net', kind: 'number', value: (d) => amount(signOf(d) * d.net) },
+		{ header: 'VAT', kind: 'number', value: (d) => amount(signOf(d) * d.vat) },
+		{ header: 'VAT declared this month', kind: 'number', value: (d) => amount(d.vatDeclared) },
+		{ header: 'Gross', kind: 'number', value: (d) => amount(signOf(d) * d.gross) },
+		{ header: 'Rounding', kind: 'number', value: (d) => amount(signOf(d) * d.rounding) },
+		{ header: 'Paid on account', kind: 'number', value: (d) => amount(signOf(d) * d.prepaid) },
+		{ header: 'Amount due', kind: 'number', value: (d) => amount(signOf(d) * d.amountDue) },
+		{ header: 'Currency', kind: 'text', value: (d) => d.currency }
+	];
+	const payments: CsvColumn<Pay>[] = [
+		{ header: 'Paid on', kind: 'date', value: (p) => localDate(p.paidAt, timeZone) },
+		{ header: 'Booking', kind: 'text', value: (p) => p.bookingReference },
+		{ header: 'Artist', kind: 'text', value: (p) => p.artist },
+		{ header: 'For', kind: 'text', value: (p) => p.kind },
+		{ header: 'Amount', kind: 'number', value: (p) => amount(p.amount) },
+		{ header: 'Currency', kind: 'text', value: (p) => p.currency }
+	];
+	const refunds: CsvColumn<Ref>[] = [
+		{ header: 'Created on', kind: 'date', value: (r) => localDate(r.createdAt, timeZone) },
+		{ header: 'Booking', kind: 'text', value: (r) => r.bookingReference },
+		{ header: 'Artist', kind: 'text', value: (r) => r.artist },
+		{ header: 'Status', kind: 'text', value: (r) => r.status },
+		{ header: 'Reason', kind: 'text', value: (r) => r.reason },
+		{ header: 'Amount', kind: 'number', value: (r) => amount(-r.amount) },
+		{ header: 'Currency', kind: 'text', value: (r) => r.currency }
+	];
+	const vat: CsvColumn<Vat>[] = [
+		{ header: 'VAT rate %', kind: 'number', value: (v) => v.ratePercent },
+		{ header: 'Taxable amount', kind: 'number', value: (v) => amount(v.base) },
+		{ header: 'VAT', kind: 'number', value: (v) => amount(v.vat) },
+		{ header: 'Currency', kind: 'text', value: () => report.currency }
+	];
+	const m = report.month;
+	return {
+		[`documents-${m}.csv`]: toCsv(documents, report.documents),
+		[`payments-${m}.csv`]: toCsv(payments, report.payments),
+		[`refunds-${m}.csv`]: toCsv(refunds, report.refunds),
+		[`vat-${m}.csv`]: toCsv(vat, report.vatByRate)
+	};
+}
+
+/** The registers plus each document's PDF (pdf/<number>.pdf), as one ZIP archive. */
+export async function monthArchive(report: MonthReport, timeZone: string, viewer: SessionUser): Promise<Uint8Array> {
+	const files: Record<string, Uint8Array> = {};
+	for (const [name, text] of Object.entries(monthRegisters(report, timeZone))) files[name] = strToU8(text);
+	for (const { id } of report.documents) {
+		const found = await documentForViewer(viewer, id);
+		if (!found.ok) continue;
+		const pdf = await renderInvoicePdf({ ...found, timeZone });
+		files[`pdf/${found.invoice.displayNumber}.pdf`] = new Uint8Array(pdf);
+	}
+	// PDFs are already compressed; level 6 for the CSV text.
+	return zipSync(files, { level: 6, mtime: new Date('2000-01-01T00:00:00Z') });
+}

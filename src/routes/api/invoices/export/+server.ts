@@ -1,0 +1,51 @@
+// GET ?month=YYYY-MM&format=csv|zip[&register=documents|payments|refunds|vat] (accountant, owner):
+// the month as files. csv: one register (the documents unless another is named); zip: every
+// register and each document's PDF.
+import { apiError } from '$lib/server/api';
+import { getStudio } from '$lib/server/studio';
+import { MONTH_PATTERN, currentMonth, monthReport } from '$lib/server/invoices/month';
+import { monthArchive, monthRegisters } from '$lib/server/invoices/export';
+import type { RequestHandler } from './$types';
+
+const FORMATS = ['csv', 'zip'] as const;
+const REGISTERS = ['documents', 'payments', 'refunds', 'vat'] as const;
+
+export const GET: RequestHandler = async ({ locals, url }) => {
+	if (!locals.user) return apiError(401, 'unauthenticated', 'Please sign in first.');
+	if (locals.user.role !== 'accountant' && locals.user.role !== 'owner') {
+		return apiError(403, 'forbidden', 'The accounts are for the accountant and the owner.');
+	}
+	const studio = await getStudio();
+	const month = url.searchParams.get('month') ?? currentMonth(studio.timeZone);
+	const format = url.searchParams.get('format') ?? 'csv';
+	const register = url.searchParams.get('register') ?? 'documents';
+	const fields: Record<string, string[]> = {};
+	if (!MONTH_PATTERN.test(month)) fields.month = ['Use a month such as 2027-03.'];
+	if (!(FORMATS as readonly string[]).includes(format)) fields.format = [`Choose one of: ${FORMATS.join(', ')}.`];
+	if (!(REGISTERS as readonly string[]).includes(register)) fields.register = [`Choose one of: ${REGISTERS.join(', ')}.`];
+	if (Object.keys(fields).length) return apiError(422, 'invalid', 'Some of the export’s settings are not valid.', { fields });
+
+	const report = await monthReport(month, studio.timeZone, studio.currency);
+	const headers = { 'cache-control': 'private, no-store', 'x-content-type-options': 'nosniff' };
+	if (format === 'zip') {
+		const zip = await monthArchive(report, studio.timeZone, locals.user);
+		return new Response(zip as Uint8Array<ArrayBuffer>, {
+			headers: {
+				...headers,
+				'content-type': 'application/zip',
+				'content-disposition': `attachment; filename="accounts-${month}.zip"`,
+				'content-length': String(zip.length)
+			}
+		});
+	}
+	const name = `${register}-${month}.csv`;
+	const csv = monthRegisters(report, studio.timeZone)[name]!;
+	return new Response(csv, {
+		headers: {
+			...headers,
+			// RFC 4180 §3: text/csv, with the header line present.
+			'content-type': 'text/csv; charset=utf-8; header=present',
+			'content-disposition': `attachment; filename="${name}"`
+		}
+	});
+};

@@ -1,0 +1,138 @@
+// The accountant's month as files, over real HTTP against the real database. Checked against:
+// RFC 4180 (CRLF records, quoting; parsed back with csv-parse), OWASP "CSV Injection" (text cells
+// that start like a formula are neutralised, amounts are not), and the month report's own totals
+// (sums with decimal.js, so no float rounding hides a cent). The ZIP is opened with fflate.
+import { afterAll, describe, expect, it } from 'vitest';
+import { parse } from 'csv-parse/sync';
+import Decimal from 'decimal.js';
+import { unzipSync, strFromU8 } from 'fflate';
+import { eq } from 'drizzle-orm';
+import { Client, signedIn } from '../support/http';
+import { DEMO, STRIPE_API_BASE } from '../support/env';
+import { testDb } from '../support/db';
+import * as t from '../../src/lib/server/db/schema';
+
+const { db, client } = testDb();
+afterAll(() => client.end());
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+function studioMonth(): string {
+	return new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/Helsinki', year: 'numeric', month: '2-digit' }).format(new Date());
+}
+
+/** Books two hours in the vocal booth 120–150 days ahead and pays the deposit on the fake. */
+async function bookAndPay(who: Client): Promise<string> {
+	for (let attempt = 0; attempt < 20; attempt++) {
+		const ymd = new Date(Date.now() + (120 + Math.floor(Math.random() * 30)) * 86_400_000).toISOString().slice(0, 10);
+		const res = await who.json('/api/bookings', { room: 'vocal-booth', start: `${ymd}T16:00`, end: `${ymd}T18:00` });
+		if (res.status === 409) continue;
+		const body = (await res.json()) as { id: string; checkoutUrl: string };
+		expect(res.status, JSON.stringify(body)).toBe(201);
+		const session = body.checkoutUrl.split('/pay/')[1]!;
+		const paid = await fetch(`${STRIPE_API_BASE}/_control/sessions/${session}/pay`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/json' },
+			body: '{}'
+		});
+		expect(paid.status).toBe(200);
+		for (let i = 0; i < 100; i++) {
+			const [row] = await db.select({ status: t.booking.status }).from(t.booking).where(eq(t.booking.id, body.id));
+			if (row?.status === 'confirmed') return body.id;
+			await sleep(100);
+		}
+		throw new Error('the booking was not confirmed');
+	}
+	throw new Error('no free slot found');
+}
+
+const sum = (values: string[]) => values.reduce((s, v) => s.plus(new Decimal(v)), new Decimal(0)).toFixed(2);
+const euros = (minor: number) => new Decimal(minor).dividedBy(100).toFixed(2);
+
+interface Report {
+	documents: { number: string; customer: string }[];
+	totals: { invoiced: number; deposits: number; credited: number; received: number; refunded: number; vat: number };
+	vatByRate: { ratePercent: string; base: number; vat: number }[];
+	refunds: { status: string }[];
+}
+
+describe('the month export', () => {
+	it('gives CSV registers that parse back, add up to the month’s totals and neutralise formula-like names', async () => {
+		// An artist whose name a spreadsheet would run as a formula, with a quote, a comma and a line break.
+		const sneaky = `=HYPERLINK("x", "y"), Ltd ${Date.now()}`;
+		const artist = new Client();
+		const signUp = await artist.form('/sign-up', { name: sneaky, email: `export-${Date.now()}@slateroom.test`, password: 'a-long-enough-pass' });
+		expect(signUp.status).toBe(303);
+		await bookAndPay(artist);
+
+		const accountant = await signedIn(DEMO.accountant);
+		const month = studioMonth();
+		const report = (await (await accountant.json(`/api/invoices?month=${month}`)).json()) as Report;
+
+		const res = await accountant.fetch(`/api/invoices/export?month=${month}&format=csv`);
+		expect(res.status).toBe(200);
+		expect(res.headers.get('content-type')).toMatch(/^text\/csv/);
+		expect(res.headers.get('content-disposition')).toBe(`attachment; filename="documents-${month}.csv"`);
+		const text = await res.text();
+		// RFC 4180 §2.1: every record ends in CRLF (line breaks inside quoted fields aside).
+		expect(text.endsWith('\r\n')).toBe(true);
+		const rows = parse(text, { columns: true }) as Record<string, string>[];
+		expect(rows.map((r) => r.Number)).toEqual(report.documents.map((d) => d.number));
+
+		const mine = rows.find((r) => r.Customer!.includes('HYPERLINK'));
+		expect(mine?.Customer).toBe(`'${sneaky}`);
+		// Gross: final and deposit invoices count, credit notes count against.
+		expect(sum(rows.map((r) => r.Gross!))).toBe(euros(report.totals.invoiced + report.totals.deposits - report.totals.credited));
+		expect(sum(rows.map((r) => r['VAT declared this month']!))).toBe(euros(report.totals.vat));
+		for (const r of rows) expect(r.Net).toMatch(/^-?\d+\.\d{2}$/);
+
+		const payments = parse(await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=payments`)).text(), {
+			columns: true
+		}) as Record<string, string>[];
+		expect(sum(payments.map((p) => p.Amount!))).toBe(euros(report.totals.received));
+
+		const refunds = parse(await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=refunds`)).text(), {
+			columns: true
+		}) as Record<string, string>[];
+		expect(refunds).toHaveLength(report.refunds.length);
+		expect(sum(refunds.filter((r) => r.Status === 'succeeded').map((r) => r.Amount!))).toBe(euros(-report.totals.refunded));
+
+		const vat = parse(await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=vat`)).text(), {
+			columns: true
+		}) as Record<string, string>[];
+		expect(vat.map((v) => [v['VAT rate %'], v.VAT])).toEqual(report.vatByRate.map((v) => [v.ratePercent, euros(v.vat)]));
+	});
+
+	it('gives a ZIP of every register and each document’s PDF', async () => {
+		const owner = await signedIn(DEMO.owner);
+		const month = studioMonth();
+		const report = (await (await owner.json(`/api/invoices?month=${month}`)).json()) as Report;
+		expect(report.documents.length).toBeGreaterThan(0);
+		const res = await owner.fetch(`/api/invoices/export?month=${month}&format=zip`);
+		expect(res.status).toBe(200);
+		expect(res.headers.get('content-type')).toBe('application/zip');
+		const files = unzipSync(new Uint8Array(await res.arrayBuffer()));
+		for (const register of ['documents', 'payments', 'refunds', 'vat']) {
+			expect(strFromU8(files[`${register}-${month}.csv`]!)).toMatch(/\r\n$/);
+		}
+		for (const d of report.documents) {
+			const pdf = files[`pdf/${d.number}.pdf`];
+			expect(pdf, d.number).toBeDefined();
+			expect(strFromU8(pdf!.slice(0, 5))).toBe('%PDF-');
+		}
+	});
+
+	it('is for the accountant and the owner only, and names a bad setting', async () => {
+		const month = studioMonth();
+		expect((await new Client().fetch(`/api/invoices/export?month=${month}&format=csv`)).status).toBe(401);
+		for (const who of [DEMO.artist, DEMO.engineer]) {
+			expect((await (await signedIn(who)).fetch(`/api/invoices/export?month=${month}&format=zip`)).status).toBe(403);
+		}
+		const accountant = await signedIn(DEMO.accountant);
+		const bad = await accountant.fetch('/api/invoices/export?month=2027-13&format=xls&register=people');
+		expect(bad.status).toBe(422);
+		const body = (await bad.json()) as { error: string; fields: Record<string, string[]> };
+		expect(body.error).toBe('invalid');
+		expect(Object.keys(body.fields).sort()).toEqual(['format', 'month', 'register']);
+	});
+});
