@@ -1,6 +1,12 @@
 import adapter from '@sveltejs/adapter-node';
 import { vitePreprocess } from '@sveltejs/vite-plugin-svelte';
 
+// Where a form may send the browser: our own pages and the payment page. The CSP is fixed when the
+// app is built, so the build reads the Stripe base that npm start and npm test set (the local fake
+// on its port, or Stripe itself).
+const stripeBase = process.env.STRIPE_API_BASE ?? `http://127.0.0.1:${process.env.STRIPE_FAKE_PORT ?? 12111}`;
+const payPages = [...new Set([new URL(stripeBase).origin, 'https://checkout.stripe.com'])];
+
 /** @type {import('@sveltejs/kit').Config} */
 const config = {
 	preprocess: vitePreprocess(),
@@ -27,7 +33,7 @@ const config = {
 				'font-src': ['self', 'data:'],
 				'connect-src': ['self'],
 				'frame-ancestors': ['none'],
-				'form-action': ['self', 'http://127.0.0.1:12111', 'https://checkout.stripe.com'],
+				'form-action': ['self', ...payPages],
 				'base-uri': ['self'],
 				'object-src': ['none']
 			}
