@@ -4,16 +4,19 @@ import { z } from 'zod';
 import { requireRole } from '$lib/server/guard';
 import { dayPlan, isPlanDate, saveRecall, todayInStudio } from '$lib/server/plan';
 import { audit } from '$lib/server/audit';
+import { feedTokenOf, replaceFeedToken } from '$lib/server/feed';
 import type { RecallChannel } from '$lib/server/db/schema';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
-	requireRole(locals, 'owner', 'engineer');
+	const me = requireRole(locals, 'owner', 'engineer');
 	const date = url.searchParams.get('date') ?? (await todayInStudio());
 	if (!isPlanDate(date)) error(400, { message: 'Use a date such as 2027-03-28.' });
 	const day = new Date(`${date}T12:00:00Z`);
+	const [plan, feedToken] = await Promise.all([dayPlan(date), feedTokenOf(me.id)]);
 	return {
-		plan: await dayPlan(date),
+		plan,
+		feedUrl: feedToken ? `${url.origin}/feed/${feedToken}/sessions.ics` : null,
 		prev: format(addDays(day, -1), 'yyyy-MM-dd'),
 		next: format(addDays(day, 1), 'yyyy-MM-dd')
 	};
@@ -37,6 +40,12 @@ const channelSchema = z.object({
 });
 
 export const actions: Actions = {
+	feed: async ({ locals, getClientAddress }) => {
+		const me = requireRole(locals, 'owner', 'engineer');
+		await replaceFeedToken(me.id);
+		await audit({ actorId: me.id, action: 'feed.replaced', entity: 'user', entityId: me.id, ip: getClientAddress() });
+		return { feedReplaced: true };
+	},
 	recall: async ({ request, locals, getClientAddress }) => {
 		const me = requireRole(locals, 'owner', 'engineer');
 		const form = await request.formData();
