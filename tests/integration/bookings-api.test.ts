@@ -111,6 +111,40 @@ describe('POST /api/quote', () => {
 		}
 	});
 
+	it('answers 422 at once for a time far off or a booking without end, instead of walking the calendar', async () => {
+		const cases: [unknown, string][] = [
+			[{ room: 'live-room', start: `${day}T10:00`, end: '9999-12-31T10:00:00Z' }, 'end'],
+			[{ room: 'live-room', start: '0001-01-01T10:00:00Z', end: `${day}T12:00` }, 'start'],
+			[{ room: 'live-room', start: '0001-01-01T10:00:00Z', end: '9999-12-31T10:00:00Z' }, 'start'],
+			[{ room: 'live-room', start: '9999-12-30T10:00:00Z', end: '9999-12-31T10:00:00Z' }, 'start']
+		];
+		for (const [body, field] of cases) {
+			const t0 = performance.now();
+			const res = await quote(body);
+			expect(performance.now() - t0).toBeLessThan(1000);
+			expect(res.status).toBe(422);
+			expect(res.body.fields?.[field]?.[0]).toMatch(/\w+/);
+		}
+	});
+
+	it('refuses more than 72 h even when the studio is open round the clock (was a 500 past 366 days)', async () => {
+		const [studio] = await db.select().from(t.studio);
+		await db.update(t.studio).set({
+			horizonDays: 900,
+			openingHours: [1, 2, 3, 4, 5, 6, 7].map((weekday) => ({ weekday, openMinute: 0, closeMinute: 1440 }))
+		});
+		try {
+			const later = (days: number) => new Date(Date.parse(helsinki(day, '10:00')) + days * 86_400_000).toISOString();
+			const long = await quote({ room: 'live-room', start: helsinki(day, '10:00'), end: later(400) });
+			expect(long.status).toBe(422);
+			expect(long.body.fields?.end?.[0]).toContain('at most 72 h');
+			const weekend = await quote({ room: 'live-room', start: helsinki(day, '10:00'), end: later(3) });
+			expect(weekend.status).toBe(200);
+		} finally {
+			await db.update(t.studio).set({ horizonDays: studio!.horizonDays, openingHours: studio!.openingHours });
+		}
+	});
+
 	it('refuses a blackout day', async () => {
 		const closed = weekdayAhead(66);
 		const [row] = await db.insert(t.blackout).values({ startsOn: closed, endsOn: closed, reason: 'Roof repairs' }).returning();

@@ -6,7 +6,7 @@ import { z } from 'zod';
 import { db } from './db';
 import { blackout, booking, bookingGear, gearItem, room, user, ACTIVE_BOOKING_STATUSES, type BookingStatus } from './db/schema';
 import { getPolicy, roomRates, type RoomRow, type StudioRow } from './studio';
-import { quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
+import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
 import { computeAvailability, nearestFreeStarts, parseBookingInstant, TimeInputError, type Blackout } from '$lib/domain/availability';
 import { publicHolidayChecker, publicHolidayList } from '$lib/domain/holidays';
 import type { StudioPolicy } from '$lib/domain/types';
@@ -118,7 +118,10 @@ export async function priceRequest(input: unknown, now = new Date()): Promise<Pr
 	if (!times.start || !times.end || !roomRow) return invalid(fields);
 	const { start, end } = times;
 
-	for (const issue of validateBookingTimes(start, end, ctx.policy, now)) (fields[issue.field] ??= []).push(issue.message);
+	const timeIssues = validateBookingTimes(start, end, ctx.policy, now);
+	for (const issue of timeIssues) (fields[issue.field] ??= []).push(issue.message);
+	// Blackouts and holidays are looked up day by day: only for a time that is in range.
+	if (isUnboundedTime(timeIssues)) return invalid(fields);
 
 	const startDay = localYmd(start, tz);
 	const endDay = localYmd(new Date(end.getTime() - 1), tz);
