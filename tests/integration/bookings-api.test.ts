@@ -232,12 +232,25 @@ describe('GET /api/availability', () => {
 		['room=live-room&from=2027-01-05&to=2027-01-01', 'to'],
 		['room=live-room&from=2027-01-01&to=2027-06-01', 'to'],
 		['room=live-room&from=yesterday&to=2027-01-01', 'from'],
-		['from=2027-01-01&to=2027-01-02', 'room']
+		['from=2027-01-01&to=2027-01-02', 'room'],
+		// Real calendar dates only: Date.parse would read 2027-02-31 as 3 March (ISO 8601).
+		['room=live-room&from=2027-02-31&to=2027-03-02', 'from'],
+		['room=live-room&from=2027-02-01&to=2027-02-29', 'to'],
+		['room=live-room&from=2027-13-01&to=2027-13-02', 'from']
 	])('answers 422 for %s', async (query, field) => {
 		const res = await new Client().fetch(`/api/availability?${query}`);
 		expect(res.status).toBe(422);
 		const body = (await res.json()) as { fields: Record<string, string[]> };
 		expect(body.fields[field]).toBeDefined();
+	});
+});
+
+describe('the booking page', () => {
+	it('says plainly that a date in the address is not on the calendar (was a 500)', async () => {
+		const res = await new Client().fetch('/book?room=live-room&date=2027-02-31&start=10:00', { headers: { accept: 'text/html' } });
+		expect(res.status).toBe(200);
+		const html = await res.text();
+		expect(html).toContain('There is no 2027-02-31 on the calendar');
 	});
 });
 

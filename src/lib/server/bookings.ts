@@ -8,6 +8,7 @@ import { blackout, booking, bookingGear, gearItem, room, user, ACTIVE_BOOKING_ST
 import { getPolicy, roomRates, type RoomRow, type StudioRow } from './studio';
 import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
 import { computeAvailability, nearestFreeStarts, parseBookingInstant, TimeInputError, type Blackout } from '$lib/domain/availability';
+import { isYmd as isCalendarDate } from '$lib/domain/availability/calendar';
 import { publicHolidayChecker, publicHolidayList } from '$lib/domain/holidays';
 import type { StudioPolicy } from '$lib/domain/types';
 import type { SessionUser } from './auth';
@@ -195,6 +196,7 @@ export type AvailabilityResult =
 	| { ok: true; body: { timeZone: string; room: string; open: { start: string; end: string }[]; busy: { start: string; end: string }[]; closed: { date: string; reason: string }[] } }
 	| { ok: false; fields: FieldErrors };
 
+const NO_SUCH_DATE = (ymd: string) => `There is no ${ymd} on the calendar.`;
 const ymdSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a date such as 2027-03-28.' });
 
 export async function availability(params: { room: string | null; from: string | null; to: string | null }, now = new Date()): Promise<AvailabilityResult> {
@@ -202,8 +204,11 @@ export async function availability(params: { room: string | null; from: string |
 	if (!params.room) fields.room = ['Choose a room.'];
 	const from = ymdSchema.safeParse(params.from ?? '');
 	const to = ymdSchema.safeParse(params.to ?? '');
-	if (!from.success || Number.isNaN(Date.parse(from.data))) fields.from = ['Use a date such as 2027-03-28.'];
-	if (!to.success || Number.isNaN(Date.parse(to.data))) fields.to = ['Use a date such as 2027-03-28.'];
+	// A real calendar date, not merely its shape: Date.parse reads 2027-02-31 as 3 March.
+	if (!from.success) fields.from = ['Use a date such as 2027-03-28.'];
+	else if (!isCalendarDate(from.data)) fields.from = [NO_SUCH_DATE(from.data)];
+	if (!to.success) fields.to = ['Use a date such as 2027-03-28.'];
+	else if (!isCalendarDate(to.data)) fields.to = [NO_SUCH_DATE(to.data)];
 	if (Object.keys(fields).length || !from.data || !to.data) return { ok: false, fields };
 	const days = (Date.parse(to.data) - Date.parse(from.data)) / 86_400_000 + 1;
 	if (days < 1) return { ok: false, fields: { to: ['The end date is before the start date.'] } };
