@@ -11,9 +11,9 @@ import * as t from '../../src/lib/server/db/schema';
 const { db, client } = testDb();
 afterAll(() => client.end());
 
-// This file owns the weekdays 61–72 days ahead; a rerun against the same database starts them clean.
+// This file owns the weekdays 61–80 days ahead; a rerun against the same database starts them clean.
 beforeAll(async () => {
-	const days = [...new Set(Array.from({ length: 12 }, (_, i) => weekdayAhead(61 + i)))];
+	const days = [...new Set(Array.from({ length: 20 }, (_, i) => weekdayAhead(61 + i)))];
 	await db
 		.update(t.booking)
 		.set({ status: 'cancelled' })
@@ -311,6 +311,41 @@ describe('POST /api/bookings', () => {
 		expect(offered).toContain(Date.parse(helsinki(day, '09:00')));
 	});
 
+	it('answers 409 taken: engineer with nearby starts where the engineer is free too', async () => {
+		const day = weekdayAhead(76);
+		const engineers = await db.select().from(t.user).where(eq(t.user.role, 'engineer'));
+		expect(engineers).toHaveLength(1); // the seed's one engineer (PRODUCT.md demo)
+		const a = await signedIn(DEMO.artist);
+		const b = await signedIn(DEMO.artist2);
+		expect((await a.json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T14:00`, engineer: true })).status).toBe(201);
+		const res = await b.json('/api/bookings', { room: 'vocal-booth', start: `${day}T10:00`, end: `${day}T14:00`, engineer: true });
+		expect(res.status).toBe(409);
+		const body = (await res.json()) as { taken: string; nearestStarts: string[] };
+		expect(body.taken).toBe('engineer');
+		// The engineer is busy 10:00–14:30 (turnaround included); the booth is free all day.
+		const offered = body.nearestStarts.map((s) => Date.parse(s));
+		expect(offered.length).toBeGreaterThan(0);
+		expect(offered).toContain(Date.parse(helsinki(day, '14:30')));
+		for (const s of offered) expect(s + 4.5 * 3600_000 <= Date.parse(helsinki(day, '10:00')) || s >= Date.parse(helsinki(day, '14:30'))).toBe(true);
+		// An offered start really books.
+		expect((await b.json('/api/bookings', { room: 'vocal-booth', start: helsinki(day, '14:30'), end: helsinki(day, '18:30'), engineer: true })).status).toBe(201);
+	});
+
+	it('answers 409 taken: gear with nearby starts where the gear is free too', async () => {
+		const day = weekdayAhead(79);
+		const [gear] = await db.select().from(t.gearItem).where(and(eq(t.gearItem.hireable, true), eq(t.gearItem.active, true))).limit(1);
+		const a = await signedIn(DEMO.artist);
+		const b = await signedIn(DEMO.artist2);
+		expect((await a.json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T14:00`, gear: [gear!.id] })).status).toBe(201);
+		const res = await b.json('/api/bookings', { room: 'control-room', start: `${day}T11:00`, end: `${day}T15:00`, gear: [gear!.id] });
+		expect(res.status).toBe(409);
+		const body = (await res.json()) as { taken: string; nearestStarts: string[] };
+		expect(body.taken).toBe('gear');
+		const offered = body.nearestStarts.map((s) => Date.parse(s));
+		expect(offered).toContain(Date.parse(helsinki(day, '14:30')));
+		for (const s of offered) expect(s + 4.5 * 3600_000 <= Date.parse(helsinki(day, '10:00')) || s >= Date.parse(helsinki(day, '14:30'))).toBe(true);
+	});
+
 	it('frees an expired hold without anyone visiting a page', async () => {
 		const day = weekdayAhead(65);
 		const a = await signedIn(DEMO.artist);
@@ -340,7 +375,7 @@ describe('scoping (OWASP ASVS 8.2.2)', () => {
 		const list = (await (await b.fetch('/api/bookings')).json()) as { bookings: { id: string }[] };
 		expect(list.bookings.map((x) => x.id)).not.toContain(id);
 		const cancel = await b.json(`/api/bookings/${id}/cancel`, {});
-		expect([404, 405]).toContain(cancel.status);
+		expect(cancel.status).toBe(404);
 		const page = await b.fetch(`/bookings/${id}`, { headers: { accept: 'text/html' } });
 		expect(page.status).toBe(404);
 		const [row] = await db.select().from(t.booking).where(eq(t.booking.id, id));
@@ -396,6 +431,11 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 		);
 		expect(statuses.filter((s) => s === 201)).toHaveLength(1);
 		expect(statuses.filter((s) => s === 409)).toHaveLength(49);
+		const rows = await db
+			.select({ n: sql<number>`count(*)::int` })
+			.from(t.booking)
+			.where(and(sql`${t.booking.engineerId} is not null`, inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date = ${day}::date`));
+		expect(rows[0]!.n).toBe(1);
 	}, 60_000);
 
 	it('one piece of gear across two rooms: exactly one 201', async () => {
@@ -407,5 +447,16 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 		// One booking per room could take the room; only one of them may take the gear.
 		expect(statuses.filter((s) => s === 201)).toHaveLength(1);
 		expect(statuses.every((s) => s === 201 || s === 409)).toBe(true);
+		const rows = await db
+			.select({ n: sql<number>`count(*)::int` })
+			.from(t.bookingGear)
+			.innerJoin(t.booking, eq(t.booking.id, t.bookingGear.bookingId))
+			.where(and(eq(t.bookingGear.gearItemId, gear!.id), inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date = ${day}::date`));
+		expect(rows[0]!.n).toBe(1);
+		const bookings = await db
+			.select({ n: sql<number>`count(*)::int` })
+			.from(t.booking)
+			.where(and(inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date = ${day}::date`));
+		expect(bookings[0]!.n).toBe(1);
 	}, 60_000);
 });

@@ -7,7 +7,7 @@ import { db } from './db';
 import { blackout, booking, bookingGear, gearItem, room, user, ACTIVE_BOOKING_STATUSES, type BookingStatus } from './db/schema';
 import { getPolicy, roomRates, type RoomRow, type StudioRow } from './studio';
 import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
-import { computeAvailability, nearestFreeStarts, parseBookingInstant, TimeInputError, type Blackout } from '$lib/domain/availability';
+import { AvailabilityInputError, computeAvailability, parseBookingInstant, startsThatFit, TimeInputError, type Blackout } from '$lib/domain/availability';
 import { isYmd as isCalendarDate } from '$lib/domain/availability/calendar';
 import { publicHolidayChecker, publicHolidayList } from '$lib/domain/holidays';
 import type { StudioPolicy } from '$lib/domain/types';
@@ -235,19 +235,115 @@ export async function availability(params: { room: string | null; from: string |
 	};
 }
 
-/** Up to three starts near the wanted one where the same length of booking fits. */
-export async function nearestStarts(roomRow: RoomRow, ctx: PricingContext, wanted: Date, minutes: number, now = new Date()): Promise<string[]> {
+/** What else a booking needs besides its room, for finding other times that suit it. */
+export interface BookingNeeds {
+	engineer?: boolean;
+	gearIds?: readonly string[];
+	/** A booking of the artist's own to leave out (one whose hold ran out). */
+	exceptBookingId?: string;
+}
+
+/** An active booking, leaving out holds whose time ran out (they no longer keep anyone out). */
+function stillActive(now: Date) {
+	return and(
+		inArray(booking.status, ACTIVE_BOOKING_STATUSES),
+		or(sql`${booking.status} <> 'held'`, gt(booking.holdExpiresAt, now), isNull(booking.holdExpiresAt))
+	);
+}
+
+/**
+ * A test of whether an engineer (any one) and every chosen piece of gear are free over
+ * [start, busyUntil), from the bookings of a window read once. The overlap rule is the one of the
+ * exclusion constraints: existing start < new busy-until and existing busy-until > new start.
+ */
+async function resourcesFreeTest(
+	needs: BookingNeeds,
+	from: Date,
+	to: Date,
+	now: Date
+): Promise<(start: number, busyUntil: number) => boolean> {
+	const tests: ((start: number, busyUntil: number) => boolean)[] = [];
+	const except = needs.exceptBookingId ? sql`${booking.id} <> ${needs.exceptBookingId}` : undefined;
+	if (needs.engineer) {
+		const engineers = await db.select({ id: user.id }).from(user).where(eq(user.role, 'engineer'));
+		const rows = engineers.length
+			? await db
+					.select({ id: booking.engineerId, start: booking.startsAt, end: booking.busyUntil })
+					.from(booking)
+					.where(
+						and(
+							inArray(
+								booking.engineerId,
+								engineers.map((e) => e.id)
+							),
+							stillActive(now),
+							lt(booking.startsAt, to),
+							gt(booking.busyUntil, from),
+							except
+						)
+					)
+			: [];
+		tests.push((start, busyUntil) =>
+			engineers.some((e) => !rows.some((r) => r.id === e.id && r.start.getTime() < busyUntil && r.end.getTime() > start))
+		);
+	}
+	if (needs.gearIds?.length) {
+		const rows = await db
+			.select({ start: bookingGear.startsAt, end: bookingGear.busyUntil })
+			.from(bookingGear)
+			.innerJoin(booking, eq(booking.id, bookingGear.bookingId))
+			.where(
+				and(
+					inArray(bookingGear.gearItemId, [...needs.gearIds]),
+					stillActive(now),
+					lt(bookingGear.startsAt, to),
+					gt(bookingGear.busyUntil, from),
+					except
+				)
+			);
+		tests.push((start, busyUntil) => !rows.some((r) => r.start.getTime() < busyUntil && r.end.getTime() > start));
+	}
+	return (start, busyUntil) => tests.every((t) => t(start, busyUntil));
+}
+
+/**
+ * Up to three starts near the wanted one where the same length of booking fits in the room, with
+ * an engineer and the chosen gear free too when the booking needs them; closest first.
+ */
+export async function nearestStarts(
+	roomRow: RoomRow,
+	ctx: PricingContext,
+	wanted: Date,
+	minutes: number,
+	now = new Date(),
+	needs: BookingNeeds = {}
+): Promise<string[]> {
 	const tz = ctx.policy.timeZone;
 	const from = localYmd(new Date(wanted.getTime() - 3 * 86_400_000), tz);
 	const to = localYmd(new Date(wanted.getTime() + 3 * 86_400_000), tz);
-	const busy = await busyIntervals(roomRow.id, new Date(wanted.getTime() - 5 * 86_400_000), new Date(wanted.getTime() + 5 * 86_400_000), now);
-	const blackouts = await closedDays(ctx, from, to);
+	const windowStart = new Date(wanted.getTime() - 5 * 86_400_000);
+	const windowEnd = new Date(wanted.getTime() + 5 * 86_400_000);
+	const [busy, blackouts, resourcesFree] = await Promise.all([
+		busyIntervals(roomRow.id, windowStart, windowEnd, now),
+		closedDays(ctx, from, to),
+		resourcesFreeTest(needs, windowStart, windowEnd, now)
+	]);
+	let starts: Date[];
 	try {
-		const starts = nearestFreeStarts({ from, to, policy: ctx.policy, busy, blackouts, now, durationMinutes: minutes }, wanted, 3);
-		return starts.map((s) => isoInZone(s, tz));
-	} catch {
-		return [];
+		starts = startsThatFit({ from, to, policy: ctx.policy, busy, blackouts, now, durationMinutes: minutes });
+	} catch (e) {
+		if (e instanceof AvailabilityInputError) return [];
+		throw e;
 	}
+	const length = (minutes + ctx.policy.turnaroundMinutes) * 60_000;
+	const want = wanted.getTime();
+	// Closest first; an earlier start wins a tie.
+	return starts
+		.map((d) => d.getTime())
+		.sort((a, b) => Math.abs(a - want) - Math.abs(b - want) || a - b)
+		.filter((s) => resourcesFree(s, s + length))
+		.slice(0, 3)
+		.map((s) => isoInZone(new Date(s), tz));
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -294,13 +390,23 @@ export async function createHold(artist: SessionUser, input: unknown, now = new 
 		.set({ status: 'expired' })
 		.where(and(eq(booking.status, 'held'), lt(booking.holdExpiresAt, now)));
 
+	const minutes = Math.round((end.getTime() - start.getTime()) / 60_000);
+	const needs: BookingNeeds = { engineer: req.engineer, gearIds: gear.map((g) => g.id) };
+	const conflict = async (taken: 'room' | 'engineer' | 'gear'): Promise<HoldOutcome> => ({
+		ok: false,
+		status: 409,
+		taken,
+		message: CONFLICT_MESSAGES[taken],
+		nearestStarts: await nearestStarts(roomRow, ctx, start, minutes, now, needs)
+	});
+	// What stood in the way last, should the retries run out.
+	let lastTaken: 'room' | 'engineer' | 'gear' = 'room';
+
 	for (let attempt = 0; attempt < 6; attempt++) {
 		let engineerId: string | null = null;
 		if (req.engineer) {
-			engineerId = await freeEngineer(start, busyUntil);
-			if (!engineerId) {
-				return { ok: false, status: 409, taken: 'engineer', message: CONFLICT_MESSAGES.engineer, nearestStarts: [] };
-			}
+			engineerId = await freeEngineer(start, busyUntil, now);
+			if (!engineerId) return conflict('engineer');
 		}
 		try {
 			const created = await db.transaction(async (tx) => {
@@ -347,25 +453,20 @@ export async function createHold(artist: SessionUser, input: unknown, now = new 
 			}
 			if (code === '23505' && constraint?.includes('reference')) continue;
 			if (code === '23P01') {
-				if (constraint === 'booking_engineer_no_overlap') continue; // another engineer may still be free
-				const taken = constraint === 'booking_gear_no_overlap' ? 'gear' : 'room';
-				const minutes = Math.round((end.getTime() - start.getTime()) / 60_000);
-				return {
-					ok: false,
-					status: 409,
-					taken,
-					message: CONFLICT_MESSAGES[taken],
-					nearestStarts: taken === 'room' ? await nearestStarts(roomRow, ctx, start, minutes, now) : []
-				};
+				if (constraint === 'booking_engineer_no_overlap') {
+					lastTaken = 'engineer';
+					continue; // another engineer may still be free
+				}
+				return conflict(constraint === 'booking_gear_no_overlap' ? 'gear' : 'room');
 			}
 			throw e;
 		}
 	}
-	return { ok: false, status: 409, taken: 'room', message: CONFLICT_MESSAGES.room, nearestStarts: [] };
+	return conflict(lastTaken);
 }
 
 /** An engineer with no active booking overlapping the time, turnaround included. */
-async function freeEngineer(start: Date, busyUntil: Date): Promise<string | null> {
+async function freeEngineer(start: Date, busyUntil: Date, now: Date): Promise<string | null> {
 	const engineers = await db.select({ id: user.id }).from(user).where(eq(user.role, 'engineer')).orderBy(asc(user.createdAt));
 	if (!engineers.length) return null;
 	const busy = await db
@@ -377,7 +478,7 @@ async function freeEngineer(start: Date, busyUntil: Date): Promise<string | null
 					booking.engineerId,
 					engineers.map((e) => e.id)
 				),
-				inArray(booking.status, ACTIVE_BOOKING_STATUSES),
+				stillActive(now),
 				lt(booking.startsAt, busyUntil),
 				gt(booking.busyUntil, start)
 			)

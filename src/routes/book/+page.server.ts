@@ -134,7 +134,9 @@ export const actions: Actions = {
 						text:
 							outcome.taken === 'room'
 								? 'That time was just taken. These starts nearby still fit the same booking:'
-								: outcome.message,
+								: outcome.nearestStarts.length
+									? `${outcome.message} These starts nearby suit the same booking:`
+									: outcome.message,
 						nearestStarts: outcome.nearestStarts.map((iso) => wallClock(iso, studio.timeZone))
 					},
 					{ status: 409 }
