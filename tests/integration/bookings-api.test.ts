@@ -346,6 +346,36 @@ describe('POST /api/bookings', () => {
 		for (const s of offered) expect(s + 4.5 * 3600_000 <= Date.parse(helsinki(day, '10:00')) || s >= Date.parse(helsinki(day, '14:30'))).toBe(true);
 	});
 
+	it('on the page of a hold that ran out, offers the same time again while free, and the calendar once taken', async () => {
+		const day = weekdayAhead(69);
+		const [gear] = await db.select().from(t.gearItem).where(and(eq(t.gearItem.hireable, true), eq(t.gearItem.active, true))).limit(1);
+		const a = await signedIn(DEMO.artist);
+		const made = await a.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T14:00`, gear: [gear!.id], project: 'Night tapes' });
+		expect(made.status).toBe(201);
+		const { id } = (await made.json()) as { id: string };
+		await db.update(t.booking).set({ status: 'expired', holdExpiresAt: new Date(Date.now() - 60_000) }).where(eq(t.booking.id, id));
+		const hrefs = async () => {
+			const res = await a.fetch(`/bookings/${id}`, { headers: { accept: 'text/html' } });
+			expect(res.status).toBe(200);
+			const html = (await res.text()).replaceAll('&amp;', '&');
+			return { html, free: /data-free="(true|false)"/.exec(html)?.[1] };
+		};
+		const before = await hrefs();
+		expect(before.html).toContain('hold ran out');
+		expect(before.free).toBe('true');
+		const link = /href="(\/book\?[^"]*)"/.exec(before.html)?.[1];
+		const q = new URL(link!, 'http://x').searchParams;
+		expect(Object.fromEntries(q)).toMatchObject({ room: 'control-room', date: day, start: '10:00', kind: 'half', engineer: '0', gear: gear!.id, project: 'Night tapes' });
+
+		// Someone else takes the time: the page says so and points at that day on the calendar.
+		const b = await signedIn(DEMO.artist2);
+		expect((await b.json('/api/bookings', { room: 'control-room', start: `${day}T12:00`, end: `${day}T14:00` })).status).toBe(201);
+		const after = await hrefs();
+		expect(after.free).toBe('false');
+		expect(after.html).toContain(`href="/calendar?room=control-room&date=${day}"`);
+		expect(after.html).not.toMatch(/href="\/book\?/);
+	});
+
 	it('frees an expired hold without anyone visiting a page', async () => {
 		const day = weekdayAhead(65);
 		const a = await signedIn(DEMO.artist);

@@ -346,6 +346,61 @@ export async function nearestStarts(
 		.map((s) => isoInZone(new Date(s), tz));
 }
 
+/**
+ * Whether a booking's time could be booked again just as it was (room, opening hours, notice,
+ * closed days, other bookings, an engineer and its gear), for a booking whose hold ran out.
+ * `taken` says what stands in the way.
+ */
+export async function rebookable(
+	b: BookingDetail,
+	now = new Date()
+): Promise<{ free: true } | { free: false; taken: 'room' | 'engineer' | 'gear' }> {
+	const ctx = await pricingContext();
+	const tz = ctx.policy.timeZone;
+	const [roomRow] = await db.select().from(room).where(eq(room.slug, b.roomSlug));
+	if (!roomRow || !roomRow.active) return { free: false, taken: 'room' };
+	const start = b.startsAt.getTime();
+	const minutes = Math.round((b.endsAt.getTime() - start) / 60_000);
+	const date = localYmd(b.startsAt, tz);
+	const lastDay = localYmd(new Date(b.endsAt.getTime() - 1), tz);
+	const [busy, blackouts] = await Promise.all([
+		busyIntervals(roomRow.id, new Date(start - 2 * 86_400_000), new Date(b.endsAt.getTime() + 2 * 86_400_000), now),
+		closedDays(ctx, date, lastDay)
+	]);
+	let fits = false;
+	try {
+		fits = startsThatFit({ from: date, to: date, policy: ctx.policy, busy, blackouts, now, durationMinutes: minutes }).some(
+			(s) => s.getTime() === start
+		);
+	} catch (e) {
+		if (!(e instanceof AvailabilityInputError)) throw e;
+	}
+	if (!fits) return { free: false, taken: 'room' };
+	const busyUntil = b.endsAt.getTime() + ctx.policy.turnaroundMinutes * 60_000;
+	const window = [new Date(start - 86_400_000), new Date(busyUntil + 86_400_000)] as const;
+	if (b.engineerId && !(await resourcesFreeTest({ engineer: true, exceptBookingId: b.id }, ...window, now))(start, busyUntil)) {
+		return { free: false, taken: 'engineer' };
+	}
+	if (b.gear.length) {
+		const hireable = await db
+			.select({ id: gearItem.id })
+			.from(gearItem)
+			.where(
+				and(
+					inArray(
+						gearItem.id,
+						b.gear.map((g) => g.id)
+					),
+					eq(gearItem.active, true),
+					eq(gearItem.hireable, true)
+				)
+			);
+		const free = await resourcesFreeTest({ gearIds: b.gear.map((g) => g.id), exceptBookingId: b.id }, ...window, now);
+		if (hireable.length !== b.gear.length || !free(start, busyUntil)) return { free: false, taken: 'gear' };
+	}
+	return { free: true };
+}
+
 // ---------------------------------------------------------------------------------------------
 // Holding a slot
 
