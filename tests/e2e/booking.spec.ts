@@ -83,6 +83,36 @@ test('a start in the past gets a clear message and keeps the choices', async ({ 
 	await expect(page.getByLabel('Half day (4 h)')).toBeChecked();
 });
 
+test('field errors land in live regions that were in the page before, tied to their fields', async ({ page }) => {
+	const date = nextWeekday(addDays(studioToday(), 10));
+	await page.goto(`/book?room=live-room&date=${date}&start=10:00&kind=half`);
+	await expect(page.getByTestId('quote').getByTestId('price-line').first()).toBeVisible();
+	const region = page.locator('#field-start-error');
+	const start = page.locator('#field-start');
+	// Present and empty while all is well (WAI-ARIA 1.2: a live region announces changes, not its arrival).
+	await expect(region).toHaveAttribute('aria-live', 'polite');
+	await expect(region).toHaveText('');
+	await expect(start).not.toHaveAttribute('aria-invalid', 'true');
+	for (const id of ['room-error', 'kind-error', 'field-date-error', 'engineer-error', 'field-project-error', 'field-notes-error']) {
+		await expect(page.locator(`#${id}`)).toHaveAttribute('aria-live', 'polite');
+	}
+	// Mark the node, so the message must arrive in this same element and not a newly inserted one.
+	await region.evaluate((el) => el.setAttribute('data-seen', 'before'));
+
+	await page.locator('#field-date').fill(addDays(studioToday(), -3));
+	await expect(region).toContainText('notice');
+	await expect(region).toHaveAttribute('data-seen', 'before');
+	await expect(start).toHaveAttribute('aria-invalid', 'true');
+	await expect(start).toHaveAttribute('aria-describedby', /\bfield-start-error\b/);
+});
+
+test('a date that is not on the calendar is said so beside the date field', async ({ page }) => {
+	await page.goto('/book?room=live-room&date=2027-02-31&start=10:00&kind=half');
+	await expect(page.locator('#field-date-error')).toContainText('There is no 2027-02-31 on the calendar');
+	await expect(page.locator('#field-date')).toHaveAttribute('aria-invalid', 'true');
+	await expect(page.locator('#field-date')).toHaveAttribute('aria-describedby', /\bfield-date-error\b/);
+});
+
 test('an artist books a half day with an engineer from the calendar, and the slot turns busy for others', async ({
 	page,
 	browser

@@ -6,8 +6,9 @@ import { z } from 'zod';
 import { db } from './db';
 import { blackout, booking, bookingGear, gearItem, room, user, ACTIVE_BOOKING_STATUSES, type BookingStatus } from './db/schema';
 import { getPolicy, roomRates, type RoomRow, type StudioRow } from './studio';
-import { quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
-import { computeAvailability, nearestFreeStarts, parseBookingInstant, TimeInputError, type Blackout } from '$lib/domain/availability';
+import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
+import { AvailabilityInputError, computeAvailability, parseBookingInstant, startsThatFit, TimeInputError, type Blackout } from '$lib/domain/availability';
+import { isYmd as isCalendarDate } from '$lib/domain/availability/calendar';
 import { publicHolidayChecker, publicHolidayList } from '$lib/domain/holidays';
 import type { StudioPolicy } from '$lib/domain/types';
 import type { SessionUser } from './auth';
@@ -118,7 +119,10 @@ export async function priceRequest(input: unknown, now = new Date()): Promise<Pr
 	if (!times.start || !times.end || !roomRow) return invalid(fields);
 	const { start, end } = times;
 
-	for (const issue of validateBookingTimes(start, end, ctx.policy, now)) (fields[issue.field] ??= []).push(issue.message);
+	const timeIssues = validateBookingTimes(start, end, ctx.policy, now);
+	for (const issue of timeIssues) (fields[issue.field] ??= []).push(issue.message);
+	// Blackouts and holidays are looked up day by day: only for a time that is in range.
+	if (isUnboundedTime(timeIssues)) return invalid(fields);
 
 	const startDay = localYmd(start, tz);
 	const endDay = localYmd(new Date(end.getTime() - 1), tz);
@@ -192,6 +196,7 @@ export type AvailabilityResult =
 	| { ok: true; body: { timeZone: string; room: string; open: { start: string; end: string }[]; busy: { start: string; end: string }[]; closed: { date: string; reason: string }[] } }
 	| { ok: false; fields: FieldErrors };
 
+const NO_SUCH_DATE = (ymd: string) => `There is no ${ymd} on the calendar.`;
 const ymdSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a date such as 2027-03-28.' });
 
 export async function availability(params: { room: string | null; from: string | null; to: string | null }, now = new Date()): Promise<AvailabilityResult> {
@@ -199,8 +204,11 @@ export async function availability(params: { room: string | null; from: string |
 	if (!params.room) fields.room = ['Choose a room.'];
 	const from = ymdSchema.safeParse(params.from ?? '');
 	const to = ymdSchema.safeParse(params.to ?? '');
-	if (!from.success || Number.isNaN(Date.parse(from.data))) fields.from = ['Use a date such as 2027-03-28.'];
-	if (!to.success || Number.isNaN(Date.parse(to.data))) fields.to = ['Use a date such as 2027-03-28.'];
+	// A real calendar date, not merely its shape: Date.parse reads 2027-02-31 as 3 March.
+	if (!from.success) fields.from = ['Use a date such as 2027-03-28.'];
+	else if (!isCalendarDate(from.data)) fields.from = [NO_SUCH_DATE(from.data)];
+	if (!to.success) fields.to = ['Use a date such as 2027-03-28.'];
+	else if (!isCalendarDate(to.data)) fields.to = [NO_SUCH_DATE(to.data)];
 	if (Object.keys(fields).length || !from.data || !to.data) return { ok: false, fields };
 	const days = (Date.parse(to.data) - Date.parse(from.data)) / 86_400_000 + 1;
 	if (days < 1) return { ok: false, fields: { to: ['The end date is before the start date.'] } };
@@ -227,19 +235,170 @@ export async function availability(params: { room: string | null; from: string |
 	};
 }
 
-/** Up to three starts near the wanted one where the same length of booking fits. */
-export async function nearestStarts(roomRow: RoomRow, ctx: PricingContext, wanted: Date, minutes: number, now = new Date()): Promise<string[]> {
+/** What else a booking needs besides its room, for finding other times that suit it. */
+export interface BookingNeeds {
+	engineer?: boolean;
+	gearIds?: readonly string[];
+	/** A booking of the artist's own to leave out (one whose hold ran out). */
+	exceptBookingId?: string;
+}
+
+/** An active booking, leaving out holds whose time ran out (they no longer keep anyone out). */
+function stillActive(now: Date) {
+	return and(
+		inArray(booking.status, ACTIVE_BOOKING_STATUSES),
+		or(sql`${booking.status} <> 'held'`, gt(booking.holdExpiresAt, now), isNull(booking.holdExpiresAt))
+	);
+}
+
+/**
+ * A test of whether an engineer (any one) and every chosen piece of gear are free over
+ * [start, busyUntil), from the bookings of a window read once. The overlap rule is the one of the
+ * exclusion constraints: existing start < new busy-until and existing busy-until > new start.
+ */
+async function resourcesFreeTest(
+	needs: BookingNeeds,
+	from: Date,
+	to: Date,
+	now: Date
+): Promise<(start: number, busyUntil: number) => boolean> {
+	const tests: ((start: number, busyUntil: number) => boolean)[] = [];
+	const except = needs.exceptBookingId ? sql`${booking.id} <> ${needs.exceptBookingId}` : undefined;
+	if (needs.engineer) {
+		const engineers = await db.select({ id: user.id }).from(user).where(eq(user.role, 'engineer'));
+		const rows = engineers.length
+			? await db
+					.select({ id: booking.engineerId, start: booking.startsAt, end: booking.busyUntil })
+					.from(booking)
+					.where(
+						and(
+							inArray(
+								booking.engineerId,
+								engineers.map((e) => e.id)
+							),
+							stillActive(now),
+							lt(booking.startsAt, to),
+							gt(booking.busyUntil, from),
+							except
+						)
+					)
+			: [];
+		tests.push((start, busyUntil) =>
+			engineers.some((e) => !rows.some((r) => r.id === e.id && r.start.getTime() < busyUntil && r.end.getTime() > start))
+		);
+	}
+	if (needs.gearIds?.length) {
+		const rows = await db
+			.select({ start: bookingGear.startsAt, end: bookingGear.busyUntil })
+			.from(bookingGear)
+			.innerJoin(booking, eq(booking.id, bookingGear.bookingId))
+			.where(
+				and(
+					inArray(bookingGear.gearItemId, [...needs.gearIds]),
+					stillActive(now),
+					lt(bookingGear.startsAt, to),
+					gt(bookingGear.busyUntil, from),
+					except
+				)
+			);
+		tests.push((start, busyUntil) => !rows.some((r) => r.start.getTime() < busyUntil && r.end.getTime() > start));
+	}
+	return (start, busyUntil) => tests.every((t) => t(start, busyUntil));
+}
+
+/**
+ * Up to three starts near the wanted one where the same length of booking fits in the room, with
+ * an engineer and the chosen gear free too when the booking needs them; closest first.
+ */
+export async function nearestStarts(
+	roomRow: RoomRow,
+	ctx: PricingContext,
+	wanted: Date,
+	minutes: number,
+	now = new Date(),
+	needs: BookingNeeds = {}
+): Promise<string[]> {
 	const tz = ctx.policy.timeZone;
 	const from = localYmd(new Date(wanted.getTime() - 3 * 86_400_000), tz);
 	const to = localYmd(new Date(wanted.getTime() + 3 * 86_400_000), tz);
-	const busy = await busyIntervals(roomRow.id, new Date(wanted.getTime() - 5 * 86_400_000), new Date(wanted.getTime() + 5 * 86_400_000), now);
-	const blackouts = await closedDays(ctx, from, to);
+	const windowStart = new Date(wanted.getTime() - 5 * 86_400_000);
+	const windowEnd = new Date(wanted.getTime() + 5 * 86_400_000);
+	const [busy, blackouts, resourcesFree] = await Promise.all([
+		busyIntervals(roomRow.id, windowStart, windowEnd, now),
+		closedDays(ctx, from, to),
+		resourcesFreeTest(needs, windowStart, windowEnd, now)
+	]);
+	let starts: Date[];
 	try {
-		const starts = nearestFreeStarts({ from, to, policy: ctx.policy, busy, blackouts, now, durationMinutes: minutes }, wanted, 3);
-		return starts.map((s) => isoInZone(s, tz));
-	} catch {
-		return [];
+		starts = startsThatFit({ from, to, policy: ctx.policy, busy, blackouts, now, durationMinutes: minutes });
+	} catch (e) {
+		if (e instanceof AvailabilityInputError) return [];
+		throw e;
 	}
+	const length = (minutes + ctx.policy.turnaroundMinutes) * 60_000;
+	const want = wanted.getTime();
+	// Closest first; an earlier start wins a tie.
+	return starts
+		.map((d) => d.getTime())
+		.sort((a, b) => Math.abs(a - want) - Math.abs(b - want) || a - b)
+		.filter((s) => resourcesFree(s, s + length))
+		.slice(0, 3)
+		.map((s) => isoInZone(new Date(s), tz));
+}
+
+/**
+ * Whether a booking's time could be booked again just as it was (room, opening hours, notice,
+ * closed days, other bookings, an engineer and its gear), for a booking whose hold ran out.
+ * `taken` says what stands in the way.
+ */
+export async function rebookable(
+	b: BookingDetail,
+	now = new Date()
+): Promise<{ free: true } | { free: false; taken: 'room' | 'engineer' | 'gear' }> {
+	const ctx = await pricingContext();
+	const tz = ctx.policy.timeZone;
+	const [roomRow] = await db.select().from(room).where(eq(room.slug, b.roomSlug));
+	if (!roomRow || !roomRow.active) return { free: false, taken: 'room' };
+	const start = b.startsAt.getTime();
+	const minutes = Math.round((b.endsAt.getTime() - start) / 60_000);
+	const date = localYmd(b.startsAt, tz);
+	const lastDay = localYmd(new Date(b.endsAt.getTime() - 1), tz);
+	const [busy, blackouts] = await Promise.all([
+		busyIntervals(roomRow.id, new Date(start - 2 * 86_400_000), new Date(b.endsAt.getTime() + 2 * 86_400_000), now),
+		closedDays(ctx, date, lastDay)
+	]);
+	let fits = false;
+	try {
+		fits = startsThatFit({ from: date, to: date, policy: ctx.policy, busy, blackouts, now, durationMinutes: minutes }).some(
+			(s) => s.getTime() === start
+		);
+	} catch (e) {
+		if (!(e instanceof AvailabilityInputError)) throw e;
+	}
+	if (!fits) return { free: false, taken: 'room' };
+	const busyUntil = b.endsAt.getTime() + ctx.policy.turnaroundMinutes * 60_000;
+	const window = [new Date(start - 86_400_000), new Date(busyUntil + 86_400_000)] as const;
+	if (b.engineerId && !(await resourcesFreeTest({ engineer: true, exceptBookingId: b.id }, ...window, now))(start, busyUntil)) {
+		return { free: false, taken: 'engineer' };
+	}
+	if (b.gear.length) {
+		const hireable = await db
+			.select({ id: gearItem.id })
+			.from(gearItem)
+			.where(
+				and(
+					inArray(
+						gearItem.id,
+						b.gear.map((g) => g.id)
+					),
+					eq(gearItem.active, true),
+					eq(gearItem.hireable, true)
+				)
+			);
+		const free = await resourcesFreeTest({ gearIds: b.gear.map((g) => g.id), exceptBookingId: b.id }, ...window, now);
+		if (hireable.length !== b.gear.length || !free(start, busyUntil)) return { free: false, taken: 'gear' };
+	}
+	return { free: true };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -286,13 +445,23 @@ export async function createHold(artist: SessionUser, input: unknown, now = new 
 		.set({ status: 'expired' })
 		.where(and(eq(booking.status, 'held'), lt(booking.holdExpiresAt, now)));
 
+	const minutes = Math.round((end.getTime() - start.getTime()) / 60_000);
+	const needs: BookingNeeds = { engineer: req.engineer, gearIds: gear.map((g) => g.id) };
+	const conflict = async (taken: 'room' | 'engineer' | 'gear'): Promise<HoldOutcome> => ({
+		ok: false,
+		status: 409,
+		taken,
+		message: CONFLICT_MESSAGES[taken],
+		nearestStarts: await nearestStarts(roomRow, ctx, start, minutes, now, needs)
+	});
+	// What stood in the way last, should the retries run out.
+	let lastTaken: 'room' | 'engineer' | 'gear' = 'room';
+
 	for (let attempt = 0; attempt < 6; attempt++) {
 		let engineerId: string | null = null;
 		if (req.engineer) {
-			engineerId = await freeEngineer(start, busyUntil);
-			if (!engineerId) {
-				return { ok: false, status: 409, taken: 'engineer', message: CONFLICT_MESSAGES.engineer, nearestStarts: [] };
-			}
+			engineerId = await freeEngineer(start, busyUntil, now);
+			if (!engineerId) return conflict('engineer');
 		}
 		try {
 			const created = await db.transaction(async (tx) => {
@@ -339,25 +508,20 @@ export async function createHold(artist: SessionUser, input: unknown, now = new 
 			}
 			if (code === '23505' && constraint?.includes('reference')) continue;
 			if (code === '23P01') {
-				if (constraint === 'booking_engineer_no_overlap') continue; // another engineer may still be free
-				const taken = constraint === 'booking_gear_no_overlap' ? 'gear' : 'room';
-				const minutes = Math.round((end.getTime() - start.getTime()) / 60_000);
-				return {
-					ok: false,
-					status: 409,
-					taken,
-					message: CONFLICT_MESSAGES[taken],
-					nearestStarts: taken === 'room' ? await nearestStarts(roomRow, ctx, start, minutes, now) : []
-				};
+				if (constraint === 'booking_engineer_no_overlap') {
+					lastTaken = 'engineer';
+					continue; // another engineer may still be free
+				}
+				return conflict(constraint === 'booking_gear_no_overlap' ? 'gear' : 'room');
 			}
 			throw e;
 		}
 	}
-	return { ok: false, status: 409, taken: 'room', message: CONFLICT_MESSAGES.room, nearestStarts: [] };
+	return conflict(lastTaken);
 }
 
 /** An engineer with no active booking overlapping the time, turnaround included. */
-async function freeEngineer(start: Date, busyUntil: Date): Promise<string | null> {
+async function freeEngineer(start: Date, busyUntil: Date, now: Date): Promise<string | null> {
 	const engineers = await db.select({ id: user.id }).from(user).where(eq(user.role, 'engineer')).orderBy(asc(user.createdAt));
 	if (!engineers.length) return null;
 	const busy = await db
@@ -369,7 +533,7 @@ async function freeEngineer(start: Date, busyUntil: Date): Promise<string | null
 					booking.engineerId,
 					engineers.map((e) => e.id)
 				),
-				inArray(booking.status, ACTIVE_BOOKING_STATUSES),
+				stillActive(now),
 				lt(booking.startsAt, busyUntil),
 				gt(booking.busyUntil, start)
 			)

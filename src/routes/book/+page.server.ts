@@ -14,6 +14,7 @@ import {
 	requestBody,
 	wallClock,
 	addDays,
+	YMD_RE,
 	type BookingChoices
 } from '$lib/components/booking/choices';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
@@ -51,6 +52,17 @@ export const load: PageServerLoad = async ({ url, locals }) => {
 		room
 	};
 	const form = await superValidate<BookForm, BookMessage>(initial, zod4(bookFormSchema), { errors: false });
+	// A date in the address that is not on the calendar (2027-02-31) is left out and said so.
+	const askedDate = url.searchParams.get('date');
+	if (askedDate && !asked.date) {
+		setError(
+			form,
+			'date',
+			YMD_RE.test(askedDate)
+				? `There is no ${askedDate} on the calendar: choose another date.`
+				: 'Choose a date such as 2027-03-28.'
+		);
+	}
 
 	// The chosen day's open windows, so the starts that fit are there on the first paint; the page
 	// asks GET /api/availability again when the room or the day changes.
@@ -122,7 +134,9 @@ export const actions: Actions = {
 						text:
 							outcome.taken === 'room'
 								? 'That time was just taken. These starts nearby still fit the same booking:'
-								: outcome.message,
+								: outcome.nearestStarts.length
+									? `${outcome.message} These starts nearby suit the same booking:`
+									: outcome.message,
 						nearestStarts: outcome.nearestStarts.map((iso) => wallClock(iso, studio.timeZone))
 					},
 					{ status: 409 }

@@ -2,12 +2,15 @@
 // It checks shapes only; whether the time is free, long enough and open is the server's to say
 // (priceRequest and createHold), because only it knows the calendar.
 import { z } from 'zod';
-import { BOOKING_KINDS, HHMM_RE, YMD_RE } from '$lib/components/booking/choices';
+import { BOOKING_KINDS, HHMM_RE, YMD_RE, isCalendarDate } from '$lib/components/booking/choices';
 
 export const bookFormSchema = z.object({
 	room: z.string({ error: 'Choose a room.' }).trim().min(1, { error: 'Choose a room.' }).max(80),
 	kind: z.enum(BOOKING_KINDS, { error: 'Choose hourly, a half day or a full day.' }).default('half'),
-	date: z.string({ error: 'Choose a date.' }).regex(YMD_RE, { error: 'Choose a date.' }),
+	date: z
+		.string({ error: 'Choose a date.' })
+		.regex(YMD_RE, { error: 'Choose a date.' })
+		.refine(isCalendarDate, { error: 'That date is not on the calendar: choose another.' }),
 	start: z.string({ error: 'Choose a start time.' }).regex(HHMM_RE, { error: 'Choose a start time.' }),
 	hours: z
 		.number({ error: 'Choose how many hours.' })

@@ -1,7 +1,7 @@
 import { availability } from '$lib/server/bookings';
 import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
 import { publicHolidayList } from '$lib/domain/holidays';
-import { addDays, mondayOf, wallClock, YMD_RE } from '$lib/components/booking/choices';
+import { addDays, mondayOf, wallClock, isCalendarDate } from '$lib/components/booking/choices';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import type { PageServerLoad } from './$types';
 
@@ -14,7 +14,7 @@ export const load: PageServerLoad = async ({ url }) => {
 	const wanted = url.searchParams.get('room');
 	const room = wanted === 'all' || rooms.some((r) => r.slug === wanted) ? wanted! : (rooms[0]?.slug ?? 'all');
 	const dateParam = url.searchParams.get('date');
-	const focus = dateParam && YMD_RE.test(dateParam) && !Number.isNaN(Date.parse(dateParam)) ? dateParam : today;
+	const focus = dateParam && isCalendarDate(dateParam) ? dateParam : today;
 	const from = mondayOf(focus);
 	const to = addDays(from, 6);
 

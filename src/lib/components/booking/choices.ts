@@ -3,6 +3,8 @@
 // Times are local wall times in the studio's zone ('YYYY-MM-DD', 'HH:MM'); the server turns them
 // into instants (parseBookingInstant), refusing a wall time that the clocks skip.
 
+import { isYmd } from '$lib/domain/availability/calendar';
+
 export const BOOKING_KINDS = ['hourly', 'half', 'full'] as const;
 export type BookingKind = (typeof BOOKING_KINDS)[number];
 
@@ -25,6 +27,14 @@ export interface BlockLengths {
 }
 
 export const YMD_RE = /^\d{4}-\d{2}-\d{2}$/;
+
+/**
+ * A real calendar date written 'YYYY-MM-DD' (ISO 8601, proleptic Gregorian): '2027-02-31' is not
+ * one, though Date.parse quietly rolls it over to 3 March.
+ */
+export function isCalendarDate(s: string): boolean {
+	return isYmd(s);
+}
 export const HHMM_RE = /^([01]\d|2[0-3]):[0-5]\d$/;
 
 /** Booked length in minutes: a block's length from the studio settings, or the chosen hours. */
@@ -85,7 +95,7 @@ export function choicesFromQuery(q: URLSearchParams): Partial<BookingChoices> {
 	const room = q.get('room');
 	if (room && /^[a-z0-9-]{1,80}$/.test(room)) out.room = room;
 	const date = q.get('date');
-	if (date && YMD_RE.test(date)) out.date = date;
+	if (date && isCalendarDate(date)) out.date = date;
 	const start = q.get('start');
 	if (start && HHMM_RE.test(start)) out.start = start;
 	const kind = q.get('kind');

@@ -14,6 +14,8 @@ export { overtimeCharge, type OvertimeInput } from './overtime';
 export { refundForCancellation, rungLabel, type RefundInput, type RefundResult } from './cancellation';
 export {
 	validateBookingTimes,
+	isUnboundedTime,
+	MAX_BOOKING_MINUTES,
 	toFieldErrors,
 	parseLocalOrOffset,
 	type BookingTimeCode,

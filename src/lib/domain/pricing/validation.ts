@@ -17,7 +17,17 @@ export type BookingTimeCode =
 	| 'off_grid'
 	| 'outside_opening_hours'
 	| 'under_minimum_notice'
-	| 'past_horizon';
+	| 'past_horizon'
+	| 'too_long'
+	| 'out_of_range';
+
+/**
+ * The longest booking taken in one go, in real minutes. The opening-hours check below walks the
+ * calendar day by day, so a length without a cap would let one request burn the CPU for a minute
+ * (and past 366 days the block pricing refuses outright). Three days covers a lock-out weekend even
+ * with round-the-clock hours.
+ */
+export const MAX_BOOKING_MINUTES = 72 * 60;
 
 export interface BookingTimeIssue {
 	field: BookingTimeField;
@@ -65,16 +75,27 @@ export function validateBookingTimes(start: Date, end: Date, policy: TimePolicy,
 	if (Number.isNaN(end.getTime())) add('end', 'invalid_time', 'The end is not a valid time.');
 	if (issues.length > 0) return issues;
 
-	const startLocal = localParts(start, policy.timeZone);
-	const endLocal = localParts(end, policy.timeZone);
 	const minutes = (end.getTime() - start.getTime()) / 60_000;
-	const grid = policy.incrementMinutes;
-
+	// Cheap bounds first, before anything walks the calendar: a start far outside the bookable
+	// range or a booking longer than the cap gets its answer from arithmetic alone.
+	const DAY = 86_400_000;
+	if (start.getTime() > now.getTime() + (policy.horizonDays + 2) * DAY) {
+		add('start', 'out_of_range', `Bookings open up to ${policy.horizonDays} days ahead.`);
+	} else if (start.getTime() < now.getTime() - 366 * DAY) {
+		add('start', 'out_of_range', 'That date passed long ago.');
+	}
 	if (minutes <= 0) {
 		add('end', 'end_not_after_start', 'The end must be after the start.');
 	} else if (minutes < policy.minBookingMinutes) {
 		add('end', 'under_minimum', `A booking lasts at least ${formatDuration(policy.minBookingMinutes)}.`);
+	} else if (minutes > MAX_BOOKING_MINUTES) {
+		add('end', 'too_long', `A booking lasts at most ${formatDuration(MAX_BOOKING_MINUTES)}.`);
 	}
+	if (isUnboundedTime(issues)) return issues;
+
+	const startLocal = localParts(start, policy.timeZone);
+	const endLocal = localParts(end, policy.timeZone);
+	const grid = policy.incrementMinutes;
 	for (const [field, local] of [
 		['start', startLocal],
 		['end', endLocal]
@@ -98,6 +119,11 @@ export function validateBookingTimes(start: Date, end: Date, policy: TimePolicy,
 		add('start', 'past_horizon', `Bookings open up to ${policy.horizonDays} days ahead.`);
 	}
 	return issues;
+}
+
+/** True when the issues say the time is too far out or too long to look at day by day. */
+export function isUnboundedTime(issues: readonly BookingTimeIssue[]): boolean {
+	return issues.some((i) => i.code === 'out_of_range' || i.code === 'too_long');
 }
 
 /** The first message per field, for the API's `fields` object. */

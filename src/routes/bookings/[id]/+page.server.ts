@@ -1,5 +1,7 @@
 import { error } from '@sveltejs/kit';
-import { getForViewer } from '$lib/server/bookings';
+import { getForViewer, rebookable } from '$lib/server/bookings';
+import { getStudio } from '$lib/server/studio';
+import { bookPath, wallClock, type BookingKind } from '$lib/components/booking/choices';
 import { requireUser } from '$lib/server/guard';
 import { loadMoneyPanel } from '$lib/server/payments';
 import type { QuoteView } from '$lib/components/booking/PriceBreakdown.svelte';
@@ -19,6 +21,31 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		return null;
 	});
 	const q = b.quote;
+
+	// A hold that ran out (swept or not yet): say so, and offer the same time again if it is free.
+	const now = new Date();
+	let rebook: { free: boolean; taken: 'room' | 'engineer' | 'gear' | null; bookHref: string; calendarHref: string } | null = null;
+	if (b.status === 'expired' || (b.status === 'held' && b.holdExpiresAt && b.holdExpiresAt.getTime() <= now.getTime())) {
+		const [studio, outcome] = await Promise.all([getStudio(), rebookable(b, now)]);
+		const at = wallClock(b.startsAt, studio.timeZone);
+		const minutes = q.durationMinutes;
+		const kind: BookingKind = minutes === studio.halfDayMinutes ? 'half' : minutes === studio.fullDayMinutes ? 'full' : 'hourly';
+		rebook = {
+			free: outcome.free,
+			taken: outcome.free ? null : outcome.taken,
+			bookHref: bookPath({
+				room: b.roomSlug,
+				date: at.date,
+				start: at.time,
+				kind,
+				hours: minutes / 60,
+				engineer: !!b.engineerId,
+				gear: b.gear.map((g) => g.id),
+				project: b.project
+			}),
+			calendarHref: `/calendar?room=${encodeURIComponent(b.roomSlug)}&date=${at.date}`
+		};
+	}
 	const quote: QuoteView = {
 		currency: q.currency,
 		pricesIncludeVat: q.pricesIncludeVat,
@@ -50,6 +77,7 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 			gear: b.gear.map((g) => ({ id: g.id, name: g.name, category: g.category, hireFee: g.hireFee, caution: g.caution }))
 		},
 		quote,
+		rebook,
 		money,
 		moneyUnavailable,
 		viewerIsArtist: me.role === 'artist'

@@ -3,11 +3,11 @@ import { requireRole } from '$lib/server/guard';
 import { getStudio, listRooms } from '$lib/server/studio';
 import { BOOKING_STATUSES, type BookingStatus } from '$lib/server/db/schema';
 import { localDayBounds } from '$lib/domain/availability';
-import { YMD_RE } from '$lib/components/booking/choices';
+import { isCalendarDate } from '$lib/components/booking/choices';
 import type { PageServerLoad } from './$types';
 
 const isStatus = (s: string): s is BookingStatus => (BOOKING_STATUSES as readonly string[]).includes(s);
-const validDate = (s: string | null) => (s && YMD_RE.test(s) && !Number.isNaN(Date.parse(s)) ? s : '');
+const validDate = (s: string | null) => (s && isCalendarDate(s) ? s : '');
 
 export const load: PageServerLoad = async ({ locals, url }) => {
 	const owner = requireRole(locals, 'owner');
