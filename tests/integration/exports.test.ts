@@ -10,6 +10,7 @@ import { eq } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DEMO, STRIPE_API_BASE } from '../support/env';
 import { testDb } from '../support/db';
+import { brokenRules } from '../support/en16931';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -119,6 +120,27 @@ describe('the month export', () => {
 			const pdf = files[`pdf/${d.number}.pdf`];
 			expect(pdf, d.number).toBeDefined();
 			expect(strFromU8(pdf!.slice(0, 5))).toBe('%PDF-');
+			expect(files[`ubl/${d.number}.xml`], d.number).toBeDefined();
+		}
+	});
+
+	it('gives every document of the month as an EN 16931 e-invoice in UBL whose rules hold', async () => {
+		const accountant = await signedIn(DEMO.accountant);
+		const month = studioMonth();
+		const report = (await (await accountant.json(`/api/invoices?month=${month}`)).json()) as Report & {
+			documents: { number: string; typeCode: number; amountDue: number }[];
+		};
+		const res = await accountant.fetch(`/api/invoices/export?month=${month}&format=ubl`);
+		expect(res.status).toBe(200);
+		expect(res.headers.get('content-disposition')).toBe(`attachment; filename="e-invoices-${month}.zip"`);
+		const files = unzipSync(new Uint8Array(await res.arrayBuffer()));
+		expect(Object.keys(files).sort()).toEqual(report.documents.map((d) => `ubl/${d.number}.xml`).sort());
+		for (const d of report.documents) {
+			const xml = strFromU8(files[`ubl/${d.number}.xml`]!);
+			expect(brokenRules(xml), d.number).toEqual([]);
+			expect(xml).toContain(`<cbc:ID>${d.number}</cbc:ID>`);
+			expect(xml).toContain(d.typeCode === 381 ? '<cbc:CreditNoteTypeCode>381' : `<cbc:InvoiceTypeCode>${d.typeCode}`);
+			expect(xml).toContain(`<cbc:PayableAmount currencyID="EUR">${euros(d.amountDue)}</cbc:PayableAmount>`);
 		}
 	});
 

@@ -1,6 +1,6 @@
 // The month for the accountant, as files: CSV registers (RFC 4180, see $lib/domain/csv) of the
-// documents, payments, refunds and VAT by rate, and a ZIP archive of those registers with every
-// document's PDF. Amounts are exact decimal text in the currency's ISO 4217 minor unit; credit
+// documents, payments, refunds and VAT by rate, and ZIP archives of those registers with every
+// document's PDF and EN 16931 e-invoice (ubl.ts). Amounts are exact decimal text in the currency's ISO 4217 minor unit; credit
 // notes and refunds count negatively, so each amount column adds up to the month's figure.
 import { zipSync, strToU8 } from 'fflate';
 import { toDecimalString } from '$lib/domain/money';
@@ -9,6 +9,7 @@ import { DOCUMENT_TYPE } from '$lib/domain/invoice/numbering';
 import { documentForViewer } from './access';
 import type { MonthReport } from './month';
 import { renderInvoicePdf } from './pdf';
+import { documentAsUbl } from './ubl';
 import type { SessionUser } from '../auth';
 
 type Doc = MonthReport['documents'][number];
@@ -72,16 +73,22 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 	};
 }
 
-/** The registers plus each document's PDF (pdf/<number>.pdf), as one ZIP archive. */
-export async function monthArchive(report: MonthReport, timeZone: string, viewer: SessionUser): Promise<Uint8Array> {
+/**
+ * A ZIP archive of the month. 'all': the registers, each document's PDF (pdf/<number>.pdf) and
+ * its EN 16931 e-invoice in UBL (ubl/<number>.xml); 'ubl': the e-invoices alone.
+ */
+export async function monthArchive(report: MonthReport, timeZone: string, viewer: SessionUser, contents: 'all' | 'ubl' = 'all'): Promise<Uint8Array> {
 	const files: Record<string, Uint8Array> = {};
-	for (const [name, text] of Object.entries(monthRegisters(report, timeZone))) files[name] = strToU8(text);
+	if (contents === 'all') {
+		for (const [name, text] of Object.entries(monthRegisters(report, timeZone))) files[name] = strToU8(text);
+	}
 	for (const { id } of report.documents) {
 		const found = await documentForViewer(viewer, id);
 		if (!found.ok) continue;
-		const pdf = await renderInvoicePdf({ ...found, timeZone });
-		files[`pdf/${found.invoice.displayNumber}.pdf`] = new Uint8Array(pdf);
+		const number = found.invoice.displayNumber;
+		files[`ubl/${number}.xml`] = strToU8(documentAsUbl({ ...found, timeZone }));
+		if (contents === 'all') files[`pdf/${number}.pdf`] = new Uint8Array(await renderInvoicePdf({ ...found, timeZone }));
 	}
-	// PDFs are already compressed; level 6 for the CSV text.
+	// A fixed time stamp: the same month gives the same archive.
 	return zipSync(files, { level: 6, mtime: new Date('2000-01-01T00:00:00Z') });
 }

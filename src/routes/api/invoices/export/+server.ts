@@ -1,13 +1,13 @@
-// GET ?month=YYYY-MM&format=csv|zip[&register=documents|payments|refunds|vat] (accountant, owner):
-// the month as files. csv: one register (the documents unless another is named); zip: every
-// register and each document's PDF.
+// GET ?month=YYYY-MM&format=csv|zip|ubl[&register=documents|payments|refunds|vat] (accountant,
+// owner): the month as files. csv: one register (the documents unless another is named); zip:
+// every register with each document's PDF and UBL e-invoice; ubl: a ZIP of the e-invoices alone.
 import { apiError } from '$lib/server/api';
 import { getStudio } from '$lib/server/studio';
 import { MONTH_PATTERN, currentMonth, monthReport } from '$lib/server/invoices/month';
 import { monthArchive, monthRegisters } from '$lib/server/invoices/export';
 import type { RequestHandler } from './$types';
 
-const FORMATS = ['csv', 'zip'] as const;
+const FORMATS = ['csv', 'zip', 'ubl'] as const;
 const REGISTERS = ['documents', 'payments', 'refunds', 'vat'] as const;
 
 export const GET: RequestHandler = async ({ locals, url }) => {
@@ -27,13 +27,13 @@ export const GET: RequestHandler = async ({ locals, url }) => {
 
 	const report = await monthReport(month, studio.timeZone, studio.currency);
 	const headers = { 'cache-control': 'private, no-store', 'x-content-type-options': 'nosniff' };
-	if (format === 'zip') {
-		const zip = await monthArchive(report, studio.timeZone, locals.user);
+	if (format === 'zip' || format === 'ubl') {
+		const zip = await monthArchive(report, studio.timeZone, locals.user, format === 'ubl' ? 'ubl' : 'all');
 		return new Response(zip as Uint8Array<ArrayBuffer>, {
 			headers: {
 				...headers,
 				'content-type': 'application/zip',
-				'content-disposition': `attachment; filename="accounts-${month}.zip"`,
+				'content-disposition': `attachment; filename="${format === 'ubl' ? 'e-invoices' : 'accounts'}-${month}.zip"`,
 				'content-length': String(zip.length)
 			}
 		});
