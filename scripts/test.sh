@@ -26,7 +26,6 @@ export SLATEROOM_TEST=1
 export SHUTDOWN_TIMEOUT=3
 # Sign-in limits stay on in tests, with room for the suite's own sign-ins from one address.
 export AUTH_RATE_LIMIT_PER_IP="${AUTH_RATE_LIMIT_PER_IP:-400}"
-export AUTH_API_RATE_LIMIT="${AUTH_API_RATE_LIMIT:-1000}"
 
 LOG_DIR="$ROOT/.data/test-logs"
 rm -rf "$LOG_DIR"

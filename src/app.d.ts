@@ -13,6 +13,8 @@ declare global {
 			user: SessionUser | null;
 			session: { id: string; expiresAt: Date } | null;
 			role: Role | null;
+			/** Set by handleError when a failure was the database being unreachable (see hooks.server.ts). */
+			databaseDown?: boolean;
 		}
 	}
 }

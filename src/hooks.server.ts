@@ -2,10 +2,11 @@ import { error, redirect, type Handle, type HandleServerError } from '@sveltejs/
 import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
 import { svelteKitHandler } from 'better-auth/svelte-kit';
-import { auth } from '$lib/server/auth';
+import { auth, CLIENT_ADDRESS_HEADER } from '$lib/server/auth';
 import { isRole } from '$lib/roles';
 import { zoneFor } from '$lib/server/zones';
-import { isDatabaseDown } from '$lib/server/db/health';
+import { DATABASE_UNAVAILABLE, databaseAnswers, isDatabaseDown } from '$lib/server/db/health';
+import { apiError } from '$lib/server/api';
 import { startBackgroundJobs, stopBackgroundJobs } from '$lib/server/jobs';
 import { sqlClient } from '$lib/server/db';
 import { registerPaymentJobs } from '$lib/server/payments';
@@ -26,8 +27,60 @@ if (!building) {
 	});
 }
 
-/** better-auth answers its own routes under /api/auth. */
-const authRoutes: Handle = ({ event, resolve }) => svelteKitHandler({ event, resolve, auth, building });
+/**
+ * The client's address, as adapter-node resolves it (the socket's peer, or ADDRESS_HEADER and
+ * XFF_DEPTH behind a proxy), in a header that better-auth trusts and that this handle always
+ * overwrites: better-auth's own limiter and session records then see the same address as ours,
+ * and a client's made-up X-Forwarded-For counts for nothing.
+ */
+const clientAddress: Handle = ({ event, resolve }) => {
+	let address = '';
+	try {
+		address = event.getClientAddress();
+	} catch {
+		// ADDRESS_HEADER is set and this request did not come through the proxy (a load balancer's
+		// health check, say): better-auth gets no address rather than the request failing here.
+	}
+	if (address) event.request.headers.set(CLIENT_ADDRESS_HEADER, address);
+	else event.request.headers.delete(CLIENT_ADDRESS_HEADER);
+	return resolve(event);
+};
+
+const AUTH_BASE = '/api/auth/';
+/**
+ * The only better-auth routes open over HTTP. Signing in and up go through the site's own pages,
+ * which call auth.api on the server (a function call, not a request) behind our per-account and
+ * per-address limits and with replies that never tell whether an account exists. better-auth's
+ * JSON routes for the same things would skip both, so they, and every other route the app does
+ * not use, answer like any unknown page.
+ */
+const OPEN_AUTH_ROUTES = new Set(['GET get-session', 'POST sign-out']);
+
+/** better-auth answers its own routes under /api/auth, the open ones only. */
+const authRoutes: Handle = async ({ event, resolve }) => {
+	if (building || !event.url.pathname.startsWith(AUTH_BASE)) return resolve(event);
+	if (!OPEN_AUTH_ROUTES.has(`${event.request.method} ${event.url.pathname.slice(AUTH_BASE.length)}`)) {
+		return apiError(404, 'not_found', 'Not found');
+	}
+	const response = await svelteKitHandler({ event, resolve, auth, building });
+	// better-auth turns a lost database into its own 500 and never calls handleError: ask directly.
+	if (response.status >= 500 && !(await databaseAnswers())) return apiError(503, 'unavailable', DATABASE_UNAVAILABLE);
+	return response;
+};
+
+/**
+ * A JSON endpoint that fails because the database is unreachable answers 503, not 500. Kit
+ * catches an endpoint's error itself and answers 500 through handleError, which cannot change
+ * the status but can leave a mark in locals; this handle, around everything else, sees the mark.
+ */
+const databaseOutage: Handle = async ({ event, resolve }) => {
+	event.locals.databaseDown = false;
+	const response = await resolve(event);
+	if (response.status === 500 && event.locals.databaseDown && event.url.pathname.startsWith('/api/')) {
+		return apiError(503, 'unavailable', DATABASE_UNAVAILABLE);
+	}
+	return response;
+};
 
 /** The signed-in person, if any, into locals. */
 const sessionIntoLocals: Handle = async ({ event, resolve }) => {
@@ -50,10 +103,7 @@ const sessionIntoLocals: Handle = async ({ event, resolve }) => {
 		}
 	} catch (e) {
 		if (isDatabaseDown(e)) {
-			error(503, {
-				error: 'unavailable',
-				message: 'The studio’s database is not answering right now. Nothing was lost; please try again in a minute.'
-			});
+			error(503, { error: 'unavailable', message: DATABASE_UNAVAILABLE });
 		}
 		throw e;
 	}
@@ -89,15 +139,13 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(securityHeaders, authRoutes, sessionIntoLocals, zoneGuard);
+export const handle = sequence(securityHeaders, databaseOutage, clientAddress, authRoutes, sessionIntoLocals, zoneGuard);
 
 export const handleError: HandleServerError = ({ error: e, event, status, message }) => {
 	if (status === 404) return { message: 'Not found', error: 'not_found' };
 	if (isDatabaseDown(e)) {
-		return {
-			message: 'The studio’s database is not answering right now. Please try again in a minute.',
-			error: 'unavailable'
-		};
+		event.locals.databaseDown = true;
+		return { message: DATABASE_UNAVAILABLE, error: 'unavailable' };
 	}
 	const errorId = crypto.randomUUID().slice(0, 8);
 	console.error(`[error ${errorId}] ${event.request.method} ${event.url.pathname}`, e);

@@ -1,13 +1,11 @@
 import { error } from '@sveltejs/kit';
 import { getStudio } from '$lib/server/studio';
-import { isDatabaseDown } from '$lib/server/db/health';
+import { DATABASE_UNAVAILABLE, isDatabaseDown } from '$lib/server/db/health';
 import type { LayoutServerLoad } from './$types';
-
-const UNAVAILABLE = 'The studio’s database is not answering right now. Nothing was lost; please try again in a minute.';
 
 export const load: LayoutServerLoad = async ({ locals }) => {
 	const studio = await getStudio().catch((e: unknown) => {
-		if (isDatabaseDown(e)) error(503, { error: 'unavailable', message: UNAVAILABLE });
+		if (isDatabaseDown(e)) error(503, { error: 'unavailable', message: DATABASE_UNAVAILABLE });
 		throw e;
 	});
 	return {

@@ -37,10 +37,17 @@ export class Client {
 		});
 	}
 
-	/** Signs in through better-auth's own endpoint. */
+	/** Signs in through the sign-in page, as a person does (better-auth's JSON routes are closed). */
 	async signIn(email: string, password = DEMO_PASSWORD) {
-		const res = await this.json('/api/auth/sign-in/email', { email, password });
-		if (res.status !== 200) throw new Error(`sign-in of ${email} failed: ${res.status} ${await res.text()}`);
+		const res = await this.form('/sign-in', { email, password });
+		if (res.status !== 303) throw new Error(`sign-in of ${email} failed: ${res.status} ${await res.text()}`);
+		return this;
+	}
+
+	/** Makes an artist account through the sign-up page and stays signed in as it. */
+	async signUp(name: string, email: string, password: string) {
+		const res = await this.form('/sign-up', { name, email, password });
+		if (res.status !== 303) throw new Error(`sign-up of ${email} failed: ${res.status} ${await res.text()}`);
 		return this;
 	}
 

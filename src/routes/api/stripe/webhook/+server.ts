@@ -3,6 +3,7 @@
 // 300 s tolerance); anything unsigned, badly signed or stale gets 400 and changes nothing.
 import { json } from '@sveltejs/kit';
 import { apiError } from '$lib/server/api';
+import { DATABASE_UNAVAILABLE, isDatabaseDown } from '$lib/server/db/health';
 import { processStripeEvent } from '$lib/server/payments';
 import { stripe, webhookSecret, Stripe } from '$lib/server/payments/stripe';
 import type { RequestHandler } from './$types';
@@ -29,6 +30,7 @@ export const POST: RequestHandler = async ({ request }) => {
 	} catch (e) {
 		// Nothing was committed: Stripe retries the delivery and the retry processes it.
 		console.error(`[stripe webhook] ${event.type} ${event.id} failed:`, (e as Error).message);
+		if (isDatabaseDown(e)) return apiError(503, 'unavailable', DATABASE_UNAVAILABLE);
 		return apiError(500, 'retry_later', 'The event could not be processed now.');
 	}
 };
