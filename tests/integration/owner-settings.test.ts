@@ -17,6 +17,8 @@ const { db, client } = testDb();
 type StudioRow = typeof t.studio.$inferSelect;
 let original: StudioRow;
 let originalSurcharges: (typeof t.surchargeRule.$inferSelect)[];
+let originalRooms: (typeof t.room.$inferSelect)[];
+let originalGearIds: Set<string>;
 let owner: Client;
 
 async function studioRow(): Promise<StudioRow> {
@@ -49,6 +51,8 @@ async function quote(body: unknown) {
 beforeAll(async () => {
 	original = await studioRow();
 	originalSurcharges = await db.select().from(t.surchargeRule);
+	originalRooms = await db.select().from(t.room);
+	originalGearIds = new Set((await db.select({ id: t.gearItem.id }).from(t.gearItem)).map((g) => g.id));
 	owner = await signedIn(DEMO.owner);
 });
 
@@ -62,6 +66,10 @@ afterAll(async () => {
 			if (!keep.has(s.id)) await db.delete(t.surchargeRule).where(eq(t.surchargeRule.id, s.id));
 		}
 		for (const s of originalSurcharges) await db.update(t.surchargeRule).set(s).where(eq(t.surchargeRule.id, s.id));
+		for (const { updatedAt: _ru, ...r } of originalRooms) await db.update(t.room).set(r).where(eq(t.room.id, r.id));
+		for (const g of await db.select({ id: t.gearItem.id }).from(t.gearItem)) {
+			if (!originalGearIds.has(g.id)) await db.delete(t.gearItem).where(eq(t.gearItem.id, g.id));
+		}
 	} finally {
 		await client.end();
 	}
@@ -184,6 +192,22 @@ describe('Rates & policy page', () => {
 		expect((await post('25')).status).toBe(200);
 		const [back] = await db.select().from(t.surchargeRule).where(eq(t.surchargeRule.id, evening!.id));
 		expect(back).toEqual(evening);
+
+		const add = await owner.form('/studio/settings?/surcharge', [
+			['__superform_id', 'surcharge-new'],
+			['label', 'Night owl'],
+			['kind', 'window'],
+			['percent', '12.5'],
+			['weekdays', '5'],
+			['weekdays', '6'],
+			['from', '22:00'],
+			['to', '02:00']
+		]);
+		expect(add.status).toBe(200);
+		const [night] = await db.select().from(t.surchargeRule).where(eq(t.surchargeRule.label, 'Night owl'));
+		// Unticked "In use" arrives as no field at all: the new rule is paused, so no price changes.
+		expect(night).toMatchObject({ percentBp: 1250, weekdays: [5, 6], fromMinute: 22 * 60, toMinute: 2 * 60, active: false });
+		await db.delete(t.surchargeRule).where(eq(t.surchargeRule.id, night!.id));
 	});
 });
 
@@ -210,5 +234,110 @@ describe('only the owner', () => {
 		const res = await new Client().form('/studio/settings?/save', fields(original));
 		expect([303, 401]).toContain(res.status);
 		expect(policyOf(await studioRow())).toEqual(policyOf(original));
+	});
+});
+
+describe('Rooms & gear page', () => {
+	const live = () => originalRooms.find((r) => r.slug === 'live-room')!;
+	const roomFields = (change: Record<string, string> = {}): [string, string][] =>
+		Object.entries({
+			__superform_id: `room-${live().id}`,
+			id: live().id,
+			name: live().name,
+			description: live().description,
+			hourly: '45.00',
+			halfDay: '160.00',
+			fullDay: '300.00',
+			active: 'on',
+			...change
+		});
+
+	it('shows the rate cards and the gear list with its safety cautions', async () => {
+		const res = await owner.fetch('/studio/rooms', { headers: { accept: 'text/html' } });
+		expect(res.status).toBe(200);
+		const html = await res.text();
+		expect(html).toContain('value="160.00"');
+		expect(html).toContain('Ribbon microphone, figure-of-eight');
+		expect(html).toContain('never send phantom power');
+		expect(html).toContain('48 V phantom power');
+	});
+
+	it('stores a room rate exactly; the public rates and new quotes follow; then it goes back', async () => {
+		const day = weekdayAhead(173);
+		const body = { room: 'live-room', start: `${day}T09:00`, end: `${day}T13:00` };
+		try {
+			const res = await owner.form('/studio/rooms?/room', roomFields({ halfDay: '161.05' }));
+			expect(res.status).toBe(200);
+			const [row] = await db.select().from(t.room).where(eq(t.room.id, live().id));
+			expect(row!.halfDay).toBe(16105);
+			const rooms = (await (await new Client().fetch('/api/rooms')).json()) as {
+				rooms: { slug: string; rates: { halfDay: number } }[];
+			};
+			expect(rooms.rooms.find((r) => r.slug === 'live-room')!.rates.halfDay).toBe(16105);
+			expect((await quote(body)).body.total).toBe(16105);
+		} finally {
+			expect((await owner.form('/studio/rooms?/room', roomFields())).status).toBe(200);
+		}
+		const [back] = await db.select().from(t.room).where(eq(t.room.id, live().id));
+		expect(back!.halfDay).toBe(16000);
+		expect((await quote(body)).body.total).toBe(16000);
+	});
+
+	it.each([
+		['hourly', '12,5x', 'digits and a point'],
+		['fullDay', '-1', 'cannot be negative'],
+		['name', '', 'Name the room']
+	])('refuses a bad %s with 422 and changes nothing', async (field, value, words) => {
+		const res = await owner.form('/studio/rooms?/room', roomFields({ [field]: value }));
+		expect(res.status).toBe(422);
+		expect(await res.text()).toContain(words);
+		const [row] = await db.select().from(t.room).where(eq(t.room.id, live().id));
+		expect({ ...row, updatedAt: undefined }).toEqual({ ...live(), updatedAt: undefined });
+	});
+
+	it('adds gear by type with a caution, edits it and retires it', async () => {
+		const gearForm = (change: Record<string, string> = {}): [string, string][] =>
+			Object.entries({
+				__superform_id: 'gear-new',
+				id: '',
+				name: 'Test ribbon, figure-of-eight',
+				category: 'microphone',
+				homeRoom: live().id,
+				hireFee: '12.5',
+				hireable: 'on',
+				description: '',
+				notes: '',
+				caution: 'Ribbon element: never send phantom power to it.',
+				...change
+			});
+		expect((await owner.form('/studio/rooms?/gear', gearForm({ hireFee: '1.005' }))).status).toBe(422);
+		expect((await owner.form('/studio/rooms?/gear', gearForm())).status).toBe(200);
+		const [added] = await db.select().from(t.gearItem).where(eq(t.gearItem.name, 'Test ribbon, figure-of-eight'));
+		expect(added).toMatchObject({ hireFee: 1250, hireable: true, homeRoomId: live().id, active: true, category: 'microphone' });
+
+		const edit = await owner.form(
+			'/studio/rooms?/gear',
+			gearForm({ __superform_id: `gear-${added!.id}`, id: added!.id, hireFee: '20' })
+		);
+		expect(edit.status).toBe(200);
+		const [edited] = await db.select().from(t.gearItem).where(eq(t.gearItem.id, added!.id));
+		expect(edited!.hireFee).toBe(2000);
+
+		expect((await owner.form('/studio/rooms?/gearActive', { id: added!.id, active: 'false' })).status).toBe(200);
+		const [retired] = await db.select().from(t.gearItem).where(eq(t.gearItem.id, added!.id));
+		expect(retired!.active).toBe(false);
+		// Retired gear is no longer offered: a quote that asks for it is refused.
+		const day = weekdayAhead(173);
+		const res = await quote({ room: 'live-room', start: `${day}T09:00`, end: `${day}T13:00`, gear: [added!.id] });
+		expect(res.status).toBe(422);
+	});
+
+	it.each([DEMO.artist, DEMO.engineer])('%s gets 403 on the rooms page and its actions', async (email) => {
+		const who = await signedIn(email);
+		expect((await who.fetch('/studio/rooms', { headers: { accept: 'text/html' } })).status).toBe(403);
+		expect((await who.form('/studio/rooms?/room', roomFields({ hourly: '1.00' }))).status).toBe(403);
+		expect((await who.form('/studio/rooms?/gearActive', { id: live().id, active: 'false' })).status).toBe(403);
+		const [row] = await db.select().from(t.room).where(eq(t.room.id, live().id));
+		expect(row!.hourly).toBe(4500);
 	});
 });

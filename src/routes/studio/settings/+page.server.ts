@@ -19,6 +19,16 @@ import type { Actions, PageServerLoad } from './$types';
 type Saved = { kind: 'saved' | 'error'; text: string };
 
 const NEW_SURCHARGE = 'surcharge-new';
+const NEW_SURCHARGE_VALUES: SurchargeForm = {
+	id: '',
+	label: '',
+	kind: 'window',
+	percent: '',
+	weekdays: [],
+	from: '18:00',
+	to: '24:00',
+	active: true
+};
 
 function surchargeForm(row: settings.SurchargeRow): SurchargeForm {
 	return surchargeFormFrom({ ...row, kind: row.kind === 'holiday' ? 'holiday' : 'window' });
@@ -35,11 +45,7 @@ export const load: PageServerLoad = async ({ locals }) => {
 				superValidate<SurchargeForm, Saved>(surchargeForm(r), zod4(surchargeSchema), { id: `surcharge-${r.id}`, errors: false })
 			)
 		),
-		superValidate<SurchargeForm, Saved>(
-			{ label: '', kind: 'window', percent: '', weekdays: [], from: '18:00', to: '24:00', active: true },
-			zod4(surchargeSchema),
-			{ id: NEW_SURCHARGE, errors: false }
-		)
+		superValidate<SurchargeForm, Saved>({ ...NEW_SURCHARGE_VALUES }, zod4(surchargeSchema), { id: NEW_SURCHARGE, errors: false })
 	]);
 	return { form, surchargeForms, newSurcharge, currency: studio.currency, updatedAt: studio.updatedAt.toISOString() };
 };
@@ -71,13 +77,8 @@ export const actions: Actions = {
 		}
 		await settings.addSurcharge(actor, surchargeValuesFrom(form.data));
 		// The new rule shows in the list; the add form starts empty again.
-		return message(
-			await superValidate<SurchargeForm, Saved>(
-				{ label: '', kind: 'window', percent: '', weekdays: [], from: '18:00', to: '24:00', active: true },
-				zod4(surchargeSchema),
-				{ id: NEW_SURCHARGE, errors: false }
-			),
-			{ kind: 'saved', text: `${form.data.label} added.` }
-		);
+		const label = form.data.label;
+		form.data = { ...NEW_SURCHARGE_VALUES };
+		return message(form, { kind: 'saved', text: `${label} added.` });
 	}
 };
