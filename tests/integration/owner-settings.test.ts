@@ -341,3 +341,64 @@ describe('Rooms & gear page', () => {
 		expect(row!.hourly).toBe(4500);
 	});
 });
+
+describe('Blackout days', () => {
+	it('warns about confirmed bookings on those days, never cancels them, and closes the day on /api/availability', async () => {
+		// 176+ days ahead: later than any other spec file books.
+		const day = weekdayAhead(176);
+		const artist = await signedIn(DEMO.artist);
+		const made = await artist.json('/api/bookings', { room: 'vocal-booth', start: `${day}T09:00`, end: `${day}T13:00` });
+		expect(made.status).toBe(201);
+		const { id } = (await made.json()) as { id: string };
+		// Stands for a paid deposit: the payment flow is not what this test is about.
+		await db.update(t.booking).set({ status: 'confirmed', holdExpiresAt: null }).where(eq(t.booking.id, id));
+		const [b] = await db.select().from(t.booking).where(eq(t.booking.id, id));
+		try {
+			const warned = await owner.form('/studio/rooms?/blackout', { startsOn: day, endsOn: '', reason: 'Test blackout' });
+			expect(warned.status).toBe(409);
+			const html = await warned.text();
+			expect(html).toContain(b!.reference);
+			expect(html).toContain('will not be cancelled');
+			expect(html).toContain('value="Test blackout"');
+			expect(await db.select().from(t.blackout).where(eq(t.blackout.reason, 'Test blackout'))).toEqual([]);
+
+			const added = await owner.form('/studio/rooms?/blackout', {
+				startsOn: day,
+				endsOn: '',
+				reason: 'Test blackout',
+				confirm: 'yes'
+			});
+			expect(added.status).toBe(200);
+			const [row] = await db.select().from(t.blackout).where(eq(t.blackout.reason, 'Test blackout'));
+			expect(row).toMatchObject({ startsOn: day, endsOn: day });
+			const [still] = await db.select().from(t.booking).where(eq(t.booking.id, id));
+			expect(still!.status).toBe('confirmed');
+
+			const avail = (await (await new Client().fetch(`/api/availability?room=live-room&from=${day}&to=${day}`)).json()) as {
+				open: unknown[];
+				closed: { date: string; reason: string }[];
+			};
+			expect(avail.open).toEqual([]);
+			expect(avail.closed).toEqual([{ date: day, reason: 'Test blackout' }]);
+
+			expect((await owner.form('/studio/rooms?/removeBlackout', { id: row!.id })).status).toBe(200);
+			const reopened = (await (await new Client().fetch(`/api/availability?room=live-room&from=${day}&to=${day}`)).json()) as {
+				open: unknown[];
+			};
+			expect(reopened.open.length).toBeGreaterThan(0);
+		} finally {
+			await db.delete(t.blackout).where(eq(t.blackout.reason, 'Test blackout'));
+			await db.update(t.booking).set({ status: 'cancelled', cancelledAt: new Date() }).where(eq(t.booking.id, id));
+		}
+	});
+
+	it('refuses a range that ends before it starts, and other roles', async () => {
+		const day = weekdayAhead(177);
+		const bad = await owner.form('/studio/rooms?/blackout', { startsOn: day, endsOn: '2020-01-01', reason: 'Backwards' });
+		expect(bad.status).toBe(422);
+		expect(await bad.text()).toContain('The last day is before the first');
+		const artist = await signedIn(DEMO.artist);
+		expect((await artist.form('/studio/rooms?/blackout', { startsOn: day, reason: 'Backwards' })).status).toBe(403);
+		expect(await db.select().from(t.blackout).where(eq(t.blackout.reason, 'Backwards'))).toEqual([]);
+	});
+});

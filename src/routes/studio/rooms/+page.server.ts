@@ -5,8 +5,11 @@ import { z } from 'zod';
 import { requireRole } from '$lib/server/guard';
 import { getStudio, listRooms } from '$lib/server/studio';
 import * as inventory from '$lib/server/inventory';
+import * as blackouts from '$lib/server/blackouts';
+import { zodFieldErrors } from '$lib/server/bookings';
 import {
 	NEW_GEAR,
+	blackoutSchema,
 	gearFormFrom,
 	gearSchema,
 	gearValuesFrom,
@@ -33,6 +36,7 @@ export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
 	const [studio, rooms, gear] = await Promise.all([getStudio(), listRooms({ includeInactive: true }), inventory.listGear()]);
 	const currency = studio.currency;
+	const upcoming = await blackouts.listUpcoming(localToday(studio.timeZone));
 	const [roomForms, gearForms, newGear] = await Promise.all([
 		Promise.all(
 			rooms.map((r) =>
@@ -60,9 +64,26 @@ export const load: PageServerLoad = async ({ locals }) => {
 		roomForms,
 		gear: gear.map((g) => ({ id: g.id, active: g.active, hireFee: g.hireFee })),
 		gearForms,
-		newGear
+		newGear,
+		blackouts: upcoming.map((b) => ({ id: b.id, startsOn: b.startsOn, endsOn: b.endsOn, reason: b.reason }))
 	};
 };
+
+function localToday(timeZone: string): string {
+	return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date());
+}
+
+type Clash = Awaited<ReturnType<typeof blackouts.confirmedBookingsOn>>[number];
+interface BlackoutResult {
+	values: { startsOn: string; endsOn: string; reason: string };
+	errors: Record<string, string[]>;
+	clashes: (Omit<Clash, 'startsAt' | 'endsAt'> & { startsAt: string; endsAt: string })[];
+	saved: boolean;
+	needsConfirm: boolean;
+}
+function blackoutResult(r: Partial<BlackoutResult> & Pick<BlackoutResult, 'values'>): BlackoutResult {
+	return { errors: {}, clashes: [], saved: false, needsConfirm: false, ...r };
+}
 
 const activeSchema = z.object({ id: z.uuid(), active: z.enum(['true', 'false']) });
 
@@ -109,5 +130,36 @@ export const actions: Actions = {
 				text: row.active ? `${row.name} is back in the gear list.` : `${row.name} is retired.`
 			}
 		};
+	},
+
+	blackout: async ({ request, locals, getClientAddress }) => {
+		const user = requireRole(locals, 'owner');
+		const raw = Object.fromEntries(await request.formData());
+		const values = { startsOn: String(raw.startsOn ?? ''), endsOn: String(raw.endsOn ?? ''), reason: String(raw.reason ?? '') };
+		const parsed = blackoutSchema.safeParse(raw);
+		if (!parsed.success) return fail(422, { blackout: blackoutResult({ values, errors: zodFieldErrors(parsed.error) }) });
+		const { startsOn, reason, confirm } = parsed.data;
+		const endsOn = parsed.data.endsOn || startsOn;
+		const studio = await getStudio();
+		const clashes = (await blackouts.confirmedBookingsOn(startsOn, endsOn, studio.timeZone)).map((b) => ({
+			...b,
+			startsAt: b.startsAt.toISOString(),
+			endsAt: b.endsAt.toISOString()
+		}));
+		// Confirmed bookings are never cancelled here: the owner sees them and decides first.
+		if (clashes.length && confirm !== 'yes') {
+			return fail(409, { blackout: blackoutResult({ values, clashes, needsConfirm: true }) });
+		}
+		await blackouts.addBlackout({ user, ip: getClientAddress() }, { startsOn, endsOn, reason });
+		return { blackout: blackoutResult({ saved: true, values: { startsOn: '', endsOn: '', reason: '' }, clashes }) };
+	},
+
+	removeBlackout: async ({ request, locals, getClientAddress }) => {
+		const user = requireRole(locals, 'owner');
+		const parsed = z.object({ id: z.uuid() }).safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success) return fail(422, { removed: { error: 'Unknown blackout.' } });
+		const row = await blackouts.removeBlackout({ user, ip: getClientAddress() }, parsed.data.id);
+		if (!row) return fail(404, { removed: { error: 'That blackout was already removed.' } });
+		return { removed: { saved: `The blackout from ${row.startsOn} is removed; those days are open again.` } };
 	}
 };

@@ -153,3 +153,26 @@ export function gearValuesFrom(f: GearForm, currency: string): GearValues {
 		caution: f.caution
 	};
 }
+
+// ---------------------------------------------------------------------------------------------
+// Blackout days
+
+const YMD = /^\d{4}-\d{2}-\d{2}$/;
+const realDate = (s: string) => YMD.test(s) && new Date(`${s}T00:00:00Z`).toISOString().slice(0, 10) === s;
+
+export const blackoutSchema = z
+	.object({
+		startsOn: z.string().trim().refine(realDate, { error: 'Choose the first closed day.' }),
+		endsOn: z.string().trim().default(''),
+		reason: z.string().trim().max(200, { error: 'Keep the reason under 200 characters.' }).default(''),
+		confirm: z.string().optional()
+	})
+	.superRefine((v, ctx) => {
+		if (v.endsOn && !realDate(v.endsOn))
+			ctx.addIssue({ code: 'custom', path: ['endsOn'], message: 'Choose the last closed day, or leave it empty for one day.' });
+		else if (v.endsOn && realDate(v.startsOn) && v.endsOn < v.startsOn) {
+			ctx.addIssue({ code: 'custom', path: ['endsOn'], message: 'The last day is before the first.' });
+		} else if (v.endsOn && realDate(v.startsOn) && (Date.parse(v.endsOn) - Date.parse(v.startsOn)) / 86_400_000 > 366) {
+			ctx.addIssue({ code: 'custom', path: ['endsOn'], message: 'Block out at most a year at a time.' });
+		}
+	});
