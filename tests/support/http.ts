@@ -51,8 +51,8 @@ export class Client {
 		return this;
 	}
 
-	/** Posts a SvelteKit form action the way a browser without JavaScript would. */
-	form(path: string, fields: Record<string, string>) {
+	/** Posts a SvelteKit form action the way a browser without JavaScript would (pairs repeat a name, as checkboxes do). */
+	form(path: string, fields: Record<string, string> | [string, string][]) {
 		return this.fetch(path, {
 			method: 'POST',
 			// A browser's plain form post: SvelteKit answers JSON to anything that does not ask for HTML.

@@ -14,6 +14,8 @@ import {
 	mulDivCeil,
 	mulDivFloor,
 	mulDivRoundHalfUp,
+	parseMoney,
+	parsePercentToBasisPoints,
 	roundHalfUpToMultiple,
 	sumMinor,
 	toDecimalString,
@@ -163,5 +165,47 @@ describe('integer rounding (cross-checked against decimal.js)', () => {
 		expect(basisPointsToPercent(2400)).toBe('24');
 		expect(basisPointsToPercent(25)).toBe('0.25');
 		expect(basisPointsToPercent(0)).toBe('0');
+	});
+});
+
+describe('parsing typed amounts and percents (exact, no floats)', () => {
+	it('reads money in minor units by the currency’s ISO 4217 digits', () => {
+		expect(parseMoney('45', 'EUR')).toEqual({ ok: true, value: 4500 });
+		expect(parseMoney(' 45.5 ', 'EUR')).toEqual({ ok: true, value: 4550 });
+		expect(parseMoney('0.07', 'EUR')).toEqual({ ok: true, value: 7 });
+		expect(parseMoney('.5', 'EUR')).toEqual({ ok: true, value: 50 });
+		expect(parseMoney('45.', 'EUR')).toEqual({ ok: true, value: 4500 });
+		expect(parseMoney('160.00', 'EUR')).toEqual({ ok: true, value: 16000 });
+		expect(parseMoney('500', 'JPY')).toEqual({ ok: true, value: 500 });
+		expect(parseMoney('5.125', 'KWD')).toEqual({ ok: true, value: 5125 });
+		// 0.1 + 0.2 style float trouble cannot happen: 1.15 × 100 is 114.99999999999999 in floats.
+		expect(parseMoney('1.15', 'EUR')).toEqual({ ok: true, value: 115 });
+		expect(parseMoney('-0.00', 'EUR')).toEqual({ ok: true, value: 0 });
+	});
+
+	it('refuses commas, signs, letters, exponents, too many decimals and negatives', () => {
+		for (const bad of ['12,5x', '12,50', '1,000.00', '€45', '45 EUR', '1e3', '0x10', '4 5', 'abc', '--1', '+5']) {
+			expect(parseMoney(bad, 'EUR')).toEqual({ ok: false, reason: 'format' });
+		}
+		expect(parseMoney('', 'EUR')).toEqual({ ok: false, reason: 'empty' });
+		expect(parseMoney('45.505', 'EUR')).toEqual({ ok: false, reason: 'precision' });
+		expect(parseMoney('45.5', 'JPY')).toEqual({ ok: false, reason: 'precision' });
+		expect(parseMoney('-3.00', 'EUR')).toEqual({ ok: false, reason: 'negative' });
+		expect(parseMoney('99999999999999999', 'EUR')).toEqual({ ok: false, reason: 'too-large' });
+	});
+
+	it('reads percents as basis points', () => {
+		expect(parsePercentToBasisPoints('25.5')).toEqual({ ok: true, value: 2550 });
+		expect(parsePercentToBasisPoints('30 %')).toEqual({ ok: true, value: 3000 });
+		expect(parsePercentToBasisPoints('0.25')).toEqual({ ok: true, value: 25 });
+		expect(parsePercentToBasisPoints('25.505')).toEqual({ ok: false, reason: 'precision' });
+	});
+
+	it('round-trips every amount with toDecimalString', () => {
+		fc.assert(
+			fc.property(fc.integer({ min: 0, max: Number.MAX_SAFE_INTEGER }), fc.constantFrom('EUR', 'JPY', 'KWD'), (minor, currency) => {
+				expect(parseMoney(toDecimalString(minor, currency), currency)).toEqual({ ok: true, value: minor });
+			})
+		);
 	});
 });

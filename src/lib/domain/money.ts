@@ -226,3 +226,40 @@ export function basisPointsToPercent(bp: number): string {
 		.replace(/0+$/, '');
 	return fraction ? `${sign}${whole}.${fraction}` : `${sign}${whole}`;
 }
+
+// ---------------------------------------------------------------------------------------------
+// Parsing what people type
+// ---------------------------------------------------------------------------------------------
+
+export type ParsedDecimal = { ok: true; value: number } | { ok: false; reason: 'empty' | 'format' | 'negative' | 'precision' | 'too-large' };
+
+/**
+ * Reads plain decimal text ("45", "45.5", "45.50", "-3") as an integer scaled by 10^digits, by
+ * string arithmetic alone (no float ever holds the amount). A point is the only decimal mark;
+ * grouping marks, commas, currency signs and exponents are refused, so "12,5" is never read as
+ * twelve thousand five hundred or as 12.5 by guesswork.
+ */
+export function parseScaledDecimal(text: string, digits: number): ParsedDecimal {
+	const s = text.trim();
+	if (s === '') return { ok: false, reason: 'empty' };
+	const m = /^(-?)(\d+)(?:\.(\d*))?$|^(-?)\.(\d+)$/.exec(s);
+	if (!m) return { ok: false, reason: 'format' };
+	const negative = (m[1] ?? m[4]) === '-';
+	const whole = m[2] ?? '0';
+	const fraction = (m[3] ?? m[5] ?? '').replace(/0+$/, '');
+	if (fraction.length > digits) return { ok: false, reason: 'precision' };
+	const scaled = BigInt(whole) * 10n ** BigInt(digits) + BigInt(fraction.padEnd(digits, '0') || '0');
+	if (negative && scaled !== 0n) return { ok: false, reason: 'negative' };
+	if (scaled > BigInt(Number.MAX_SAFE_INTEGER)) return { ok: false, reason: 'too-large' };
+	return { ok: true, value: Number(scaled) };
+}
+
+/** Decimal text in the currency's major unit to minor units, exactly: ("45.50", 'EUR') → 4550, ("500", 'JPY') → 500. */
+export function parseMoney(text: string, currency: string): ParsedDecimal {
+	return parseScaledDecimal(text, minorUnits(currency));
+}
+
+/** A percent as typed to basis points, exactly: "25.5" → 2550, "30" → 3000, "0.25" → 25. */
+export function parsePercentToBasisPoints(text: string): ParsedDecimal {
+	return parseScaledDecimal(text.replace(/\s*%$/, ''), 2);
+}

@@ -1,0 +1,106 @@
+// Rooms with their rate cards, and the gear inventory, as the owner keeps them. A rate change
+// touches only future quotes: a booking keeps the quote it was made with (booking.quote).
+import { asc, eq } from 'drizzle-orm';
+import { db } from './db';
+import { gearItem, room } from './db/schema';
+import { audit } from './audit';
+import type { SessionUser } from './auth';
+
+export type GearRow = typeof gearItem.$inferSelect;
+
+export interface RoomValues {
+	name: string;
+	description: string;
+	hourly: number;
+	halfDay: number;
+	fullDay: number;
+	active: boolean;
+}
+
+export interface GearValues {
+	name: string;
+	category: string;
+	description: string;
+	homeRoomId: string | null;
+	hireFee: number;
+	hireable: boolean;
+	notes: string;
+	caution: string;
+}
+
+interface Actor {
+	user: Pick<SessionUser, 'id'>;
+	ip?: string | null;
+}
+
+function changes<T extends object>(before: T, after: Partial<T>): Record<string, { from: unknown; to: unknown }> {
+	const out: Record<string, { from: unknown; to: unknown }> = {};
+	for (const key of Object.keys(after) as (keyof T)[]) {
+		if (JSON.stringify(before[key]) !== JSON.stringify(after[key])) out[String(key)] = { from: before[key], to: after[key] };
+	}
+	return out;
+}
+
+/** Saves a room's name, description, rate card and whether it is bookable; false when there is no such room. */
+export async function updateRoom(actor: Actor, id: string, values: RoomValues): Promise<boolean> {
+	const [before] = await db.select().from(room).where(eq(room.id, id));
+	if (!before) return false;
+	const diff = changes(before, values);
+	if (Object.keys(diff).length === 0) return true;
+	await db.update(room).set(values).where(eq(room.id, id));
+	await audit({ actorId: actor.user.id, action: 'room.changed', entity: 'room', entityId: id, data: diff, ip: actor.ip });
+	return true;
+}
+
+/** Every piece of gear, retired ones last. */
+export async function listGear(): Promise<GearRow[]> {
+	return db.select().from(gearItem).orderBy(asc(gearItem.category), asc(gearItem.name));
+}
+
+async function roomExists(id: string | null): Promise<boolean> {
+	if (!id) return true;
+	const [row] = await db.select({ id: room.id }).from(room).where(eq(room.id, id));
+	return !!row;
+}
+
+export async function addGear(actor: Actor, values: GearValues): Promise<GearRow | null> {
+	if (!(await roomExists(values.homeRoomId))) return null;
+	const [row] = await db.insert(gearItem).values(values).returning();
+	await audit({
+		actorId: actor.user.id,
+		action: 'gear.added',
+		entity: 'gear_item',
+		entityId: row!.id,
+		data: values,
+		ip: actor.ip
+	});
+	return row!;
+}
+
+/** 'missing' when there is no such piece of gear or home room. */
+export async function updateGear(actor: Actor, id: string, values: GearValues): Promise<'saved' | 'missing'> {
+	const [before] = await db.select().from(gearItem).where(eq(gearItem.id, id));
+	if (!before || !(await roomExists(values.homeRoomId))) return 'missing';
+	const diff = changes(before, values);
+	if (Object.keys(diff).length === 0) return 'saved';
+	await db.update(gearItem).set(values).where(eq(gearItem.id, id));
+	await audit({ actorId: actor.user.id, action: 'gear.changed', entity: 'gear_item', entityId: id, data: diff, ip: actor.ip });
+	return 'saved';
+}
+
+/**
+ * Retires a piece of gear (or brings it back). Retired gear is no longer offered for new bookings;
+ * it stays on the bookings and invoices that already name it, so it is never deleted.
+ */
+export async function setGearActive(actor: Actor, id: string, active: boolean): Promise<GearRow | null> {
+	const [row] = await db.update(gearItem).set({ active }).where(eq(gearItem.id, id)).returning();
+	if (!row) return null;
+	await audit({
+		actorId: actor.user.id,
+		action: active ? 'gear.restored' : 'gear.retired',
+		entity: 'gear_item',
+		entityId: id,
+		ip: actor.ip
+	});
+	return row;
+}

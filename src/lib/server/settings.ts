@@ -1,0 +1,113 @@
+// The owner's rates and policy: the studio row and its surcharge rules. Changing them touches
+// only future quotes; a booking keeps the quote it was made with (booking.quote).
+import { asc, eq, sql } from 'drizzle-orm';
+import { db } from './db';
+import { studio, surchargeRule } from './db/schema';
+import { audit } from './audit';
+import { getStudio } from './studio';
+import type { SessionUser } from './auth';
+import type { CancellationRung, OpeningHours } from '$lib/domain/types';
+
+export type SurchargeRow = typeof surchargeRule.$inferSelect;
+
+/** What the Rates & policy form may change on the studio row. */
+export interface PolicyValues {
+	vatRateBp: number;
+	pricesIncludeVat: boolean;
+	minBookingMinutes: number;
+	incrementMinutes: number;
+	turnaroundMinutes: number;
+	minNoticeMinutes: number;
+	horizonDays: number;
+	holdMinutes: number;
+	depositBp: number;
+	depositMinimum: number;
+	overtimeIncrementMinutes: number;
+	engineerHourly: number;
+	engineerHalfDay: number;
+	engineerFullDay: number;
+	closedOnPublicHolidays: boolean;
+	openingHours: OpeningHours[];
+	cancellation: CancellationRung[];
+}
+
+export interface SurchargeValues {
+	label: string;
+	kind: 'window' | 'holiday';
+	percentBp: number;
+	weekdays: number[];
+	fromMinute: number;
+	toMinute: number;
+	active: boolean;
+}
+
+interface Actor {
+	user: Pick<SessionUser, 'id'>;
+	ip?: string | null;
+}
+
+export async function listSurcharges(): Promise<SurchargeRow[]> {
+	return db.select().from(surchargeRule).orderBy(asc(surchargeRule.sortOrder), asc(surchargeRule.label));
+}
+
+function changes<T extends object>(before: T, after: Partial<T>): Record<string, { from: unknown; to: unknown }> {
+	const out: Record<string, { from: unknown; to: unknown }> = {};
+	for (const key of Object.keys(after) as (keyof T)[]) {
+		const a = JSON.stringify(before[key]);
+		const b = JSON.stringify(after[key]);
+		if (a !== b) out[String(key)] = { from: before[key], to: after[key] };
+	}
+	return out;
+}
+
+/** Saves the policy; returns the names of the fields that changed (none: nothing written). */
+export async function updatePolicy(actor: Actor, values: PolicyValues): Promise<string[]> {
+	const before = await getStudio();
+	const diff = changes(before, values);
+	const changed = Object.keys(diff);
+	if (changed.length === 0) return [];
+	await db.update(studio).set(values).where(eq(studio.id, 1));
+	await audit({
+		actorId: actor.user.id,
+		action: 'studio.policy_changed',
+		entity: 'studio',
+		entityId: '1',
+		data: diff,
+		ip: actor.ip
+	});
+	return changed;
+}
+
+/** Saves one surcharge rule; false when there is no such rule. */
+export async function updateSurcharge(actor: Actor, id: string, values: SurchargeValues): Promise<boolean> {
+	const [before] = await db.select().from(surchargeRule).where(eq(surchargeRule.id, id));
+	if (!before) return false;
+	const diff = changes(before, values);
+	if (Object.keys(diff).length === 0) return true;
+	await db.update(surchargeRule).set(values).where(eq(surchargeRule.id, id));
+	await audit({
+		actorId: actor.user.id,
+		action: 'surcharge.changed',
+		entity: 'surcharge_rule',
+		entityId: id,
+		data: diff,
+		ip: actor.ip
+	});
+	return true;
+}
+
+export async function addSurcharge(actor: Actor, values: SurchargeValues): Promise<SurchargeRow> {
+	const [row] = await db
+		.insert(surchargeRule)
+		.values({ ...values, sortOrder: sql`(select coalesce(max(${surchargeRule.sortOrder}), 0) + 1 from ${surchargeRule})` })
+		.returning();
+	await audit({
+		actorId: actor.user.id,
+		action: 'surcharge.added',
+		entity: 'surcharge_rule',
+		entityId: row!.id,
+		data: values,
+		ip: actor.ip
+	});
+	return row!;
+}

@@ -1,0 +1,165 @@
+import { fail } from '@sveltejs/kit';
+import { message, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { z } from 'zod';
+import { requireRole } from '$lib/server/guard';
+import { getStudio, listRooms } from '$lib/server/studio';
+import * as inventory from '$lib/server/inventory';
+import * as blackouts from '$lib/server/blackouts';
+import { zodFieldErrors } from '$lib/server/bookings';
+import {
+	NEW_GEAR,
+	blackoutSchema,
+	gearFormFrom,
+	gearSchema,
+	gearValuesFrom,
+	roomFormFrom,
+	roomSchema,
+	roomValuesFrom,
+	type GearForm,
+	type RoomForm
+} from './schema';
+import type { Actions, PageServerLoad } from './$types';
+
+type Note = { kind: 'saved' | 'error'; text: string };
+
+const NEW_GEAR_ID = 'gear-new';
+
+function emptyGear(currency: string) {
+	return superValidate<GearForm, Note>({ ...NEW_GEAR, hireFee: '0' }, zod4(gearSchema(currency)), {
+		id: NEW_GEAR_ID,
+		errors: false
+	});
+}
+
+export const load: PageServerLoad = async ({ locals }) => {
+	requireRole(locals, 'owner');
+	const [studio, rooms, gear] = await Promise.all([getStudio(), listRooms({ includeInactive: true }), inventory.listGear()]);
+	const currency = studio.currency;
+	const upcoming = await blackouts.listUpcoming(localToday(studio.timeZone));
+	const [roomForms, gearForms, newGear] = await Promise.all([
+		Promise.all(
+			rooms.map((r) =>
+				superValidate<RoomForm, Note>(roomFormFrom(r, currency), zod4(roomSchema(currency)), {
+					id: `room-${r.id}`,
+					errors: false
+				})
+			)
+		),
+		Promise.all(
+			gear.map((g) =>
+				superValidate<GearForm, Note>(gearFormFrom(g, currency), zod4(gearSchema(currency)), {
+					id: `gear-${g.id}`,
+					errors: false
+				})
+			)
+		),
+		emptyGear(currency)
+	]);
+	return {
+		currency,
+		halfDayHours: studio.halfDayMinutes / 60,
+		fullDayHours: studio.fullDayMinutes / 60,
+		rooms: rooms.map((r) => ({ id: r.id, name: r.name, slug: r.slug, active: r.active })),
+		roomForms,
+		gear: gear.map((g) => ({ id: g.id, active: g.active, hireFee: g.hireFee })),
+		gearForms,
+		newGear,
+		blackouts: upcoming.map((b) => ({ id: b.id, startsOn: b.startsOn, endsOn: b.endsOn, reason: b.reason }))
+	};
+};
+
+function localToday(timeZone: string): string {
+	return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date());
+}
+
+type Clash = Awaited<ReturnType<typeof blackouts.confirmedBookingsOn>>[number];
+interface BlackoutResult {
+	values: { startsOn: string; endsOn: string; reason: string };
+	errors: Record<string, string[]>;
+	clashes: (Omit<Clash, 'startsAt' | 'endsAt'> & { startsAt: string; endsAt: string })[];
+	saved: boolean;
+	needsConfirm: boolean;
+}
+function blackoutResult(r: Partial<BlackoutResult> & Pick<BlackoutResult, 'values'>): BlackoutResult {
+	return { errors: {}, clashes: [], saved: false, needsConfirm: false, ...r };
+}
+
+const activeSchema = z.object({ id: z.uuid(), active: z.enum(['true', 'false']) });
+
+export const actions: Actions = {
+	room: async ({ request, locals, getClientAddress }) => {
+		const user = requireRole(locals, 'owner');
+		const { currency } = await getStudio();
+		const form = await superValidate<RoomForm, Note>(request, zod4(roomSchema(currency)));
+		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
+		const found = await inventory.updateRoom({ user, ip: getClientAddress() }, form.data.id, roomValuesFrom(form.data, currency));
+		if (!found) return message(form, { kind: 'error', text: 'That room is not here any more.' }, { status: 404 });
+		return message(form, { kind: 'saved', text: `${form.data.name} saved. New quotes use this rate card.` });
+	},
+
+	gear: async ({ request, locals, getClientAddress }) => {
+		const user = requireRole(locals, 'owner');
+		const { currency } = await getStudio();
+		const form = await superValidate<GearForm, Note>(request, zod4(gearSchema(currency)));
+		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
+		const actor = { user, ip: getClientAddress() };
+		const values = gearValuesFrom(form.data, currency);
+		if (form.data.id) {
+			const outcome = await inventory.updateGear(actor, form.data.id, values);
+			if (outcome === 'missing')
+				return message(form, { kind: 'error', text: 'That gear or its room is not here any more.' }, { status: 404 });
+			return message(form, { kind: 'saved', text: 'Saved.' });
+		}
+		const added = await inventory.addGear(actor, values);
+		if (!added) return message(form, { kind: 'error', text: 'Choose one of the rooms.' }, { status: 422 });
+		// The new piece shows in the list; the add form starts empty again.
+		form.data = { ...NEW_GEAR, hireFee: '0' };
+		return message(form, { kind: 'saved', text: `${added.name} added to the gear list.` });
+	},
+
+	gearActive: async ({ request, locals, getClientAddress }) => {
+		const user = requireRole(locals, 'owner');
+		const parsed = activeSchema.safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success) return fail(422, { gearActive: { kind: 'error' as const, text: 'Unknown gear.' } });
+		const row = await inventory.setGearActive({ user, ip: getClientAddress() }, parsed.data.id, parsed.data.active === 'true');
+		if (!row) return fail(404, { gearActive: { kind: 'error' as const, text: 'That gear is not here any more.' } });
+		return {
+			gearActive: {
+				kind: 'saved' as const,
+				text: row.active ? `${row.name} is back in the gear list.` : `${row.name} is retired.`
+			}
+		};
+	},
+
+	blackout: async ({ request, locals, getClientAddress }) => {
+		const user = requireRole(locals, 'owner');
+		const raw = Object.fromEntries(await request.formData());
+		const values = { startsOn: String(raw.startsOn ?? ''), endsOn: String(raw.endsOn ?? ''), reason: String(raw.reason ?? '') };
+		const parsed = blackoutSchema.safeParse(raw);
+		if (!parsed.success) return fail(422, { blackout: blackoutResult({ values, errors: zodFieldErrors(parsed.error) }) });
+		const { startsOn, reason, confirm } = parsed.data;
+		const endsOn = parsed.data.endsOn || startsOn;
+		const studio = await getStudio();
+		const clashes = (await blackouts.confirmedBookingsOn(startsOn, endsOn, studio.timeZone)).map((b) => ({
+			...b,
+			startsAt: b.startsAt.toISOString(),
+			endsAt: b.endsAt.toISOString()
+		}));
+		// Confirmed bookings are never cancelled here: the owner sees them and decides first.
+		if (clashes.length && confirm !== 'yes') {
+			return fail(409, { blackout: blackoutResult({ values, clashes, needsConfirm: true }) });
+		}
+		await blackouts.addBlackout({ user, ip: getClientAddress() }, { startsOn, endsOn, reason });
+		return { blackout: blackoutResult({ saved: true, values: { startsOn: '', endsOn: '', reason: '' }, clashes }) };
+	},
+
+	removeBlackout: async ({ request, locals, getClientAddress }) => {
+		const user = requireRole(locals, 'owner');
+		const parsed = z.object({ id: z.uuid() }).safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success) return fail(422, { removed: { error: 'Unknown blackout.' } });
+		const row = await blackouts.removeBlackout({ user, ip: getClientAddress() }, parsed.data.id);
+		if (!row) return fail(404, { removed: { error: 'That blackout was already removed.' } });
+		return { removed: { saved: `The blackout from ${row.startsOn} is removed; those days are open again.` } };
+	}
+};

@@ -1,0 +1,84 @@
+import { fail } from '@sveltejs/kit';
+import { message, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { requireRole } from '$lib/server/guard';
+import { getStudio } from '$lib/server/studio';
+import * as settings from '$lib/server/settings';
+import {
+	policyValuesFrom,
+	settingsFormFrom,
+	settingsSchema,
+	surchargeFormFrom,
+	surchargeSchema,
+	surchargeValuesFrom,
+	type SettingsForm,
+	type SurchargeForm
+} from './schema';
+import type { Actions, PageServerLoad } from './$types';
+
+type Saved = { kind: 'saved' | 'error'; text: string };
+
+const NEW_SURCHARGE = 'surcharge-new';
+const NEW_SURCHARGE_VALUES: SurchargeForm = {
+	id: '',
+	label: '',
+	kind: 'window',
+	percent: '',
+	weekdays: [],
+	from: '18:00',
+	to: '24:00',
+	active: true
+};
+
+function surchargeForm(row: settings.SurchargeRow): SurchargeForm {
+	return surchargeFormFrom({ ...row, kind: row.kind === 'holiday' ? 'holiday' : 'window' });
+}
+
+export const load: PageServerLoad = async ({ locals }) => {
+	requireRole(locals, 'owner');
+	const [studio, surcharges] = await Promise.all([getStudio(), settings.listSurcharges()]);
+	const schema = zod4(settingsSchema(studio.currency));
+	const [form, surchargeForms, newSurcharge] = await Promise.all([
+		superValidate<SettingsForm, Saved>(settingsFormFrom(studio, studio.currency), schema, { errors: false }),
+		Promise.all(
+			surcharges.map((r) =>
+				superValidate<SurchargeForm, Saved>(surchargeForm(r), zod4(surchargeSchema), { id: `surcharge-${r.id}`, errors: false })
+			)
+		),
+		superValidate<SurchargeForm, Saved>({ ...NEW_SURCHARGE_VALUES }, zod4(surchargeSchema), { id: NEW_SURCHARGE, errors: false })
+	]);
+	return { form, surchargeForms, newSurcharge, currency: studio.currency, updatedAt: studio.updatedAt.toISOString() };
+};
+
+export const actions: Actions = {
+	save: async ({ request, locals, getClientAddress }) => {
+		const user = requireRole(locals, 'owner');
+		const { currency } = await getStudio();
+		const form = await superValidate<SettingsForm, Saved>(request, zod4(settingsSchema(currency)));
+		if (!form.valid) {
+			return message(form, { kind: 'error', text: 'Nothing was saved: some values need another look.' }, { status: 422 });
+		}
+		const changed = await settings.updatePolicy({ user, ip: getClientAddress() }, policyValuesFrom(form.data, currency));
+		return message(form, {
+			kind: 'saved',
+			text: changed.length ? 'Saved. New quotes and bookings use these rates and rules from now on.' : 'Nothing had changed.'
+		});
+	},
+
+	surcharge: async ({ request, locals, getClientAddress }) => {
+		const user = requireRole(locals, 'owner');
+		const form = await superValidate<SurchargeForm, Saved>(request, zod4(surchargeSchema));
+		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
+		const actor = { user, ip: getClientAddress() };
+		if (form.data.id) {
+			const found = await settings.updateSurcharge(actor, form.data.id, surchargeValuesFrom(form.data));
+			if (!found) return fail(404, { form });
+			return message(form, { kind: 'saved', text: `${form.data.label} saved.` });
+		}
+		await settings.addSurcharge(actor, surchargeValuesFrom(form.data));
+		// The new rule shows in the list; the add form starts empty again.
+		const label = form.data.label;
+		form.data = { ...NEW_SURCHARGE_VALUES };
+		return message(form, { kind: 'saved', text: `${label} added.` });
+	}
+};
