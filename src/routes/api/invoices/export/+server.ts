@@ -2,8 +2,8 @@
 // owner): the month as files. csv: one register (the documents unless another is named); zip:
 // every register with each document's PDF and UBL e-invoice; ubl: a ZIP of the e-invoices alone.
 import { apiError } from '$lib/server/api';
-import { getStudio } from '$lib/server/studio';
-import { MONTH_PATTERN, currentMonth, monthReport } from '$lib/server/invoices/month';
+import { monthReport } from '$lib/server/invoices/month';
+import { MONTH_MESSAGE, accountsRequest, isMonth } from '$lib/server/invoices/request';
 import { monthArchive, monthRegisters } from '$lib/server/invoices/export';
 import type { RequestHandler } from './$types';
 
@@ -11,16 +11,13 @@ const FORMATS = ['csv', 'zip', 'ubl'] as const;
 const REGISTERS = ['documents', 'payments', 'refunds', 'vat'] as const;
 
 export const GET: RequestHandler = async ({ locals, url }) => {
-	if (!locals.user) return apiError(401, 'unauthenticated', 'Please sign in first.');
-	if (locals.user.role !== 'accountant' && locals.user.role !== 'owner') {
-		return apiError(403, 'forbidden', 'The accounts are for the accountant and the owner.');
-	}
-	const studio = await getStudio();
-	const month = url.searchParams.get('month') ?? currentMonth(studio.timeZone);
+	const req = await accountsRequest(locals, url);
+	if (!req.ok) return req.response;
+	const { studio, month, user } = req;
 	const format = url.searchParams.get('format') ?? 'csv';
 	const register = url.searchParams.get('register') ?? 'documents';
 	const fields: Record<string, string[]> = {};
-	if (!MONTH_PATTERN.test(month)) fields.month = ['Use a month such as 2027-03.'];
+	if (!isMonth(month)) fields.month = [MONTH_MESSAGE];
 	if (!(FORMATS as readonly string[]).includes(format)) fields.format = [`Choose one of: ${FORMATS.join(', ')}.`];
 	if (!(REGISTERS as readonly string[]).includes(register)) fields.register = [`Choose one of: ${REGISTERS.join(', ')}.`];
 	if (Object.keys(fields).length) return apiError(422, 'invalid', 'Some of the export’s settings are not valid.', { fields });
@@ -28,7 +25,7 @@ export const GET: RequestHandler = async ({ locals, url }) => {
 	const report = await monthReport(month, studio.timeZone, studio.currency);
 	const headers = { 'cache-control': 'private, no-store', 'x-content-type-options': 'nosniff' };
 	if (format === 'zip' || format === 'ubl') {
-		const zip = await monthArchive(report, studio.timeZone, locals.user, format === 'ubl' ? 'ubl' : 'all');
+		const zip = await monthArchive(report, studio.timeZone, user, format === 'ubl' ? 'ubl' : 'all');
 		return new Response(zip as Uint8Array<ArrayBuffer>, {
 			headers: {
 				...headers,
