@@ -11,6 +11,7 @@ import { startBackgroundJobs, stopBackgroundJobs } from '$lib/server/jobs';
 import { sqlClient } from '$lib/server/db';
 import { registerPaymentJobs } from '$lib/server/payments';
 import { registerMail } from '$lib/server/mail';
+import { ensureDemoLedger } from '$lib/server/demo-ledger';
 
 if (!building) {
 	// Payment sweeps (expiring lapsed sessions, sending recorded refunds) must run from start-up,
@@ -18,6 +19,7 @@ if (!building) {
 	registerPaymentJobs();
 	registerMail();
 	startBackgroundJobs();
+	ensureDemoLedger().catch((e) => console.warn('[demo]', (e as Error).message));
 	// adapter-node emits this once the HTTP server has closed (after SIGTERM or SIGINT). The
 	// periodic jobs keep pooled database connections busy, so without this the process would
 	// never exit on its own.
