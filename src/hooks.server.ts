@@ -11,12 +11,14 @@ import { startBackgroundJobs, stopBackgroundJobs } from '$lib/server/jobs';
 import { sqlClient } from '$lib/server/db';
 import { registerPaymentJobs } from '$lib/server/payments';
 import { registerMail } from '$lib/server/mail';
+import { registerUploadJobs } from '$lib/server/uploads';
 
 if (!building) {
 	// Payment sweeps (expiring lapsed sessions, sending recorded refunds) must run from start-up,
 	// not only once some page happens to import the payments module.
 	registerPaymentJobs();
 	registerMail();
+	registerUploadJobs();
 	startBackgroundJobs();
 	// adapter-node emits this once the HTTP server has closed (after SIGTERM or SIGINT). The
 	// periodic jobs keep pooled database connections busy, so without this the process would
