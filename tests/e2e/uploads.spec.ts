@@ -50,15 +50,15 @@ test('the artist uploads a reference track on the booking page and sees it liste
 	await expect(files.getByTestId('files-empty')).toBeVisible();
 	await expect(files).toContainText('up to 4 MB a file');
 
-	await files.getByLabel('Add a file').setInputFiles({ name: 'Reference mix.wav', mimeType: 'audio/wav', buffer: wav() });
+	await files.getByLabel('Add a file').setInputFiles({ name: 'Reference mix, Kesäyö.wav', mimeType: 'audio/wav', buffer: wav() });
 	await files.getByRole('button', { name: 'Upload' }).click();
 
-	await expect(files.getByTestId('files-status')).toHaveText('“Reference mix.wav” is uploaded.');
-	const row = files.getByTestId('file-row').filter({ hasText: 'Reference mix.wav' });
+	await expect(files.getByTestId('files-status')).toHaveText('“Reference mix, Kesäyö.wav” is uploaded.');
+	const row = files.getByTestId('file-row').filter({ hasText: 'Reference mix, Kesäyö.wav' });
 	await expect(row).toBeVisible();
 	await expect(row).toContainText('WAV audio');
 	await expect(row).toContainText('1.6 KB');
-	await expect(row.getByRole('link', { name: 'Download Reference mix.wav' })).toHaveAttribute(
+	await expect(row.getByRole('link', { name: 'Download Reference mix, Kesäyö.wav' })).toHaveAttribute(
 		'href',
 		/^\/uploads\/[0-9a-f-]{36}$/
 	);

@@ -122,11 +122,11 @@ beforeAll(async () => {
 
 describe('uploading to a booking', () => {
 	it('takes a small WAV from the booking’s artist, stores it under a server-chosen name, and lists it', async () => {
-		const res = await upload(artist, booking.id, track, 'Guide vocal (take 3).wav');
+		const res = await upload(artist, booking.id, track, 'Guide vocal, Kesäyö (take 3).wav');
 		const body = (await res.json()) as UploadJson;
 		expect(res.status, JSON.stringify(body)).toBe(201);
 		expect(body).toMatchObject({
-			name: 'Guide vocal (take 3).wav',
+			name: 'Guide vocal, Kesäyö (take 3).wav',
 			contentType: 'audio/wav',
 			type: 'WAV audio',
 			sizeBytes: track.length,
@@ -156,7 +156,7 @@ describe('uploading to a booking', () => {
 		expect(res.headers.get('x-content-type-options')).toBe('nosniff');
 		expect(res.headers.get('cache-control')).toMatch(/private/);
 		expect(res.headers.get('content-disposition')).toBe(
-			`attachment; filename="Guide vocal (take 3).wav"; filename*=UTF-8''Guide%20vocal%20%28take%203%29.wav`
+			`attachment; filename="Guide vocal, Kesayo (take 3).wav"; filename*=UTF-8''Guide%20vocal%2C%20Kes%C3%A4y%C3%B6%20%28take%203%29.wav`
 		);
 		expect(sha256(new Uint8Array(await res.arrayBuffer()))).toBe(sha256(track));
 		expect((await owner.fetch(stored.downloadUrl)).status).toBe(200);
@@ -170,7 +170,7 @@ describe('uploading to a booking', () => {
 		};
 		const session = plan.rooms.flatMap((r) => r.sessions).find((s) => s.id === booking.id);
 		expect(session?.uploads).toEqual([
-			expect.objectContaining({ id: stored.id, name: 'Guide vocal (take 3).wav', href: stored.downloadUrl })
+			expect.objectContaining({ id: stored.id, name: 'Guide vocal, Kesäyö (take 3).wav', href: stored.downloadUrl })
 		]);
 	});
 

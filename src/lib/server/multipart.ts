@@ -41,7 +41,12 @@ export function readFileField<T>(
 	let parser: Busboy.Busboy;
 	try {
 		// A handful of small text fields may ride along (a form action's own fields); one file.
-		parser = Busboy({ headers: { 'content-type': type }, limits: { files: 1, fields: 10, fieldSize: 4096, parts: 12 } });
+		parser = Busboy({
+			headers: { 'content-type': type },
+			limits: { files: 1, fields: 10, fieldSize: 4096, parts: 12 },
+			// Browsers send the file name as raw UTF-8 (WHATWG HTML, multipart/form-data encoding); busboy's default is Latin-1.
+			defParamCharset: 'utf8'
+		});
 	} catch {
 		return Promise.resolve({
 			ok: false,
