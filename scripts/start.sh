@@ -21,6 +21,10 @@ export PG_PORT PORT HOST ORIGIN DATABASE_URL BETTER_AUTH_SECRET STRIPE_SECRET_KE
 	STRIPE_API_BASE SMTP_URL STRIPE_FAKE_PORT SMTP_PORT MAIL_WEB_PORT SEED_DEMO
 export BETTER_AUTH_URL="${BETTER_AUTH_URL:-$ORIGIN}"
 export UPLOAD_DIR="${UPLOAD_DIR:-$ROOT/.data/uploads}"
+export UPLOAD_MAX_BYTES="${UPLOAD_MAX_BYTES:-52428800}"
+# adapter-node refuses request bodies over BODY_SIZE_LIMIT (512K by default): room for one file at
+# the upload limit plus its multipart framing. The app checks each file's size itself as it arrives.
+export BODY_SIZE_LIMIT="${BODY_SIZE_LIMIT:-$((UPLOAD_MAX_BYTES + 1048576))}"
 
 LOG_DIR="$ROOT/.data/logs"
 mkdir -p "$LOG_DIR" "$UPLOAD_DIR"

@@ -31,6 +31,10 @@ LOG_DIR="$ROOT/.data/test-logs"
 rm -rf "$LOG_DIR"
 mkdir -p "$LOG_DIR"
 export UPLOAD_DIR="$ROOT/.data/test-uploads"
+# A small per-file limit keeps the oversized-upload tests quick; the body limit sits just above it,
+# as in start.sh.
+export UPLOAD_MAX_BYTES="${TEST_UPLOAD_MAX_BYTES:-4194304}"
+export BODY_SIZE_LIMIT="$((UPLOAD_MAX_BYTES + 1048576))"
 rm -rf "$UPLOAD_DIR"
 mkdir -p "$UPLOAD_DIR"
 

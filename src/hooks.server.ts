@@ -12,12 +12,14 @@ import { sqlClient } from '$lib/server/db';
 import { registerPaymentJobs } from '$lib/server/payments';
 import { registerMail } from '$lib/server/mail';
 import { ensureDemoLedger } from '$lib/server/demo-ledger';
+import { registerUploadJobs } from '$lib/server/uploads';
 
 if (!building) {
 	// Payment sweeps (expiring lapsed sessions, sending recorded refunds) must run from start-up,
 	// not only once some page happens to import the payments module.
 	registerPaymentJobs();
 	registerMail();
+	registerUploadJobs();
 	startBackgroundJobs();
 	ensureDemoLedger().catch((e) => console.warn('[demo]', (e as Error).message));
 	// adapter-node emits this once the HTTP server has closed (after SIGTERM or SIGINT). The

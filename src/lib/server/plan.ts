@@ -1,5 +1,6 @@
 // The engineer's day plan: each room's sessions, the gear each needs (and any piece booked in two
-// rooms at overlapping times), and the recall sheet carried over from the artist's last session.
+// rooms at overlapping times), the recall sheet carried over from the artist's last session, and
+// the files the artist uploaded for it.
 import { TZDate } from '@date-fns/tz';
 import { addDays, format } from 'date-fns';
 import { and, asc, desc, eq, gt, inArray, lt, ne } from 'drizzle-orm';
@@ -7,6 +8,7 @@ import { db } from './db';
 import { booking, bookingGear, gearItem, recallSheet, room, user, type RecallChannel } from './db/schema';
 import { getStudio } from './studio';
 import { isoInZone } from './time';
+import { summariesFor } from './uploads';
 
 export const PLAN_STATUSES = ['pending', 'confirmed', 'completed'] as const;
 
@@ -32,6 +34,7 @@ export interface PlanSession {
 	gear: { id: string; name: string; category: string; caution: string; conflict: boolean }[];
 	recall: { fromBooking: string; fromDate: string; channels: RecallChannel[]; notes: string } | null;
 	ownRecall: { channels: RecallChannel[]; notes: string } | null;
+	uploads: { id: string; name: string; typeLabel: string; sizeBytes: number; href: string }[];
 }
 
 export interface DayPlan {
@@ -73,7 +76,7 @@ export async function dayPlan(date: string): Promise<DayPlan> {
 	]);
 	const ids = sessions.map((s) => s.id);
 	const engineerIds = [...new Set(sessions.map((s) => s.engineerId).filter((x): x is string => !!x))];
-	const [gearRows, engineers, ownSheets] = await Promise.all([
+	const [gearRows, engineers, ownSheets, files] = await Promise.all([
 		ids.length
 			? db
 					.select({ bookingId: bookingGear.bookingId, id: gearItem.id, name: gearItem.name, category: gearItem.category, caution: gearItem.caution })
@@ -82,7 +85,8 @@ export async function dayPlan(date: string): Promise<DayPlan> {
 					.where(inArray(bookingGear.bookingId, ids))
 			: [],
 		engineerIds.length ? db.select({ id: engineer.id, name: engineer.name }).from(engineer).where(inArray(engineer.id, engineerIds)) : [],
-		ids.length ? db.select().from(recallSheet).where(inArray(recallSheet.bookingId, ids)) : []
+		ids.length ? db.select().from(recallSheet).where(inArray(recallSheet.bookingId, ids)) : [],
+		summariesFor(ids)
 	]);
 
 	// A piece of gear in two sessions whose times (turnaround included) overlap. The database
@@ -123,7 +127,10 @@ export async function dayPlan(date: string): Promise<DayPlan> {
 				.filter((g) => g.bookingId === s.id)
 				.map((g) => ({ id: g.id, name: g.name, category: g.category, caution: g.caution, conflict: conflictKeys.has(`${s.id}:${g.id}`) })),
 			recall: prev ? { fromBooking: prev.reference, fromDate: isoInZone(prev.startsAt, tz), channels: prev.channels, notes: prev.notes } : null,
-			ownRecall: own ? { channels: own.channels, notes: own.notes } : null
+			ownRecall: own ? { channels: own.channels, notes: own.notes } : null,
+			uploads: files
+				.filter((f) => f.bookingId === s.id)
+				.map((f) => ({ id: f.id, name: f.name, typeLabel: f.typeLabel, sizeBytes: f.sizeBytes, href: f.href }))
 		};
 	});
 

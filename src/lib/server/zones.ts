@@ -12,7 +12,8 @@ const ZONES: Zone[] = [
 	{ prefix: '/plan', roles: ['owner', 'engineer'] },
 	{ prefix: '/accounts', roles: ['owner', 'accountant'] },
 	{ prefix: '/bookings', roles: 'signed-in' },
-	{ prefix: '/account', roles: 'signed-in' }
+	{ prefix: '/account', roles: 'signed-in' },
+	{ prefix: '/uploads', roles: 'signed-in' }
 ];
 
 export function zoneFor(pathname: string): Zone | undefined {

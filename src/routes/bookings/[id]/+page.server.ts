@@ -1,11 +1,14 @@
-import { error } from '@sveltejs/kit';
+import { error, fail } from '@sveltejs/kit';
 import { getForViewer, rebookable } from '$lib/server/bookings';
 import { getStudio } from '$lib/server/studio';
 import { bookPath, wallClock, type BookingKind } from '$lib/components/booking/choices';
 import { requireUser } from '$lib/server/guard';
 import { loadMoneyPanel } from '$lib/server/payments';
 import type { QuoteView } from '$lib/components/booking/PriceBreakdown.svelte';
-import type { PageServerLoad } from './$types';
+import { readFileField } from '$lib/server/multipart';
+import * as uploads from '$lib/server/uploads';
+import { audit } from '$lib/server/audit';
+import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params }) => {
 	const me = requireUser(locals);
@@ -15,11 +18,14 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 	// The booking itself matters more than its payment panel: if payments cannot be read, the
 	// page still shows the booking and says so.
 	let moneyUnavailable = false;
-	const money = await loadMoneyPanel(me, b).catch((e: unknown) => {
-		console.error('[booking page] could not load the payment panel', b.id, e);
-		moneyUnavailable = true;
-		return null;
-	});
+	const [money, listed] = await Promise.all([
+		loadMoneyPanel(me, b).catch((e: unknown) => {
+			console.error('[booking page] could not load the payment panel', b.id, e);
+			moneyUnavailable = true;
+			return null;
+		}),
+		uploads.listForViewer(me, b.id)
+	]);
 	const q = b.quote;
 
 	// A hold that ran out (swept or not yet): say so, and offer the same time again if it is free.
@@ -80,6 +86,37 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		rebook,
 		money,
 		moneyUnavailable,
+		files: listed.ok
+			? {
+					items: listed.uploads.map((u) => ({ id: u.id, name: u.name, typeLabel: u.typeLabel, sizeBytes: u.sizeBytes, createdAt: u.createdAt, href: u.href })),
+					limits: listed.limits,
+					usage: listed.usage,
+					open: listed.open,
+					mayChange: listed.mayChange
+				}
+			: null,
 		viewerIsArtist: me.role === 'artist'
 	};
+};
+
+export const actions: Actions = {
+	/** A file for the session, posted as multipart/form-data and stored as it streams in. */
+	upload: async ({ request, locals, params, getClientAddress }) => {
+		const me = requireUser(locals);
+		const received = await readFileField(request, 'file', (file) => uploads.save(me, params.id, file));
+		const outcome = received.ok ? received.value : received;
+		if (!outcome.ok) return fail(outcome.status, { upload: { error: outcome.message } });
+		const u = outcome.upload;
+		await audit({ actorId: me.id, action: 'upload.added', entity: 'booking', entityId: params.id, data: { upload: u.id, sizeBytes: u.sizeBytes, sha256: u.sha256 }, ip: getClientAddress() });
+		return { upload: { added: u.originalName } };
+	},
+	remove: async ({ request, locals, params, getClientAddress }) => {
+		const me = requireUser(locals);
+		const form = await request.formData();
+		const uploadId = String(form.get('uploadId') ?? '');
+		const removed = await uploads.remove(me, params.id, uploadId);
+		if (!removed.ok) return fail(removed.status, { remove: { error: removed.message } });
+		await audit({ actorId: me.id, action: 'upload.removed', entity: 'booking', entityId: params.id, data: { upload: uploadId }, ip: getClientAddress() });
+		return { remove: { removed: removed.upload.originalName } };
+	}
 };

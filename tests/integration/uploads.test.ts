@@ -1,0 +1,285 @@
+// The artist's uploads over real HTTP against the production build, its database and its upload
+// folder. Checked against OWASP ASVS 5.0: 5.2.1 (size limits, 413), 5.2.2 (type from the content,
+// 415), 5.3.2 (server-chosen paths), and object-level access (8.2.2: another artist gets 404).
+import { createHash } from 'node:crypto';
+import { readdir, readFile } from 'node:fs/promises';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import { Client, signedIn } from '../support/http';
+import { DEMO, STRIPE_API_BASE } from '../support/env';
+import { testDb } from '../support/db';
+import { weekdayAhead } from '../support/dates';
+import * as t from '../../src/lib/server/db/schema';
+
+const { db, client } = testDb();
+afterAll(() => client.end());
+
+// scripts/test.sh sets both; the defaults are the same values.
+const UPLOAD_DIR = process.env.UPLOAD_DIR ?? path.resolve('.data/test-uploads');
+const MAX_FILE = Number(process.env.UPLOAD_MAX_BYTES ?? 4 * 1024 * 1024);
+const BODY_LIMIT = Number(process.env.BODY_SIZE_LIMIT ?? MAX_FILE + 1024 * 1024);
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+const sha256 = (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
+
+/** A mono 16-bit 8 kHz PCM WAV: the 44-byte RIFF/WAVE header, then `samples` of a 440 Hz sine. */
+function wav(samples = 400, padTo?: number): Uint8Array<ArrayBuffer> {
+	const dataBytes = padTo ? padTo - 44 : samples * 2;
+	const buf = Buffer.alloc(44 + dataBytes);
+	buf.write('RIFF', 0, 'ascii');
+	buf.writeUInt32LE(36 + dataBytes, 4);
+	buf.write('WAVE', 8, 'ascii');
+	buf.write('fmt ', 12, 'ascii');
+	buf.writeUInt32LE(16, 16); // fmt chunk size
+	buf.writeUInt16LE(1, 20); // PCM
+	buf.writeUInt16LE(1, 22); // channels
+	buf.writeUInt32LE(8000, 24); // sample rate
+	buf.writeUInt32LE(8000 * 2, 28); // byte rate
+	buf.writeUInt16LE(2, 32); // block align
+	buf.writeUInt16LE(16, 34); // bits per sample
+	buf.write('data', 36, 'ascii');
+	buf.writeUInt32LE(dataBytes, 40);
+	for (let i = 0; i < Math.min(samples, dataBytes / 2); i++)
+		buf.writeInt16LE(Math.round(8000 * Math.sin((2 * Math.PI * 440 * i) / 8000)), 44 + i * 2);
+	return new Uint8Array(buf);
+}
+
+function upload(who: Client, bookingId: string, bytes: Uint8Array<ArrayBuffer>, name: string, type = 'audio/wav') {
+	const form = new FormData();
+	form.set('file', new Blob([bytes], { type }), name);
+	return who.fetch(`/api/bookings/${bookingId}/uploads`, { method: 'POST', body: form });
+}
+
+/** Two hours in the vocal booth, 09:00–11:00 on a weekday 150–175 days ahead (this file's days). */
+async function book(who: Client): Promise<{ id: string; checkoutUrl: string; day: string }> {
+	for (let attempt = 0; attempt < 30; attempt++) {
+		const day = weekdayAhead(150 + Math.floor(Math.random() * 26));
+		const res = await who.json('/api/bookings', { room: 'vocal-booth', start: `${day}T09:00`, end: `${day}T11:00` });
+		if (res.status === 409) continue;
+		const body = (await res.json()) as { id: string; checkoutUrl: string };
+		expect(res.status, JSON.stringify(body)).toBe(201);
+		return { ...body, day };
+	}
+	throw new Error('no free slot found');
+}
+
+async function payDeposit(bookingId: string, checkoutUrl: string) {
+	const session = checkoutUrl.split('/pay/')[1]!;
+	const paid = await fetch(`${STRIPE_API_BASE}/_control/sessions/${session}/pay`, {
+		method: 'POST',
+		headers: { 'content-type': 'application/json' },
+		body: '{}'
+	});
+	expect(paid.status).toBe(200);
+	for (let i = 0; i < 100; i++) {
+		const [row] = await db.select({ status: t.booking.status }).from(t.booking).where(eq(t.booking.id, bookingId));
+		if (row?.status === 'confirmed') return;
+		await sleep(100);
+	}
+	throw new Error('the booking was not confirmed');
+}
+
+/** Every file in the booking's folder, and the storage keys its rows name: the two must agree. */
+async function onDisk(bookingId: string) {
+	const files = (await readdir(path.join(UPLOAD_DIR, bookingId)).catch(() => [] as string[]))
+		.map((f) => `${bookingId}/${f}`)
+		.sort();
+	const rows = await db.select({ key: t.upload.storageKey }).from(t.upload).where(eq(t.upload.bookingId, bookingId));
+	return { files, keys: rows.map((r) => r.key).sort() };
+}
+
+interface UploadJson {
+	id: string;
+	name: string;
+	contentType: string;
+	type: string;
+	sizeBytes: number;
+	sha256: string;
+	createdAt: string;
+	downloadUrl: string;
+}
+
+let artist: Client;
+let artist2: Client;
+let engineer: Client;
+let owner: Client;
+let accountant: Client;
+let booking: { id: string; checkoutUrl: string; day: string };
+const track = wav();
+let stored: UploadJson;
+
+beforeAll(async () => {
+	[artist, artist2, engineer, owner, accountant] = await Promise.all([
+		signedIn(DEMO.artist),
+		signedIn(DEMO.artist2),
+		signedIn(DEMO.engineer),
+		signedIn(DEMO.owner),
+		signedIn(DEMO.accountant)
+	]);
+	booking = await book(artist);
+});
+
+describe('uploading to a booking', () => {
+	it('takes a small WAV from the booking’s artist, stores it under a server-chosen name, and lists it', async () => {
+		const res = await upload(artist, booking.id, track, 'Guide vocal, Kesäyö (take 3).wav');
+		const body = (await res.json()) as UploadJson;
+		expect(res.status, JSON.stringify(body)).toBe(201);
+		expect(body).toMatchObject({
+			name: 'Guide vocal, Kesäyö (take 3).wav',
+			contentType: 'audio/wav',
+			type: 'WAV audio',
+			sizeBytes: track.length,
+			sha256: sha256(track)
+		});
+		expect(body.downloadUrl).toBe(`/uploads/${body.id}`);
+		stored = body;
+
+		const [row] = await db.select().from(t.upload).where(eq(t.upload.id, body.id));
+		expect(row!.storageKey).toMatch(new RegExp(`^${booking.id}/[0-9a-f-]{36}$`));
+		expect(row!.storageKey).not.toContain('Guide');
+		expect(sha256(await readFile(path.join(UPLOAD_DIR, row!.storageKey)))).toBe(sha256(track));
+
+		const list = await artist.fetch(`/api/bookings/${booking.id}/uploads`);
+		expect(list.status).toBe(200);
+		const listed = (await list.json()) as { uploads: UploadJson[]; usage: { files: number; bytes: number } };
+		expect(listed.uploads.map((u) => u.id)).toEqual([body.id]);
+		expect(listed.usage).toEqual({ files: 1, bytes: track.length });
+	});
+
+	it('lets the engineer list and download the same bytes, as an attachment that is never sniffed', async () => {
+		const list = (await (await engineer.fetch(`/api/bookings/${booking.id}/uploads`)).json()) as { uploads: UploadJson[] };
+		expect(list.uploads.map((u) => u.id)).toContain(stored.id);
+		const res = await engineer.fetch(stored.downloadUrl);
+		expect(res.status).toBe(200);
+		expect(res.headers.get('content-type')).toBe('audio/wav');
+		expect(res.headers.get('x-content-type-options')).toBe('nosniff');
+		expect(res.headers.get('cache-control')).toMatch(/private/);
+		expect(res.headers.get('content-disposition')).toBe(
+			`attachment; filename="Guide vocal, Kesayo (take 3).wav"; filename*=UTF-8''Guide%20vocal%2C%20Kes%C3%A4y%C3%B6%20%28take%203%29.wav`
+		);
+		expect(sha256(new Uint8Array(await res.arrayBuffer()))).toBe(sha256(track));
+		expect((await owner.fetch(stored.downloadUrl)).status).toBe(200);
+	});
+
+	it('shows the files in the engineer’s day plan once the booking is confirmed', async () => {
+		await payDeposit(booking.id, booking.checkoutUrl);
+		const res = await engineer.fetch(`/api/plan?date=${booking.day}`);
+		const plan = (await res.json()) as {
+			rooms: { sessions: { id: string; uploads: { id: string; name: string; href: string }[] }[] }[];
+		};
+		const session = plan.rooms.flatMap((r) => r.sessions).find((s) => s.id === booking.id);
+		expect(session?.uploads).toEqual([
+			expect.objectContaining({ id: stored.id, name: 'Guide vocal, Kesäyö (take 3).wav', href: stored.downloadUrl })
+		]);
+	});
+
+	it('answers another artist 404 for the list, an upload, a download and a removal, as for no booking at all', async () => {
+		expect((await artist2.fetch(`/api/bookings/${booking.id}/uploads`)).status).toBe(404);
+		const up = await upload(artist2, booking.id, wav(), 'mine.wav');
+		expect(up.status).toBe(404);
+		expect(await up.json()).toMatchObject({ error: 'not_found' });
+		expect((await artist2.fetch(stored.downloadUrl)).status).toBe(404);
+		expect((await artist2.fetch(`/api/bookings/${booking.id}/uploads/${stored.id}`, { method: 'DELETE' })).status).toBe(404);
+		expect((await artist.fetch(`/api/bookings/00000000-0000-4000-8000-000000000000/uploads`)).status).toBe(404);
+		expect((await onDisk(booking.id)).keys).toHaveLength(1);
+	});
+
+	it('answers the accountant 403, an engineer 403 for changes, and a stranger 401', async () => {
+		expect((await accountant.fetch(`/api/bookings/${booking.id}/uploads`)).status).toBe(403);
+		expect((await upload(accountant, booking.id, wav(), 'a.wav')).status).toBe(403);
+		expect((await accountant.fetch(stored.downloadUrl)).status).toBe(403);
+		expect((await upload(engineer, booking.id, wav(), 'e.wav')).status).toBe(403);
+		expect((await engineer.fetch(`/api/bookings/${booking.id}/uploads/${stored.id}`, { method: 'DELETE' })).status).toBe(403);
+		expect((await new Client().fetch(`/api/bookings/${booking.id}/uploads`)).status).toBe(401);
+		expect((await upload(new Client(), booking.id, wav(), 's.wav')).status).toBe(401);
+	});
+
+	it('decides the type from the content: HTML or a Windows program named track.wav is refused with 415', async () => {
+		const html = new TextEncoder().encode('<!doctype html><html><body><script>alert(document.cookie)</script></body></html>');
+		const mz = new Uint8Array(512);
+		mz.set([0x4d, 0x5a, 0x90, 0x00, 0x03]);
+		for (const bytes of [html, mz]) {
+			const res = await upload(artist, booking.id, bytes, 'track.wav', 'audio/wav');
+			const body = (await res.json()) as { error: string; message: string };
+			expect(res.status, JSON.stringify(body)).toBe(415);
+			expect(body.error).toBe('unsupported_type');
+			expect(body.message).toContain('track.wav');
+		}
+		// The same HTML under a .txt name is markup, not a lyric sheet.
+		expect((await upload(artist, booking.id, html, 'lyrics.txt', 'text/plain')).status).toBe(415);
+		const disk = await onDisk(booking.id);
+		expect(disk.files).toEqual(disk.keys);
+		expect(disk.keys).toHaveLength(1);
+	});
+
+	it('takes a plain UTF-8 lyric sheet and serves it as text', async () => {
+		const lyrics = new TextEncoder().encode('Säkeistö 1\nThe tape hiss sings along\n');
+		const res = await upload(artist, booking.id, lyrics, 'lyrics.txt', 'application/octet-stream');
+		const body = (await res.json()) as UploadJson;
+		expect(res.status, JSON.stringify(body)).toBe(201);
+		expect(body.contentType).toBe('text/plain; charset=utf-8');
+		const got = await engineer.fetch(body.downloadUrl);
+		expect(new TextDecoder().decode(await got.arrayBuffer())).toBe('Säkeistö 1\nThe tape hiss sings along\n');
+	});
+
+	it('answers 413 for a file just over UPLOAD_MAX_BYTES and for a body over BODY_SIZE_LIMIT, leaving nothing behind', async () => {
+		const before = await onDisk(booking.id);
+		const over = await upload(artist, booking.id, wav(100, MAX_FILE + 1), 'too-long.wav');
+		const body = (await over.json()) as { error: string; message: string };
+		expect(over.status, JSON.stringify(body)).toBe(413);
+		expect(body.error).toBe('too_large');
+		expect(body.message).toMatch(/at most/);
+
+		const huge = await upload(artist, booking.id, wav(100, BODY_LIMIT + 64 * 1024), 'huge.wav');
+		expect(huge.status).toBe(413);
+		expect(await huge.json()).toMatchObject({ error: 'too_large' });
+
+		await sleep(200);
+		expect(await onDisk(booking.id)).toEqual(before);
+		// The connection pool is still healthy afterwards.
+		expect((await artist.fetch(`/api/bookings/${booking.id}/uploads`)).status).toBe(200);
+	});
+
+	it('answers 415 for a body that is not multipart, and 422 without a file', async () => {
+		const json = await artist.json(`/api/bookings/${booking.id}/uploads`, { file: 'x' });
+		expect(json.status).toBe(415);
+		const form = new FormData();
+		form.set('note', 'no file here');
+		const empty = await artist.fetch(`/api/bookings/${booking.id}/uploads`, { method: 'POST', body: form });
+		expect(empty.status).toBe(422);
+		expect(await empty.json()).toMatchObject({ error: 'no_file' });
+	});
+
+	it('removes a file: the row and the bytes', async () => {
+		const [row] = await db.select().from(t.upload).where(eq(t.upload.id, stored.id));
+		const res = await artist.fetch(`/api/bookings/${booking.id}/uploads/${stored.id}`, { method: 'DELETE' });
+		expect(res.status).toBe(204);
+		expect(await db.select().from(t.upload).where(eq(t.upload.id, stored.id))).toEqual([]);
+		await expect(readFile(path.join(UPLOAD_DIR, row!.storageKey))).rejects.toThrow(/ENOENT/);
+		expect((await engineer.fetch(stored.downloadUrl)).status).toBe(404);
+		const disk = await onDisk(booking.id);
+		expect(disk.files).toEqual(disk.keys);
+	});
+
+	it('holds a booking to ten files (413 for the eleventh), and takes none once it is cancelled', async () => {
+		const { keys } = await onDisk(booking.id);
+		for (let i = keys.length; i < 10; i++)
+			expect((await upload(artist, booking.id, wav(50 + i), `take-${i}.wav`)).status).toBe(201);
+		const eleventh = await upload(artist, booking.id, wav(), 'take-11.wav');
+		expect(eleventh.status).toBe(413);
+		expect(await eleventh.json()).toMatchObject({ error: 'booking_full' });
+		expect((await onDisk(booking.id)).files).toHaveLength(10);
+
+		await db.update(t.booking).set({ status: 'cancelled' }).where(eq(t.booking.id, booking.id));
+		const first = (await onDisk(booking.id)).keys[0]!;
+		const [row] = await db.select({ id: t.upload.id }).from(t.upload).where(eq(t.upload.storageKey, first));
+		expect((await artist.fetch(`/api/bookings/${booking.id}/uploads/${row!.id}`, { method: 'DELETE' })).status).toBe(204);
+		const closed = await upload(artist, booking.id, wav(), 'late.wav');
+		expect(closed.status).toBe(409);
+		expect(await closed.json()).toMatchObject({ error: 'booking_closed' });
+		const disk = await onDisk(booking.id);
+		expect(disk.files).toEqual(disk.keys);
+		expect(disk.keys).toHaveLength(9);
+	});
+});
