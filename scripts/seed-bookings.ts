@@ -100,10 +100,46 @@ const demo: DemoBooking[] = [
 		],
 		recallNotes: 'Singer prefers the cue mix with a little reverb; capo on fret 2 for the acoustic guide.'
 	},
-	{ artist: 'artist@slateroom.test', room: 'live-room', day: 3, from: '10:00', to: '14:00', engineer: true, project: 'The Lantern Static: guitars', status: 'confirmed' },
-	{ artist: 'artist2@slateroom.test', room: 'vocal-booth', day: 3, from: '15:00', to: '19:00', engineer: false, project: 'Pale Orchard: harmonies', status: 'confirmed' },
-	{ artist: 'artist@slateroom.test', room: 'control-room', day: 6, from: '12:00', to: '20:00', engineer: true, project: 'The Lantern Static: rough mixes', status: 'confirmed' },
-	{ artist: 'artist2@slateroom.test', room: 'live-room', day: 10, from: '09:00', to: '17:00', engineer: true, project: 'Pale Orchard: full band day', status: 'confirmed' }
+	{
+		artist: 'artist@slateroom.test',
+		room: 'live-room',
+		day: 3,
+		from: '10:00',
+		to: '14:00',
+		engineer: true,
+		project: 'The Lantern Static: guitars',
+		status: 'confirmed'
+	},
+	{
+		artist: 'artist2@slateroom.test',
+		room: 'vocal-booth',
+		day: 3,
+		from: '15:00',
+		to: '19:00',
+		engineer: false,
+		project: 'Pale Orchard: harmonies',
+		status: 'confirmed'
+	},
+	{
+		artist: 'artist@slateroom.test',
+		room: 'control-room',
+		day: 6,
+		from: '12:00',
+		to: '20:00',
+		engineer: true,
+		project: 'The Lantern Static: rough mixes',
+		status: 'confirmed'
+	},
+	{
+		artist: 'artist2@slateroom.test',
+		room: 'live-room',
+		day: 10,
+		from: '09:00',
+		to: '17:00',
+		engineer: true,
+		project: 'Pale Orchard: full band day',
+		status: 'confirmed'
+	}
 ];
 
 export async function seedDemoBookings(

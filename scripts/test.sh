@@ -76,10 +76,11 @@ pg_create_db "$PG_PORT" slateroom_test
 
 npx svelte-kit sync
 if [ "${SKIP_STATIC:-0}" != "1" ]; then
-log "static checks (svelte-check, ESLint)"
+log "static checks (svelte-check, ESLint, Prettier)"
 npx svelte-check --tsconfig ./tsconfig.json --fail-on-warnings --threshold warning --output machine >"$LOG_DIR/svelte-check.log" 2>&1 ||
 	{ grep -E 'ERROR|WARNING' "$LOG_DIR/svelte-check.log" | head -n 40; die "svelte-check failed"; }
 npx eslint . --max-warnings 0
+npx prettier --check . >"$LOG_DIR/prettier.log" 2>&1 || { grep warn "$LOG_DIR/prettier.log" | head -n 20; die "some files are not formatted: npm run format"; }
 fi
 
 log "migrating and seeding the test database"

@@ -93,7 +93,14 @@ test('field errors land in live regions that were in the page before, tied to th
 	await expect(region).toHaveAttribute('aria-live', 'polite');
 	await expect(region).toHaveText('');
 	await expect(start).not.toHaveAttribute('aria-invalid', 'true');
-	for (const id of ['room-error', 'kind-error', 'field-date-error', 'engineer-error', 'field-project-error', 'field-notes-error']) {
+	for (const id of [
+		'room-error',
+		'kind-error',
+		'field-date-error',
+		'engineer-error',
+		'field-project-error',
+		'field-notes-error'
+	]) {
 		await expect(page.locator(`#${id}`)).toHaveAttribute('aria-live', 'polite');
 	}
 	// Mark the node, so the message must arrive in this same element and not a newly inserted one.

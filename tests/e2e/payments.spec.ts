@@ -27,12 +27,10 @@ function ymdAhead(days: number): string {
 
 /** Weekdays (not Finnish public holidays) about nine days ahead, nearest to nine first. */
 function candidateDays(): string[] {
-	return [9, 8, 10, 11, 12]
-		.map(ymdAhead)
-		.filter((ymd) => {
-			const dow = new Date(`${ymd}T12:00:00Z`).getUTCDay();
-			return dow !== 0 && dow !== 6 && !isPublicHoliday('FI', ymd);
-		});
+	return [9, 8, 10, 11, 12].map(ymdAhead).filter((ymd) => {
+		const dow = new Date(`${ymd}T12:00:00Z`).getUTCDay();
+		return dow !== 0 && dow !== 6 && !isPublicHoliday('FI', ymd);
+	});
 }
 
 /** The calendar says the vocal booth is free from FROM to TO (plus turnaround) on that day. */

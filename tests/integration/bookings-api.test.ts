@@ -17,7 +17,12 @@ beforeAll(async () => {
 	await db
 		.update(t.booking)
 		.set({ status: 'cancelled' })
-		.where(and(inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date::text in ${days}`));
+		.where(
+			and(
+				inArray(t.booking.status, ['held', 'pending', 'confirmed']),
+				sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date::text in ${days}`
+			)
+		);
 });
 
 interface Quote {
@@ -98,14 +103,22 @@ describe('POST /api/quote', () => {
 	it('refuses less than the minimum notice', async () => {
 		const soon = new Date(Date.now() + 3 * 3600_000);
 		soon.setUTCMinutes(0, 0, 0);
-		const res = await quote({ room: 'live-room', start: soon.toISOString(), end: new Date(soon.getTime() + 2 * 3600_000).toISOString() });
+		const res = await quote({
+			room: 'live-room',
+			start: soon.toISOString(),
+			end: new Date(soon.getTime() + 2 * 3600_000).toISOString()
+		});
 		expect(res.status).toBe(422);
 		expect(JSON.stringify(res.body.fields)).toMatch(/notice|advance|ahead/i);
 	});
 
 	it('never answers 500, whatever the body', async () => {
 		for (const body of ['', 'null', '[]', '{"room":{}}', '{"start":1e400}', '"x"', '{"gear":"all"}']) {
-			const res = await new Client().fetch('/api/quote', { method: 'POST', headers: { 'content-type': 'application/json' }, body });
+			const res = await new Client().fetch('/api/quote', {
+				method: 'POST',
+				headers: { 'content-type': 'application/json' },
+				body
+			});
 			expect(res.status).toBeLessThan(500);
 			expect([413, 415, 422]).toContain(res.status);
 		}
@@ -162,7 +175,12 @@ describe('GET /api/availability', () => {
 	it('shows open hours, a booking plus its turnaround as busy, and no names', async () => {
 		const day = weekdayAhead(62);
 		const artist = await signedIn(DEMO.artist);
-		const made = await artist.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T14:00`, project: 'Secret demo' });
+		const made = await artist.json('/api/bookings', {
+			room: 'control-room',
+			start: `${day}T10:00`,
+			end: `${day}T14:00`,
+			project: 'Secret demo'
+		});
 		expect(made.status).toBe(201);
 		const res = await new Client().fetch(`/api/availability?room=control-room&from=${day}&to=${day}`);
 		expect(res.status).toBe(200);
@@ -170,7 +188,11 @@ describe('GET /api/availability', () => {
 		const text = await res.text();
 		expect(text).not.toContain('Secret demo');
 		expect(text).not.toContain('Noa');
-		const body = JSON.parse(text) as { timeZone: string; busy: { start: string; end: string }[]; open: { start: string; end: string }[] };
+		const body = JSON.parse(text) as {
+			timeZone: string;
+			busy: { start: string; end: string }[];
+			open: { start: string; end: string }[];
+		};
 		expect(body.timeZone).toBe(TZ);
 		// Busy: the booking and its 30-minute turnaround (PRODUCT.md), 10:00–14:30 local.
 		expect(body.busy.map((b) => [Date.parse(b.start), Date.parse(b.end)])).toEqual([
@@ -247,7 +269,9 @@ describe('GET /api/availability', () => {
 
 describe('the booking page', () => {
 	it('says plainly that a date in the address is not on the calendar (was a 500)', async () => {
-		const res = await new Client().fetch('/book?room=live-room&date=2027-02-31&start=10:00', { headers: { accept: 'text/html' } });
+		const res = await new Client().fetch('/book?room=live-room&date=2027-02-31&start=10:00', {
+			headers: { accept: 'text/html' }
+		});
 		expect(res.status).toBe(200);
 		const html = await res.text();
 		expect(html).toContain('There is no 2027-02-31 on the calendar');
@@ -317,8 +341,15 @@ describe('POST /api/bookings', () => {
 		expect(engineers).toHaveLength(1); // the seed's one engineer (PRODUCT.md demo)
 		const a = await signedIn(DEMO.artist);
 		const b = await signedIn(DEMO.artist2);
-		expect((await a.json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T14:00`, engineer: true })).status).toBe(201);
-		const res = await b.json('/api/bookings', { room: 'vocal-booth', start: `${day}T10:00`, end: `${day}T14:00`, engineer: true });
+		expect(
+			(await a.json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T14:00`, engineer: true })).status
+		).toBe(201);
+		const res = await b.json('/api/bookings', {
+			room: 'vocal-booth',
+			start: `${day}T10:00`,
+			end: `${day}T14:00`,
+			engineer: true
+		});
 		expect(res.status).toBe(409);
 		const body = (await res.json()) as { taken: string; nearestStarts: string[] };
 		expect(body.taken).toBe('engineer');
@@ -326,34 +357,69 @@ describe('POST /api/bookings', () => {
 		const offered = body.nearestStarts.map((s) => Date.parse(s));
 		expect(offered.length).toBeGreaterThan(0);
 		expect(offered).toContain(Date.parse(helsinki(day, '14:30')));
-		for (const s of offered) expect(s + 4.5 * 3600_000 <= Date.parse(helsinki(day, '10:00')) || s >= Date.parse(helsinki(day, '14:30'))).toBe(true);
+		for (const s of offered)
+			expect(s + 4.5 * 3600_000 <= Date.parse(helsinki(day, '10:00')) || s >= Date.parse(helsinki(day, '14:30'))).toBe(true);
 		// An offered start really books.
-		expect((await b.json('/api/bookings', { room: 'vocal-booth', start: helsinki(day, '14:30'), end: helsinki(day, '18:30'), engineer: true })).status).toBe(201);
+		expect(
+			(
+				await b.json('/api/bookings', {
+					room: 'vocal-booth',
+					start: helsinki(day, '14:30'),
+					end: helsinki(day, '18:30'),
+					engineer: true
+				})
+			).status
+		).toBe(201);
 	});
 
 	it('answers 409 taken: gear with nearby starts where the gear is free too', async () => {
 		const day = weekdayAhead(79);
-		const [gear] = await db.select().from(t.gearItem).where(and(eq(t.gearItem.hireable, true), eq(t.gearItem.active, true))).limit(1);
+		const [gear] = await db
+			.select()
+			.from(t.gearItem)
+			.where(and(eq(t.gearItem.hireable, true), eq(t.gearItem.active, true)))
+			.limit(1);
 		const a = await signedIn(DEMO.artist);
 		const b = await signedIn(DEMO.artist2);
-		expect((await a.json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T14:00`, gear: [gear!.id] })).status).toBe(201);
-		const res = await b.json('/api/bookings', { room: 'control-room', start: `${day}T11:00`, end: `${day}T15:00`, gear: [gear!.id] });
+		expect(
+			(await a.json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T14:00`, gear: [gear!.id] })).status
+		).toBe(201);
+		const res = await b.json('/api/bookings', {
+			room: 'control-room',
+			start: `${day}T11:00`,
+			end: `${day}T15:00`,
+			gear: [gear!.id]
+		});
 		expect(res.status).toBe(409);
 		const body = (await res.json()) as { taken: string; nearestStarts: string[] };
 		expect(body.taken).toBe('gear');
 		const offered = body.nearestStarts.map((s) => Date.parse(s));
 		expect(offered).toContain(Date.parse(helsinki(day, '14:30')));
-		for (const s of offered) expect(s + 4.5 * 3600_000 <= Date.parse(helsinki(day, '10:00')) || s >= Date.parse(helsinki(day, '14:30'))).toBe(true);
+		for (const s of offered)
+			expect(s + 4.5 * 3600_000 <= Date.parse(helsinki(day, '10:00')) || s >= Date.parse(helsinki(day, '14:30'))).toBe(true);
 	});
 
 	it('on the page of a hold that ran out, offers the same time again while free, and the calendar once taken', async () => {
 		const day = weekdayAhead(69);
-		const [gear] = await db.select().from(t.gearItem).where(and(eq(t.gearItem.hireable, true), eq(t.gearItem.active, true))).limit(1);
+		const [gear] = await db
+			.select()
+			.from(t.gearItem)
+			.where(and(eq(t.gearItem.hireable, true), eq(t.gearItem.active, true)))
+			.limit(1);
 		const a = await signedIn(DEMO.artist);
-		const made = await a.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T14:00`, gear: [gear!.id], project: 'Night tapes' });
+		const made = await a.json('/api/bookings', {
+			room: 'control-room',
+			start: `${day}T10:00`,
+			end: `${day}T14:00`,
+			gear: [gear!.id],
+			project: 'Night tapes'
+		});
 		expect(made.status).toBe(201);
 		const { id } = (await made.json()) as { id: string };
-		await db.update(t.booking).set({ status: 'expired', holdExpiresAt: new Date(Date.now() - 60_000) }).where(eq(t.booking.id, id));
+		await db
+			.update(t.booking)
+			.set({ status: 'expired', holdExpiresAt: new Date(Date.now() - 60_000) })
+			.where(eq(t.booking.id, id));
 		const hrefs = async () => {
 			const res = await a.fetch(`/bookings/${id}`, { headers: { accept: 'text/html' } });
 			expect(res.status).toBe(200);
@@ -365,11 +431,21 @@ describe('POST /api/bookings', () => {
 		expect(before.free).toBe('true');
 		const link = /href="(\/book\?[^"]*)"/.exec(before.html)?.[1];
 		const q = new URL(link!, 'http://x').searchParams;
-		expect(Object.fromEntries(q)).toMatchObject({ room: 'control-room', date: day, start: '10:00', kind: 'half', engineer: '0', gear: gear!.id, project: 'Night tapes' });
+		expect(Object.fromEntries(q)).toMatchObject({
+			room: 'control-room',
+			date: day,
+			start: '10:00',
+			kind: 'half',
+			engineer: '0',
+			gear: gear!.id,
+			project: 'Night tapes'
+		});
 
 		// Someone else takes the time: the page says so and points at that day on the calendar.
 		const b = await signedIn(DEMO.artist2);
-		expect((await b.json('/api/bookings', { room: 'control-room', start: `${day}T12:00`, end: `${day}T14:00` })).status).toBe(201);
+		expect((await b.json('/api/bookings', { room: 'control-room', start: `${day}T12:00`, end: `${day}T14:00` })).status).toBe(
+			201
+		);
 		const after = await hrefs();
 		expect(after.free).toBe('false');
 		expect(after.html).toContain(`href="/calendar?room=control-room&date=${day}"`);
@@ -381,7 +457,10 @@ describe('POST /api/bookings', () => {
 		const a = await signedIn(DEMO.artist);
 		const res = await a.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T12:00` });
 		const { id } = (await res.json()) as { id: string };
-		await db.update(t.booking).set({ holdExpiresAt: new Date(Date.now() - 1000) }).where(eq(t.booking.id, id));
+		await db
+			.update(t.booking)
+			.set({ holdExpiresAt: new Date(Date.now() - 1000) })
+			.where(eq(t.booking.id, id));
 		// The app's background job runs every 15 s.
 		let status = 'held';
 		for (let i = 0; i < 40 && status === 'held'; i++) {
@@ -390,7 +469,9 @@ describe('POST /api/bookings', () => {
 		}
 		expect(status).toBe('expired');
 		const b = await signedIn(DEMO.artist2);
-		expect((await b.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T12:00` })).status).toBe(201);
+		expect((await b.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T12:00` })).status).toBe(
+			201
+		);
 	}, 30_000);
 });
 
@@ -445,21 +526,38 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 		const rows = await db
 			.select({ n: sql<number>`count(*)::int` })
 			.from(t.booking)
-			.where(and(eq(t.booking.roomId, live!.id), inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`${t.booking.startsAt}::date = ${day}::date`));
+			.where(
+				and(
+					eq(t.booking.roomId, live!.id),
+					inArray(t.booking.status, ['held', 'pending', 'confirmed']),
+					sql`${t.booking.startsAt}::date = ${day}::date`
+				)
+			);
 		expect(rows[0]!.n).toBe(1);
 	}, 60_000);
 
 	it('one engineer across two rooms: exactly one 201', async () => {
 		const day = weekdayAhead(71);
 		const statuses = await race(
-			Array.from({ length: 50 }, (_, i) => ({ room: i % 2 ? 'live-room' : 'vocal-booth', start: `${day}T10:00`, end: `${day}T14:00`, engineer: true }))
+			Array.from({ length: 50 }, (_, i) => ({
+				room: i % 2 ? 'live-room' : 'vocal-booth',
+				start: `${day}T10:00`,
+				end: `${day}T14:00`,
+				engineer: true
+			}))
 		);
 		expect(statuses.filter((s) => s === 201)).toHaveLength(1);
 		expect(statuses.filter((s) => s === 409)).toHaveLength(49);
 		const rows = await db
 			.select({ n: sql<number>`count(*)::int` })
 			.from(t.booking)
-			.where(and(sql`${t.booking.engineerId} is not null`, inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date = ${day}::date`));
+			.where(
+				and(
+					sql`${t.booking.engineerId} is not null`,
+					inArray(t.booking.status, ['held', 'pending', 'confirmed']),
+					sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date = ${day}::date`
+				)
+			);
 		expect(rows[0]!.n).toBe(1);
 	}, 60_000);
 
@@ -467,7 +565,12 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 		const day = weekdayAhead(72);
 		const [gear] = await db.select().from(t.gearItem).where(eq(t.gearItem.hireable, true)).limit(1);
 		const statuses = await race(
-			Array.from({ length: 50 }, (_, i) => ({ room: i % 2 ? 'live-room' : 'control-room', start: `${day}T10:00`, end: `${day}T14:00`, gear: [gear!.id] }))
+			Array.from({ length: 50 }, (_, i) => ({
+				room: i % 2 ? 'live-room' : 'control-room',
+				start: `${day}T10:00`,
+				end: `${day}T14:00`,
+				gear: [gear!.id]
+			}))
 		);
 		// One booking per room could take the room; only one of them may take the gear.
 		expect(statuses.filter((s) => s === 201)).toHaveLength(1);
@@ -476,12 +579,23 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 			.select({ n: sql<number>`count(*)::int` })
 			.from(t.bookingGear)
 			.innerJoin(t.booking, eq(t.booking.id, t.bookingGear.bookingId))
-			.where(and(eq(t.bookingGear.gearItemId, gear!.id), inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date = ${day}::date`));
+			.where(
+				and(
+					eq(t.bookingGear.gearItemId, gear!.id),
+					inArray(t.booking.status, ['held', 'pending', 'confirmed']),
+					sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date = ${day}::date`
+				)
+			);
 		expect(rows[0]!.n).toBe(1);
 		const bookings = await db
 			.select({ n: sql<number>`count(*)::int` })
 			.from(t.booking)
-			.where(and(inArray(t.booking.status, ['held', 'pending', 'confirmed']), sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date = ${day}::date`));
+			.where(
+				and(
+					inArray(t.booking.status, ['held', 'pending', 'confirmed']),
+					sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date = ${day}::date`
+				)
+			);
 		expect(bookings[0]!.n).toBe(1);
 	}, 60_000);
 });

@@ -34,7 +34,10 @@ describe('the demo ledger', () => {
 			expect(b.deposit).toBe(Math.min(b.total, Math.max(5000, Math.ceil((b.total * 30) / 10_000) * 100)));
 			expect(deposits[0]!.paidAt!.getTime()).toBeLessThan(b.startsAt.getTime());
 			const docs = invoices.filter((d) => d.bookingId === b.id);
-			expect(docs.filter((d) => d.typeCode === 386), b.reference).toHaveLength(1);
+			expect(
+				docs.filter((d) => d.typeCode === 386),
+				b.reference
+			).toHaveLength(1);
 			const finals = docs.filter((d) => d.typeCode === 380);
 			if (b.status === 'completed') {
 				expect(finals, b.reference).toHaveLength(1);

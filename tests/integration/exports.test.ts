@@ -62,7 +62,11 @@ describe('the month export', () => {
 		// An artist whose name a spreadsheet would run as a formula, with a quote, a comma and a line break.
 		const sneaky = `=HYPERLINK("x", "y"), Ltd ${Date.now()}`;
 		const artist = new Client();
-		const signUp = await artist.form('/sign-up', { name: sneaky, email: `export-${Date.now()}@slateroom.test`, password: 'a-long-enough-pass' });
+		const signUp = await artist.form('/sign-up', {
+			name: sneaky,
+			email: `export-${Date.now()}@slateroom.test`,
+			password: 'a-long-enough-pass'
+		});
 		expect(signUp.status).toBe(303);
 		await bookAndPay(artist);
 
@@ -87,14 +91,20 @@ describe('the month export', () => {
 		expect(sum(rows.map((r) => r['VAT declared this month']!))).toBe(euros(report.totals.vat));
 		for (const r of rows) expect(r.Net).toMatch(/^-?\d+\.\d{2}$/);
 
-		const payments = parse(await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=payments`)).text(), {
-			columns: true
-		}) as Record<string, string>[];
+		const payments = parse(
+			await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=payments`)).text(),
+			{
+				columns: true
+			}
+		) as Record<string, string>[];
 		expect(sum(payments.map((p) => p.Amount!))).toBe(euros(report.totals.received));
 
-		const refunds = parse(await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=refunds`)).text(), {
-			columns: true
-		}) as Record<string, string>[];
+		const refunds = parse(
+			await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=refunds`)).text(),
+			{
+				columns: true
+			}
+		) as Record<string, string>[];
 		expect(refunds).toHaveLength(report.refunds.length);
 		expect(sum(refunds.filter((r) => r.Status === 'succeeded').map((r) => r.Amount!))).toBe(euros(-report.totals.refunded));
 

@@ -43,7 +43,9 @@ describe('sign-in', () => {
 		const c = new Client();
 		const res = await c.form('/sign-in', { email, password: DEMO_PASSWORD });
 		expect(res.status).toBe(303);
-		const home = { owner: '/studio', engineer: '/plan', accountant: '/accounts', artist: '/bookings', artist2: '/bookings' }[role];
+		const home = { owner: '/studio', engineer: '/plan', accountant: '/accounts', artist: '/bookings', artist2: '/bookings' }[
+			role
+		];
 		expect(res.headers.get('location')).toBe(home);
 		const page = await c.fetch(home!);
 		expect(page.status).toBe(200);
@@ -63,7 +65,8 @@ describe('sign-in', () => {
 	it('answers 429 after repeated failures on one account (OWASP ASVS 6.3.1)', async () => {
 		const email = `target-${Date.now()}@slateroom.test`;
 		const statuses: number[] = [];
-		for (let i = 0; i < 7; i++) statuses.push((await new Client().form('/sign-in', { email, password: 'wrong-password-1' })).status);
+		for (let i = 0; i < 7; i++)
+			statuses.push((await new Client().form('/sign-in', { email, password: 'wrong-password-1' })).status);
 		expect(statuses.slice(0, 5)).toEqual([400, 400, 400, 400, 400]);
 		expect(statuses.slice(5)).toEqual([429, 429]);
 	});
@@ -95,12 +98,19 @@ describe('sign-up', () => {
 		expect(viaApi.status).toBe(404);
 		const rows = await db.select({ email: t.user.email, role: t.user.role }).from(t.user).where(eq(t.user.email, email));
 		expect(rows).toEqual([{ email, role: 'artist' }]);
-		const apiRows = await db.select({ role: t.user.role }).from(t.user).where(eq(t.user.email, `api-${email}`));
+		const apiRows = await db
+			.select({ role: t.user.role })
+			.from(t.user)
+			.where(eq(t.user.email, `api-${email}`));
 		expect(apiRows).toEqual([]);
 	});
 
 	it('refuses a weak password and a duplicate address with clear words', async () => {
-		const weak = await new Client().form('/sign-up', { name: 'Weak', email: `weak-${Date.now()}@slateroom.test`, password: 'short' });
+		const weak = await new Client().form('/sign-up', {
+			name: 'Weak',
+			email: `weak-${Date.now()}@slateroom.test`,
+			password: 'short'
+		});
 		expect(weak.status).toBe(400);
 		expect(await weak.text()).toContain('at least 10 characters');
 		const dup = await new Client().form('/sign-up', { name: 'Dup', email: DEMO.artist, password: 'a-long-enough-pass' });

@@ -47,7 +47,13 @@ async function bookWithEngineer(who: Client) {
 	for (let attempt = 0; attempt < 20; attempt++) {
 		const ymd = new Date(Date.now() + (140 + Math.floor(Math.random() * 35)) * 86_400_000).toISOString().slice(0, 10);
 		const start = `${ymd}T19:00`;
-		const res = await who.json('/api/bookings', { room: 'control-room', start, end: `${ymd}T21:00`, engineer: true, project: 'Night vocals' });
+		const res = await who.json('/api/bookings', {
+			room: 'control-room',
+			start,
+			end: `${ymd}T21:00`,
+			engineer: true,
+			project: 'Night vocals'
+		});
 		if (res.status === 409) continue;
 		const body = (await res.json()) as { id: string; checkoutUrl: string; quote: { total: number; deposit: number } };
 		expect(res.status, JSON.stringify(body)).toBe(201);
@@ -99,7 +105,10 @@ describe('the confirmation e-mail', () => {
 		expect(new Date(vevents[0]!.end!).getTime()).toBe(row!.endsAt.getTime());
 		expect(ics).toMatch(/^DTSTAMP:\d{8}T\d{6}Z\r$/m);
 
-		const [outbox] = await db.select().from(t.emailOutbox).where(eq(t.emailOutbox.dedupeKey, `booking-confirmed:${b.id}`));
+		const [outbox] = await db
+			.select()
+			.from(t.emailOutbox)
+			.where(eq(t.emailOutbox.dedupeKey, `booking-confirmed:${b.id}`));
 		expect(outbox?.status).toBe('sent');
 
 		// The same payment told again (Stripe delivers at least once) makes no second message.
@@ -115,7 +124,10 @@ describe('the confirmation e-mail', () => {
 		const copies = (await mailTo(DEMO.artist)).filter((m) => m.text.includes(`/bookings/${b.id}`));
 		expect(resend.status).toBe(202);
 		expect(copies).toHaveLength(1);
-		const rows = await db.select().from(t.emailOutbox).where(eq(t.emailOutbox.dedupeKey, `booking-confirmed:${b.id}`));
+		const rows = await db
+			.select()
+			.from(t.emailOutbox)
+			.where(eq(t.emailOutbox.dedupeKey, `booking-confirmed:${b.id}`));
 		expect(rows).toHaveLength(1);
 	});
 });

@@ -91,7 +91,12 @@ const HALF_DAYS: [string, string][] = [
 ];
 
 /** Books a half day as `who` on a free far weekday; a taken slot tries another. */
-async function book(who: Client, room = 'vocal-booth', when: () => string = farWeekday, hours?: [string, string]): Promise<Booked> {
+async function book(
+	who: Client,
+	room = 'vocal-booth',
+	when: () => string = farWeekday,
+	hours?: [string, string]
+): Promise<Booked> {
 	for (let attempt = 0; attempt < 30; attempt++) {
 		const ymd = when();
 		const [from, to] = hours ?? HALF_DAYS[attempt % HALF_DAYS.length]!;
@@ -884,11 +889,7 @@ describe('the payments job', () => {
 			.set({ expiresAt: new Date(Date.now() - 10 * 60_000) })
 			.where(eq(t.payment.bookingId, slow.id));
 
-		await waitFor(
-			async () => (await money(lost.id)).payments[0]!.status === 'expired',
-			'the unknown checkout expired',
-			40_000
-		);
+		await waitFor(async () => (await money(lost.id)).payments[0]!.status === 'expired', 'the unknown checkout expired', 40_000);
 		expect((await bookingRow(lost.id)).status).toBe('expired');
 		const sent = await waitFor(
 			async () => (await money(paidBooking.id)).refunds.find((r) => r.id === unsent!.id && r.status === 'succeeded'),

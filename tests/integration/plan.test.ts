@@ -9,7 +9,14 @@ const day = ymdInZone(new Date(Date.now() + 3 * 86_400_000));
 
 interface Plan {
 	date: string;
-	rooms: { slug: string; sessions: { reference: string; artist: { name: string }; recall: { fromBooking: string; channels: { source: string }[] } | null }[] }[];
+	rooms: {
+		slug: string;
+		sessions: {
+			reference: string;
+			artist: { name: string };
+			recall: { fromBooking: string; channels: { source: string }[] } | null;
+		}[];
+	}[];
 }
 
 describe('GET /api/plan', () => {
@@ -38,7 +45,9 @@ describe('GET /api/plan', () => {
 
 	it('lets the engineer write this session’s recall sheet, which the plan then shows', async () => {
 		const c = await signedIn(DEMO.engineer);
-		const plan = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as Plan & { rooms: { sessions: { id: string; ownRecall: unknown }[] }[] };
+		const plan = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as Plan & {
+			rooms: { sessions: { id: string; ownRecall: unknown }[] }[];
+		};
 		const session = plan.rooms.flatMap((r) => r.sessions).find((s) => s.reference === 'HP-DEMO3') as unknown as { id: string };
 		const res = await c.form(`/plan?/recall`, {
 			bookingId: session.id,
@@ -53,7 +62,11 @@ describe('GET /api/plan', () => {
 			notes: 'Amp on the riser'
 		});
 		expect(res.status).toBe(200);
-		const after = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as { rooms: { sessions: { id: string; ownRecall: { channels: { source: string; preampGainDb: number }[]; notes: string } | null }[] }[] };
+		const after = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as {
+			rooms: {
+				sessions: { id: string; ownRecall: { channels: { source: string; preampGainDb: number }[]; notes: string } | null }[];
+			}[];
+		};
 		const own = after.rooms.flatMap((r) => r.sessions).find((s) => s.id === session.id)!.ownRecall;
 		expect(own).toMatchObject({ notes: 'Amp on the riser', channels: [{ source: 'Rhythm guitar', preampGainDb: 45 }] });
 		const bad = await c.form(`/plan?/recall`, { bookingId: session.id, rows: '1', 'source-0': 'Vox', 'preampGainDb-0': '900' });

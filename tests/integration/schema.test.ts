@@ -45,7 +45,10 @@ async function sqlState(p: Promise<unknown>): Promise<string | undefined> {
 }
 
 beforeAll(async () => {
-	const rooms = await db.select().from(t.room).where(inArray(t.room.slug, ['live-room', 'vocal-booth']));
+	const rooms = await db
+		.select()
+		.from(t.room)
+		.where(inArray(t.room.slug, ['live-room', 'vocal-booth']));
 	roomA = rooms.find((r) => r.slug === 'live-room')!.id;
 	roomB = rooms.find((r) => r.slug === 'vocal-booth')!.id;
 	artist = (await db.select().from(t.user).where(eq(t.user.email, 'artist@slateroom.test')))[0]!.id;
@@ -65,7 +68,11 @@ describe('migrations', () => {
 		const rows = await db.execute<{ conname: string }>(
 			sql`select conname from pg_constraint where contype = 'x' order by conname`
 		);
-		expect(rows.map((r) => r.conname)).toEqual(['booking_engineer_no_overlap', 'booking_gear_no_overlap', 'booking_room_no_overlap']);
+		expect(rows.map((r) => r.conname)).toEqual([
+			'booking_engineer_no_overlap',
+			'booking_gear_no_overlap',
+			'booking_room_no_overlap'
+		]);
 	});
 });
 
@@ -121,11 +128,15 @@ describe('gear exclusion', () => {
 		const second = await insertBooking({ room: roomB, start: '07:00', end: '09:00' });
 		await db.insert(t.bookingGear).values({ bookingId: first, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) });
 		expect(
-			await sqlState(db.insert(t.bookingGear).values({ bookingId: second, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) }))
+			await sqlState(
+				db.insert(t.bookingGear).values({ bookingId: second, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) })
+			)
 		).toBe('23P01');
 		await db.update(t.booking).set({ status: 'cancelled' }).where(eq(t.booking.id, first));
 		expect(
-			await sqlState(db.insert(t.bookingGear).values({ bookingId: second, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) }))
+			await sqlState(
+				db.insert(t.bookingGear).values({ bookingId: second, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) })
+			)
 		).toBeUndefined();
 	});
 });

@@ -203,9 +203,13 @@ describe('parsing typed amounts and percents (exact, no floats)', () => {
 
 	it('round-trips every amount with toDecimalString', () => {
 		fc.assert(
-			fc.property(fc.integer({ min: 0, max: Number.MAX_SAFE_INTEGER }), fc.constantFrom('EUR', 'JPY', 'KWD'), (minor, currency) => {
-				expect(parseMoney(toDecimalString(minor, currency), currency)).toEqual({ ok: true, value: minor });
-			})
+			fc.property(
+				fc.integer({ min: 0, max: Number.MAX_SAFE_INTEGER }),
+				fc.constantFrom('EUR', 'JPY', 'KWD'),
+				(minor, currency) => {
+					expect(parseMoney(toDecimalString(minor, currency), currency)).toEqual({ ok: true, value: minor });
+				}
+			)
 		);
 	});
 });

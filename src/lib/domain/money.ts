@@ -231,7 +231,8 @@ export function basisPointsToPercent(bp: number): string {
 // Parsing what people type
 // ---------------------------------------------------------------------------------------------
 
-export type ParsedDecimal = { ok: true; value: number } | { ok: false; reason: 'empty' | 'format' | 'negative' | 'precision' | 'too-large' };
+export type ParsedDecimal =
+	{ ok: true; value: number } | { ok: false; reason: 'empty' | 'format' | 'negative' | 'precision' | 'too-large' };
 
 /**
  * Reads plain decimal text ("45", "45.5", "45.50", "-3") as an integer scaled by 10^digits, by

@@ -7,7 +7,14 @@ import { db } from './db';
 import { blackout, booking, bookingGear, gearItem, room, user, ACTIVE_BOOKING_STATUSES, type BookingStatus } from './db/schema';
 import { getPolicy, roomRates, type RoomRow, type StudioRow } from './studio';
 import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
-import { AvailabilityInputError, computeAvailability, parseBookingInstant, startsThatFit, TimeInputError, type Blackout } from '$lib/domain/availability';
+import {
+	AvailabilityInputError,
+	computeAvailability,
+	parseBookingInstant,
+	startsThatFit,
+	TimeInputError,
+	type Blackout
+} from '$lib/domain/availability';
 import { isYmd as isCalendarDate } from '$lib/domain/availability/calendar';
 import { publicHolidayChecker, publicHolidayList } from '$lib/domain/holidays';
 import type { StudioPolicy } from '$lib/domain/types';
@@ -21,7 +28,11 @@ export const bookingRequestSchema = z.object({
 	start: z.string({ error: 'Choose a start time.' }).trim().min(1, { error: 'Choose a start time.' }).max(40),
 	end: z.string({ error: 'Choose an end time.' }).trim().min(1, { error: 'Choose an end time.' }).max(40),
 	engineer: z.boolean({ error: 'engineer is true or false.' }).optional().default(false),
-	gear: z.array(z.uuid({ error: 'Unknown gear.' }), { error: 'gear is a list of gear ids.' }).max(20).optional().default([]),
+	gear: z
+		.array(z.uuid({ error: 'Unknown gear.' }), { error: 'gear is a list of gear ids.' })
+		.max(20)
+		.optional()
+		.default([]),
 	project: z.string().trim().max(200, { error: 'Keep the project name under 200 characters.' }).optional().default(''),
 	notes: z.string().trim().max(4000, { error: 'Keep notes under 4000 characters.' }).optional().default('')
 });
@@ -127,7 +138,10 @@ export async function priceRequest(input: unknown, now = new Date()): Promise<Pr
 	const startDay = localYmd(start, tz);
 	const endDay = localYmd(new Date(end.getTime() - 1), tz);
 	const closed = await closedDays(ctx, startDay, endDay);
-	if (closed.length) (fields.start ??= []).push(`The studio is closed on ${closed[0]!.date}${closed[0]!.reason ? ` (${closed[0]!.reason})` : ''}.`);
+	if (closed.length)
+		(fields.start ??= []).push(
+			`The studio is closed on ${closed[0]!.date}${closed[0]!.reason ? ` (${closed[0]!.reason})` : ''}.`
+		);
 
 	let gear: (typeof gearItem.$inferSelect)[] = [];
 	if (req.gear.length) {
@@ -193,13 +207,25 @@ export async function busyIntervals(roomId: string, from: Date, to: Date, now = 
 }
 
 export type AvailabilityResult =
-	| { ok: true; body: { timeZone: string; room: string; open: { start: string; end: string }[]; busy: { start: string; end: string }[]; closed: { date: string; reason: string }[] } }
+	| {
+			ok: true;
+			body: {
+				timeZone: string;
+				room: string;
+				open: { start: string; end: string }[];
+				busy: { start: string; end: string }[];
+				closed: { date: string; reason: string }[];
+			};
+	  }
 	| { ok: false; fields: FieldErrors };
 
 const NO_SUCH_DATE = (ymd: string) => `There is no ${ymd} on the calendar.`;
 const ymdSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a date such as 2027-03-28.' });
 
-export async function availability(params: { room: string | null; from: string | null; to: string | null }, now = new Date()): Promise<AvailabilityResult> {
+export async function availability(
+	params: { room: string | null; from: string | null; to: string | null },
+	now = new Date()
+): Promise<AvailabilityResult> {
 	const fields: FieldErrors = {};
 	if (!params.room) fields.room = ['Choose a room.'];
 	const from = ymdSchema.safeParse(params.from ?? '');
@@ -212,7 +238,8 @@ export async function availability(params: { room: string | null; from: string |
 	if (Object.keys(fields).length || !from.data || !to.data) return { ok: false, fields };
 	const days = (Date.parse(to.data) - Date.parse(from.data)) / 86_400_000 + 1;
 	if (days < 1) return { ok: false, fields: { to: ['The end date is before the start date.'] } };
-	if (days > AVAILABILITY_MAX_DAYS) return { ok: false, fields: { to: [`Ask for at most ${AVAILABILITY_MAX_DAYS} days at a time.`] } };
+	if (days > AVAILABILITY_MAX_DAYS)
+		return { ok: false, fields: { to: [`Ask for at most ${AVAILABILITY_MAX_DAYS} days at a time.`] } };
 
 	const [roomRow] = await db.select().from(room).where(eq(room.slug, params.room!));
 	if (!roomRow || !roomRow.active) return { ok: false, fields: { room: ['There is no room by that name.'] } };
@@ -221,7 +248,10 @@ export async function availability(params: { room: string | null; from: string |
 	// A generous window around the local dates: a day is at most 26 hours from UTC midnight.
 	const windowStart = new Date(Date.parse(from.data) - 36 * 3600_000);
 	const windowEnd = new Date(Date.parse(to.data) + 60 * 3600_000);
-	const [busy, blackouts] = await Promise.all([busyIntervals(roomRow.id, windowStart, windowEnd, now), closedDays(ctx, from.data, to.data)]);
+	const [busy, blackouts] = await Promise.all([
+		busyIntervals(roomRow.id, windowStart, windowEnd, now),
+		closedDays(ctx, from.data, to.data)
+	]);
 	const result = computeAvailability({ from: from.data, to: to.data, policy: ctx.policy, busy, blackouts, now });
 	return {
 		ok: true,
@@ -469,7 +499,11 @@ export async function createHold(artist: SessionUser, input: unknown, now = new 
 				// the queue itself cannot deadlock). Without it, concurrent inserts that conflict in an
 				// exclusion constraint wait on each other and end in deadlocks (SQLSTATE 40P01) that
 				// PostgreSQL only breaks after deadlock_timeout. The constraint stays the final word.
-				const keys = [`room:${roomRow.id}`, ...(engineerId ? [`engineer:${engineerId}`] : []), ...gear.map((g) => `gear:${g.id}`).sort()];
+				const keys = [
+					`room:${roomRow.id}`,
+					...(engineerId ? [`engineer:${engineerId}`] : []),
+					...gear.map((g) => `gear:${g.id}`).sort()
+				];
 				for (const key of keys) await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${key}, 0))`);
 				const [row] = await tx
 					.insert(booking)
@@ -492,9 +526,9 @@ export async function createHold(artist: SessionUser, input: unknown, now = new 
 					})
 					.returning();
 				if (gear.length) {
-					await tx.insert(bookingGear).values(
-						gear.map((g) => ({ bookingId: row!.id, gearItemId: g.id, hireFee: g.hireFee, startsAt: start, busyUntil }))
-					);
+					await tx
+						.insert(bookingGear)
+						.values(gear.map((g) => ({ bookingId: row!.id, gearItemId: g.id, hireFee: g.hireFee, startsAt: start, busyUntil })));
 				}
 				return row!;
 			});
@@ -588,7 +622,15 @@ export async function listForViewer(actor: SessionUser, filter: { status?: Booki
 export async function getForViewer(actor: SessionUser, id: string) {
 	if (!z.uuid().safeParse(id).success) return undefined;
 	const [row] = await db
-		.select({ ...summaryColumns, quote: booking.quote, notes: booking.notes, actualEndsAt: booking.actualEndsAt, cancelledAt: booking.cancelledAt, cancelReason: booking.cancelReason, sequence: booking.sequence })
+		.select({
+			...summaryColumns,
+			quote: booking.quote,
+			notes: booking.notes,
+			actualEndsAt: booking.actualEndsAt,
+			cancelledAt: booking.cancelledAt,
+			cancelReason: booking.cancelReason,
+			sequence: booking.sequence
+		})
 		.from(booking)
 		.innerJoin(room, eq(room.id, booking.roomId))
 		.innerJoin(user, eq(user.id, booking.artistId))
@@ -597,7 +639,13 @@ export async function getForViewer(actor: SessionUser, id: string) {
 	if (!canSeeAll(actor) && row.artistId !== actor.id) return undefined;
 	const [gear, engineer] = await Promise.all([
 		db
-			.select({ id: gearItem.id, name: gearItem.name, category: gearItem.category, hireFee: bookingGear.hireFee, caution: gearItem.caution })
+			.select({
+				id: gearItem.id,
+				name: gearItem.name,
+				category: gearItem.category,
+				hireFee: bookingGear.hireFee,
+				caution: gearItem.caution
+			})
 			.from(bookingGear)
 			.innerJoin(gearItem, eq(gearItem.id, bookingGear.gearItemId))
 			.where(eq(bookingGear.bookingId, id)),
@@ -623,6 +671,12 @@ export function bookingJson(b: Awaited<ReturnType<typeof listForViewer>>[number]
 		currency: b.currency,
 		total: b.total,
 		deposit: b.deposit,
-		...('quote' in b ? { quote: publicQuote(b.quote), gear: b.gear.map((g) => ({ id: g.id, name: g.name, hireFee: g.hireFee })), engineer: b.engineerName } : {})
+		...('quote' in b
+			? {
+					quote: publicQuote(b.quote),
+					gear: b.gear.map((g) => ({ id: g.id, name: g.name, hireFee: g.hireFee })),
+					engineer: b.engineerName
+				}
+			: {})
 	};
 }

@@ -28,7 +28,12 @@ export async function ensureDemoLedger(now = new Date()): Promise<number> {
 				and(
 					like(booking.reference, 'HP-DEMO%'),
 					inArray(booking.status, ['confirmed', 'completed']),
-					notExists(tx.select({ one: sql`1` }).from(payment).where(eq(payment.bookingId, booking.id)))
+					notExists(
+						tx
+							.select({ one: sql`1` })
+							.from(payment)
+							.where(eq(payment.bookingId, booking.id))
+					)
 				)
 			)
 			.orderBy(asc(booking.startsAt));

@@ -59,9 +59,10 @@ export async function feedFor(token: string, studioName: string, now = new Date(
 		.orderBy(asc(booking.startsAt));
 	const engineerIds = [...new Set(rows.map((r) => r.b.engineerId).filter((x): x is string => !!x))];
 	const engineers = new Map(
-		(engineerIds.length ? await db.select({ id: user.id, name: user.name }).from(user).where(inArray(user.id, engineerIds)) : []).map(
-			(e) => [e.id, e.name]
-		)
+		(engineerIds.length
+			? await db.select({ id: user.id, name: user.name }).from(user).where(inArray(user.id, engineerIds))
+			: []
+		).map((e) => [e.id, e.name])
 	);
 
 	const cal = ical({
@@ -91,7 +92,12 @@ export async function feedFor(token: string, studioName: string, now = new Date(
 				.join('\n'),
 			location: roomName,
 			// RFC 5545 §3.8.1.11: a cancelled session stays in the feed as CANCELLED, so calendars drop it.
-			status: b.status === 'cancelled' ? ICalEventStatus.CANCELLED : b.status === 'pending' ? ICalEventStatus.TENTATIVE : ICalEventStatus.CONFIRMED
+			status:
+				b.status === 'cancelled'
+					? ICalEventStatus.CANCELLED
+					: b.status === 'pending'
+						? ICalEventStatus.TENTATIVE
+						: ICalEventStatus.CONFIRMED
 		});
 	}
 	return cal.toString();

@@ -79,12 +79,20 @@ export async function dayPlan(date: string): Promise<DayPlan> {
 	const [gearRows, engineers, ownSheets, files] = await Promise.all([
 		ids.length
 			? db
-					.select({ bookingId: bookingGear.bookingId, id: gearItem.id, name: gearItem.name, category: gearItem.category, caution: gearItem.caution })
+					.select({
+						bookingId: bookingGear.bookingId,
+						id: gearItem.id,
+						name: gearItem.name,
+						category: gearItem.category,
+						caution: gearItem.caution
+					})
 					.from(bookingGear)
 					.innerJoin(gearItem, eq(gearItem.id, bookingGear.gearItemId))
 					.where(inArray(bookingGear.bookingId, ids))
 			: [],
-		engineerIds.length ? db.select({ id: engineer.id, name: engineer.name }).from(engineer).where(inArray(engineer.id, engineerIds)) : [],
+		engineerIds.length
+			? db.select({ id: engineer.id, name: engineer.name }).from(engineer).where(inArray(engineer.id, engineerIds))
+			: [],
 		ids.length ? db.select().from(recallSheet).where(inArray(recallSheet.bookingId, ids)) : [],
 		summariesFor(ids)
 	]);
@@ -125,8 +133,16 @@ export async function dayPlan(date: string): Promise<DayPlan> {
 			engineer: engineers.find((e) => e.id === s.engineerId)?.name ?? null,
 			gear: gearRows
 				.filter((g) => g.bookingId === s.id)
-				.map((g) => ({ id: g.id, name: g.name, category: g.category, caution: g.caution, conflict: conflictKeys.has(`${s.id}:${g.id}`) })),
-			recall: prev ? { fromBooking: prev.reference, fromDate: isoInZone(prev.startsAt, tz), channels: prev.channels, notes: prev.notes } : null,
+				.map((g) => ({
+					id: g.id,
+					name: g.name,
+					category: g.category,
+					caution: g.caution,
+					conflict: conflictKeys.has(`${s.id}:${g.id}`)
+				})),
+			recall: prev
+				? { fromBooking: prev.reference, fromDate: isoInZone(prev.startsAt, tz), channels: prev.channels, notes: prev.notes }
+				: null,
 			ownRecall: own ? { channels: own.channels, notes: own.notes } : null,
 			uploads: files
 				.filter((f) => f.bookingId === s.id)
@@ -149,7 +165,12 @@ export async function dayPlan(date: string): Promise<DayPlan> {
 /** The recall sheet of the artist's most recent earlier session, to rebuild the sound. */
 async function previousRecall(artistId: string, bookingId: string, before: Date) {
 	const [row] = await db
-		.select({ reference: booking.reference, startsAt: booking.startsAt, channels: recallSheet.channels, notes: recallSheet.notes })
+		.select({
+			reference: booking.reference,
+			startsAt: booking.startsAt,
+			channels: recallSheet.channels,
+			notes: recallSheet.notes
+		})
 		.from(recallSheet)
 		.innerJoin(booking, eq(booking.id, recallSheet.bookingId))
 		.where(and(eq(recallSheet.artistId, artistId), ne(recallSheet.bookingId, bookingId), lt(booking.startsAt, before)))

@@ -13,11 +13,16 @@ describe('isoInZone', () => {
 		const start = Date.parse(`${day}T00:00:00Z`) - 6 * 3_600_000;
 		for (let m = 0; m < 36 * 60; m += 30) instants.push(start + m * 60_000);
 	}
-	instants.push(Date.parse('2027-03-28T00:59:59.999Z'), Date.parse('2027-03-28T01:00:00.000Z'), Date.parse('2026-12-02T12:34:56.789Z'));
+	instants.push(
+		Date.parse('2027-03-28T00:59:59.999Z'),
+		Date.parse('2027-03-28T01:00:00.000Z'),
+		Date.parse('2026-12-02T12:34:56.789Z')
+	);
 
 	it('writes what formatISO writes for a TZDate, across daylight-saving changes', () => {
 		for (const zone of zones) {
-			for (const ms of instants) expect(isoInZone(new Date(ms), zone), `${zone} ${new Date(ms).toISOString()}`).toBe(formatISO(new TZDate(ms, zone)));
+			for (const ms of instants)
+				expect(isoInZone(new Date(ms), zone), `${zone} ${new Date(ms).toISOString()}`).toBe(formatISO(new TZDate(ms, zone)));
 		}
 	});
 

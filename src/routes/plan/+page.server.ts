@@ -27,7 +27,9 @@ const optionalNumber = (min: number, max: number, what: string) =>
 		.string()
 		.trim()
 		.transform((v) => (v === '' ? null : Number(v)))
-		.refine((v) => v === null || (Number.isFinite(v) && v >= min && v <= max), { error: `${what} must be between ${min} and ${max}.` });
+		.refine((v) => v === null || (Number.isFinite(v) && v >= min && v <= max), {
+			error: `${what} must be between ${min} and ${max}.`
+		});
 
 const channelSchema = z.object({
 	source: z.string().trim().max(120),

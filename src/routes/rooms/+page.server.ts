@@ -12,7 +12,14 @@ export const load: PageServerLoad = async () => {
 			engineer: { hourly: studio.engineerHourly, halfDay: studio.engineerHalfDay, fullDay: studio.engineerFullDay }
 		},
 		policy: {
-			surcharges: policy.surcharges.map((s) => ({ label: s.label, kind: s.kind, percent: s.percentBp / 100, weekdays: s.weekdays, fromMinute: s.fromMinute, toMinute: s.toMinute })),
+			surcharges: policy.surcharges.map((s) => ({
+				label: s.label,
+				kind: s.kind,
+				percent: s.percentBp / 100,
+				weekdays: s.weekdays,
+				fromMinute: s.fromMinute,
+				toMinute: s.toMinute
+			})),
 			openingHours: policy.openingHours,
 			minBookingMinutes: policy.minBookingMinutes,
 			incrementMinutes: policy.incrementMinutes,

@@ -24,7 +24,13 @@ export const load: PageServerLoad = async ({ locals }) => {
 			.from(booking)
 			.innerJoin(room, eq(room.id, booking.roomId))
 			.innerJoin(user, eq(user.id, booking.artistId))
-			.where(and(gte(booking.startsAt, now), lt(booking.startsAt, weekAhead), inArray(booking.status, ['held', 'pending', 'confirmed'])))
+			.where(
+				and(
+					gte(booking.startsAt, now),
+					lt(booking.startsAt, weekAhead),
+					inArray(booking.status, ['held', 'pending', 'confirmed'])
+				)
+			)
 			.orderBy(booking.startsAt)
 			.limit(20),
 		db

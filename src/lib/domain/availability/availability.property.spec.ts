@@ -42,15 +42,13 @@ const plainDate = (ymd: string) => Temporal.PlainDate.from(ymd);
 /** Oracle wall time -> instant with the documented rules: first occurrence; a gap maps to the jump. */
 function oracleInstant(pdt: Temporal.PlainDateTime, tz: string): number {
 	const earlier = pdt.toZonedDateTime(tz, { disambiguation: 'earlier' });
-	if (Temporal.PlainDateTime.compare(earlier.toPlainDateTime(), pdt) === 0)
-		return earlier.epochMilliseconds;
+	if (Temporal.PlainDateTime.compare(earlier.toPlainDateTime(), pdt) === 0) return earlier.epochMilliseconds;
 	const jump = earlier.getTimeZoneTransition('next');
 	if (!jump) throw new Error('gap without a transition');
 	return jump.epochMilliseconds;
 }
 
-const midnight = (d: Temporal.PlainDate, tz: string) =>
-	oracleInstant(d.toPlainDateTime({ hour: 0 }), tz);
+const midnight = (d: Temporal.PlainDate, tz: string) => oracleInstant(d.toPlainDateTime({ hour: 0 }), tz);
 
 function oracleStarts(input: AvailabilityInput, durationMinutes: number): number[] {
 	const { policy, now } = input;
@@ -69,11 +67,7 @@ function oracleStarts(input: AvailabilityInput, durationMinutes: number): number
 	);
 	const closed = new Set(input.blackouts.map((b) => b.date));
 	const opening: [number, number][] = [];
-	for (
-		let d = from.subtract({ days: 2 });
-		Temporal.PlainDate.compare(d, to.add({ days: 3 })) <= 0;
-		d = d.add({ days: 1 })
-	) {
+	for (let d = from.subtract({ days: 2 }); Temporal.PlainDate.compare(d, to.add({ days: 3 })) <= 0; d = d.add({ days: 1 })) {
 		if (closed.has(d.toString())) continue; // a closed day's own hours do not happen
 		for (const h of policy.openingHours) {
 			if (h.weekday !== d.dayOfWeek) continue;
@@ -92,10 +86,7 @@ function oracleStarts(input: AvailabilityInput, durationMinutes: number): number
 		if (last && w[0] <= last[1]) last[1] = Math.max(last[1], w[1]);
 		else merged.push([w[0], w[1]]);
 	}
-	const closedSpans = [...closed].map((ymd) => [
-		midnight(plainDate(ymd), tz),
-		midnight(plainDate(ymd).add({ days: 1 }), tz)
-	]);
+	const closedSpans = [...closed].map((ymd) => [midnight(plainDate(ymd), tz), midnight(plainDate(ymd).add({ days: 1 }), tz)]);
 	const t = policy.turnaroundMinutes * MIN;
 	const dur = durationMinutes * MIN;
 	const hit = (s: number, e: number, a: number, b: number) => s < b && a < e;
@@ -224,20 +215,13 @@ describe('computeAvailability properties', () => {
 					expect(w.start.getTime()).toBeLessThan(w.end.getTime());
 					expect(w.start.getTime()).toBeGreaterThanOrEqual(previousEnd); // sorted, disjoint
 					previousEnd = w.end.getTime();
-					expect(w.start.getTime()).toBeGreaterThanOrEqual(
-						Math.max(earliest, range.start.getTime())
-					);
+					expect(w.start.getTime()).toBeGreaterThanOrEqual(Math.max(earliest, range.start.getTime()));
 					expect(w.end.getTime()).toBeLessThanOrEqual(range.end.getTime());
-					expect(w.end.getTime()).toBeLessThanOrEqual(
-						input.now.getTime() + (policy.horizonDays + 1) * DAY
-					);
+					expect(w.end.getTime()).toBeLessThanOrEqual(input.now.getTime() + (policy.horizonDays + 1) * DAY);
 					// The brief's invariant: never inside a booking extended by its turnaround ...
 					for (const b of extended) expect(overlaps(w, b)).toBe(false);
 					// ... and (our rule) never in the turnaround a new booking would need before one.
-					for (const b of input.busy)
-						expect(overlaps(w, { start: new Date(b.start.getTime() - t), end: b.start })).toBe(
-							false
-						);
+					for (const b of input.busy) expect(overlaps(w, { start: new Date(b.start.getTime() - t), end: b.start })).toBe(false);
 					for (const c of closedDays) expect(overlaps(w, c)).toBe(false);
 					expect(isWithinOpeningHours(w.start, w.end, policy)).toBe(true);
 					expect(isOnGrid(w.start, policy)).toBe(true);
@@ -260,8 +244,7 @@ describe('computeAvailability properties', () => {
 					expect(open.some((w) => w.start <= s && s < w.end)).toBe(true);
 					expect(isOnGrid(s, input.policy)).toBe(true);
 				}
-				if (exact)
-					expect(starts.map((d) => d.getTime())).toEqual(oracleStarts(input, durationMinutes));
+				if (exact) expect(starts.map((d) => d.getTime())).toEqual(oracleStarts(input, durationMinutes));
 			}),
 			{ numRuns: 150 }
 		);

@@ -37,22 +37,16 @@ describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2
 		expect(a.timeZone).toBe(HELSINKI);
 		// @date-fns/tz TZDate, and the literal +02:00 (IANA tz: EET in January).
 		expect(iso(a.open)).toEqual([[helsinki(2027, 1, 15, 9), helsinki(2027, 1, 15, 23)]]);
-		expect(iso(a.open)).toEqual([
-			[at('2027-01-15T09:00:00+02:00').toISOString(), at('2027-01-15T23:00:00+02:00').toISOString()]
-		]);
+		expect(iso(a.open)).toEqual([[at('2027-01-15T09:00:00+02:00').toISOString(), at('2027-01-15T23:00:00+02:00').toISOString()]]);
 		expect(a.busy).toEqual([]);
 		expect(a.closed).toEqual([]);
 	});
 
 	it('an empty summer day is one window 09:00–23:00 at +03:00', () => {
-		const a = computeAvailability(
-			input({ from: '2027-07-15', to: '2027-07-15', now: at('2027-07-01T12:00:00Z') })
-		);
+		const a = computeAvailability(input({ from: '2027-07-15', to: '2027-07-15', now: at('2027-07-01T12:00:00Z') }));
 		// @date-fns/tz TZDate, and the literal +03:00 (IANA tz: EEST in July, Directive 2000/84/EC).
 		expect(iso(a.open)).toEqual([[helsinki(2027, 7, 15, 9), helsinki(2027, 7, 15, 23)]]);
-		expect(iso(a.open)).toEqual([
-			[at('2027-07-15T09:00:00+03:00').toISOString(), at('2027-07-15T23:00:00+03:00').toISOString()]
-		]);
+		expect(iso(a.open)).toEqual([[at('2027-07-15T09:00:00+03:00').toISOString(), at('2027-07-15T23:00:00+03:00').toISOString()]]);
 	});
 
 	it('a booking 10:00–14:00 leaves 14:30–23:00 (turnaround after) and drops the 09:00 stub (< 2 h minimum)', () => {
@@ -98,11 +92,7 @@ describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2
 				from: '2027-12-23',
 				to: '2027-12-25',
 				now: at('2027-12-01T12:00:00Z'),
-				blackouts: [
-					{ date: '2027-12-24', reason: 'Christmas Eve' },
-					{ date: '2027-12-25' },
-					{ date: '2028-01-01' }
-				]
+				blackouts: [{ date: '2027-12-24', reason: 'Christmas Eve' }, { date: '2027-12-25' }, { date: '2028-01-01' }]
 			})
 		);
 		// PRODUCT.md: the owner "blocks out days"; a blocked day sells nothing.
@@ -116,9 +106,7 @@ describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2
 	it('minimum notice (24 h) clips today and part of tomorrow', () => {
 		// PRODUCT.md: minimum notice 24 h. now = 10:10 local, so nothing before tomorrow 10:10,
 		// rounded up to the 10:30 grid line.
-		const a = computeAvailability(
-			input({ from: '2027-01-15', to: '2027-01-16', now: at('2027-01-15T10:10:00+02:00') })
-		);
+		const a = computeAvailability(input({ from: '2027-01-15', to: '2027-01-16', now: at('2027-01-15T10:10:00+02:00') }));
 		expect(iso(a.open)).toEqual([[helsinki(2027, 1, 16, 10, 30), helsinki(2027, 1, 16, 23)]]);
 	});
 
@@ -126,9 +114,7 @@ describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2
 		// PRODUCT.md: horizon 180 days. now = 2027-01-01 12:00+02:00; Temporal's add({ days: 180 })
 		// gives 2027-06-30 12:00+03:00 (nominal days keep the wall time, Temporal proposal).
 		const now = at('2027-01-01T12:00:00+02:00');
-		const horizon = Temporal.Instant.fromEpochMilliseconds(now.getTime())
-			.toZonedDateTimeISO(HELSINKI)
-			.add({ days: 180 });
+		const horizon = Temporal.Instant.fromEpochMilliseconds(now.getTime()).toZonedDateTimeISO(HELSINKI).add({ days: 180 });
 		expect(horizon.toString()).toBe('2027-06-30T12:00:00+03:00[Europe/Helsinki]');
 		const a = computeAvailability(input({ from: '2027-06-29', to: '2027-07-01', now }));
 		expect(iso(a.open)).toEqual([
@@ -138,9 +124,7 @@ describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2
 	});
 
 	it('asks for nothing beyond the horizon however wide the range', () => {
-		const a = computeAvailability(
-			input({ from: '2027-01-01', to: '2099-12-31', now: at('2027-01-01T12:00:00Z') })
-		);
+		const a = computeAvailability(input({ from: '2027-01-01', to: '2099-12-31', now: at('2027-01-01T12:00:00Z') }));
 		// 180-day horizon: the first bookable day is 2027-01-02, the last 2027-06-30 (cut at 14:00 local).
 		expect(a.open.length).toBe(180);
 		expect(a.open.at(-1)?.end.toISOString()).toBe('2027-06-30T11:00:00.000Z');
@@ -199,18 +183,14 @@ describe('computeAvailability — DST (Directive 2000/84/EC; IANA tz Europe/Hels
 			now: at('2027-03-01T12:00:00Z')
 		});
 		expect(startsThatFit({ ...spring, durationMinutes: 600 })).toEqual([]);
-		expect(startsThatFit({ ...spring, durationMinutes: 540 }).map((d) => d.toISOString())).toEqual([
-			helsinki(2027, 3, 27, 20)
-		]);
+		expect(startsThatFit({ ...spring, durationMinutes: 540 }).map((d) => d.toISOString())).toEqual([helsinki(2027, 3, 27, 20)]);
 		const autumn = input({
 			from: '2027-10-30',
 			to: '2027-10-30',
 			policy: overnight,
 			now: at('2027-10-01T12:00:00Z')
 		});
-		expect(startsThatFit({ ...autumn, durationMinutes: 660 }).map((d) => d.toISOString())).toEqual([
-			helsinki(2027, 10, 30, 20)
-		]);
+		expect(startsThatFit({ ...autumn, durationMinutes: 660 }).map((d) => d.toISOString())).toEqual([helsinki(2027, 10, 30, 20)]);
 	});
 
 	it('clips an overnight window to the requested days but lets a start on the last day run past midnight', () => {
@@ -235,15 +215,11 @@ describe('computeAvailability — DST (Directive 2000/84/EC; IANA tz Europe/Hels
 			helsinki(2027, 3, 27, 21)
 		]);
 		// A 2 h booking also fits the morning piece, 00:00 to 04:00 starts.
-		expect(startsThatFit({ ...one, durationMinutes: 120 })[0]?.toISOString()).toBe(
-			helsinki(2027, 3, 27, 0)
-		);
+		expect(startsThatFit({ ...one, durationMinutes: 120 })[0]?.toISOString()).toBe(helsinki(2027, 3, 27, 0));
 	});
 
 	it('the demo day on 2027-03-28 still opens 09:00+03:00 and the grid stays on local half hours', () => {
-		const a = computeAvailability(
-			input({ from: '2027-03-28', to: '2027-03-28', now: at('2027-03-01T12:00:00Z') })
-		);
+		const a = computeAvailability(input({ from: '2027-03-28', to: '2027-03-28', now: at('2027-03-01T12:00:00Z') }));
 		expect(iso(a.open)).toEqual([['2027-03-28T06:00:00.000Z', '2027-03-28T20:00:00.000Z']]);
 	});
 });
@@ -292,9 +268,7 @@ describe('startsThatFit and nearestFreeStarts', () => {
 		// Wanted 13:30 (taken): 15:30 is 2 h away, 16:00 2.5 h, then 10:30 and 16:30 both 3 h.
 		const near = nearestFreeStarts(fit, at('2027-01-15T13:30:00+02:00'));
 		expect(near.map((d) => d.toISOString())).toEqual([local(15, 30), local(16), local(10, 30)]);
-		expect(
-			nearestFreeStarts(fit, at('2027-01-15T12:00:00+02:00'), 1).map((d) => d.toISOString())
-		).toEqual([local(10, 30)]);
+		expect(nearestFreeStarts(fit, at('2027-01-15T12:00:00+02:00'), 1).map((d) => d.toISOString())).toEqual([local(10, 30)]);
 		expect(nearestFreeStarts(fit, at('2027-01-15T12:00:00+02:00'), 0)).toEqual([]);
 	});
 
@@ -311,43 +285,19 @@ describe('isWithinOpeningHours and isOnGrid', () => {
 
 	it('checks [start, end) against 09:00–23:00 local', () => {
 		// PRODUCT.md: open 09:00 to 23:00 every day; half-open, so ending at 23:00 is inside.
-		expect(
-			isWithinOpeningHours(at('2027-01-15T09:00:00+02:00'), at('2027-01-15T23:00:00+02:00'), policy)
-		).toBe(true);
-		expect(
-			isWithinOpeningHours(at('2027-07-15T21:00:00+03:00'), at('2027-07-15T23:00:00+03:00'), policy)
-		).toBe(true);
-		expect(
-			isWithinOpeningHours(at('2027-01-15T08:30:00+02:00'), at('2027-01-15T10:00:00+02:00'), policy)
-		).toBe(false);
-		expect(
-			isWithinOpeningHours(at('2027-01-15T22:00:00+02:00'), at('2027-01-15T23:30:00+02:00'), policy)
-		).toBe(false);
+		expect(isWithinOpeningHours(at('2027-01-15T09:00:00+02:00'), at('2027-01-15T23:00:00+02:00'), policy)).toBe(true);
+		expect(isWithinOpeningHours(at('2027-07-15T21:00:00+03:00'), at('2027-07-15T23:00:00+03:00'), policy)).toBe(true);
+		expect(isWithinOpeningHours(at('2027-01-15T08:30:00+02:00'), at('2027-01-15T10:00:00+02:00'), policy)).toBe(false);
+		expect(isWithinOpeningHours(at('2027-01-15T22:00:00+02:00'), at('2027-01-15T23:30:00+02:00'), policy)).toBe(false);
 		// 09:00Z is 11:00 or 12:00 in Helsinki, never 09:00: the zone is the studio's, not UTC or the host's.
-		expect(
-			isWithinOpeningHours(at('2027-01-15T21:00:00Z'), at('2027-01-15T22:00:00Z'), policy)
-		).toBe(false);
-		expect(
-			isWithinOpeningHours(at('2027-01-15T12:00:00+02:00'), at('2027-01-15T12:00:00+02:00'), policy)
-		).toBe(false);
+		expect(isWithinOpeningHours(at('2027-01-15T21:00:00Z'), at('2027-01-15T22:00:00Z'), policy)).toBe(false);
+		expect(isWithinOpeningHours(at('2027-01-15T12:00:00+02:00'), at('2027-01-15T12:00:00+02:00'), policy)).toBe(false);
 	});
 
 	it('follows an overnight window past midnight', () => {
 		const overnight = { timeZone: HELSINKI, openingHours: everyDay(20 * 60, 30 * 60) };
-		expect(
-			isWithinOpeningHours(
-				at('2027-01-15T22:00:00+02:00'),
-				at('2027-01-16T02:00:00+02:00'),
-				overnight
-			)
-		).toBe(true);
-		expect(
-			isWithinOpeningHours(
-				at('2027-01-16T05:00:00+02:00'),
-				at('2027-01-16T07:00:00+02:00'),
-				overnight
-			)
-		).toBe(false);
+		expect(isWithinOpeningHours(at('2027-01-15T22:00:00+02:00'), at('2027-01-16T02:00:00+02:00'), overnight)).toBe(true);
+		expect(isWithinOpeningHours(at('2027-01-16T05:00:00+02:00'), at('2027-01-16T07:00:00+02:00'), overnight)).toBe(false);
 	});
 
 	it('puts the grid on local half hours', () => {
@@ -364,23 +314,13 @@ describe('isWithinOpeningHours and isOnGrid', () => {
 
 describe('input checks', () => {
 	it('throws typed errors on malformed input', () => {
-		expect(() => computeAvailability(input({ from: '2027-01-16', to: '2027-01-15' }))).toThrow(
-			AvailabilityInputError
-		);
+		expect(() => computeAvailability(input({ from: '2027-01-16', to: '2027-01-15' }))).toThrow(AvailabilityInputError);
 		expect(() => computeAvailability(input({ from: '15.01.2027' }))).toThrow(/YYYY-MM-DD/);
+		expect(() => computeAvailability(input({ policy: demoPolicy({ timeZone: 'Nowhere/Else' }) }))).toThrow(/IANA/);
+		expect(() => computeAvailability(input({ policy: demoPolicy({ incrementMinutes: 0 }) }))).toThrow(/incrementMinutes/);
 		expect(() =>
-			computeAvailability(input({ policy: demoPolicy({ timeZone: 'Nowhere/Else' }) }))
-		).toThrow(/IANA/);
-		expect(() =>
-			computeAvailability(input({ policy: demoPolicy({ incrementMinutes: 0 }) }))
-		).toThrow(/incrementMinutes/);
-		expect(() =>
-			computeAvailability(
-				input({ busy: [{ start: at('2027-01-15T12:00:00Z'), end: at('2027-01-15T11:00:00Z') }] })
-			)
+			computeAvailability(input({ busy: [{ start: at('2027-01-15T12:00:00Z'), end: at('2027-01-15T11:00:00Z') }] }))
 		).toThrow(/busy/);
-		expect(() => computeAvailability(input({ blackouts: [{ date: '2027-13-01' }] }))).toThrow(
-			/blackout/
-		);
+		expect(() => computeAvailability(input({ blackouts: [{ date: '2027-13-01' }] }))).toThrow(/blackout/);
 	});
 });

@@ -4,12 +4,7 @@
  */
 
 export type TimeInputErrorCode =
-	| 'invalid-format'
-	| 'invalid-date'
-	| 'invalid-time'
-	| 'invalid-offset'
-	| 'invalid-time-zone'
-	| 'nonexistent-local-time';
+	'invalid-format' | 'invalid-date' | 'invalid-time' | 'invalid-offset' | 'invalid-time-zone' | 'nonexistent-local-time';
 
 /** A date, time or zone given to us (by a user or a caller) that we cannot turn into an instant. */
 export class TimeInputError extends Error {
@@ -49,13 +44,7 @@ export class NonexistentLocalTimeError extends TimeInputError {
 }
 
 export type AvailabilityInputErrorCode =
-	| 'invalid-range'
-	| 'invalid-policy'
-	| 'invalid-busy'
-	| 'invalid-blackout'
-	| 'invalid-now'
-	| 'invalid-duration'
-	| 'invalid-count';
+	'invalid-range' | 'invalid-policy' | 'invalid-busy' | 'invalid-blackout' | 'invalid-now' | 'invalid-duration' | 'invalid-count';
 
 /** The caller gave computeAvailability/startsThatFit something malformed (a bug, not a user error). */
 export class AvailabilityInputError extends Error {

@@ -26,15 +26,7 @@
 import type { StudioPolicy } from '../types';
 import { addDays, eachDay, isoWeekday, isYmd, maxYmd, minYmd } from './calendar';
 import { AvailabilityInputError } from './errors';
-import {
-	clipSpans,
-	mergeSpans,
-	subtractSpans,
-	toInterval,
-	toSpan,
-	type Interval,
-	type Span
-} from './intervals';
+import { clipSpans, mergeSpans, subtractSpans, toInterval, toSpan, type Interval, type Span } from './intervals';
 import {
 	addLocalDays,
 	assertTimeZone,
@@ -46,13 +38,7 @@ import {
 } from './zoned';
 
 export { overlaps, type Interval } from './intervals';
-export {
-	localDayBounds,
-	parseBookingInstant,
-	resolveWallTime,
-	zonedWallTime,
-	type WallTimeResolution
-} from './zoned';
+export { localDayBounds, parseBookingInstant, resolveWallTime, zonedWallTime, type WallTimeResolution } from './zoned';
 export {
 	AvailabilityInputError,
 	NonexistentLocalTimeError,
@@ -122,10 +108,7 @@ export interface FitInput extends AvailabilityInput {
 // Input checks: these inputs come from our own code and the database, so a bad one is a bug we
 // want loudly, not an empty calendar.
 
-function fail(
-	code: ConstructorParameters<typeof AvailabilityInputError>[0],
-	message: string
-): never {
+function fail(code: ConstructorParameters<typeof AvailabilityInputError>[0], message: string): never {
 	throw new AvailabilityInputError(code, message);
 }
 
@@ -141,34 +124,20 @@ function checkPolicy(p: AvailabilityPolicy): void {
 	try {
 		assertTimeZone(p.timeZone);
 	} catch {
-		fail(
-			'invalid-policy',
-			`policy.timeZone is not a known IANA zone: ${JSON.stringify(p.timeZone)}`
-		);
+		fail('invalid-policy', `policy.timeZone is not a known IANA zone: ${JSON.stringify(p.timeZone)}`);
 	}
-	if (!isInt(p.incrementMinutes, 1, 1440))
-		fail('invalid-policy', 'policy.incrementMinutes must be an integer 1..1440');
-	if (!isInt(p.minBookingMinutes, 0))
-		fail('invalid-policy', 'policy.minBookingMinutes must be a non-negative integer');
-	if (!isInt(p.turnaroundMinutes, 0))
-		fail('invalid-policy', 'policy.turnaroundMinutes must be a non-negative integer');
-	if (!isInt(p.minNoticeMinutes, 0))
-		fail('invalid-policy', 'policy.minNoticeMinutes must be a non-negative integer');
-	if (!isInt(p.horizonDays, 0, 3660))
-		fail('invalid-policy', 'policy.horizonDays must be an integer 0..3660');
-	if (!Array.isArray(p.openingHours))
-		fail('invalid-policy', 'policy.openingHours must be an array');
+	if (!isInt(p.incrementMinutes, 1, 1440)) fail('invalid-policy', 'policy.incrementMinutes must be an integer 1..1440');
+	if (!isInt(p.minBookingMinutes, 0)) fail('invalid-policy', 'policy.minBookingMinutes must be a non-negative integer');
+	if (!isInt(p.turnaroundMinutes, 0)) fail('invalid-policy', 'policy.turnaroundMinutes must be a non-negative integer');
+	if (!isInt(p.minNoticeMinutes, 0)) fail('invalid-policy', 'policy.minNoticeMinutes must be a non-negative integer');
+	if (!isInt(p.horizonDays, 0, 3660)) fail('invalid-policy', 'policy.horizonDays must be an integer 0..3660');
+	if (!Array.isArray(p.openingHours)) fail('invalid-policy', 'policy.openingHours must be an array');
 	for (const h of p.openingHours) {
-		if (!isInt(h.weekday, 1, 7))
-			fail('invalid-policy', `opening hours weekday must be ISO 1..7, got ${h.weekday}`);
-		if (!isInt(h.openMinute, 0, 1439))
-			fail('invalid-policy', `openMinute must be 0..1439, got ${h.openMinute}`);
+		if (!isInt(h.weekday, 1, 7)) fail('invalid-policy', `opening hours weekday must be ISO 1..7, got ${h.weekday}`);
+		if (!isInt(h.openMinute, 0, 1439)) fail('invalid-policy', `openMinute must be 0..1439, got ${h.openMinute}`);
 		// One opening may last at most a whole day; 1440 + 360 = 06:00 the next morning.
 		if (!isInt(h.closeMinute, h.openMinute, h.openMinute + 1440)) {
-			fail(
-				'invalid-policy',
-				`closeMinute must be openMinute..openMinute+1440, got ${h.closeMinute}`
-			);
+			fail('invalid-policy', `closeMinute must be openMinute..openMinute+1440, got ${h.closeMinute}`);
 		}
 	}
 }
@@ -189,8 +158,7 @@ interface Prepared {
 function prepare(input: AvailabilityInput): Prepared {
 	const { from, to, policy, busy, blackouts, now } = input;
 	checkPolicy(policy);
-	if (!isYmd(from) || !isYmd(to))
-		fail('invalid-range', `from and to must be YYYY-MM-DD dates, got ${from}..${to}`);
+	if (!isYmd(from) || !isYmd(to)) fail('invalid-range', `from and to must be YYYY-MM-DD dates, got ${from}..${to}`);
 	if (to < from) fail('invalid-range', `to (${to}) is before from (${from})`);
 	if (!isValidDate(now)) fail('invalid-now', 'now must be a valid Date');
 	if (!Array.isArray(busy)) fail('invalid-busy', 'busy must be an array');
@@ -201,8 +169,7 @@ function prepare(input: AvailabilityInput): Prepared {
 	}
 	if (!Array.isArray(blackouts)) fail('invalid-blackout', 'blackouts must be an array');
 	for (const b of blackouts) {
-		if (!isYmd(b.date))
-			fail('invalid-blackout', `blackout date must be YYYY-MM-DD, got ${JSON.stringify(b.date)}`);
+		if (!isYmd(b.date)) fail('invalid-blackout', `blackout date must be YYYY-MM-DD, got ${JSON.stringify(b.date)}`);
 	}
 	const tz = policy.timeZone;
 	const nowMs = now.getTime();
@@ -319,27 +286,16 @@ export function startsThatFit(input: FitInput): Date[] {
 	const p = prepare(input);
 	const { durationMinutes } = input;
 	const { incrementMinutes, minBookingMinutes } = p.policy;
-	if (!isInt(durationMinutes, 1))
-		fail('invalid-duration', 'durationMinutes must be a positive integer');
+	if (!isInt(durationMinutes, 1)) fail('invalid-duration', 'durationMinutes must be a positive integer');
 	if (durationMinutes < minBookingMinutes) {
-		fail(
-			'invalid-duration',
-			`a booking lasts at least ${minBookingMinutes} minutes (policy.minBookingMinutes)`
-		);
+		fail('invalid-duration', `a booking lasts at least ${minBookingMinutes} minutes (policy.minBookingMinutes)`);
 	}
 	if (durationMinutes % incrementMinutes !== 0) {
-		fail(
-			'invalid-duration',
-			`a booking lasts a whole number of ${incrementMinutes}-minute increments`
-		);
+		fail('invalid-duration', `a booking lasts a whole number of ${incrementMinutes}-minute increments`);
 	}
 	const duration = durationMinutes * MINUTE_MS;
 	const tz = p.timeZone;
-	const windows = freeSpans(
-		p,
-		addDays(input.from, -1),
-		addDays(input.to, Math.ceil(durationMinutes / 1440) + 1)
-	);
+	const windows = freeSpans(p, addDays(input.from, -1), addDays(input.to, Math.ceil(durationMinutes / 1440) + 1));
 	const out: Date[] = [];
 	for (const w of windows) {
 		let s = ceilToLocalGrid(Math.max(w.start, p.rangeStart), tz, incrementMinutes);
@@ -380,19 +336,12 @@ export function isWithinOpeningHours(
 	const s = start.getTime();
 	const e = end.getTime();
 	// The window holding `start` opened on start's local date or, overnight, the day before.
-	const windows = openingSpans(
-		policy,
-		addDays(localDateOf(s, policy.timeZone), -1),
-		localDateOf(e, policy.timeZone)
-	);
+	const windows = openingSpans(policy, addDays(localDateOf(s, policy.timeZone), -1), localDateOf(e, policy.timeZone));
 	return windows.some((w) => w.start <= s && e <= w.end);
 }
 
 /** True when the instant's local wall time is a whole multiple of the increment from local midnight. */
-export function isOnGrid(
-	instant: Date,
-	policy: Pick<AvailabilityPolicy, 'timeZone' | 'incrementMinutes'>
-): boolean {
+export function isOnGrid(instant: Date, policy: Pick<AvailabilityPolicy, 'timeZone' | 'incrementMinutes'>): boolean {
 	if (!isValidDate(instant)) return false;
 	assertTimeZone(policy.timeZone);
 	return isOnLocalGrid(instant.getTime(), policy.timeZone, policy.incrementMinutes);

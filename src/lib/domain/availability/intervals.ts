@@ -34,9 +34,7 @@ export function toInterval(s: Span): Interval {
 
 /** Sorts and unions spans; touching spans (a.end === b.start) are joined; empty spans are dropped. */
 export function mergeSpans(spans: readonly Span[]): Span[] {
-	const sorted = spans
-		.filter((s) => s.end > s.start)
-		.sort((a, b) => a.start - b.start || a.end - b.end);
+	const sorted = spans.filter((s) => s.end > s.start).sort((a, b) => a.start - b.start || a.end - b.end);
 	const out: Span[] = [];
 	for (const s of sorted) {
 		const last = out[out.length - 1];

@@ -17,14 +17,8 @@ import {
 const HOUR = 3_600_000;
 
 /** Independent oracle: Temporal (temporal-polyfill), not our code, turns a wall time into an instant. */
-function temporalInstant(
-	pdt: string,
-	timeZone: string,
-	disambiguation: 'earlier' | 'reject' = 'reject'
-): Date {
-	return new Date(
-		Temporal.PlainDateTime.from(pdt).toZonedDateTime(timeZone, { disambiguation }).epochMilliseconds
-	);
+function temporalInstant(pdt: string, timeZone: string, disambiguation: 'earlier' | 'reject' = 'reject'): Date {
+	return new Date(Temporal.PlainDateTime.from(pdt).toZonedDateTime(timeZone, { disambiguation }).epochMilliseconds);
 }
 
 describe('localDayBounds', () => {
@@ -43,15 +37,7 @@ describe('localDayBounds', () => {
 	});
 
 	it('agrees with Temporal.ZonedDateTime#hoursInDay and @date-fns/tz around the changes', () => {
-		for (const ymd of [
-			'2027-01-15',
-			'2027-03-27',
-			'2027-03-28',
-			'2027-03-29',
-			'2027-10-30',
-			'2027-10-31',
-			'2027-11-01'
-		]) {
+		for (const ymd of ['2027-01-15', '2027-03-27', '2027-03-28', '2027-03-29', '2027-10-30', '2027-10-31', '2027-11-01']) {
 			const b = localDayBounds(ymd, HELSINKI);
 			const zdt = Temporal.PlainDate.from(ymd).toZonedDateTime(HELSINKI); // Temporal: start of day
 			expect(b.start.getTime()).toBe(zdt.epochMilliseconds);
@@ -74,12 +60,8 @@ describe('localDayBounds', () => {
 describe('zonedWallTime', () => {
 	it('gives +02:00 in winter and +03:00 in summer', () => {
 		// IANA tz Europe/Helsinki: EET +02:00, EEST +03:00.
-		expect(zonedWallTime('2027-01-15', '09:00', HELSINKI).toISOString()).toBe(
-			'2027-01-15T07:00:00.000Z'
-		);
-		expect(zonedWallTime('2027-07-15', '09:00', HELSINKI).toISOString()).toBe(
-			'2027-07-15T06:00:00.000Z'
-		);
+		expect(zonedWallTime('2027-01-15', '09:00', HELSINKI).toISOString()).toBe('2027-01-15T07:00:00.000Z');
+		expect(zonedWallTime('2027-07-15', '09:00', HELSINKI).toISOString()).toBe('2027-07-15T06:00:00.000Z');
 	});
 
 	it('refuses 03:30 on 2027-03-28 (inside the spring-forward gap) with a typed error', () => {
@@ -103,23 +85,15 @@ describe('zonedWallTime', () => {
 
 	it('accepts the minutes either side of the gap', () => {
 		// 02:59 is still EET (+02:00); 04:00 is the first EEST minute (+03:00).
-		expect(zonedWallTime('2027-03-28', '02:59', HELSINKI).toISOString()).toBe(
-			'2027-03-28T00:59:00.000Z'
-		);
-		expect(zonedWallTime('2027-03-28', '04:00', HELSINKI).toISOString()).toBe(
-			'2027-03-28T01:00:00.000Z'
-		);
+		expect(zonedWallTime('2027-03-28', '02:59', HELSINKI).toISOString()).toBe('2027-03-28T00:59:00.000Z');
+		expect(zonedWallTime('2027-03-28', '04:00', HELSINKI).toISOString()).toBe('2027-03-28T01:00:00.000Z');
 	});
 
 	it('resolves the repeated 03:30 on 2027-10-31 to its first occurrence, 03:30+03:00 = 00:30Z', () => {
 		// RFC 5545 §3.3.5: a local time that occurs twice means its first occurrence.
-		expect(zonedWallTime('2027-10-31', '03:30', HELSINKI).toISOString()).toBe(
-			'2027-10-31T00:30:00.000Z'
-		);
+		expect(zonedWallTime('2027-10-31', '03:30', HELSINKI).toISOString()).toBe('2027-10-31T00:30:00.000Z');
 		// Temporal's 'earlier' disambiguation is the same rule.
-		expect(temporalInstant('2027-10-31T03:30', HELSINKI, 'earlier').toISOString()).toBe(
-			'2027-10-31T00:30:00.000Z'
-		);
+		expect(temporalInstant('2027-10-31T03:30', HELSINKI, 'earlier').toISOString()).toBe('2027-10-31T00:30:00.000Z');
 		// (new TZDate(2027, 9, 31, 3, 30, zone) is not used for this: which occurrence it picks
 		// depends on the HOST zone — +02:00 on a UTC host, +03:00 on an Asia/Kathmandu host.)
 	});
@@ -146,48 +120,25 @@ describe('zonedWallTime', () => {
 
 describe('parseBookingInstant', () => {
 	it('takes an explicit offset or Z as the instant (RFC 3339 §5.6)', () => {
-		expect(parseBookingInstant('2027-03-28T10:00:00+03:00', HELSINKI).toISOString()).toBe(
-			'2027-03-28T07:00:00.000Z'
-		);
-		expect(parseBookingInstant('2027-03-28T07:00:00Z', HELSINKI).toISOString()).toBe(
-			'2027-03-28T07:00:00.000Z'
-		);
-		expect(parseBookingInstant('2027-03-28T07:00Z', HELSINKI).toISOString()).toBe(
-			'2027-03-28T07:00:00.000Z'
-		);
-		expect(parseBookingInstant('2027-03-28T07:00:00.250-05:30', HELSINKI).toISOString()).toBe(
-			'2027-03-28T12:30:00.250Z'
-		);
+		expect(parseBookingInstant('2027-03-28T10:00:00+03:00', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
+		expect(parseBookingInstant('2027-03-28T07:00:00Z', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
+		expect(parseBookingInstant('2027-03-28T07:00Z', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
+		expect(parseBookingInstant('2027-03-28T07:00:00.250-05:30', HELSINKI).toISOString()).toBe('2027-03-28T12:30:00.250Z');
 		// The offset wins even for a wall time that does not exist in the studio's zone.
-		expect(parseBookingInstant('2027-03-28T03:30:00+02:00', HELSINKI).toISOString()).toBe(
-			'2027-03-28T01:30:00.000Z'
-		);
+		expect(parseBookingInstant('2027-03-28T03:30:00+02:00', HELSINKI).toISOString()).toBe('2027-03-28T01:30:00.000Z');
 	});
 
 	it('reads a local YYYY-MM-DDTHH:MM in the studio zone, with the gap and overlap rules', () => {
 		// IANA tz: 10:00 on 2027-03-28 is already EEST (+03:00).
-		expect(parseBookingInstant('2027-03-28T10:00', HELSINKI).toISOString()).toBe(
-			'2027-03-28T07:00:00.000Z'
-		);
+		expect(parseBookingInstant('2027-03-28T10:00', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
 		// RFC 5545 §3.3.5: repeated time -> first occurrence.
-		expect(parseBookingInstant('2027-10-31T03:30', HELSINKI).toISOString()).toBe(
-			'2027-10-31T00:30:00.000Z'
-		);
+		expect(parseBookingInstant('2027-10-31T03:30', HELSINKI).toISOString()).toBe('2027-10-31T00:30:00.000Z');
 		// Directive 2000/84/EC gap -> refused.
-		expect(() => parseBookingInstant('2027-03-28T03:30', HELSINKI)).toThrow(
-			NonexistentLocalTimeError
-		);
+		expect(() => parseBookingInstant('2027-03-28T03:30', HELSINKI)).toThrow(NonexistentLocalTimeError);
 	});
 
 	it('errors clearly on anything else', () => {
-		const bad = [
-			'',
-			'2027-03-28',
-			'2027-03-28 10:00',
-			'28.03.2027 10:00',
-			'2027-03-28T10:00+0300',
-			'tomorrow'
-		];
+		const bad = ['', '2027-03-28', '2027-03-28 10:00', '28.03.2027 10:00', '2027-03-28T10:00+0300', 'tomorrow'];
 		for (const s of bad) {
 			expect(() => parseBookingInstant(s, HELSINKI)).toThrow(/Not a date and time/);
 		}
@@ -205,23 +156,19 @@ describe('local grid', () => {
 		expect(isOnLocalGrid(Date.parse('2027-01-15T05:00:00Z'), 'Asia/Kolkata', 60)).toBe(false); // 10:30 IST
 		// Asia/Kathmandu is +05:45: 30-min lines fall at :15 and :45 UTC.
 		expect(isOnLocalGrid(Date.parse('2027-01-15T04:15:00Z'), 'Asia/Kathmandu', 30)).toBe(true);
-		expect(ceilToLocalGrid(Date.parse('2027-01-15T04:16:00Z'), 'Asia/Kathmandu', 30)).toBe(
-			Date.parse('2027-01-15T04:45:00Z')
-		);
-		expect(floorToLocalGrid(Date.parse('2027-01-15T04:14:00Z'), 'Asia/Kathmandu', 30)).toBe(
-			Date.parse('2027-01-15T03:45:00Z')
-		);
+		expect(ceilToLocalGrid(Date.parse('2027-01-15T04:16:00Z'), 'Asia/Kathmandu', 30)).toBe(Date.parse('2027-01-15T04:45:00Z'));
+		expect(floorToLocalGrid(Date.parse('2027-01-15T04:14:00Z'), 'Asia/Kathmandu', 30)).toBe(Date.parse('2027-01-15T03:45:00Z'));
 	});
 
 	it('rounds across the Helsinki spring gap', () => {
 		// 02:50+02:00 rounds up to 04:00+03:00 (03:00 does not exist; Directive 2000/84/EC).
-		expect(
-			new Date(ceilToLocalGrid(Date.parse('2027-03-28T00:50:00Z'), HELSINKI, 30)).toISOString()
-		).toBe('2027-03-28T01:00:00.000Z');
+		expect(new Date(ceilToLocalGrid(Date.parse('2027-03-28T00:50:00Z'), HELSINKI, 30)).toISOString()).toBe(
+			'2027-03-28T01:00:00.000Z'
+		);
 		// 04:10+03:00 rounds down to 04:00+03:00.
-		expect(
-			new Date(floorToLocalGrid(Date.parse('2027-03-28T01:10:00Z'), HELSINKI, 30)).toISOString()
-		).toBe('2027-03-28T01:00:00.000Z');
+		expect(new Date(floorToLocalGrid(Date.parse('2027-03-28T01:10:00Z'), HELSINKI, 30)).toISOString()).toBe(
+			'2027-03-28T01:00:00.000Z'
+		);
 	});
 
 	it('rounds across Lord Howe Island’s 30-minute change with a 60-minute grid', () => {
@@ -242,12 +189,8 @@ describe('addLocalDays', () => {
 	it('keeps the wall time across a DST change, like Temporal ZonedDateTime#add({ days })', () => {
 		// Temporal proposal: adding days is calendar (nominal) arithmetic in the zone.
 		const now = Date.parse('2027-01-01T10:00:00Z'); // 12:00+02:00
-		const z = Temporal.Instant.fromEpochMilliseconds(now)
-			.toZonedDateTimeISO(HELSINKI)
-			.add({ days: 180 });
+		const z = Temporal.Instant.fromEpochMilliseconds(now).toZonedDateTimeISO(HELSINKI).add({ days: 180 });
 		expect(addLocalDays(now, 180, HELSINKI)).toBe(z.epochMilliseconds);
-		expect(new Date(addLocalDays(now, 180, HELSINKI)).toISOString()).toBe(
-			'2027-06-30T09:00:00.000Z'
-		); // 12:00+03:00
+		expect(new Date(addLocalDays(now, 180, HELSINKI)).toISOString()).toBe('2027-06-30T09:00:00.000Z'); // 12:00+03:00
 	});
 });

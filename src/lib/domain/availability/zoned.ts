@@ -53,8 +53,7 @@ export function assertTimeZone(timeZone: string): void {
 			ok = false;
 		}
 	}
-	if (!ok)
-		throw new TimeInputError('invalid-time-zone', `Unknown time zone: ${JSON.stringify(timeZone)}`);
+	if (!ok) throw new TimeInputError('invalid-time-zone', `Unknown time zone: ${JSON.stringify(timeZone)}`);
 	validZones.add(timeZone);
 }
 
@@ -132,9 +131,7 @@ function resolveNaive(naive: number, timeZone: string): WallTimeResolution {
 	]);
 	const candidates = [...offsets].map((o) => naive - o);
 	// A candidate is real when the zone actually uses that offset at that instant.
-	const valid = [...new Set(candidates.filter((t) => naive - offsetMsAt(timeZone, t) === t))].sort(
-		(a, b) => a - b
-	);
+	const valid = [...new Set(candidates.filter((t) => naive - offsetMsAt(timeZone, t) === t))].sort((a, b) => a - b);
 	const first = valid[0];
 	const last = valid[valid.length - 1];
 	if (first !== undefined && last !== undefined) {
@@ -169,11 +166,7 @@ function boundaryInstant(naive: number, timeZone: string): number {
 
 function mustParseYmd(ymd: string) {
 	const d = parseYmd(ymd);
-	if (!d)
-		throw new TimeInputError(
-			'invalid-date',
-			`Not a calendar date (YYYY-MM-DD): ${JSON.stringify(ymd)}`
-		);
+	if (!d) throw new TimeInputError('invalid-date', `Not a calendar date (YYYY-MM-DD): ${JSON.stringify(ymd)}`);
 	return d;
 }
 
@@ -213,16 +206,10 @@ export function localDayBounds(ymd: string, timeZone: string): { start: Date; en
 
 const HHMM_RE = /^(\d{2}):(\d{2})(?::(\d{2}))?$/;
 
-function parseClock(
-	time: string,
-	allowSeconds: boolean
-): { hour: number; minute: number; second: number } {
+function parseClock(time: string, allowSeconds: boolean): { hour: number; minute: number; second: number } {
 	const m = HHMM_RE.exec(time);
 	if (!m || (!allowSeconds && m[3] !== undefined)) {
-		throw new TimeInputError(
-			'invalid-format',
-			`Not a time of day (HH:MM): ${JSON.stringify(time)}`
-		);
+		throw new TimeInputError('invalid-format', `Not a time of day (HH:MM): ${JSON.stringify(time)}`);
 	}
 	const hour = Number(m[1]);
 	const minute = Number(m[2]);
@@ -261,8 +248,7 @@ export function zonedWallTime(ymd: string, time: string, timeZone: string): Date
 }
 
 // RFC 3339 §5.6 date-time (the ISO 8601 profile used on the wire), seconds and up to 3 fraction digits optional.
-const WITH_OFFSET_RE =
-	/^(\d{4}-\d{2}-\d{2})T(\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,3}))?)?(Z|[+-](\d{2}):(\d{2}))$/;
+const WITH_OFFSET_RE = /^(\d{4}-\d{2}-\d{2})T(\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,3}))?)?(Z|[+-](\d{2}):(\d{2}))$/;
 // A local date-time with no offset, as an <input type="datetime-local"> sends it.
 const LOCAL_RE = /^(\d{4}-\d{2}-\d{2})T(\d{2}:\d{2}(?::\d{2})?)$/;
 
@@ -289,10 +275,7 @@ export function parseBookingInstant(s: string, timeZone: string): Date {
 			const offH = Number(oh);
 			const offM = Number(om);
 			if (offH > 23 || offM > 59) {
-				throw new TimeInputError(
-					'invalid-offset',
-					`Not a UTC offset: ${zone} in ${JSON.stringify(s)}`
-				);
+				throw new TimeInputError('invalid-offset', `Not a UTC offset: ${zone} in ${JSON.stringify(s)}`);
 			}
 			offsetMs = (zone.startsWith('-') ? -1 : 1) * (offH * 60 + offM) * MINUTE_MS;
 		}
@@ -327,11 +310,7 @@ export function addLocalDays(instant: number, days: number, timeZone: string): n
 // they do not, and around a DST change the offset moves under our feet; hence the checks below.
 
 /** Milliseconds since the last grid line on the local wall clock (0 when on the grid). */
-function msPastGrid(
-	ms: number,
-	timeZone: string,
-	incrementMs: number
-): { past: number; toMidnight: number } {
+function msPastGrid(ms: number, timeZone: string, incrementMs: number): { past: number; toMidnight: number } {
 	const w = wallTimeOf(ms, timeZone);
 	const msOfDay = ((w.hour * 60 + w.minute) * 60 + w.second) * 1000 + w.millisecond;
 	return { past: msOfDay % incrementMs, toMidnight: DAY_MS - msOfDay };

@@ -6,7 +6,20 @@ import { db } from './index';
 export const DATABASE_UNAVAILABLE =
 	'The studio’s database is not answering right now. Nothing was lost; please try again in a minute.';
 
-const DOWN_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'CONNECT_TIMEOUT', 'CONNECTION_CLOSED', 'CONNECTION_ENDED', 'CONNECTION_DESTROYED', '57P01', '57P03', '08006', '08001', '08004']);
+const DOWN_CODES = new Set([
+	'ECONNREFUSED',
+	'ECONNRESET',
+	'ETIMEDOUT',
+	'CONNECT_TIMEOUT',
+	'CONNECTION_CLOSED',
+	'CONNECTION_ENDED',
+	'CONNECTION_DESTROYED',
+	'57P01',
+	'57P03',
+	'08006',
+	'08001',
+	'08004'
+]);
 
 export function isDatabaseDown(e: unknown): boolean {
 	for (let cur: unknown = e, depth = 0; cur && depth < 5; depth++) {

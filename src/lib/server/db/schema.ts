@@ -41,7 +41,10 @@ export const studio = pgTable('studio', {
 	name: text('name').notNull(),
 	tagline: text('tagline').notNull().default(''),
 	description: text('description').notNull().default(''),
-	addressLines: text('address_lines').array().notNull().default(sql`'{}'::text[]`),
+	addressLines: text('address_lines')
+		.array()
+		.notNull()
+		.default(sql`'{}'::text[]`),
 	country: text('country').notNull(),
 	email: text('email').notNull(),
 	vatId: text('vat_id').notNull().default(''),
@@ -76,7 +79,10 @@ export const surchargeRule = pgTable('surcharge_rule', {
 	/** 'window' (weekdays and a local time span) or 'holiday' (the country's public holidays). */
 	kind: text('kind').notNull(),
 	percentBp: integer('percent_bp').notNull(),
-	weekdays: integer('weekdays').array().notNull().default(sql`'{}'::int[]`),
+	weekdays: integer('weekdays')
+		.array()
+		.notNull()
+		.default(sql`'{}'::int[]`),
 	fromMinute: integer('from_minute').notNull().default(0),
 	toMinute: integer('to_minute').notNull().default(1440),
 	active: boolean('active').notNull().default(true),
@@ -233,7 +239,10 @@ export const recallSheet = pgTable(
 			.notNull()
 			.references(() => user.id),
 		authorId: text('author_id').references(() => user.id),
-		channels: jsonb('channels').$type<RecallChannel[]>().notNull().default(sql`'[]'::jsonb`),
+		channels: jsonb('channels')
+			.$type<RecallChannel[]>()
+			.notNull()
+			.default(sql`'[]'::jsonb`),
 		notes: text('notes').notNull().default(''),
 		createdAt: created(),
 		updatedAt: updated()
@@ -372,7 +381,10 @@ export const invoice = pgTable(
 		amountDue: money('amount_due').notNull(),
 		vatBreakdown: jsonb('vat_breakdown').$type<VatBreakdownRow[]>().notNull(),
 		/** On a final invoice: the VAT breakdown of the deposit invoice it deducts (already declared there). */
-		prepaidVatBreakdown: jsonb('prepaid_vat_breakdown').$type<VatBreakdownRow[]>().notNull().default(sql`'[]'::jsonb`),
+		prepaidVatBreakdown: jsonb('prepaid_vat_breakdown')
+			.$type<VatBreakdownRow[]>()
+			.notNull()
+			.default(sql`'[]'::jsonb`),
 		/** BT-106 sum of line nets and BT-109 taxable total, kept as issued. */
 		lineNetTotal: money('line_net_total').notNull().default(0),
 		/** One document per business fact: 'deposit:<payment id>', 'final:<booking id>', 'credit:<refund id>'. */

@@ -77,7 +77,12 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
  * A ZIP archive of the month. 'all': the registers, each document's PDF (pdf/<number>.pdf) and
  * its EN 16931 e-invoice in UBL (ubl/<number>.xml); 'ubl': the e-invoices alone.
  */
-export async function monthArchive(report: MonthReport, timeZone: string, viewer: SessionUser, contents: 'all' | 'ubl' = 'all'): Promise<Uint8Array> {
+export async function monthArchive(
+	report: MonthReport,
+	timeZone: string,
+	viewer: SessionUser,
+	contents: 'all' | 'ubl' = 'all'
+): Promise<Uint8Array> {
 	const files: Record<string, Uint8Array> = {};
 	if (contents === 'all') {
 		for (const [name, text] of Object.entries(monthRegisters(report, timeZone))) files[name] = strToU8(text);

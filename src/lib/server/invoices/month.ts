@@ -195,7 +195,10 @@ export async function monthReport(month: string, timeZone: string, currency: str
 		precedingNumber: d.precedingInvoiceId ? (byId.get(d.precedingInvoiceId) ?? null) : null,
 		net: d.net,
 		vat: d.vatTotal,
-		vatDeclared: vatLedger([{ typeCode: d.typeCode, vat: d.vatBreakdown, prepaidVat: d.prepaidVatBreakdown }]).reduce((s, r) => s + r.vat, 0),
+		vatDeclared: vatLedger([{ typeCode: d.typeCode, vat: d.vatBreakdown, prepaidVat: d.prepaidVatBreakdown }]).reduce(
+			(s, r) => s + r.vat,
+			0
+		),
 		gross: d.gross,
 		rounding: d.rounding,
 		total: payableTotal(d),

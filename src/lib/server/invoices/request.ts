@@ -3,7 +3,8 @@ import { apiError } from '../api';
 import { getStudio, type StudioRow } from '../studio';
 import { MONTH_PATTERN, currentMonth } from './month';
 
-export type AccountsRequest = { ok: true; studio: StudioRow; month: string; user: NonNullable<App.Locals['user']> } | { ok: false; response: Response };
+export type AccountsRequest =
+	{ ok: true; studio: StudioRow; month: string; user: NonNullable<App.Locals['user']> } | { ok: false; response: Response };
 
 export async function accountsRequest(locals: App.Locals, url: URL): Promise<AccountsRequest> {
 	if (!locals.user) return { ok: false, response: apiError(401, 'unauthenticated', 'Please sign in first.') };

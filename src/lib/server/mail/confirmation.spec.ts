@@ -61,7 +61,9 @@ describe('the confirmation calendar file (RFC 5545)', () => {
 	});
 
 	it('uses CRLF line ends and folds lines at 75 octets (RFC 5545 §3.1)', () => {
-		const file = bookingCalendarFile(facts({ gear: ['Large-diaphragm condenser, cardioid, with shock mount and pop filter'.repeat(3)] }));
+		const file = bookingCalendarFile(
+			facts({ gear: ['Large-diaphragm condenser, cardioid, with shock mount and pop filter'.repeat(3)] })
+		);
 		expect(file.replaceAll('\r\n', '')).not.toMatch(/[\r\n]/);
 		for (const line of file.split('\r\n')) expect(Buffer.byteLength(line, 'utf8')).toBeLessThanOrEqual(75);
 		expect(file.split('\r\n').some((l) => l.startsWith(' '))).toBe(true);

@@ -53,7 +53,9 @@ export async function queueConfirmation(tx: Tx, bookingId: string): Promise<void
 		to: row.artistEmail,
 		subject: mail.subject,
 		text: mail.text,
-		attachments: [{ filename: `${b.reference}.ics`, contentType: 'text/calendar; charset=utf-8; method=PUBLISH', content: mail.ics }]
+		attachments: [
+			{ filename: `${b.reference}.ics`, contentType: 'text/calendar; charset=utf-8; method=PUBLISH', content: mail.ics }
+		]
 	});
 	flushSoon();
 }

@@ -73,13 +73,20 @@ export async function flushOutbox(limit = 20): Promise<number> {
 					html: row.html ?? undefined,
 					attachments: attachments.map((a) => ({ filename: a.filename, contentType: a.contentType, content: a.content }))
 				});
-				await tx.update(emailOutbox).set({ status: 'sent', sentAt: new Date(), attempts: row.attempts + 1, lastError: null }).where(eq(emailOutbox.id, row.id));
+				await tx
+					.update(emailOutbox)
+					.set({ status: 'sent', sentAt: new Date(), attempts: row.attempts + 1, lastError: null })
+					.where(eq(emailOutbox.id, row.id));
 				return 'sent' as const;
 			} catch (e) {
 				const attempts = row.attempts + 1;
 				await tx
 					.update(emailOutbox)
-					.set({ attempts, lastError: String((e as Error).message ?? e).slice(0, 500), status: attempts >= MAX_ATTEMPTS ? 'failed' : 'queued' })
+					.set({
+						attempts,
+						lastError: String((e as Error).message ?? e).slice(0, 500),
+						status: attempts >= MAX_ATTEMPTS ? 'failed' : 'queued'
+					})
 					.where(eq(emailOutbox.id, row.id));
 				console.warn('[mail] could not send', row.dedupeKey, (e as Error).message);
 				return 'failed' as const;

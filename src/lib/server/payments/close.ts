@@ -106,17 +106,15 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 				if (items.length !== extraIds.length) {
 					return invalid('gearUsed', 'Some of that gear is unknown.');
 				}
-				await tx
-					.insert(bookingGear)
-					.values(
-						items.map((g) => ({
-							bookingId: b.id,
-							gearItemId: g.id,
-							hireFee: g.hireable ? g.hireFee : 0,
-							startsAt: b.startsAt,
-							busyUntil: b.busyUntil
-						}))
-					);
+				await tx.insert(bookingGear).values(
+					items.map((g) => ({
+						bookingId: b.id,
+						gearItemId: g.id,
+						hireFee: g.hireable ? g.hireFee : 0,
+						startsAt: b.startsAt,
+						busyUntil: b.busyUntil
+					}))
+				);
 				const hired = items.filter((g) => g.hireable && g.hireFee > 0);
 				if (hired.length) {
 					const q = quoteBooking({

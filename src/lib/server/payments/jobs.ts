@@ -57,7 +57,12 @@ function isMissing(e: unknown): boolean {
  * come through it, so it ends as expired; a booking still waiting for it frees its slot.
  */
 export async function forgetSession(sessionId: string): Promise<string> {
-	const gone = { id: sessionId, object: 'checkout.session', status: 'expired', metadata: {} } as unknown as Stripe.Checkout.Session;
+	const gone = {
+		id: sessionId,
+		object: 'checkout.session',
+		status: 'expired',
+		metadata: {}
+	} as unknown as Stripe.Checkout.Session;
 	const outcome = await inTransaction((tx, after) => applySession(tx, gone, 'expired', after));
 	console.warn(`[payments] Stripe does not know checkout ${sessionId}; treated as expired (${outcome})`);
 	return outcome;

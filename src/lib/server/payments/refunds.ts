@@ -276,7 +276,10 @@ export async function sendRefund(refundId: string): Promise<void> {
 	} catch (e) {
 		// Stripe refused the request itself (already refunded, too large, a reused key…): no retry will change that.
 		if (isStripeRequestError(e)) {
-			await markSendFailed(r, e.type === 'StripeIdempotencyError' ? `Stripe refused the refund request: ${e.message}` : e.message);
+			await markSendFailed(
+				r,
+				e.type === 'StripeIdempotencyError' ? `Stripe refused the refund request: ${e.message}` : e.message
+			);
 			return;
 		}
 		// Anything else (Stripe unreachable): tried again on a later tick, behind the others.

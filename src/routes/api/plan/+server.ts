@@ -9,6 +9,7 @@ export const GET: RequestHandler = async ({ locals, url }) => {
 		return apiError(403, 'forbidden', 'The day plan is for engineers and the owner.');
 	}
 	const date = url.searchParams.get('date') ?? (await todayInStudio());
-	if (!isPlanDate(date)) return apiError(422, 'invalid', 'Use a date such as 2027-03-28.', { fields: { date: ['Use a date such as 2027-03-28.'] } });
+	if (!isPlanDate(date))
+		return apiError(422, 'invalid', 'Use a date such as 2027-03-28.', { fields: { date: ['Use a date such as 2027-03-28.'] } });
 	return json(await dayPlan(date), { headers: { 'cache-control': 'private, no-store' } });
 };

@@ -88,7 +88,14 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		moneyUnavailable,
 		files: listed.ok
 			? {
-					items: listed.uploads.map((u) => ({ id: u.id, name: u.name, typeLabel: u.typeLabel, sizeBytes: u.sizeBytes, createdAt: u.createdAt, href: u.href })),
+					items: listed.uploads.map((u) => ({
+						id: u.id,
+						name: u.name,
+						typeLabel: u.typeLabel,
+						sizeBytes: u.sizeBytes,
+						createdAt: u.createdAt,
+						href: u.href
+					})),
 					limits: listed.limits,
 					usage: listed.usage,
 					open: listed.open,
@@ -107,7 +114,14 @@ export const actions: Actions = {
 		const outcome = received.ok ? received.value : received;
 		if (!outcome.ok) return fail(outcome.status, { upload: { error: outcome.message } });
 		const u = outcome.upload;
-		await audit({ actorId: me.id, action: 'upload.added', entity: 'booking', entityId: params.id, data: { upload: u.id, sizeBytes: u.sizeBytes, sha256: u.sha256 }, ip: getClientAddress() });
+		await audit({
+			actorId: me.id,
+			action: 'upload.added',
+			entity: 'booking',
+			entityId: params.id,
+			data: { upload: u.id, sizeBytes: u.sizeBytes, sha256: u.sha256 },
+			ip: getClientAddress()
+		});
 		return { upload: { added: u.originalName } };
 	},
 	remove: async ({ request, locals, params, getClientAddress }) => {
@@ -116,7 +130,14 @@ export const actions: Actions = {
 		const uploadId = String(form.get('uploadId') ?? '');
 		const removed = await uploads.remove(me, params.id, uploadId);
 		if (!removed.ok) return fail(removed.status, { remove: { error: removed.message } });
-		await audit({ actorId: me.id, action: 'upload.removed', entity: 'booking', entityId: params.id, data: { upload: uploadId }, ip: getClientAddress() });
+		await audit({
+			actorId: me.id,
+			action: 'upload.removed',
+			entity: 'booking',
+			entityId: params.id,
+			data: { upload: uploadId },
+			ip: getClientAddress()
+		});
 		return { remove: { removed: removed.upload.originalName } };
 	}
 };

@@ -26,12 +26,26 @@ export const actions: Actions = {
 		if (!parsed.success) return fail(422, { error: 'Choose one of the four roles.' });
 		const { userId, role } = parsed.data;
 		if (userId === owner.id && role !== 'owner') {
-			const [{ n } = { n: 0 }] = await db.select({ n: sql<number>`count(*)::int` }).from(user).where(eq(user.role, 'owner'));
+			const [{ n } = { n: 0 }] = await db
+				.select({ n: sql<number>`count(*)::int` })
+				.from(user)
+				.where(eq(user.role, 'owner'));
 			if (n <= 1) return fail(409, { error: 'You are the only owner: make someone else owner first.' });
 		}
-		const [updated] = await db.update(user).set({ role }).where(eq(user.id, userId)).returning({ id: user.id, email: user.email });
+		const [updated] = await db
+			.update(user)
+			.set({ role })
+			.where(eq(user.id, userId))
+			.returning({ id: user.id, email: user.email });
 		if (!updated) return fail(404, { error: 'No such person.' });
-		await audit({ actorId: owner.id, action: 'user.role_changed', entity: 'user', entityId: userId, data: { role }, ip: getClientAddress() });
+		await audit({
+			actorId: owner.id,
+			action: 'user.role_changed',
+			entity: 'user',
+			entityId: userId,
+			data: { role },
+			ip: getClientAddress()
+		});
 		return { saved: `${updated.email} is now ${role}.` };
 	}
 };
