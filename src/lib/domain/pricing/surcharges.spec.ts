@@ -22,10 +22,15 @@ function referenceShares(start: Date, end: Date, rules: SurchargeRule[], isHolid
 		const minute = local.getHours() * 60 + local.getMinutes();
 		let best: SurchargeRule | undefined;
 		for (const rule of rules) {
+			// A window running past midnight belongs to the weekday it starts on.
+			const previous = weekday === 1 ? 7 : weekday - 1;
 			const applies =
 				rule.kind === 'holiday'
 					? isHoliday(ymd)
-					: rule.weekdays.includes(weekday) && minute >= rule.fromMinute && minute < rule.toMinute;
+					: rule.fromMinute <= rule.toMinute
+						? rule.weekdays.includes(weekday) && minute >= rule.fromMinute && minute < rule.toMinute
+						: (rule.weekdays.includes(weekday) && minute >= rule.fromMinute) ||
+							(rule.weekdays.includes(previous) && minute < rule.toMinute);
 			if (applies && rule.percentBp > 0 && (!best || rule.percentBp > best.percentBp)) best = rule;
 		}
 		if (best) won.set(best.id, (won.get(best.id) ?? 0) + 1);
@@ -49,6 +54,27 @@ describe('surcharge minutes (source: PRODUCT.md: highest surcharge per minute, i
 			['evening', 60],
 			['weekend', 120]
 		]);
+	});
+
+	it('a window past midnight belongs to the day it starts: Friday 22:00–02:00 covers early Saturday, not early Monday', () => {
+		const late: SurchargeRule = {
+			id: 'late',
+			label: 'Late night',
+			kind: 'window',
+			percentBp: 4000,
+			weekdays: [1, 2, 3, 4, 5],
+			fromMinute: 22 * 60,
+			toMinute: 2 * 60
+		};
+		const policy = { timeZone: HELSINKI, surcharges: [late] };
+		// 2027-03-05 is a Friday: 23:00 Friday → 01:00 Saturday is all late night.
+		const friday = surchargeShares(at('2027-03-05', '23:00'), at('2027-03-06', '01:00'), policy, () => false);
+		expect(friday.map((s) => [s.rule.id, s.minutes])).toEqual([['late', 120]]);
+		// 00:00–02:00 on Monday 2027-03-08 follows Sunday night, which is not listed.
+		expect(surchargeShares(at('2027-03-08', '00:00'), at('2027-03-08', '02:00'), policy, () => false)).toEqual([]);
+		// 00:00–02:00 on Tuesday follows Monday night: covered.
+		const tuesday = surchargeShares(at('2027-03-09', '00:00'), at('2027-03-09', '03:00'), policy, () => false);
+		expect(tuesday.map((s) => [s.rule.id, s.minutes])).toEqual([['late', 120]]);
 	});
 
 	it('matches a minute-by-minute TZDate reference across DST changes and holidays (property)', () => {

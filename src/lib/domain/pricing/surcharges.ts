@@ -31,11 +31,19 @@ export interface SurchargeShare {
 	minutes: number;
 }
 
-function windowContains(rule: SurchargeRule, minuteOfDay: number): boolean {
-	// A window with from > to wraps past midnight within the same local date's weekday list.
-	return rule.fromMinute <= rule.toMinute
-		? minuteOfDay >= rule.fromMinute && minuteOfDay < rule.toMinute
-		: minuteOfDay >= rule.fromMinute || minuteOfDay < rule.toMinute;
+/**
+ * Whether a window rule covers a local minute of a local date. A window with from > to starts on
+ * its listed weekdays and runs past midnight into the next day, the way a studio reads "Friday
+ * 22:00 to 02:00": the early hours of Saturday belong to Friday's window, and the early hours of a
+ * Monday belong to nothing unless Sunday is listed.
+ */
+function windowCovers(rule: SurchargeRule, isoWeekday: number, minuteOfDay: number): boolean {
+	if (rule.fromMinute <= rule.toMinute) {
+		return rule.weekdays.includes(isoWeekday) && minuteOfDay >= rule.fromMinute && minuteOfDay < rule.toMinute;
+	}
+	if (minuteOfDay >= rule.fromMinute) return rule.weekdays.includes(isoWeekday);
+	if (minuteOfDay < rule.toMinute) return rule.weekdays.includes(isoWeekday === 1 ? 7 : isoWeekday - 1);
+	return false;
 }
 
 /**
@@ -55,13 +63,13 @@ export function surchargeShares(
 
 	for (const segment of localSegments(start, end, policy.timeZone)) {
 		const holiday = holidayRules.length > 0 && isHoliday(segment.ymd);
-		const candidates = rules.filter((rule) => (rule.kind === 'holiday' ? holiday : rule.weekdays.includes(segment.isoWeekday)));
+		const candidates = rules.filter((rule) => (rule.kind === 'holiday' ? holiday : true));
 		if (candidates.length === 0) continue;
 		for (let k = 0; k < segment.minutes; k++) {
 			const minuteOfDay = segment.startMinuteOfDay + k;
 			let winner: SurchargeRule | undefined;
 			for (const rule of candidates) {
-				const applies = rule.kind === 'holiday' || windowContains(rule, minuteOfDay);
+				const applies = rule.kind === 'holiday' || windowCovers(rule, segment.isoWeekday, minuteOfDay);
 				if (applies && (!winner || rule.percentBp > winner.percentBp)) winner = rule;
 			}
 			if (winner) wonMinutes.set(winner, (wonMinutes.get(winner) ?? 0) + 1);
