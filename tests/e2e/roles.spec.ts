@@ -1,0 +1,63 @@
+import { readFile } from 'node:fs/promises';
+import { expect, test } from '@playwright/test';
+import { parse } from 'csv-parse/sync';
+import { signIn } from './support';
+
+// The engineer's and the accountant's journeys of PRODUCT.md, in the browser, on the seeded demo
+// studio (scripts/seed-bookings.ts places its sessions relative to today; the app gives them their
+// money history at start-up, src/lib/server/demo-ledger.ts).
+
+function studioYmd(offsetDays: number): string {
+	return new Intl.DateTimeFormat('en-CA', {
+		timeZone: 'Europe/Helsinki',
+		year: 'numeric',
+		month: '2-digit',
+		day: '2-digit'
+	}).format(new Date(Date.now() + offsetDays * 86_400_000));
+}
+
+test('the engineer opens the day plan, reads the carried-over recall sheet and writes this session’s', async ({ page }) => {
+	await signIn(page, 'engineer@slateroom.test');
+	const { bookings } = (await (await page.request.get('/api/bookings')).json()) as {
+		bookings: { reference: string; start: string }[];
+	};
+	const demo = bookings.find((b) => b.reference === 'HP-DEMO3');
+	expect(demo, 'the seeded session HP-DEMO3').toBeDefined();
+	const date = demo!.start.slice(0, 10); // local date: the start carries the studio's offset
+
+	await page.goto(`/plan?date=${date}`);
+	const session = page.getByTestId('plan-session').filter({ hasText: 'HP-DEMO3' });
+	await expect(session).toBeVisible();
+	await expect(session.getByTestId('previous-recall')).toContainText('Kick drum');
+	await expect(session).toContainText('Noa Virta');
+
+	const notes = `Re-amped the bass DI, ${Date.now()}`;
+	await session.getByText('Recall sheet for this session').click();
+	await session.getByLabel('Session notes').fill(notes);
+	await session.getByRole('button', { name: 'Save recall sheet' }).click();
+	await expect(session.getByRole('status')).toContainText('Recall sheet saved.');
+
+	await page.reload();
+	const again = page.getByTestId('plan-session').filter({ hasText: 'HP-DEMO3' });
+	await again.getByText('Recall sheet for this session').click();
+	await expect(again.getByLabel('Session notes')).toHaveValue(notes);
+});
+
+test('the accountant opens a month and takes its documents away as CSV that matches the page', async ({ page }) => {
+	await signIn(page, 'accountant@slateroom.test');
+	// A demo deposit is paid seven days before today (ten days before a session three days ahead).
+	const month = studioYmd(-7).slice(0, 7);
+	await page.goto(`/accounts?month=${month}`);
+	const rows = page.getByTestId('documents').locator('tbody tr');
+	await expect(rows.first()).toBeVisible();
+	const numbers = await rows.locator('td:first-child').allInnerTexts();
+	expect(numbers.some((n) => n.startsWith('DEP-'))).toBe(true);
+
+	const [download] = await Promise.all([
+		page.waitForEvent('download'),
+		page.getByRole('link', { name: 'Documents (CSV)' }).click()
+	]);
+	expect(download.suggestedFilename()).toBe(`documents-${month}.csv`);
+	const csv = parse(await readFile((await download.path())!, 'utf8'), { columns: true }) as Record<string, string>[];
+	expect(csv.map((r) => r.Number)).toEqual(numbers.map((n) => n.trim()));
+});
