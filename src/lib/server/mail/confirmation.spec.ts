@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import ical from 'node-ical';
 import { Temporal } from 'temporal-polyfill';
-import { bookingCalendarFile, composeConfirmation, type ConfirmationFacts } from './confirmation';
+import { bookingCalendarFile, composeCancellation, composeConfirmation, type ConfirmationFacts } from './confirmation';
 
 // The instant of a wall time in the studio's zone, from the IANA database through Temporal (an
 // outside reference, independent of the app's own zone code).
@@ -107,5 +107,35 @@ describe('the confirmation message', () => {
 		expect(m.text).not.toContain('Project:');
 		expect(m.text).toContain('Engineer:  none booked\n  Reference: HP-7K3QX');
 		expect(m.text).toContain('Write a running order');
+	});
+});
+
+describe('the cancellation message', () => {
+	it('says what comes back by the policy and carries a calendar file that cancels the event (RFC 5546 CANCEL)', () => {
+		const m = composeCancellation(
+			{ ...facts({ sequence: 2 }), refund: 5200, retained: 5200, rule: '48 hours to 7 days’ notice: half the deposit back' },
+			new Date('2027-03-20T08:00:00Z')
+		);
+		expect(m.subject).toBe('Cancelled: Live room on Sunday, 28 March 2027, 10:00–14:00');
+		expect(m.text).toContain('Cancellation terms: 48 hours to 7 days’ notice: half the deposit back.');
+		expect(m.text).toContain('Refund: €52.00');
+		expect(m.text).toContain('Kept by the studio: €52.00.');
+		expect(m.ics).toMatch(/^METHOD:CANCEL\r$/m);
+		const ev = Object.values(ical.sync.parseICS(m.ics)).find((c) => c?.type === 'VEVENT') as ical.VEvent;
+		expect(ev.uid).toBe(facts().bookingId);
+		expect(ev.status).toBe('CANCELLED');
+		// RFC 5545 §3.8.7.4: a change to the event raises SEQUENCE above the last one sent.
+		expect(m.ics).toMatch(/^SEQUENCE:3\r$/m);
+	});
+
+	it('says plainly when nothing comes back', () => {
+		const m = composeCancellation({
+			...facts(),
+			refund: 0,
+			retained: 10400,
+			rule: 'Under 48 hours’ notice: no refund of the deposit'
+		});
+		expect(m.text).toContain('Refund: none.');
+		expect(m.text).toContain('Kept by the studio: €104.00.');
 	});
 });

@@ -6,7 +6,7 @@
 // times (RFC 5545 §3.3.5, form 2), so the file needs no VTIMEZONE and means the same instant
 // whatever zone the server or the reader's device is in; SEQUENCE is the booking's own, which
 // rises when a booking is moved. ical-generator writes CRLF line ends and folds at 75 octets.
-import ical, { ICalCalendarMethod } from 'ical-generator';
+import ical, { ICalCalendarMethod, ICalEventStatus } from 'ical-generator';
 import { formatMoney } from '$lib/domain/money';
 import { preparationChecklist } from '$lib/domain/preparation';
 import { formatDate, formatTime } from '$lib/format';
@@ -120,4 +120,65 @@ export function composeConfirmation(f: ConfirmationFacts, now = new Date()): Com
 		text,
 		ics: bookingCalendarFile(f, now)
 	};
+}
+
+export interface CancellationFacts extends ConfirmationFacts {
+	refund: number;
+	retained: number;
+	rule: string;
+}
+
+/**
+ * The calendar file that takes a cancelled session off the artist's calendar: the same UID with a
+ * higher SEQUENCE, STATUS:CANCELLED and METHOD:CANCEL (RFC 5545 §3.8.1.11, RFC 5546 §3.2.5).
+ */
+export function cancellationCalendarFile(f: ConfirmationFacts, now = new Date()): string {
+	const cal = ical({
+		prodId: { company: 'Slateroom', product: 'Bookings', language: 'EN' },
+		method: ICalCalendarMethod.CANCEL,
+		name: f.studio.name
+	});
+	cal.createEvent({
+		id: f.bookingId,
+		sequence: f.sequence + 1,
+		stamp: now,
+		start: f.startsAt,
+		end: f.endsAt,
+		summary: `Cancelled: ${f.roomName} at ${f.studio.name}`,
+		status: ICalEventStatus.CANCELLED,
+		url: f.bookingUrl
+	});
+	return cal.toString();
+}
+
+export function composeCancellation(f: CancellationFacts, now = new Date()): ComposedMail {
+	const { timeZone, locale } = f.studio;
+	const money = (minor: number) => formatMoney(minor, f.currency, locale);
+	const day = formatDate(f.startsAt, timeZone, locale);
+	const from = formatTime(f.startsAt, timeZone, locale);
+	const to = formatTime(f.endsAt, timeZone, locale);
+	const text = [
+		`Hello ${f.artistName},`,
+		'',
+		`your session at ${f.studio.name} is cancelled.`,
+		'',
+		`  When:      ${day}, ${from}–${to} (${timeZone} time)`,
+		`  Room:      ${f.roomName}`,
+		`  Reference: ${f.reference}`,
+		'',
+		`Cancellation terms: ${f.rule}.`,
+		f.refund > 0
+			? `Refund: ${money(f.refund)}, back to the card you paid with; a credit note follows once it has gone through.`
+			: 'Refund: none.',
+		f.retained > 0 ? `Kept by the studio: ${money(f.retained)}.` : null,
+		'',
+		`Your booking and its documents: ${f.bookingUrl}`,
+		'The attached calendar file takes the session off your calendar.',
+		'',
+		f.studio.name,
+		f.studio.email
+	]
+		.filter((line) => line !== null)
+		.join('\n');
+	return { subject: `Cancelled: ${f.roomName} on ${day}, ${from}–${to}`, text, ics: cancellationCalendarFile(f, now) };
 }

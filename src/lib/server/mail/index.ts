@@ -3,16 +3,16 @@
 import { and, eq } from 'drizzle-orm';
 import { booking, bookingGear, gearItem, room, studio, user } from '../db/schema';
 import { addPeriodicJob } from '../jobs';
-import { onBookingConfirmed } from '../payments';
+import { onBookingCancelled, onBookingConfirmed, type CancellationFact } from '../payments';
 import type { Tx } from '../payments/core';
-import { composeConfirmation } from './confirmation';
+import { composeCancellation, composeConfirmation, type ConfirmationFacts } from './confirmation';
 import { enqueueMail, flushOutbox, flushSoon } from './outbox';
 import { publicOrigin } from './transport';
 
 export { flushOutbox } from './outbox';
 
-/** Queues the confirmation of a booking inside the transaction that confirms it. */
-export async function queueConfirmation(tx: Tx, bookingId: string): Promise<void> {
+/** What a message about a booking says, read inside the transaction that changes the booking. */
+async function bookingFacts(tx: Tx, bookingId: string): Promise<ConfirmationFacts | null> {
 	const [row] = await tx
 		.select({ b: booking, roomName: room.name, artistName: user.name, artistEmail: user.email })
 		.from(booking)
@@ -20,7 +20,7 @@ export async function queueConfirmation(tx: Tx, bookingId: string): Promise<void
 		.innerJoin(user, eq(user.id, booking.artistId))
 		.where(eq(booking.id, bookingId));
 	const [s] = await tx.select().from(studio).where(eq(studio.id, 1));
-	if (!row || !s) return;
+	if (!row || !s) return null;
 	const b = row.b;
 	const [engineer] = b.engineerId ? await tx.select({ name: user.name }).from(user).where(eq(user.id, b.engineerId)) : [];
 	const gear = await tx
@@ -29,7 +29,7 @@ export async function queueConfirmation(tx: Tx, bookingId: string): Promise<void
 		.innerJoin(gearItem, eq(gearItem.id, bookingGear.gearItemId))
 		.where(and(eq(bookingGear.bookingId, b.id), eq(bookingGear.active, true)));
 	const quote = b.quote as { lines?: { label: string; amount: number }[] };
-	const mail = composeConfirmation({
+	return {
 		bookingId: b.id,
 		reference: b.reference,
 		sequence: b.sequence,
@@ -47,15 +47,45 @@ export async function queueConfirmation(tx: Tx, bookingId: string): Promise<void
 		lines: (quote.lines ?? []).map((l) => ({ label: l.label, amount: l.amount })),
 		studio: s,
 		bookingUrl: `${publicOrigin()}/bookings/${b.id}`
-	});
+	};
+}
+
+const calendarAttachment = (reference: string, ics: string, method: 'PUBLISH' | 'CANCEL') => ({
+	filename: `${reference}.ics`,
+	contentType: `text/calendar; charset=utf-8; method=${method}`,
+	content: ics
+});
+
+/** Queues the confirmation of a booking inside the transaction that confirms it. */
+export async function queueConfirmation(tx: Tx, bookingId: string): Promise<void> {
+	const facts = await bookingFacts(tx, bookingId);
+	if (!facts) return;
+	const mail = composeConfirmation(facts);
 	await enqueueMail(tx, {
-		dedupeKey: `booking-confirmed:${b.id}`,
-		to: row.artistEmail,
+		dedupeKey: `booking-confirmed:${bookingId}`,
+		to: facts.artistEmail,
 		subject: mail.subject,
 		text: mail.text,
-		attachments: [
-			{ filename: `${b.reference}.ics`, contentType: 'text/calendar; charset=utf-8; method=PUBLISH', content: mail.ics }
-		]
+		attachments: [calendarAttachment(facts.reference, mail.ics, 'PUBLISH')]
+	});
+	flushSoon();
+}
+
+/**
+ * Queues the notice of a cancellation inside the transaction that cancels: what comes back by the
+ * policy, and a calendar file that removes the session. A hold nobody paid for gets no message.
+ */
+export async function queueCancellation(tx: Tx, fact: CancellationFact): Promise<void> {
+	if (fact.was === 'held') return;
+	const facts = await bookingFacts(tx, fact.bookingId);
+	if (!facts) return;
+	const mail = composeCancellation({ ...facts, refund: fact.refund, retained: fact.retained, rule: fact.rule });
+	await enqueueMail(tx, {
+		dedupeKey: `booking-cancelled:${fact.bookingId}`,
+		to: facts.artistEmail,
+		subject: mail.subject,
+		text: mail.text,
+		attachments: [calendarAttachment(facts.reference, mail.ics, 'CANCEL')]
 	});
 	flushSoon();
 }
@@ -66,5 +96,6 @@ export function registerMail() {
 	if (registered) return;
 	registered = true;
 	onBookingConfirmed(queueConfirmation);
+	onBookingCancelled(queueCancellation);
 	addPeriodicJob(() => flushOutbox());
 }

@@ -12,7 +12,14 @@ export async function startDepositCheckout(bookingId: string, origin: string): P
 
 export { startCheckout, CheckoutError, type CheckoutKind } from './checkout';
 export { loadMoneyPanel } from './panel';
-export { cancelBooking, previewCancellation, retryFailedRefunds, cancelAccess } from './refunds';
+export {
+	cancelBooking,
+	previewCancellation,
+	retryFailedRefunds,
+	cancelAccess,
+	onBookingCancelled,
+	type CancellationFact
+} from './refunds';
 export { closeBooking } from './close';
 export { processStripeEvent } from './webhook';
 export { onBookingConfirmed } from './state';

@@ -21,13 +21,32 @@ import {
 	type BookingRow,
 	type MoneyState,
 	type PaymentRow,
-	type RefundRow
+	type RefundRow,
+	type Tx
 } from './core';
 import { applyRefundObject, auditTx, queueRefund, unresolvedFailures } from './state';
 import { expireSession } from './checkout';
 import { stripe } from './stripe';
 import { refundForCancellation } from '$lib/domain/pricing';
 import { toStripeAmount } from '$lib/domain/money';
+
+export interface CancellationFact {
+	bookingId: string;
+	/** The status the booking had before it was cancelled. */
+	was: string;
+	/** What the ladder gives back now, in minor units, and the rung that decided it. */
+	refund: number;
+	rule: string;
+	/** What was paid and stays with the studio. */
+	retained: number;
+}
+type CancellationListener = (tx: Tx, fact: CancellationFact) => Promise<void>;
+const cancellationListeners: CancellationListener[] = [];
+
+/** Other modules (the cancellation e-mail) run inside the transaction that cancels a booking. */
+export function onBookingCancelled(listener: CancellationListener) {
+	cancellationListeners.push(listener);
+}
 
 export const CANCELLABLE = ['held', 'pending', 'confirmed'] as const;
 
@@ -147,6 +166,9 @@ export async function cancelBooking(
 			cancelReason: input.reason?.trim() || null,
 			holdExpiresAt: null
 		});
+		for (const listener of cancellationListeners) {
+			await listener(tx, { bookingId: b.id, was: b.status, refund: r.refund, rule: r.rungLabel, retained: r.retained });
+		}
 		// The refund comes out of the paid payments, the deposit first.
 		const refunds: RefundRow[] = [];
 		let left = r.refund;
