@@ -5,6 +5,8 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, asc, eq, inArray, like } from 'drizzle-orm';
 import { testDb } from '../support/db';
+import { signedIn } from '../support/http';
+import { DEMO } from '../support/env';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -66,5 +68,20 @@ describe('the demo ledger', () => {
 			.from(t.booking)
 			.where(and(eq(t.booking.id, first!.id), eq(t.booking.status, 'completed')));
 		expect(row?.actualEndsAt?.getTime()).toBe(first!.endsAt.getTime());
+	});
+
+	it('puts the balance still owed on the owner’s desk', async () => {
+		const owner = await signedIn(DEMO.owner);
+		const res = await owner.fetch('/studio', { headers: { accept: 'text/html' } });
+		expect(res.status).toBe(200);
+		const html = await res.text();
+		const desk = html.slice(html.indexOf('data-testid="attention"'));
+		expect(desk).toContain('Needs you');
+		// HP-DEMO2's final invoice is left unpaid by the demo ledger.
+		expect(desk).toMatch(/Balance owed:.*?HP-DEMO2/s);
+		// HP-DEMO1 is paid in full, so no item of the list names it.
+		const items = desk.slice(0, desk.indexOf('</ul>')).split('<li').slice(1);
+		expect(items.some((li) => li.includes('Balance owed') && li.includes('HP-DEMO2'))).toBe(true);
+		expect(items.some((li) => li.includes('HP-DEMO1'))).toBe(false);
 	});
 });

@@ -2,13 +2,16 @@ import { and, eq, gte, inArray, lt, sql } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { booking, room, user } from '$lib/server/db/schema';
 import { requireRole } from '$lib/server/guard';
+import { getStudio } from '$lib/server/studio';
+import { currentMonth, monthReport } from '$lib/server/invoices/month';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
 	const now = new Date();
 	const weekAhead = new Date(now.getTime() + 7 * 24 * 3600 * 1000);
-	const [upcoming, counts] = await Promise.all([
+	const studio = await getStudio();
+	const [upcoming, counts, books, toClose] = await Promise.all([
 		db
 			.select({
 				id: booking.id,
@@ -37,10 +40,31 @@ export const load: PageServerLoad = async ({ locals }) => {
 			.select({ status: booking.status, n: sql<number>`count(*)::int` })
 			.from(booking)
 			.where(gte(booking.endsAt, now))
-			.groupBy(booking.status)
+			.groupBy(booking.status),
+		// What is owed and which refunds failed, whatever their month (the month report keeps both).
+		monthReport(currentMonth(studio.timeZone), studio.timeZone, studio.currency),
+		// Sessions over but not closed: their end and any overtime are not recorded, so no final invoice yet.
+		db
+			.select({
+				id: booking.id,
+				reference: booking.reference,
+				startsAt: booking.startsAt,
+				endsAt: booking.endsAt,
+				artist: user.name
+			})
+			.from(booking)
+			.innerJoin(user, eq(user.id, booking.artistId))
+			.where(and(eq(booking.status, 'confirmed'), lt(booking.endsAt, now)))
+			.orderBy(booking.endsAt)
+			.limit(20)
 	]);
 	return {
 		upcoming: upcoming.map((b) => ({ ...b, startsAt: b.startsAt.toISOString(), endsAt: b.endsAt.toISOString() })),
-		counts: Object.fromEntries(counts.map((c) => [c.status, c.n])) as Record<string, number>
+		counts: Object.fromEntries(counts.map((c) => [c.status, c.n])) as Record<string, number>,
+		attention: {
+			owed: books.outstanding,
+			failedRefunds: books.failedRefunds,
+			toClose: toClose.map((b) => ({ ...b, startsAt: b.startsAt.toISOString(), endsAt: b.endsAt.toISOString() }))
+		}
 	};
 };
