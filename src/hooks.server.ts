@@ -92,6 +92,8 @@ const sessionIntoLocals: Handle = async ({ event, resolve }) => {
 	event.locals.session = null;
 	event.locals.role = null;
 	if (event.url.pathname === '/api/health' || event.url.pathname.startsWith('/_app/')) return resolve(event);
+	// Sessions live in a cookie: a request without one (most public calendar traffic) has none.
+	if (!event.request.headers.get('cookie')) return resolve(event);
 	try {
 		const found = await auth.api.getSession({ headers: event.request.headers });
 		if (found) {
