@@ -19,7 +19,7 @@ import { isYmd as isCalendarDate } from '$lib/domain/availability/calendar';
 import { publicHolidayChecker, publicHolidayList } from '$lib/domain/holidays';
 import type { StudioPolicy } from '$lib/domain/types';
 import type { SessionUser } from './auth';
-import { isoInZone } from './time';
+import { isoInZone, localYmd } from './time';
 
 export type FieldErrors = Record<string, string[]>;
 
@@ -84,10 +84,6 @@ function nextYmd(ymd: string): string {
 	const d = new Date(`${ymd}T00:00:00Z`);
 	d.setUTCDate(d.getUTCDate() + 1);
 	return d.toISOString().slice(0, 10);
-}
-
-function localYmd(instant: Date, timeZone: string): string {
-	return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(instant);
 }
 
 export type Priced =

@@ -17,3 +17,10 @@ export function isoInZone(instant: Date, timeZone: string): string {
 	const minutes = Math.abs(offset) / 60_000;
 	return `${date}T${time}${offset < 0 ? '-' : '+'}${pad(Math.floor(minutes / 60))}:${pad(minutes % 60)}`;
 }
+
+/** The local date (YYYY-MM-DD) of an instant in a zone; an ISO string is read as an instant. */
+export function localYmd(instant: Date | string, timeZone: string): string {
+	return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(
+		typeof instant === 'string' ? new Date(instant) : instant
+	);
+}

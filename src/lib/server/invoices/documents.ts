@@ -26,15 +26,12 @@ import {
 } from '$lib/domain/invoice';
 import type { PriceLine, Quote } from '$lib/domain/pricing';
 import { formatDate, formatMoney, formatTime } from '$lib/format';
+import { localYmd } from '../time';
 
 type StudioRow = typeof studio.$inferSelect;
 
 export function supplierOf(s: StudioRow): Party {
 	return { name: s.name, addressLines: s.addressLines, country: s.country, vatId: s.vatId, email: s.email };
-}
-
-export function localYmd(instant: Date, timeZone: string): string {
-	return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(instant);
 }
 
 async function studioOf(tx: Tx): Promise<StudioRow> {

@@ -4,6 +4,7 @@
 // notes and refunds count negatively, so each amount column adds up to the month's figure.
 import { zipSync, strToU8 } from 'fflate';
 import { toDecimalString } from '$lib/domain/money';
+import { localYmd } from '../time';
 import { toCsv, type CsvColumn } from '$lib/domain/csv';
 import { DOCUMENT_TYPE } from '$lib/domain/invoice/numbering';
 import { documentForViewer } from './access';
@@ -17,10 +18,6 @@ type Pay = MonthReport['payments'][number];
 type Ref = MonthReport['refunds'][number];
 type Vat = MonthReport['vatByRate'][number];
 
-function localDate(iso: string, timeZone: string): string {
-	return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(iso));
-}
-
 export function monthRegisters(report: MonthReport, timeZone: string): Record<string, string> {
 	const amount = (minor: number) => toDecimalString(minor, report.currency);
 	const signOf = (d: Doc) => (d.typeCode === DOCUMENT_TYPE.creditNote ? -1 : 1);
@@ -28,7 +25,7 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 		{ header: 'Number', kind: 'text', value: (d) => d.number },
 		{ header: 'Type code (UNTDID 1001)', kind: 'number', value: (d) => String(d.typeCode) },
 		{ header: 'Kind', kind: 'text', value: (d) => d.kind },
-		{ header: 'Issue date', kind: 'date', value: (d) => localDate(d.issuedAt, timeZone) },
+		{ header: 'Issue date', kind: 'date', value: (d) => localYmd(d.issuedAt, timeZone) },
 		{ header: 'Booking', kind: 'text', value: (d) => d.bookingReference ?? '' },
 		{ header: 'Customer', kind: 'text', value: (d) => d.customer },
 		{ header: 'Refers to', kind: 'text', value: (d) => d.precedingNumber ?? '' },
@@ -42,7 +39,7 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 		{ header: 'Currency', kind: 'text', value: (d) => d.currency }
 	];
 	const payments: CsvColumn<Pay>[] = [
-		{ header: 'Paid on', kind: 'date', value: (p) => localDate(p.paidAt, timeZone) },
+		{ header: 'Paid on', kind: 'date', value: (p) => localYmd(p.paidAt, timeZone) },
 		{ header: 'Booking', kind: 'text', value: (p) => p.bookingReference },
 		{ header: 'Artist', kind: 'text', value: (p) => p.artist },
 		{ header: 'For', kind: 'text', value: (p) => p.kind },
@@ -50,7 +47,7 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 		{ header: 'Currency', kind: 'text', value: (p) => p.currency }
 	];
 	const refunds: CsvColumn<Ref>[] = [
-		{ header: 'Created on', kind: 'date', value: (r) => localDate(r.createdAt, timeZone) },
+		{ header: 'Created on', kind: 'date', value: (r) => localYmd(r.createdAt, timeZone) },
 		{ header: 'Booking', kind: 'text', value: (r) => r.bookingReference },
 		{ header: 'Artist', kind: 'text', value: (r) => r.artist },
 		{ header: 'Status', kind: 'text', value: (r) => r.status },

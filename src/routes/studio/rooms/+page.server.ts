@@ -4,6 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/guard';
 import { getStudio, listRooms } from '$lib/server/studio';
+import { localYmd } from '$lib/server/time';
 import * as inventory from '$lib/server/inventory';
 import * as blackouts from '$lib/server/blackouts';
 import { zodFieldErrors } from '$lib/server/bookings';
@@ -36,7 +37,7 @@ export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
 	const [studio, rooms, gear] = await Promise.all([getStudio(), listRooms({ includeInactive: true }), inventory.listGear()]);
 	const currency = studio.currency;
-	const upcoming = await blackouts.listUpcoming(localToday(studio.timeZone));
+	const upcoming = await blackouts.listUpcoming(localYmd(new Date(), studio.timeZone));
 	const [roomForms, gearForms, newGear] = await Promise.all([
 		Promise.all(
 			rooms.map((r) =>
@@ -68,10 +69,6 @@ export const load: PageServerLoad = async ({ locals }) => {
 		blackouts: upcoming.map((b) => ({ id: b.id, startsOn: b.startsOn, endsOn: b.endsOn, reason: b.reason }))
 	};
 };
-
-function localToday(timeZone: string): string {
-	return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date());
-}
 
 type Clash = Awaited<ReturnType<typeof blackouts.confirmedBookingsOn>>[number];
 interface BlackoutResult {
