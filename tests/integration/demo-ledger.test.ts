@@ -5,14 +5,13 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, asc, eq, inArray, like } from 'drizzle-orm';
 import { testDb } from '../support/db';
+import { sleep } from '../support/wait';
 import { signedIn } from '../support/http';
 import { DEMO } from '../support/env';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
 afterAll(() => client.end());
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 describe('the demo ledger', () => {
 	it('gives every demo session a paid deposit and its invoice, and the finished ones their final invoice', async () => {

@@ -5,14 +5,14 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import ical from 'node-ical';
 import { Client, signedIn } from '../support/http';
-import { APP_URL, DEMO, STRIPE_API_BASE } from '../support/env';
+import { APP_URL, DEMO } from '../support/env';
 import { testDb } from '../support/db';
+import { sleep } from '../support/wait';
+import { payOnFake } from '../support/stripe-fake';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
 afterAll(() => client.end());
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 async function tokenOf(email: string): Promise<string | undefined> {
 	const [row] = await db
@@ -61,12 +61,7 @@ describe('the calendar feed', () => {
 		expect(demoEvent!.summary).toContain('Noa Virta');
 
 		const sessionId = booked!.checkoutUrl.split('/pay/')[1]!;
-		const paid = await fetch(`${STRIPE_API_BASE}/_control/sessions/${sessionId}/pay`, {
-			method: 'POST',
-			headers: { 'content-type': 'application/json' },
-			body: '{}'
-		});
-		expect(paid.status).toBe(200);
+		expect(await payOnFake(sessionId)).toBe(200);
 		let after: ical.VEvent | undefined;
 		for (let i = 0; i < 50 && !after; i++) {
 			after = vevents((await feed(token!)).text).find((e) => e.uid === booked!.id);

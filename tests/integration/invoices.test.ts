@@ -9,8 +9,10 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, desc, eq, inArray, isNotNull } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
-import { DATABASE_URL, DEMO, STRIPE_API_BASE } from '../support/env';
+import { DATABASE_URL, DEMO } from '../support/env';
 import { testDb } from '../support/db';
+import { sleep, waitFor } from '../support/wait';
+import { payOnFake } from '../support/stripe-fake';
 import { createDb } from '../../src/lib/server/db/client';
 import * as t from '../../src/lib/server/db/schema';
 import { issueDocument, linesOf, storedTotals, type InvoiceRow } from '../../src/lib/server/invoices/issue';
@@ -27,17 +29,6 @@ import type { Quote } from '../../src/lib/domain/pricing';
 
 const { db, client } = testDb();
 afterAll(() => client.end());
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-async function waitFor<T>(check: () => Promise<T | undefined | null | false>, what: string, ms = 10_000): Promise<T> {
-	const until = Date.now() + ms;
-	for (;;) {
-		const v = await check();
-		if (v !== undefined && v !== null && v !== false) return v;
-		if (Date.now() > until) throw new Error(`timed out after ${ms} ms waiting for ${what}`);
-		await sleep(100);
-	}
-}
 
 const finnishHoliday = publicHolidayChecker('FI');
 function farWeekday(): string {
@@ -67,11 +58,7 @@ async function bookAndPay(who: Client, room: string, endHour: string): Promise<B
 		expect(res.status).toBe(201);
 		const b = { ...((await res.json()) as Omit<Booked, 'start' | 'end'>), start, end };
 		const sessionId = b.checkoutUrl.split('/pay/')[1]!;
-		await fetch(`${STRIPE_API_BASE}/_control/sessions/${sessionId}/pay`, {
-			method: 'POST',
-			headers: { 'content-type': 'application/json' },
-			body: '{}'
-		});
+		await payOnFake(sessionId);
 		await waitFor(
 			async () => (await db.select().from(t.booking).where(eq(t.booking.id, b.id)))[0]?.status === 'confirmed',
 			'confirmed'

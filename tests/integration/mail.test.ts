@@ -8,6 +8,8 @@ import Stripe from 'stripe';
 import { signedIn, type Client } from '../support/http';
 import { APP_URL, DEMO, MAIL_API, STRIPE_API_BASE } from '../support/env';
 import { testDb } from '../support/db';
+import { sleep, waitFor } from '../support/wait';
+import { payOnFake } from '../support/stripe-fake';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -15,18 +17,6 @@ afterAll(() => client.end());
 
 const fakeUrl = new URL(STRIPE_API_BASE);
 const stripe = new Stripe('sk_test_mail_spec', { host: fakeUrl.hostname, port: Number(fakeUrl.port), protocol: 'http' });
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-
-async function waitFor<T>(check: () => Promise<T | undefined | null | false>, what: string, ms = 20_000): Promise<T> {
-	const until = Date.now() + ms;
-	for (;;) {
-		const v = await check();
-		if (v !== undefined && v !== null && v !== false) return v;
-		if (Date.now() > until) throw new Error(`timed out after ${ms} ms waiting for ${what}`);
-		await sleep(200);
-	}
-}
 
 interface CaughtMail {
 	id: string;
@@ -72,16 +62,12 @@ describe('the confirmation e-mail', () => {
 		await sleep(1500);
 		expect((await mailTo(DEMO.artist)).filter((m) => m.text.includes(b.id))).toHaveLength(0);
 
-		const paid = await fetch(`${STRIPE_API_BASE}/_control/sessions/${b.sessionId}/pay`, {
-			method: 'POST',
-			headers: { 'content-type': 'application/json' },
-			body: '{}'
-		});
-		expect(paid.status).toBe(200);
+		expect(await payOnFake(b.sessionId)).toBe(200);
 
 		const mail = await waitFor(
 			async () => (await mailTo(DEMO.artist)).find((m) => m.text.includes(`/bookings/${b.id}`)),
-			'the confirmation in the mail catcher'
+			'the confirmation in the mail catcher',
+			20_000
 		);
 		expect(mail.subject).toMatch(/^Booked: Control room on \w+, \d{1,2} \w+ \d{4}, 19:00–21:00$/);
 		expect(mail.from[0]!.name).toBe('Hollow Pine Studio');

@@ -17,6 +17,7 @@ import Stripe from 'stripe';
 import { Client, signedIn } from '../support/http';
 import { APP_URL, DEMO, STRIPE_API_BASE } from '../support/env';
 import { testDb } from '../support/db';
+import { sleep, waitFor } from '../support/wait';
 import * as t from '../../src/lib/server/db/schema';
 import { publicHolidayChecker } from '../../src/lib/domain/holidays';
 
@@ -28,18 +29,6 @@ const fakeUrl = new URL(STRIPE_API_BASE);
 const stripe = new Stripe('sk_test_payments_spec', { host: fakeUrl.hostname, port: Number(fakeUrl.port), protocol: 'http' });
 
 // ---- helpers ---------------------------------------------------------------------------------
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-
-async function waitFor<T>(check: () => Promise<T | undefined | null | false>, what: string, ms = 10_000): Promise<T> {
-	const until = Date.now() + ms;
-	for (;;) {
-		const v = await check();
-		if (v !== undefined && v !== null && v !== false) return v;
-		if (Date.now() > until) throw new Error(`timed out after ${ms} ms waiting for ${what}`);
-		await sleep(100);
-	}
-}
 
 async function control(path: string, body?: unknown) {
 	const res = await fetch(`${STRIPE_API_BASE}/_control${path}`, {

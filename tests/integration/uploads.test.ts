@@ -7,8 +7,10 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
-import { DEMO, STRIPE_API_BASE } from '../support/env';
+import { DEMO } from '../support/env';
 import { testDb } from '../support/db';
+import { sleep } from '../support/wait';
+import { payOnFake } from '../support/stripe-fake';
 import { weekdayAhead } from '../support/dates';
 import * as t from '../../src/lib/server/db/schema';
 
@@ -20,7 +22,6 @@ const UPLOAD_DIR = process.env.UPLOAD_DIR ?? path.resolve('.data/test-uploads');
 const MAX_FILE = Number(process.env.UPLOAD_MAX_BYTES ?? 4 * 1024 * 1024);
 const BODY_LIMIT = Number(process.env.BODY_SIZE_LIMIT ?? MAX_FILE + 1024 * 1024);
 
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const sha256 = (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
 
 /** A mono 16-bit 8 kHz PCM WAV: the 44-byte RIFF/WAVE header, then `samples` of a 440 Hz sine. */
@@ -66,12 +67,7 @@ async function book(who: Client): Promise<{ id: string; checkoutUrl: string; day
 
 async function payDeposit(bookingId: string, checkoutUrl: string) {
 	const session = checkoutUrl.split('/pay/')[1]!;
-	const paid = await fetch(`${STRIPE_API_BASE}/_control/sessions/${session}/pay`, {
-		method: 'POST',
-		headers: { 'content-type': 'application/json' },
-		body: '{}'
-	});
-	expect(paid.status).toBe(200);
+	expect(await payOnFake(session)).toBe(200);
 	for (let i = 0; i < 100; i++) {
 		const [row] = await db.select({ status: t.booking.status }).from(t.booking).where(eq(t.booking.id, bookingId));
 		if (row?.status === 'confirmed') return;

@@ -1,0 +1,13 @@
+// Waiting for what the server does on its own (webhooks, the outbox, the periodic jobs).
+export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+/** Polls `check` every 100 ms until it gives something other than undefined, null or false. */
+export async function waitFor<T>(check: () => Promise<T | undefined | null | false>, what: string, ms = 10_000): Promise<T> {
+	const until = Date.now() + ms;
+	for (;;) {
+		const v = await check();
+		if (v !== undefined && v !== null && v !== false) return v;
+		if (Date.now() > until) throw new Error(`timed out after ${ms} ms waiting for ${what}`);
+		await sleep(100);
+	}
+}
