@@ -5,7 +5,7 @@ import { and, asc, desc, eq, gt, gte, inArray, isNull, lt, lte, or, sql } from '
 import { z } from 'zod';
 import { db } from './db';
 import { blackout, booking, bookingGear, gearItem, room, user, ACTIVE_BOOKING_STATUSES, type BookingStatus } from './db/schema';
-import { getPolicy, roomRates, type RoomRow, type StudioRow } from './studio';
+import { getPolicy, getRoomBySlug, roomRates, type RoomRow, type StudioRow } from './studio';
 import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
 import {
 	AvailabilityInputError,
@@ -110,9 +110,9 @@ export async function priceRequest(input: unknown, now = new Date()): Promise<Pr
 	const ctx = await pricingContext();
 	const tz = ctx.policy.timeZone;
 
-	const [roomRow] = await db.select().from(room).where(eq(room.slug, req.room));
+	const roomRow = await getRoomBySlug(req.room);
 	const fields: FieldErrors = {};
-	if (!roomRow || !roomRow.active) fields.room = ['There is no room by that name.'];
+	if (!roomRow) fields.room = ['There is no room by that name.'];
 
 	const times: { start?: Date; end?: Date } = {};
 	for (const key of ['start', 'end'] as const) {
@@ -185,19 +185,19 @@ export function publicQuote(q: Quote) {
 
 const AVAILABILITY_MAX_DAYS = 62;
 
+/** An active booking, leaving out holds whose time ran out (they no longer keep anyone out). */
+function stillActive(now: Date) {
+	return and(
+		inArray(booking.status, ACTIVE_BOOKING_STATUSES),
+		or(sql`${booking.status} <> 'held'`, gt(booking.holdExpiresAt, now), isNull(booking.holdExpiresAt))
+	);
+}
+
 export async function busyIntervals(roomId: string, from: Date, to: Date, now = new Date()) {
 	const rows = await db
 		.select({ start: booking.startsAt, end: booking.endsAt })
 		.from(booking)
-		.where(
-			and(
-				eq(booking.roomId, roomId),
-				inArray(booking.status, ACTIVE_BOOKING_STATUSES),
-				or(sql`${booking.status} <> 'held'`, gt(booking.holdExpiresAt, now), isNull(booking.holdExpiresAt)),
-				lt(booking.startsAt, to),
-				gt(booking.busyUntil, from)
-			)
-		)
+		.where(and(eq(booking.roomId, roomId), stillActive(now), lt(booking.startsAt, to), gt(booking.busyUntil, from)))
 		.orderBy(asc(booking.startsAt));
 	return rows;
 }
@@ -237,8 +237,8 @@ export async function availability(
 	if (days > AVAILABILITY_MAX_DAYS)
 		return { ok: false, fields: { to: [`Ask for at most ${AVAILABILITY_MAX_DAYS} days at a time.`] } };
 
-	const [roomRow] = await db.select().from(room).where(eq(room.slug, params.room!));
-	if (!roomRow || !roomRow.active) return { ok: false, fields: { room: ['There is no room by that name.'] } };
+	const roomRow = await getRoomBySlug(params.room!);
+	if (!roomRow) return { ok: false, fields: { room: ['There is no room by that name.'] } };
 	const ctx = await pricingContext();
 	const tz = ctx.policy.timeZone;
 	// A generous window around the local dates: a day is at most 26 hours from UTC midnight.
@@ -267,14 +267,6 @@ export interface BookingNeeds {
 	gearIds?: readonly string[];
 	/** A booking of the artist's own to leave out (one whose hold ran out). */
 	exceptBookingId?: string;
-}
-
-/** An active booking, leaving out holds whose time ran out (they no longer keep anyone out). */
-function stillActive(now: Date) {
-	return and(
-		inArray(booking.status, ACTIVE_BOOKING_STATUSES),
-		or(sql`${booking.status} <> 'held'`, gt(booking.holdExpiresAt, now), isNull(booking.holdExpiresAt))
-	);
 }
 
 /**
@@ -383,8 +375,8 @@ export async function rebookable(
 ): Promise<{ free: true } | { free: false; taken: 'room' | 'engineer' | 'gear' }> {
 	const ctx = await pricingContext();
 	const tz = ctx.policy.timeZone;
-	const [roomRow] = await db.select().from(room).where(eq(room.slug, b.roomSlug));
-	if (!roomRow || !roomRow.active) return { free: false, taken: 'room' };
+	const roomRow = await getRoomBySlug(b.roomSlug);
+	if (!roomRow) return { free: false, taken: 'room' };
 	const start = b.startsAt.getTime();
 	const minutes = Math.round((b.endsAt.getTime() - start) / 60_000);
 	const date = localYmd(b.startsAt, tz);

@@ -30,7 +30,7 @@ import {
 import { db } from './db';
 import { booking, upload, type BookingStatus } from './db/schema';
 import { addPeriodicJob } from './jobs';
-import type { IncomingFile } from './multipart';
+import { isBodyTooLarge, type IncomingFile } from './multipart';
 import type { SessionUser } from './auth';
 
 export type UploadRow = typeof upload.$inferSelect;
@@ -123,11 +123,12 @@ export type UploadSummary = Awaited<ReturnType<typeof summariesFor>>[number];
 export async function listForViewer(actor: SessionUser, bookingId: string) {
 	const g = await gate(actor, bookingId, 'read');
 	if (!g.ok) return g;
-	const [rows, used] = await Promise.all([summariesFor([bookingId]), usage(bookingId)]);
+	const rows = await summariesFor([bookingId]);
 	return {
 		ok: true as const,
 		uploads: rows,
-		usage: used,
+		// The rows are the booking's files already: what they use needs no second query.
+		usage: { files: rows.length, bytes: rows.reduce((sum, r) => sum + r.sizeBytes, 0) } satisfies BookingUsage,
 		limits: limits(),
 		open: uploadsOpen(g.booking),
 		mayChange: roleMay(actor, 'write')
@@ -206,7 +207,7 @@ export async function save(
 					next = await source.next();
 				} catch (e) {
 					// The body broke off or passed BODY_SIZE_LIMIT while this file was arriving.
-					if (isTooLarge(e)) return tooLarge(`A file can be at most ${formatBytes(lim.maxFileBytes)}.`);
+					if (isBodyTooLarge(e)) return tooLarge(`A file can be at most ${formatBytes(lim.maxFileBytes)}.`);
 					return fail(422, 'incomplete', 'The upload did not arrive whole. Please try again.');
 				}
 				if (next.done) break;
@@ -274,10 +275,6 @@ export async function save(
 	} finally {
 		if (leftover) await rm(leftover, { force: true });
 	}
-}
-
-function isTooLarge(e: unknown): boolean {
-	return !!e && typeof e === 'object' && 'status' in e && (e as { status: unknown }).status === 413;
 }
 
 /** A file to download, for someone who may see its booking. */

@@ -63,7 +63,13 @@ export function surchargeShares(
 
 	for (const segment of localSegments(start, end, policy.timeZone)) {
 		const holiday = holidayRules.length > 0 && isHoliday(segment.ymd);
-		const candidates = rules.filter((rule) => (rule.kind === 'holiday' ? holiday : true));
+		// Once per local day: the rules that can cover any minute of it (windowCovers decides each minute).
+		const previous = segment.isoWeekday === 1 ? 7 : segment.isoWeekday - 1;
+		const candidates = rules.filter((rule) =>
+			rule.kind === 'holiday'
+				? holiday
+				: rule.weekdays.includes(segment.isoWeekday) || (rule.fromMinute > rule.toMinute && rule.weekdays.includes(previous))
+		);
 		if (candidates.length === 0) continue;
 		for (let k = 0; k < segment.minutes; k++) {
 			const minuteOfDay = segment.startMinuteOfDay + k;

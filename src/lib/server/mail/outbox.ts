@@ -45,8 +45,8 @@ export async function enqueueMail(tx: Tx, mail: OutgoingMail): Promise<void> {
  */
 export async function flushOutbox(limit = 20): Promise<number> {
 	let sent = 0;
-	const studio = await getStudio();
-	const from = mailFrom(studio.name, studio.email);
+	// The sender is read once a message is due, not on every tick of an empty outbox.
+	let from: string | undefined;
 	for (let i = 0; i < limit; i++) {
 		const outcome = await db.transaction(async (tx) => {
 			const [row] = await tx
@@ -63,6 +63,10 @@ export async function flushOutbox(limit = 20): Promise<number> {
 				.limit(1)
 				.for('update', { skipLocked: true });
 			if (!row) return 'none' as const;
+			if (from === undefined) {
+				const studio = await getStudio();
+				from = mailFrom(studio.name, studio.email);
+			}
 			const attachments = row.attachments ?? [];
 			try {
 				await mailTransport().sendMail({

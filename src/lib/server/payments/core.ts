@@ -124,6 +124,12 @@ export async function setBookingStatus(tx: Tx, bookingId: string, status: Bookin
 }
 
 /** Runs work for each item on its own: a failure is logged and the next item still runs. */
+/** Stripe's answer for an object it does not know (a 404, code resource_missing). */
+export function isMissing(e: unknown): boolean {
+	const err = e as { statusCode?: number; code?: string };
+	return err?.statusCode === 404 || err?.code === 'resource_missing';
+}
+
 export async function eachIsolated<T>(items: readonly T[], what: string, work: (item: T) => Promise<unknown>): Promise<number> {
 	let failed = 0;
 	for (const item of items) {

@@ -11,7 +11,7 @@ import type Stripe from 'stripe';
 import { db } from '../db';
 import { booking, payment } from '../db/schema';
 import { addPeriodicJob } from '../jobs';
-import { eachIsolated, inTransaction } from './core';
+import { eachIsolated, inTransaction, isMissing } from './core';
 import { applySession, setSenders } from './state';
 import { sendRefund, sweepRefunds } from './refunds';
 import { stripe } from './stripe';
@@ -45,11 +45,6 @@ export async function reconcileSession(session: Stripe.Checkout.Session): Promis
 		return inTransaction((tx, after) => applySession(tx, session, 'completed', after, paidAt));
 	}
 	return 'open';
-}
-
-function isMissing(e: unknown): boolean {
-	const err = e as { statusCode?: number; code?: string };
-	return err?.statusCode === 404 || err?.code === 'resource_missing';
 }
 
 /**

@@ -15,6 +15,7 @@ import type { SessionUser } from '../auth';
 import {
 	eachIsolated,
 	inTransaction,
+	isMissing,
 	loadMoneyState,
 	lockBooking,
 	setBookingStatus,
@@ -356,7 +357,7 @@ export async function sweepRefunds(now = new Date()): Promise<void> {
 		try {
 			r = await stripe().refunds.retrieve(stripeRefundId!);
 		} catch (e) {
-			if ((e as { statusCode?: number }).statusCode !== 404) throw e;
+			if (!isMissing(e)) throw e;
 			await markUnknownRefundFailed(stripeRefundId!);
 			return;
 		}
