@@ -2,16 +2,14 @@ import { and, eq, gte, inArray, lt, sql } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { booking, room, user } from '$lib/server/db/schema';
 import { requireRole } from '$lib/server/guard';
-import { getStudio } from '$lib/server/studio';
-import { currentMonth, monthReport } from '$lib/server/invoices/month';
+import { outstandingBalances, unresolvedFailedRefunds } from '$lib/server/invoices/month';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
 	const now = new Date();
 	const weekAhead = new Date(now.getTime() + 7 * 24 * 3600 * 1000);
-	const studio = await getStudio();
-	const [upcoming, counts, books, toClose] = await Promise.all([
+	const [upcoming, counts, owed, failedRefunds, toClose] = await Promise.all([
 		db
 			.select({
 				id: booking.id,
@@ -41,8 +39,9 @@ export const load: PageServerLoad = async ({ locals }) => {
 			.from(booking)
 			.where(gte(booking.endsAt, now))
 			.groupBy(booking.status),
-		// What is owed and which refunds failed, whatever their month (the month report keeps both).
-		monthReport(currentMonth(studio.timeZone), studio.timeZone, studio.currency),
+		// What is owed and which refunds failed, whatever their month (the month report lists both too).
+		outstandingBalances(now),
+		unresolvedFailedRefunds(),
 		// Sessions over but not closed: their end and any overtime are not recorded, so no final invoice yet.
 		db
 			.select({
@@ -62,8 +61,8 @@ export const load: PageServerLoad = async ({ locals }) => {
 		upcoming: upcoming.map((b) => ({ ...b, startsAt: b.startsAt.toISOString(), endsAt: b.endsAt.toISOString() })),
 		counts: Object.fromEntries(counts.map((c) => [c.status, c.n])) as Record<string, number>,
 		attention: {
-			owed: books.outstanding,
-			failedRefunds: books.failedRefunds,
+			owed,
+			failedRefunds,
 			toClose: toClose.map((b) => ({ ...b, startsAt: b.startsAt.toISOString(), endsAt: b.endsAt.toISOString() }))
 		}
 	};

@@ -92,9 +92,78 @@ export interface MonthReport {
 	totals: { invoiced: number; deposits: number; credited: number; received: number; refunded: number; owed: number; vat: number };
 }
 
+type RefundWithBooking = { r: typeof refund.$inferSelect; reference: string; artist: string };
+
+function refundRow(x: RefundWithBooking): MonthReport['refunds'][number] {
+	return {
+		id: x.r.id,
+		bookingId: x.r.bookingId,
+		bookingReference: x.reference,
+		artist: x.artist,
+		amount: x.r.amount,
+		status: x.r.status,
+		reason: x.r.reason,
+		failureReason: x.r.failureReason,
+		createdAt: x.r.createdAt.toISOString(),
+		currency: x.r.currency
+	};
+}
+
+/** Failed refunds not yet tried again, whatever their month: to resolve (the month report and the studio desk). */
+export async function unresolvedFailedRefunds(): Promise<MonthReport['failedRefunds']> {
+	const rows = await db
+		.select({ r: refund, reference: booking.reference, artist: user.name })
+		.from(refund)
+		.innerJoin(booking, eq(booking.id, refund.bookingId))
+		.innerJoin(user, eq(user.id, booking.artistId))
+		.where(inArray(refund.bookingId, db.select({ id: refund.bookingId }).from(refund).where(eq(refund.status, 'failed'))));
+	const unresolved = new Set(unresolvedFailures(rows.map((x) => x.r)).map((r) => r.id));
+	return rows.filter((x) => unresolved.has(x.r.id)).map(refundRow);
+}
+
+/** Final invoices issued before `to` whose balance is not paid (as of now). */
+export async function outstandingBalances(to: Date): Promise<MonthReport['outstanding']> {
+	const finals = await db
+		.select({ doc: invoice, reference: booking.reference, artist: user.name })
+		.from(invoice)
+		.innerJoin(booking, eq(booking.id, invoice.bookingId))
+		.innerJoin(user, eq(user.id, booking.artistId))
+		.where(and(eq(invoice.typeCode, 380), lt(invoice.issuedAt, to)));
+	const balancePaid = finals.length
+		? await db
+				.select({ bookingId: payment.bookingId, amount: payment.amount })
+				.from(payment)
+				.where(
+					and(
+						eq(payment.kind, 'balance'),
+						eq(payment.status, 'paid'),
+						inArray(
+							payment.bookingId,
+							finals.map((f) => f.doc.bookingId!)
+						)
+					)
+				)
+		: [];
+	return finals
+		.map((f) => {
+			const got = balancePaid.filter((p) => p.bookingId === f.doc.bookingId).reduce((s, p) => s + p.amount, 0);
+			return {
+				bookingId: f.doc.bookingId!,
+				bookingReference: f.reference,
+				artist: f.artist,
+				invoiceNumber: f.doc.displayNumber,
+				amountDue: f.doc.amountDue,
+				paid: got,
+				owed: f.doc.amountDue - got,
+				currency: f.doc.currency
+			};
+		})
+		.filter((o) => o.owed > 0);
+}
+
 export async function monthReport(month: string, timeZone: string, currency: string): Promise<MonthReport> {
 	const { from, to } = monthRange(month, timeZone);
-	const [docs, paid, refunds, failedAll, finals] = await Promise.all([
+	const [docs, paid, refunds, failedRefunds, outstanding] = await Promise.all([
 		db
 			.select({ doc: invoice, reference: booking.reference })
 			.from(invoice)
@@ -115,18 +184,8 @@ export async function monthReport(month: string, timeZone: string, currency: str
 			.innerJoin(user, eq(user.id, booking.artistId))
 			.where(and(gte(refund.createdAt, from), lt(refund.createdAt, to)))
 			.orderBy(asc(refund.createdAt)),
-		db
-			.select({ r: refund, reference: booking.reference, artist: user.name })
-			.from(refund)
-			.innerJoin(booking, eq(booking.id, refund.bookingId))
-			.innerJoin(user, eq(user.id, booking.artistId))
-			.where(inArray(refund.bookingId, db.select({ id: refund.bookingId }).from(refund).where(eq(refund.status, 'failed')))),
-		db
-			.select({ doc: invoice, reference: booking.reference, artist: user.name })
-			.from(invoice)
-			.innerJoin(booking, eq(booking.id, invoice.bookingId))
-			.innerJoin(user, eq(user.id, booking.artistId))
-			.where(and(eq(invoice.typeCode, 380), lt(invoice.issuedAt, to)))
+		unresolvedFailedRefunds(),
+		outstandingBalances(to)
 	]);
 	const byId = new Map(docs.map((d) => [d.doc.id, d.doc.displayNumber]));
 	const precedingIds = docs.map((d) => d.doc.precedingInvoiceId).filter((x): x is string => !!x && !byId.has(x));
@@ -137,51 +196,6 @@ export async function monthReport(month: string, timeZone: string, currency: str
 			.where(inArray(invoice.id, precedingIds)))
 			byId.set(p.id, p.n);
 	}
-
-	const balancePaid = finals.length
-		? await db
-				.select({ bookingId: payment.bookingId, amount: payment.amount })
-				.from(payment)
-				.where(
-					and(
-						eq(payment.kind, 'balance'),
-						eq(payment.status, 'paid'),
-						inArray(
-							payment.bookingId,
-							finals.map((f) => f.doc.bookingId!)
-						)
-					)
-				)
-		: [];
-	const outstanding = finals
-		.map((f) => {
-			const got = balancePaid.filter((p) => p.bookingId === f.doc.bookingId).reduce((s, p) => s + p.amount, 0);
-			return {
-				bookingId: f.doc.bookingId!,
-				bookingReference: f.reference,
-				artist: f.artist,
-				invoiceNumber: f.doc.displayNumber,
-				amountDue: f.doc.amountDue,
-				paid: got,
-				owed: f.doc.amountDue - got,
-				currency: f.doc.currency
-			};
-		})
-		.filter((o) => o.owed > 0);
-
-	const refundRow = (x: { r: typeof refund.$inferSelect; reference: string; artist: string }) => ({
-		id: x.r.id,
-		bookingId: x.r.bookingId,
-		bookingReference: x.reference,
-		artist: x.artist,
-		amount: x.r.amount,
-		status: x.r.status,
-		reason: x.r.reason,
-		failureReason: x.r.failureReason,
-		createdAt: x.r.createdAt.toISOString(),
-		currency: x.r.currency
-	});
-	const unresolved = new Set(unresolvedFailures(failedAll.map((x) => x.r)).map((r) => r.id));
 
 	const documents = docs.map(({ doc: d, reference }) => ({
 		id: d.id,
@@ -226,7 +240,7 @@ export async function monthReport(month: string, timeZone: string, currency: str
 			currency: p.currency
 		})),
 		refunds: refundRows,
-		failedRefunds: failedAll.filter((x) => unresolved.has(x.r.id)).map(refundRow),
+		failedRefunds,
 		outstanding,
 		vatByRate,
 		totals: {
