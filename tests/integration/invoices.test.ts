@@ -13,6 +13,7 @@ import { DATABASE_URL, DEMO } from '../support/env';
 import { testDb } from '../support/db';
 import { sleep, waitFor } from '../support/wait';
 import { payOnFake } from '../support/stripe-fake';
+import { moveIntoPast } from '../support/started';
 import { createDb } from '../../src/lib/server/db/client';
 import * as t from '../../src/lib/server/db/schema';
 import { issueDocument, linesOf, storedTotals, type InvoiceRow } from '../../src/lib/server/invoices/issue';
@@ -117,7 +118,8 @@ describe('documents of a booking', () => {
 		await expectArticle226(deposit!);
 
 		const owner = await signedIn(DEMO.owner);
-		const res = await owner.json(`/api/bookings/${b.id}/close`, { actualEnd: b.end.replace('T15:00', 'T15:20') });
+		const held = await moveIntoPast(db, b.id);
+		const res = await owner.json(`/api/bookings/${b.id}/close`, { actualEnd: held.end.replace('T15:00', 'T15:20') });
 		expect(res.status).toBe(200);
 		const final = (await docsOf(b.id)).find((d) => d.typeCode === 380)!;
 		expect(final.displayNumber).toMatch(/^INV-\d{4}-\d{4}$/);
@@ -137,7 +139,8 @@ describe('documents of a booking', () => {
 	it('a session that ends on time is invoiced at exactly the quoted gross', async () => {
 		const b = await bookAndPay(await signedIn(DEMO.artist), 'control-room', '16:30');
 		const engineer = await signedIn(DEMO.engineer);
-		expect((await engineer.json(`/api/bookings/${b.id}/close`, { actualEnd: b.end })).status).toBe(200);
+		const held = await moveIntoPast(db, b.id);
+		expect((await engineer.json(`/api/bookings/${b.id}/close`, { actualEnd: held.end })).status).toBe(200);
 		const [row] = await db.select().from(t.booking).where(eq(t.booking.id, b.id));
 		const quote = row!.quote as Quote;
 		const final = (await docsOf(b.id)).find((d) => d.typeCode === 380)!;

@@ -18,6 +18,7 @@ import { Client, signedIn } from '../support/http';
 import { APP_URL, DEMO, STRIPE_API_BASE } from '../support/env';
 import { testDb } from '../support/db';
 import { sleep, waitFor } from '../support/wait';
+import { moveIntoPast } from '../support/started';
 import * as t from '../../src/lib/server/db/schema';
 import { publicHolidayChecker } from '../../src/lib/domain/holidays';
 
@@ -609,8 +610,20 @@ describe('closing a session and paying the balance', () => {
 		expect((await artist.json(`/api/bookings/${b.id}/close`, { actualEnd: b.end })).status).toBe(403);
 
 		const engineer = await signedIn(DEMO.engineer);
+		// Weeks ahead the session has supplied nothing: no closing, no final invoice, no balance asked.
+		const early = await engineer.json(`/api/bookings/${b.id}/close`, { actualEnd: b.end });
+		expect(early.status).toBe(409);
+		expect(await early.json()).toMatchObject({ error: 'not_started' });
+		expect((await bookingRow(b.id)).status).toBe('confirmed');
+		expect((await money(b.id)).invoices.filter((i) => i.typeCode === 380)).toHaveLength(0);
+		const asForm = await engineer.form(`/api/bookings/${b.id}/close`, { actualEnd: b.end });
+		expect(asForm.status).toBe(303);
+		expect(asForm.headers.get('location')).toBe(`/bookings/${b.id}?money=close-not_started#money`);
+		expect((await bookingRow(b.id)).status).toBe('confirmed');
+
+		const held = await moveIntoPast(db, b.id);
 		// 20 minutes past the booked end: two started 15-minute increments at 40.00/h = 20.00 (PRODUCT.md).
-		const end = plusMinutes(b.end, 20);
+		const end = plusMinutes(held.end, 20);
 		const closed = await engineer.json(`/api/bookings/${b.id}/close`, { actualEnd: end });
 		const body = (await closed.json()) as {
 			invoice: { number: string; gross: number; amountDue: number };

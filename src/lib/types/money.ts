@@ -78,7 +78,14 @@ export interface MoneyPanelData {
 			onArrival: { amount: number; refund: number } | null;
 		} | null;
 		/** bookedEnd: a datetime-local value in the studio's zone. */
-		recordEnd: { bookedEnd: string; gear: { id: string; name: string; booked: boolean; hireFee: number }[] } | null;
+		recordEnd: {
+			bookedEnd: string;
+			/** The session's start (ISO): its end can be recorded from then on, not before. */
+			opensAt: string;
+			/** Whether the session has begun, so its end may be recorded now. */
+			open: boolean;
+			gear: { id: string; name: string; booked: boolean; hireFee: number }[];
+		} | null;
 		retryRefunds: boolean;
 	};
 }

@@ -11,6 +11,7 @@ import { auditTx } from './state';
 import { issueFinalInvoice } from '../invoices/documents';
 import { overtimeCharge, parseLocalOrOffset, quoteBooking, type OvertimeCharge, type Quote } from '$lib/domain/pricing';
 import { publicHolidayChecker } from '$lib/domain/holidays';
+import { closeRefusal } from '$lib/domain/lifecycle';
 
 export const closeSchema = z.object({
 	actualEnd: z
@@ -64,14 +65,10 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 				const final = await issueFinalInvoice(tx, { bookingId: b.id });
 				return { ok: true, already: true, invoice: invoiceSummary(final), overtime: null };
 			}
-			if (b.status !== 'confirmed') {
-				return {
-					ok: false,
-					status: 409,
-					code: 'not_confirmed',
-					message: 'Only a confirmed booking (deposit paid) can be closed.'
-				};
-			}
+			// The lifecycle decides, on the locked row: not before the session has begun, and only
+			// once the deposit has confirmed it.
+			const refusal = closeRefusal(b, new Date());
+			if (refusal) return { ok: false, status: 409, code: refusal.code, message: refusal.message };
 			if (actualEnd <= b.startsAt || actualEnd.getTime() > b.endsAt.getTime() + MAX_OVERRUN_MS) {
 				return invalid('actualEnd', 'The end must be after the start and at most 12 hours after the booked end.');
 			}

@@ -13,6 +13,7 @@ import { loadMoneyState } from './core';
 import { unresolvedFailures } from './state';
 import { cancelAccess, isCancellable, previewCancellation } from './refunds';
 import { documentKindLabel, payableTotal } from '$lib/domain/invoice';
+import { closeRefusal } from '$lib/domain/lifecycle';
 import type { MoneyPanelData } from '$lib/types/money';
 
 /** A datetime-local value ('2027-03-02T15:00') of an instant in a zone. */
@@ -91,6 +92,8 @@ export async function loadMoneyPanel(
 		const bookedIds = new Set(booked.map((g) => g.id));
 		recordEnd = {
 			bookedEnd: localInputValue(row.endsAt, studioRow.timeZone),
+			opensAt: row.startsAt.toISOString(),
+			open: closeRefusal(row, now) === null,
 			gear: items.map((g) => ({ id: g.id, name: g.name, booked: bookedIds.has(g.id), hireFee: g.hireable ? g.hireFee : 0 }))
 		};
 	}
