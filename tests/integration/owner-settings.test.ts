@@ -170,6 +170,41 @@ describe('Rates & policy page', () => {
 		}
 	);
 
+	it.each([
+		[{ engineerHalfDay: '250.00' }, 'engineerHalfDay', 'costs more than the full day', '250.00'],
+		[{ engineerFullDay: '2300.00' }, 'engineerFullDay', '8 times what its 8 h cost by the hour', '2300.00']
+	] as const)(
+		'refuses an engineer rate card that contradicts itself (%o) field by field',
+		async (change, _field, words, kept) => {
+			const before = await studioRow();
+			const res = await owner.form('/studio/settings?/save', fields(before, change));
+			expect(res.status).toBe(422);
+			const html = await res.text();
+			expect(html).toContain(words);
+			expect(html).toContain('Nothing was saved');
+			expect(html).toContain(`value="${kept}"`);
+			expect(policyOf(await studioRow())).toEqual(policyOf(before));
+		}
+	);
+
+	it('saves an odd engineer rate card and notes what is odd beside the field', async () => {
+		try {
+			// 4 h at 35.00 is 140.00: a half day of 150.00 is never chosen, but it may be meant.
+			const res = await owner.form('/studio/settings?/save', fields(original, { engineerHalfDay: '150.00' }));
+			expect(res.status).toBe(200);
+			const html = await res.text();
+			expect(html).toContain('Saved.');
+			expect(html).toContain('Some engineer rates look odd');
+			expect((await studioRow()).engineerHalfDay).toBe(15000);
+			const page = await (await owner.fetch('/studio/settings', { headers: { accept: 'text/html' } })).text();
+			expect(page).toContain('data-testid="field-warning"');
+			expect(page).toContain('The half day (€150.00) costs more than its 4 h by the hour (€140.00), so it is never chosen');
+		} finally {
+			await owner.form('/studio/settings?/save', fields(original));
+		}
+		expect(policyOf(await studioRow())).toEqual(policyOf(original));
+	});
+
 	it('saves a surcharge change and puts it back', async () => {
 		const [evening] = await db.select().from(t.surchargeRule).where(eq(t.surchargeRule.label, DEMO_POLICY.surcharges[0]!.label));
 		expect(evening).toBeDefined();
@@ -189,6 +224,12 @@ describe('Rates & policy page', () => {
 		const [changed] = await db.select().from(t.surchargeRule).where(eq(t.surchargeRule.id, evening!.id));
 		expect(changed!.percentBp).toBe(2675);
 		expect((await post('-5')).status).toBe(422);
+		// Above 100 % is odd, not impossible: saved, with a note beside the percent.
+		const steep = await post('150');
+		expect(steep.status).toBe(200);
+		expect(await steep.text()).toContain('It looks odd: see the note beside it.');
+		const warned = await (await owner.fetch('/studio/settings', { headers: { accept: 'text/html' } })).text();
+		expect(warned).toContain('+150 % is above 100 %: it more than doubles the price of every minute it covers.');
 		expect((await post('25')).status).toBe(200);
 		const [back] = await db.select().from(t.surchargeRule).where(eq(t.surchargeRule.id, evening!.id));
 		expect(back).toEqual(evening);
@@ -204,6 +245,10 @@ describe('Rates & policy page', () => {
 			['to', '02:00']
 		]);
 		expect(add.status).toBe(200);
+		expect(await add.text()).toContain('Night owl added. It looks odd: see the note beside it.');
+		// The window ends before it starts: the page says it runs past midnight and how long it lasts.
+		const page = await (await owner.fetch('/studio/settings', { headers: { accept: 'text/html' } })).text();
+		expect(page).toContain('runs past midnight: 22:00 to 02:00 the next morning, 4 h a night');
 		const [night] = await db.select().from(t.surchargeRule).where(eq(t.surchargeRule.label, 'Night owl'));
 		// Unticked "In use" arrives as no field at all: the new rule is paused, so no price changes.
 		expect(night).toMatchObject({ percentBp: 1250, weekdays: [5, 6], fromMinute: 22 * 60, toMinute: 2 * 60, active: false });
@@ -293,6 +338,43 @@ describe('Rooms & gear page', () => {
 		expect(await res.text()).toContain(words);
 		const [row] = await db.select().from(t.room).where(eq(t.room.id, live().id));
 		expect({ ...row, updatedAt: undefined }).toEqual({ ...live(), updatedAt: undefined });
+	});
+
+	it.each([
+		['halfDay', { halfDay: '310.00' }, 'The half day (€310.00) costs more than the full day (€300.00)', '310.00'],
+		[
+			'halfDay',
+			{ halfDay: '1600.00', fullDay: '3000.00' },
+			'The half day (€1,600.00) costs 8 times what its 4 h cost',
+			'1600.00'
+		],
+		['hourly', { hourly: '4.50' }, 'costs 8 times what its 4 h cost by the hour (€18.00)', '4.50']
+	])('refuses a %s that can only be a typo (%o), the values kept, nothing stored', async (_field, change, words, kept) => {
+		const res = await owner.form('/studio/rooms?/room', roomFields(change));
+		expect(res.status).toBe(422);
+		const html = await res.text();
+		expect(html).toContain(words);
+		expect(html).toContain('Not saved: check the marked fields.');
+		expect(html).toContain(`value="${kept}"`);
+		const [row] = await db.select().from(t.room).where(eq(t.room.id, live().id));
+		expect({ ...row, updatedAt: undefined }).toEqual({ ...live(), updatedAt: undefined });
+	});
+
+	it('saves an odd room rate card and notes beside each field what is odd', async () => {
+		try {
+			// 4 h at 45.00 is 180.00: a half day of 190.00 is never chosen, but it may be meant.
+			const res = await owner.form('/studio/rooms?/room', roomFields({ halfDay: '190.00' }));
+			expect(res.status).toBe(200);
+			expect(await res.text()).toContain('Some rates look odd: see the notes beside them.');
+			const [row] = await db.select().from(t.room).where(eq(t.room.id, live().id));
+			expect(row!.halfDay).toBe(19000);
+			const page = await (await owner.fetch('/studio/rooms', { headers: { accept: 'text/html' } })).text();
+			expect(page).toContain('The half day (€190.00) costs more than its 4 h by the hour (€180.00), so it is never chosen');
+		} finally {
+			expect((await owner.form('/studio/rooms?/room', roomFields())).status).toBe(200);
+		}
+		const [back] = await db.select().from(t.room).where(eq(t.room.id, live().id));
+		expect(back!.halfDay).toBe(16000);
 	});
 
 	it('adds gear by type with a caution, edits it and retires it', async () => {

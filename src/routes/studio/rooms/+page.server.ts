@@ -20,6 +20,7 @@ import {
 	type GearForm,
 	type RoomForm
 } from './schema';
+import { blockRateFindings } from '$lib/schemas/rate-card';
 import type { Actions, PageServerLoad } from './$types';
 
 type Note = { kind: 'saved' | 'error'; text: string };
@@ -37,11 +38,12 @@ export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
 	const [studio, rooms, gear] = await Promise.all([getStudio(), listRooms({ includeInactive: true }), inventory.listGear()]);
 	const currency = studio.currency;
+	const blocks = { halfDayMinutes: studio.halfDayMinutes, fullDayMinutes: studio.fullDayMinutes };
 	const upcoming = await blackouts.listUpcoming(localYmd(new Date(), studio.timeZone));
 	const [roomForms, gearForms, newGear] = await Promise.all([
 		Promise.all(
 			rooms.map((r) =>
-				superValidate<RoomForm, Note>(roomFormFrom(r, currency), zod4(roomSchema(currency)), {
+				superValidate<RoomForm, Note>(roomFormFrom(r, currency), zod4(roomSchema(currency, blocks)), {
 					id: `room-${r.id}`,
 					errors: false
 				})
@@ -59,6 +61,7 @@ export const load: PageServerLoad = async ({ locals }) => {
 	]);
 	return {
 		currency,
+		blocks,
 		halfDayHours: studio.halfDayMinutes / 60,
 		fullDayHours: studio.fullDayMinutes / 60,
 		rooms: rooms.map((r) => ({ id: r.id, name: r.name, slug: r.slug, active: r.active })),
@@ -87,12 +90,14 @@ const activeSchema = z.object({ id: z.uuid(), active: z.enum(['true', 'false']) 
 export const actions: Actions = {
 	room: async ({ request, locals, getClientAddress }) => {
 		const user = requireRole(locals, 'owner');
-		const { currency } = await getStudio();
-		const form = await superValidate<RoomForm, Note>(request, zod4(roomSchema(currency)));
+		const { currency, halfDayMinutes, fullDayMinutes } = await getStudio();
+		const blocks = { halfDayMinutes, fullDayMinutes };
+		const form = await superValidate<RoomForm, Note>(request, zod4(roomSchema(currency, blocks)));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
 		const found = await inventory.updateRoom({ user, ip: getClientAddress() }, form.data.id, roomValuesFrom(form.data, currency));
 		if (!found) return message(form, { kind: 'error', text: 'That room is not here any more.' }, { status: 404 });
-		return message(form, { kind: 'saved', text: `${form.data.name} saved. New quotes use this rate card.` });
+		const odd = blockRateFindings(form.data, blocks, currency).length ? ' Some rates look odd: see the notes beside them.' : '';
+		return message(form, { kind: 'saved', text: `${form.data.name} saved. New quotes use this rate card.${odd}` });
 	},
 
 	gear: async ({ request, locals, getClientAddress }) => {

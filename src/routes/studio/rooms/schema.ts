@@ -3,6 +3,8 @@
 import { z } from 'zod';
 import { parseMoney, toDecimalString } from '$lib/domain/money';
 import { exact, moneyText } from '$lib/schemas/fields';
+import { blockRateFindings, refuseErrors } from '$lib/schemas/rate-card';
+import type { BlockLengths } from '$lib/domain/pricing/rateCardChecks';
 // Types only: erased before the browser bundle is made.
 import type { GearValues, RoomValues } from '$lib/server/inventory';
 
@@ -36,20 +38,25 @@ export const USUAL_CAUTIONS = [
 	{ label: 'Hearing', text: 'Start cue mixes quiet and raise them slowly: long sessions near 85 dB(A) put hearing at risk.' }
 ] as const;
 
-function buildRoomSchema(currency: string) {
-	return z.object({
-		id: z.string().regex(UUID_OR_EMPTY, { error: 'Unknown room.' }).min(1, { error: 'Unknown room.' }),
-		name: z
-			.string({ error: 'Name the room.' })
-			.trim()
-			.min(1, { error: 'Name the room.' })
-			.max(80, { error: 'Keep the name under 80 characters.' }),
-		description: z.string().trim().max(1000, { error: 'Keep the description under 1000 characters.' }).default(''),
-		hourly: moneyText(currency),
-		halfDay: moneyText(currency),
-		fullDay: moneyText(currency),
-		active: z.boolean().default(false)
-	});
+function buildRoomSchema(currency: string, blocks: BlockLengths) {
+	return (
+		z
+			.object({
+				id: z.string().regex(UUID_OR_EMPTY, { error: 'Unknown room.' }).min(1, { error: 'Unknown room.' }),
+				name: z
+					.string({ error: 'Name the room.' })
+					.trim()
+					.min(1, { error: 'Name the room.' })
+					.max(80, { error: 'Keep the name under 80 characters.' }),
+				description: z.string().trim().max(1000, { error: 'Keep the description under 1000 characters.' }).default(''),
+				hourly: moneyText(currency),
+				halfDay: moneyText(currency),
+				fullDay: moneyText(currency),
+				active: z.boolean().default(false)
+			})
+			// A half day dearer than the full day, or a block many times its hours: a typo, refused.
+			.superRefine((v, ctx) => refuseErrors(blockRateFindings(v, blocks, currency), ctx))
+	);
 }
 
 function buildGearSchema(currency: string) {
@@ -78,10 +85,11 @@ function buildGearSchema(currency: string) {
 const roomSchemas = new Map<string, ReturnType<typeof buildRoomSchema>>();
 const gearSchemas = new Map<string, ReturnType<typeof buildGearSchema>>();
 
-/** One schema object per currency, so the validation adapters' caches stay small. */
-export function roomSchema(currency: string) {
-	let s = roomSchemas.get(currency);
-	if (!s) roomSchemas.set(currency, (s = buildRoomSchema(currency)));
+/** One schema object per currency (and block lengths), so the validation adapters' caches stay small. */
+export function roomSchema(currency: string, blocks: BlockLengths) {
+	const key = `${currency}:${blocks.halfDayMinutes}:${blocks.fullDayMinutes}`;
+	let s = roomSchemas.get(key);
+	if (!s) roomSchemas.set(key, (s = buildRoomSchema(currency, blocks)));
 	return s;
 }
 export function gearSchema(currency: string) {

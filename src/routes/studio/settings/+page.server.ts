@@ -4,7 +4,9 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireRole } from '$lib/server/guard';
 import { getStudio } from '$lib/server/studio';
 import * as settings from '$lib/server/settings';
+import { blockRateFindings, surchargeFindings } from '$lib/schemas/rate-card';
 import {
+	engineerRates,
 	policyValuesFrom,
 	settingsFormFrom,
 	settingsSchema,
@@ -37,7 +39,8 @@ function surchargeForm(row: settings.SurchargeRow): SurchargeForm {
 export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
 	const [studio, surcharges] = await Promise.all([getStudio(), settings.listSurcharges()]);
-	const schema = zod4(settingsSchema(studio.currency));
+	const blocks = { halfDayMinutes: studio.halfDayMinutes, fullDayMinutes: studio.fullDayMinutes };
+	const schema = zod4(settingsSchema(studio.currency, blocks));
 	const [form, surchargeForms, newSurcharge] = await Promise.all([
 		superValidate<SettingsForm, Saved>(settingsFormFrom(studio, studio.currency), schema, { errors: false }),
 		Promise.all(
@@ -47,21 +50,27 @@ export const load: PageServerLoad = async ({ locals }) => {
 		),
 		superValidate<SurchargeForm, Saved>({ ...NEW_SURCHARGE_VALUES }, zod4(surchargeSchema), { id: NEW_SURCHARGE, errors: false })
 	]);
-	return { form, surchargeForms, newSurcharge, currency: studio.currency, updatedAt: studio.updatedAt.toISOString() };
+	return { form, surchargeForms, newSurcharge, currency: studio.currency, blocks, updatedAt: studio.updatedAt.toISOString() };
 };
 
 export const actions: Actions = {
 	save: async ({ request, locals, getClientAddress }) => {
 		const user = requireRole(locals, 'owner');
-		const { currency } = await getStudio();
-		const form = await superValidate<SettingsForm, Saved>(request, zod4(settingsSchema(currency)));
+		const { currency, halfDayMinutes, fullDayMinutes } = await getStudio();
+		const form = await superValidate<SettingsForm, Saved>(
+			request,
+			zod4(settingsSchema(currency, { halfDayMinutes, fullDayMinutes }))
+		);
 		if (!form.valid) {
 			return message(form, { kind: 'error', text: 'Nothing was saved: some values need another look.' }, { status: 422 });
 		}
 		const changed = await settings.updatePolicy({ user, ip: getClientAddress() }, policyValuesFrom(form.data, currency));
+		const odd = blockRateFindings(engineerRates(form.data), { halfDayMinutes, fullDayMinutes }, currency).length > 0;
 		return message(form, {
 			kind: 'saved',
-			text: changed.length ? 'Saved. New quotes and bookings use these rates and rules from now on.' : 'Nothing had changed.'
+			text:
+				(changed.length ? 'Saved. New quotes and bookings use these rates and rules from now on.' : 'Nothing had changed.') +
+				(odd ? ' Some engineer rates look odd: see the notes beside them.' : '')
 		});
 	},
 
@@ -70,15 +79,16 @@ export const actions: Actions = {
 		const form = await superValidate<SurchargeForm, Saved>(request, zod4(surchargeSchema));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
 		const actor = { user, ip: getClientAddress() };
+		const odd = surchargeFindings(form.data).length ? ' It looks odd: see the note beside it.' : '';
 		if (form.data.id) {
 			const found = await settings.updateSurcharge(actor, form.data.id, surchargeValuesFrom(form.data));
 			if (!found) return fail(404, { form });
-			return message(form, { kind: 'saved', text: `${form.data.label} saved.` });
+			return message(form, { kind: 'saved', text: `${form.data.label} saved.${odd}` });
 		}
 		await settings.addSurcharge(actor, surchargeValuesFrom(form.data));
 		// The new rule shows in the list; the add form starts empty again.
 		const label = form.data.label;
 		form.data = { ...NEW_SURCHARGE_VALUES };
-		return message(form, { kind: 'saved', text: `${label} added.` });
+		return message(form, { kind: 'saved', text: `${label} added.${odd}` });
 	}
 };

@@ -5,6 +5,8 @@
 import { z } from 'zod';
 import { parseMoney, parsePercentToBasisPoints, toDecimalString, basisPointsToPercent } from '$lib/domain/money';
 import { CLOCK_RE, clockToMinute, exact, minuteToClock, moneyText, percentText } from '$lib/schemas/fields';
+import { blockRateFindings, refuseErrors } from '$lib/schemas/rate-card';
+import type { BlockLengths, RateField } from '$lib/domain/pricing/rateCardChecks';
 import type { CancellationRung, OpeningHours } from '$lib/domain/types';
 // Types only: erased before the browser bundle is made.
 import type { PolicyValues, SurchargeValues } from '$lib/server/settings';
@@ -29,7 +31,16 @@ function wholeNumber(what: string, unit: string, min: number, max: number) {
 		.max(max, { error: `The ${what} is at most ${max} ${unit}.` });
 }
 
-function buildSettingsSchema(currency: string) {
+const ENGINEER_FIELDS = { hourly: 'engineerHourly', halfDay: 'engineerHalfDay', fullDay: 'engineerFullDay' } as const;
+/** The form field of an engineer rate the checks speak of. */
+export const engineerField = (field: RateField) => ENGINEER_FIELDS[field];
+
+/** The engineer's three rates as the rate-card checks read them. */
+export function engineerRates(v: Pick<SettingsForm, 'engineerHourly' | 'engineerHalfDay' | 'engineerFullDay'>) {
+	return { hourly: v.engineerHourly, halfDay: v.engineerHalfDay, fullDay: v.engineerFullDay };
+}
+
+function buildSettingsSchema(currency: string, blocks: BlockLengths) {
 	return z
 		.object({
 			engineerHourly: moneyText(currency),
@@ -54,6 +65,8 @@ function buildSettingsSchema(currency: string) {
 			closedOnPublicHolidays: z.boolean().default(false)
 		})
 		.superRefine((v, ctx) => {
+			// A half day dearer than the full day, or a block many times its hours: a typo, refused.
+			refuseErrors(blockRateFindings(engineerRates(v), blocks, currency), ctx, engineerField);
 			if (v.incrementMinutes > 0 && v.minBookingMinutes % v.incrementMinutes !== 0) {
 				ctx.addIssue({
 					code: 'custom',
@@ -91,10 +104,11 @@ function buildSettingsSchema(currency: string) {
 }
 
 const schemas = new Map<string, ReturnType<typeof buildSettingsSchema>>();
-/** One schema object per currency, so the validation adapters' caches stay small. */
-export function settingsSchema(currency: string) {
-	let schema = schemas.get(currency);
-	if (!schema) schemas.set(currency, (schema = buildSettingsSchema(currency)));
+/** One schema object per currency and block lengths, so the validation adapters' caches stay small. */
+export function settingsSchema(currency: string, blocks: BlockLengths) {
+	const key = `${currency}:${blocks.halfDayMinutes}:${blocks.fullDayMinutes}`;
+	let schema = schemas.get(key);
+	if (!schema) schemas.set(key, (schema = buildSettingsSchema(currency, blocks)));
 	return schema;
 }
 
