@@ -52,3 +52,11 @@ export function navigationFor(role: Role | null): NavItem[] {
 			return [...common, { href: '/book', label: 'Book a session' }];
 	}
 }
+
+/**
+ * Who may book a session (make a hold and pay for it): everyone but the accountant, whose role
+ * reads the accounts and nothing else. A visitor may open the booking page and is asked to sign in.
+ */
+export function mayBook(role: Role | null): boolean {
+	return role !== 'accountant';
+}

@@ -4,7 +4,18 @@
 import { and, asc, desc, eq, gt, gte, inArray, isNull, lt, lte, or, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { db } from './db';
-import { blackout, booking, bookingGear, gearItem, room, user, ACTIVE_BOOKING_STATUSES, type BookingStatus } from './db/schema';
+import {
+	blackout,
+	booking,
+	bookingGear,
+	gearItem,
+	invoice,
+	payment,
+	room,
+	user,
+	ACTIVE_BOOKING_STATUSES,
+	type BookingStatus
+} from './db/schema';
 import { getPolicy, getRoomBySlug, roomRates, type RoomRow, type StudioRow } from './studio';
 import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
 import {
@@ -606,7 +617,26 @@ export async function listForViewer(actor: SessionUser, filter: { status?: Booki
 		.limit(500);
 }
 
-/** One booking, or undefined when it does not exist or is not the viewer's to see (a 404 either way). */
+/**
+ * Whether a booking appears in the accounts: it has a document, or money paid or on its way. The accountant reads
+ * those bookings (the references in the month lead to them), and no others.
+ */
+async function inTheAccounts(bookingId: string): Promise<boolean> {
+	const [documents, payments] = await Promise.all([
+		db.select({ id: invoice.id }).from(invoice).where(eq(invoice.bookingId, bookingId)).limit(1),
+		db
+			.select({ id: payment.id })
+			.from(payment)
+			.where(and(eq(payment.bookingId, bookingId), inArray(payment.status, ['paid', 'processing'])))
+			.limit(1)
+	]);
+	return documents.length > 0 || payments.length > 0;
+}
+
+/**
+ * One booking, or undefined when it does not exist or is not the viewer's to see (a 404 either
+ * way): the artist's own, any for the owner and engineers, and for the accountant those in the accounts.
+ */
 export async function getForViewer(actor: SessionUser, id: string) {
 	if (!z.uuid().safeParse(id).success) return undefined;
 	const [row] = await db
@@ -624,7 +654,9 @@ export async function getForViewer(actor: SessionUser, id: string) {
 		.innerJoin(user, eq(user.id, booking.artistId))
 		.where(eq(booking.id, id));
 	if (!row) return undefined;
-	if (!canSeeAll(actor) && row.artistId !== actor.id) return undefined;
+	if (!canSeeAll(actor) && row.artistId !== actor.id && !(actor.role === 'accountant' && (await inTheAccounts(id)))) {
+		return undefined;
+	}
 	const [gear, engineer] = await Promise.all([
 		db
 			.select({

@@ -1,4 +1,4 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { error, fail, redirect } from '@sveltejs/kit';
 import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { and, asc, eq, isNotNull } from 'drizzle-orm';
@@ -18,10 +18,19 @@ import {
 	type BookingChoices
 } from '$lib/components/booking/choices';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
+import { mayBook } from '$lib/roles';
 import { bookFormSchema, type BookForm, type BookMessage } from './schema';
 import type { Actions, PageServerLoad } from './$types';
 
+/** The accountant reads the accounts only: no booking page, no holds (OWASP ASVS 8.2.1). */
+function refuseNonBookers(locals: App.Locals) {
+	if (locals.user && !mayBook(locals.user.role)) {
+		error(403, { error: 'forbidden', message: 'Your role reads the accounts; it does not book sessions.' });
+	}
+}
+
 export const load: PageServerLoad = async ({ url, locals }) => {
+	refuseNonBookers(locals);
 	const [{ studio, policy }, rows, gearRows] = await Promise.all([
 		getPolicy(),
 		listRooms(),
@@ -121,6 +130,7 @@ export const actions: Actions = {
 		const form = await superValidate<BookForm, BookMessage>(request, zod4(bookFormSchema));
 		// Signed out (a session that ended while choosing): keep every choice through sign-in.
 		if (!locals.user) redirect(303, `/sign-in?next=${encodeURIComponent(bookPath(form.data as BookingChoices))}`);
+		refuseNonBookers(locals);
 		if (!form.valid) return fail(422, { form });
 
 		const { studio } = await getPolicy();

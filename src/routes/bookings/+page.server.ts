@@ -1,11 +1,12 @@
 import { and, desc, eq } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { booking, room } from '$lib/server/db/schema';
-import { requireUser } from '$lib/server/guard';
+import { requireRole } from '$lib/server/guard';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals }) => {
-	const me = requireUser(locals);
+	// An accountant books nothing, so has no bookings of their own; they open bookings from the accounts.
+	const me = requireRole(locals, 'artist', 'owner', 'engineer');
 	const rows = await db
 		.select({
 			id: booking.id,

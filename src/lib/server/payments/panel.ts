@@ -58,7 +58,9 @@ export async function loadMoneyPanel(
 	const mayPay = isOwner || (isArtist && row.artistId === viewer.id);
 	const final = docs.find((d) => d.typeCode === 380);
 	const paidBalance = state.payments.filter((p) => p.kind === 'balance' && p.status === 'paid').reduce((s, p) => s + p.amount, 0);
-	const balanceDue = final ? Math.max(0, final.amountDue - paidBalance) : null;
+	// The one balance of a booking: its final invoice's amount due, less what was paid against it;
+	// none before that invoice, and none to pay on a cancelled booking.
+	const balanceDue = final && row.status !== 'cancelled' ? Math.max(0, final.amountDue - paidBalance) : null;
 	const unresolved = new Set(unresolvedFailures(state.refunds).map((r) => r.id));
 	const openLink = (kind: 'deposit' | 'balance') => {
 		const open = state.payments

@@ -5,16 +5,20 @@ import { startDepositCheckout } from '$lib/server/payments';
 import { getStudio } from '$lib/server/studio';
 import { isoInZone } from '$lib/server/time';
 import { audit } from '$lib/server/audit';
+import { mayBook } from '$lib/roles';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals }) => {
 	if (!locals.user) return apiError(401, 'unauthenticated', 'Please sign in first.');
+	// The accountant reads bookings only through the accounts, one at a time.
+	if (locals.user.role === 'accountant') return apiError(403, 'forbidden', 'Your role reads the accounts, not the booking list.');
 	const [studio, rows] = await Promise.all([getStudio(), listForViewer(locals.user)]);
 	return json({ bookings: rows.map((b) => bookingJson(b, studio.timeZone)) });
 };
 
 export const POST: RequestHandler = async ({ request, locals, url, getClientAddress }) => {
 	if (!locals.user) return apiError(401, 'unauthenticated', 'Please sign in to book.');
+	if (!mayBook(locals.user.role)) return apiError(403, 'forbidden', 'Your role reads the accounts; it does not book sessions.');
 	const read = await readJson(request);
 	if (!read.ok) return read.response;
 	const outcome = await createHold(locals.user, read.body);

@@ -8,6 +8,8 @@ import type { QuoteView } from '$lib/components/booking/PriceBreakdown.svelte';
 import { readFileField } from '$lib/server/multipart';
 import * as uploads from '$lib/server/uploads';
 import { audit } from '$lib/server/audit';
+import { localYmd } from '$lib/server/time';
+import type { Role } from '$lib/roles';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params }) => {
@@ -27,6 +29,7 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		uploads.listForViewer(me, b.id)
 	]);
 	const q = b.quote;
+	const { timeZone } = await getStudio();
 
 	// A hold that ran out (swept or not yet): say so, and offer the same time again if it is free.
 	const now = new Date();
@@ -102,9 +105,27 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 					mayChange: listed.mayChange
 				}
 			: null,
-		viewerIsArtist: me.role === 'artist'
+		viewerIsArtist: me.role === 'artist',
+		// The accountant goes back to the month of the booking's latest document (its session's month without one).
+		back: backLink(me.role, localYmd(b.startsAt, timeZone), localYmd(money?.invoices.at(-1)?.issuedAt ?? b.startsAt, timeZone)),
+		// The accountant reads what the accounts need: the session, its price and its money.
+		showDetails: me.role !== 'accountant'
 	};
 };
+
+/** Back to the list each role may open: every link on the page leads somewhere its viewer may go. */
+function backLink(role: Role, day: string, accountsDay: string): { href: string; label: string } {
+	switch (role) {
+		case 'owner':
+			return { href: '/studio/bookings', label: 'All bookings' };
+		case 'engineer':
+			return { href: `/plan?date=${day}`, label: 'Day plan' };
+		case 'accountant':
+			return { href: `/accounts?month=${accountsDay.slice(0, 7)}`, label: 'Accounts' };
+		default:
+			return { href: '/bookings', label: 'My bookings' };
+	}
+}
 
 export const actions: Actions = {
 	/** A file for the session, posted as multipart/form-data and stored as it streams in. */
