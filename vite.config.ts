@@ -15,6 +15,8 @@ export default defineConfig({
 				test: {
 					name: 'unit',
 					environment: 'node',
+					// Property runs and PDF rendering take seconds on a busy machine; none is timed.
+					testTimeout: 30_000,
 					include: ['src/**/*.spec.ts', 'fake-services/**/*.spec.ts']
 				}
 			},
