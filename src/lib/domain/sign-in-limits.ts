@@ -42,7 +42,7 @@ export const DEFAULT_LIMITS: SignInLimitConfig = {
  * address) and AUTH_RATE_LIMIT_PER_IP (wrong passwords per address before it is slowed, and
  * sign-ups per address). Anything that is not a positive whole number keeps the default.
  */
-export function limitConfig(env: { AUTH_RATE_LIMIT_PER_ACCOUNT?: string; AUTH_RATE_LIMIT_PER_IP?: string }): SignInLimitConfig {
+export function limitConfig(env: Record<string, string | undefined>): SignInLimitConfig {
 	const perAccount = positive(env.AUTH_RATE_LIMIT_PER_ACCOUNT) ?? DEFAULT_LIMITS.perAccount;
 	const perAddress = positive(env.AUTH_RATE_LIMIT_PER_IP) ?? DEFAULT_LIMITS.perAddress;
 	return { ...DEFAULT_LIMITS, perAccount, perAddress, signUpsPerAddress: perAddress };
