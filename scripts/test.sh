@@ -28,6 +28,8 @@ export SHUTDOWN_TIMEOUT=3
 export AUTH_RATE_LIMIT_PER_IP="${AUTH_RATE_LIMIT_PER_IP:-400}"
 
 LOG_DIR="$ROOT/.data/test-logs"
+# Integration tests read the app's log (that no secret reaches it).
+export APP_LOG="$LOG_DIR/app.log"
 rm -rf "$LOG_DIR"
 mkdir -p "$LOG_DIR"
 export UPLOAD_DIR="$ROOT/.data/test-uploads"

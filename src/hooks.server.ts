@@ -13,6 +13,8 @@ import { registerPaymentJobs } from '$lib/server/payments';
 import { registerMail } from '$lib/server/mail';
 import { ensureDemoLedger } from '$lib/server/demo-ledger';
 import { registerUploadJobs } from '$lib/server/uploads';
+import { judgeRequestOrigin } from '$lib/domain/request-origin';
+import { describeError } from '$lib/domain/log-redaction';
 
 if (!building) {
 	// Payment sweeps (expiring lapsed sessions, sending recorded refunds) must run from start-up,
@@ -48,6 +50,22 @@ const clientAddress: Handle = ({ event, resolve }) => {
 	if (address) event.request.headers.set(CLIENT_ADDRESS_HEADER, address);
 	else event.request.headers.delete(CLIENT_ADDRESS_HEADER);
 	return resolve(event);
+};
+
+/**
+ * A request that may change something in the API must come from the app's own origin
+ * (src/lib/domain/request-origin.ts has the rule, including why a request with neither Origin
+ * nor Sec-Fetch-Site passes). Form actions on pages have SvelteKit's own origin check.
+ */
+const sameOriginApi: Handle = ({ event, resolve }) => {
+	const verdict = judgeRequestOrigin({
+		method: event.request.method,
+		pathname: event.url.pathname,
+		origin: event.request.headers.get('origin'),
+		secFetchSite: event.request.headers.get('sec-fetch-site'),
+		appOrigin: event.url.origin
+	});
+	return verdict.ok ? resolve(event) : apiError(403, 'forbidden', verdict.message);
 };
 
 const AUTH_BASE = '/api/auth/';
@@ -111,7 +129,12 @@ const sessionIntoLocals: Handle = async ({ event, resolve }) => {
 		if (isDatabaseDown(e)) {
 			error(503, { error: 'unavailable', message: DATABASE_UNAVAILABLE });
 		}
-		throw e;
+		// A session that cannot be read (a cookie whose token the database refuses, say) is no
+		// session: the visitor is treated as signed out. The failure is logged without its
+		// details' secrets: the token is in the failed query's parameters.
+		console.error(
+			`[auth] session lookup failed on ${event.request.method} ${event.route.id ?? 'an unknown route'}\n${describeError(e)}`
+		);
 	}
 	return resolve(event);
 };
@@ -145,7 +168,15 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(securityHeaders, databaseOutage, clientAddress, authRoutes, sessionIntoLocals, zoneGuard);
+export const handle = sequence(
+	securityHeaders,
+	databaseOutage,
+	clientAddress,
+	sameOriginApi,
+	authRoutes,
+	sessionIntoLocals,
+	zoneGuard
+);
 
 export const handleError: HandleServerError = ({ error: e, event, status, message }) => {
 	if (status === 404) return { message: 'Not found', error: 'not_found' };
@@ -154,6 +185,8 @@ export const handleError: HandleServerError = ({ error: e, event, status, messag
 		return { message: DATABASE_UNAVAILABLE, error: 'unavailable' };
 	}
 	const errorId = crypto.randomUUID().slice(0, 8);
-	console.error(`[error ${errorId}] ${event.request.method} ${event.url.pathname}`, e);
+	// The route's pattern, not its path (a feed path holds a token), and the error described, not
+	// printed whole (a failed query's message holds its parameters): src/lib/domain/log-redaction.ts.
+	console.error(`[error ${errorId}] ${event.request.method} ${event.route.id ?? 'an unknown route'}\n${describeError(e)}`);
 	return { message: status >= 500 ? 'Something went wrong on our side.' : message, error: 'internal', errorId };
 };

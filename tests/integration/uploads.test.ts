@@ -219,6 +219,40 @@ describe('uploading to a booking', () => {
 		expect(new TextDecoder().decode(await got.arrayBuffer())).toBe('Säkeistö 1\nThe tape hiss sings along\n');
 	});
 
+	it('checks a file throughout: an MP3 frame header in front of a web page, or a lyric sheet with a script or control bytes, is refused', async () => {
+		const page = new TextEncoder().encode(
+			'<!doctype html><html><body><script>fetch("/api/bookings").then((r) => r.text()).then(alert)</script></body></html>\n'.repeat(
+				40
+			)
+		);
+		// One MPEG-1 Layer III frame header (128 kbit/s, 44.1 kHz), then the page.
+		const disguised = new Uint8Array(4 + page.length);
+		disguised.set([0xff, 0xfb, 0x90, 0x64]);
+		disguised.set(page, 4);
+		const lyrics = (text: string) => new TextEncoder().encode(text);
+		for (const [bytes, name] of [
+			[disguised, 'take.mp3'],
+			[lyrics('Verse 1\nThe tape hiss sings along\n<script>alert(1)</script>\n'), 'lyrics.txt'],
+			[lyrics('Verse 1\u0000\u0001 hidden\n'), 'lyrics.txt'],
+			[lyrics('Verse 1 \u001b[2J cleared\n'), 'lyrics.txt']
+		] as const) {
+			const res = await upload(artist, booking.id, bytes, name, 'audio/mpeg');
+			const body = (await res.json()) as { error: string };
+			expect(res.status, `${name}: ${JSON.stringify(body)}`).toBe(415);
+			expect(body.error).toBe('unsupported_type');
+		}
+		// Real MP3 audio, frame after frame, is still taken (on a booking of its own, so the counts
+		// of this booking's files stay as the other tests expect).
+		const frames = new Uint8Array(417 * 8);
+		for (let i = 0; i < 8; i++) frames.set([0xff, 0xfb, 0x90, 0x64], i * 417);
+		const other = await book(artist);
+		const ok = await upload(artist, other.id, frames, 'take.mp3', 'audio/mpeg');
+		expect(ok.status, await ok.clone().text()).toBe(201);
+		expect(((await ok.json()) as UploadJson).contentType).toBe('audio/mpeg');
+		const disk = await onDisk(booking.id);
+		expect(disk.files).toEqual(disk.keys);
+	});
+
 	it('answers 413 for a file just over UPLOAD_MAX_BYTES and for a body over BODY_SIZE_LIMIT, leaving nothing behind', async () => {
 		const before = await onDisk(booking.id);
 		const over = await upload(artist, booking.id, wav(100, MAX_FILE + 1), 'too-long.wav');

@@ -65,28 +65,56 @@ export function labelFor(contentType: string): string {
 
 export type ContentVerdict = { ok: true; type: AcceptedType } | { ok: false; message: string };
 
+/** What a file's text check found over the whole file (see TextCheck). */
+export type TextFinding = 'text' | 'not-utf8' | 'control' | 'markup';
+
+/** Types that file-type recognises by a frame sync of a few bits: a match proves little alone. */
+const WEAK_SIGNATURES: Record<string, 'mpeg' | 'adts'> = { 'audio/mpeg': 'mpeg', 'audio/aac': 'adts' };
+/** Consecutive audio frames that must follow one another for a weak signature to count. */
+export const MIN_FRAME_CHAIN = 4;
+/** How far past the start of the audio the first frame may sit (encoders leave some padding). */
+const FRAME_SEARCH_BYTES = 4096;
+/** Bytes read at the start of the audio to follow its frames: the search plus four of the longest frames. */
+export const PROBE_BYTES = 16 * 1024;
+
 /**
- * Decides a file's type from its content. `detected` is the signature found in its first bytes
- * (none for text); `utf8Text` says whether the whole file is UTF-8 without NUL bytes; `head` is
- * its first bytes. Plain text is taken only under a .txt name, and never when it starts like
- * markup (HTML, SVG, XML), which a browser could be talked into running.
+ * Decides a file's type from its content, throughout (OWASP ASVS 5.2.2): a file must be what its
+ * content says, not just start like it.
+ *
+ * - `detected`: the signature file-type found in its first bytes (none for text).
+ * - `text`: what the text check found over the whole file.
+ * - `head`: its first bytes (up to SNIFF_BYTES).
+ * - `probe`: for MP3 and AAC, the bytes where the audio starts (after any ID3 tag; see
+ *   `audioStart`). Their signature is a frame sync of a dozen bits, which text can carry by
+ *   accident or on purpose, so the frames must follow one another as real audio does.
+ *
+ * Audio and PDF files are refused when web markup (an HTML document, a script) sits in their
+ * first bytes: that is a page dressed as a file. Plain text is taken only under a .txt name, when
+ * it is UTF-8 throughout without NUL or other control bytes, and holds no HTML, SVG or script.
  */
-export function judgeContent(
-	detected: { mime: string; ext: string } | undefined,
-	utf8Text: boolean,
-	head: Uint8Array,
-	name: string
-): ContentVerdict {
+export function judgeContent(input: {
+	detected: { mime: string; ext: string } | undefined;
+	text: TextFinding;
+	head: Uint8Array;
+	probe?: Uint8Array;
+	name: string;
+}): ContentVerdict {
+	const { detected, text, head, probe, name } = input;
 	const refuse = (found: string) => ({
 		ok: false as const,
 		message: `“${name}” is ${found}. This booking takes ${ACCEPTED_SUMMARY}.`
 	});
 	if (detected) {
 		const type = ACCEPTED[detected.mime];
-		return type ? { ok: true, type } : refuse(`${detected.ext.toUpperCase()} data, whatever its name says`);
+		if (!type) return refuse(`${detected.ext.toUpperCase()} data, whatever its name says`);
+		const weak = WEAK_SIGNATURES[detected.mime];
+		if (weak && !hasFrameChain(probe ?? head, weak)) return refuse(`not ${type.label}: it only starts like it`);
+		if (holdsWebMarkup(head)) return refuse(`a web page behind a ${type.label} header`);
+		return { ok: true, type };
 	}
-	if (!utf8Text) return refuse('not a kind of file we recognise');
-	if (looksLikeMarkup(head)) return refuse('a web page or markup, not a plain-text lyric sheet');
+	if (text === 'not-utf8') return refuse('not a kind of file we recognise');
+	if (text === 'control') return refuse('not plain text: it holds control characters');
+	if (text === 'markup' || looksLikeMarkup(head)) return refuse('a web page or markup, not a plain-text lyric sheet');
 	if (extensionOf(name) !== 'txt') return refuse('plain text; name it .txt if it is a lyric sheet');
 	return { ok: true, type: PLAIN_TEXT };
 }
@@ -99,30 +127,131 @@ function looksLikeMarkup(head: Uint8Array): boolean {
 	return /^<[!?a-z/]/i.test(start);
 }
 
-/** Follows a file chunk by chunk: true at the end when it is all valid UTF-8 with no NUL byte. */
-export class Utf8TextCheck {
+/** Tags that make a browser run or render a page (HTML Living Standard, SVG), anywhere in text. */
+const MARKUP_IN_TEXT =
+	/<\s*\/?\s*(?:!doctype|html|head|body|script|iframe|frame|frameset|object|embed|svg|math|style|link|meta|base|form|img|\?xml)\b/i;
+/** The same, in binary data: only what begins a page or a script, which real audio never spells out. */
+const MARKUP_IN_BINARY =
+	/<(?:!doctype\s+html|html[\s>]|head[\s>]|body[\s>]|script[\s>]|iframe[\s>]|svg[\s>]|object[\s>]|embed[\s>])/i;
+
+function holdsWebMarkup(bytes: Uint8Array): boolean {
+	// latin1 maps every byte to one character, so binary data decodes without loss or error.
+	return MARKUP_IN_BINARY.test(new TextDecoder('latin1').decode(bytes));
+}
+
+/** Where the audio frames of an MP3 begin: after any ID3v2 tags (ID3v2.4 §3.1, a synchsafe size). */
+export function audioStart(head: Uint8Array): number {
+	let at = 0;
+	while (at + 10 <= head.length && head[at] === 0x49 && head[at + 1] === 0x44 && head[at + 2] === 0x33) {
+		const size =
+			((head[at + 6]! & 0x7f) << 21) | ((head[at + 7]! & 0x7f) << 14) | ((head[at + 8]! & 0x7f) << 7) | (head[at + 9]! & 0x7f);
+		const footer = head[at + 5]! & 0x10 ? 10 : 0;
+		at += 10 + size + footer;
+	}
+	return at;
+}
+
+// MPEG-1/2 audio frame headers (ISO/IEC 11172-3 and 13818-3): kbit/s by version and layer.
+const BITRATES: Record<string, number[]> = {
+	'1-1': [0, 32, 64, 96, 128, 160, 192, 224, 256, 288, 320, 352, 384, 416, 448],
+	'1-2': [0, 32, 48, 56, 64, 80, 96, 112, 128, 160, 192, 224, 256, 320, 384],
+	'1-3': [0, 32, 40, 48, 56, 64, 80, 96, 112, 128, 160, 192, 224, 256, 320],
+	'2-1': [0, 32, 48, 56, 64, 80, 96, 112, 128, 144, 160, 176, 192, 224, 256],
+	'2-2': [0, 8, 16, 24, 32, 40, 48, 56, 64, 80, 96, 112, 128, 144, 160],
+	'2-3': [0, 8, 16, 24, 32, 40, 48, 56, 64, 80, 96, 112, 128, 144, 160]
+};
+const SAMPLE_RATES: Record<number, number[]> = { 3: [44100, 48000, 32000], 2: [22050, 24000, 16000], 0: [11025, 12000, 8000] };
+
+/** The length of the MPEG audio frame whose header is at `at`, or 0 when there is none. */
+export function mpegFrameLength(b: Uint8Array, at: number): number {
+	if (at + 4 > b.length || b[at] !== 0xff || (b[at + 1]! & 0xe0) !== 0xe0) return 0;
+	const version = (b[at + 1]! >> 3) & 3; // 3: MPEG-1, 2: MPEG-2, 0: MPEG-2.5, 1: reserved
+	const layer = 4 - ((b[at + 1]! >> 1) & 3); // 1, 2 or 3; 4 is reserved
+	const bitrateIndex = b[at + 2]! >> 4;
+	const rateIndex = (b[at + 2]! >> 2) & 3;
+	const padding = (b[at + 2]! >> 1) & 1;
+	if (version === 1 || layer === 4 || bitrateIndex === 0 || bitrateIndex === 15 || rateIndex === 3) return 0;
+	const kbps = BITRATES[`${version === 3 ? 1 : 2}-${layer}`]![bitrateIndex]!;
+	const rate = SAMPLE_RATES[version]![rateIndex]!;
+	if (layer === 1) return (Math.floor((12 * kbps * 1000) / rate) + padding) * 4;
+	const perFrame = layer === 3 && version !== 3 ? 72 : 144;
+	return Math.floor((perFrame * kbps * 1000) / rate) + padding;
+}
+
+/** The length of the ADTS (AAC) frame at `at` (ISO/IEC 13818-7 §6.2), or 0 when there is none. */
+export function adtsFrameLength(b: Uint8Array, at: number): number {
+	if (at + 7 > b.length || b[at] !== 0xff || (b[at + 1]! & 0xf6) !== 0xf0) return 0;
+	if (((b[at + 2]! >> 2) & 0xf) > 12) return 0;
+	const length = ((b[at + 3]! & 0x03) << 11) | (b[at + 4]! << 3) | (b[at + 5]! >> 5);
+	const headerLength = b[at + 1]! & 1 ? 7 : 9;
+	return length > headerLength ? length : 0;
+}
+
+/**
+ * Do at least MIN_FRAME_CHAIN frames follow one another, each header where the one before it
+ * ends, starting within the first few KB of `bytes`?
+ */
+export function hasFrameChain(bytes: Uint8Array, kind: 'mpeg' | 'adts'): boolean {
+	const frameLength = kind === 'mpeg' ? mpegFrameLength : adtsFrameLength;
+	const searchEnd = Math.min(bytes.length, FRAME_SEARCH_BYTES);
+	for (let start = 0; start < searchEnd; start++) {
+		if (bytes[start] !== 0xff) continue;
+		let at = start;
+		let frames = 0;
+		while (frames < MIN_FRAME_CHAIN) {
+			const length = frameLength(bytes, at);
+			if (!length) break;
+			frames++;
+			at += length;
+		}
+		if (frames >= MIN_FRAME_CHAIN) return true;
+	}
+	return false;
+}
+
+/**
+ * Follows a file chunk by chunk and says at the end whether it is plain text throughout: valid
+ * UTF-8, no NUL or other control characters (tab, line feed, carriage return and form feed are
+ * text), and no HTML, SVG or script tags anywhere.
+ */
+export class TextCheck {
 	private decoder = new TextDecoder('utf-8', { fatal: true });
-	private ok = true;
+	private finding: TextFinding = 'text';
+	/** The end of the text so far, so that a tag split across two chunks is still seen. */
+	private tail = '';
+
 	push(chunk: Uint8Array) {
-		if (!this.ok) return;
-		if (chunk.includes(0)) {
-			this.ok = false;
+		if (this.finding === 'not-utf8') return;
+		let text: string;
+		try {
+			text = this.decoder.decode(chunk, { stream: true });
+		} catch {
+			this.finding = 'not-utf8';
 			return;
 		}
-		try {
-			this.decoder.decode(chunk, { stream: true });
-		} catch {
-			this.ok = false;
-		}
+		this.look(text);
 	}
-	finish(): boolean {
-		if (!this.ok) return false;
+
+	finish(): TextFinding {
+		if (this.finding === 'not-utf8') return this.finding;
 		try {
-			this.decoder.decode();
-			return true;
+			this.look(this.decoder.decode());
 		} catch {
-			return false;
+			this.finding = 'not-utf8';
 		}
+		return this.finding;
+	}
+
+	private look(text: string) {
+		if (this.finding !== 'text') return;
+		// eslint-disable-next-line no-control-regex -- matching control characters is the point
+		if (/[\u0000-\u0008\u000b\u000e-\u001f\u007f-\u009f]/.test(text)) {
+			this.finding = 'control';
+			return;
+		}
+		const window = this.tail + text;
+		if (MARKUP_IN_TEXT.test(window)) this.finding = 'markup';
+		this.tail = window.slice(-32);
 	}
 }
 

@@ -3,6 +3,7 @@ import { APIError } from 'better-auth/api';
 import { auth } from './auth';
 import { audit } from './audit';
 import { checkAndCountSignUp, checkSignInLimit, recordSignInFailure, recordSignInSuccess } from './rate-limit';
+import { waitWords } from '$lib/domain/sign-in-limits';
 
 export type AuthOutcome =
 	| { ok: true; userId: string; role: string }
@@ -12,24 +13,29 @@ export type AuthOutcome =
 export const BAD_CREDENTIALS = 'That e-mail and password do not match. Check both and try again.';
 
 export async function signIn(input: { email: string; password: string }, headers: Headers, ip: string): Promise<AuthOutcome> {
-	const limit = checkSignInLimit(ip, input.email);
-	if (limit.limited) {
-		await audit({ action: 'auth.sign_in.limited', data: { email: input.email }, ip });
+	// Counted per account and address together, so a stranger's guesses never lock the owner out
+	// (src/lib/domain/sign-in-limits.ts).
+	const limit = await checkSignInLimit(ip, input.email);
+	if (!limit.allowed) {
+		await audit({ action: 'auth.sign_in.limited', data: { email: input.email, reason: limit.reason }, ip });
 		return {
 			ok: false,
 			status: 429,
-			message: `Too many attempts. Wait ${Math.ceil(limit.retryAfterSeconds / 60)} minute(s) before trying again.`
+			message:
+				limit.reason === 'account'
+					? `Too many wrong passwords for this account from here. Wait ${waitWords(limit.retryAfterSeconds)} before trying again.`
+					: `Too many failed sign-ins from your network. Wait ${waitWords(limit.retryAfterSeconds)} before trying again.`
 		};
 	}
 	try {
 		const result = await auth.api.signInEmail({ body: { email: input.email, password: input.password }, headers });
-		recordSignInSuccess(input.email);
+		await recordSignInSuccess(ip, input.email);
 		const role = (result.user as { role?: string }).role ?? 'artist';
 		await audit({ actorId: result.user.id, action: 'auth.sign_in', entity: 'user', entityId: result.user.id, ip });
 		return { ok: true, userId: result.user.id, role };
 	} catch (e) {
 		if (e instanceof APIError) {
-			recordSignInFailure(ip, input.email);
+			await recordSignInFailure(ip, input.email);
 			await audit({ action: 'auth.sign_in.failed', data: { email: input.email }, ip });
 			return { ok: false, status: 400, message: BAD_CREDENTIALS };
 		}
@@ -42,9 +48,13 @@ export async function signUp(
 	headers: Headers,
 	ip: string
 ): Promise<AuthOutcome> {
-	const limit = checkAndCountSignUp(ip);
-	if (limit.limited) {
-		return { ok: false, status: 429, message: 'Too many sign-ups from this address. Please try again later.' };
+	const limit = await checkAndCountSignUp(ip);
+	if (!limit.allowed) {
+		return {
+			ok: false,
+			status: 429,
+			message: `Too many sign-ups from this address. Wait ${waitWords(limit.retryAfterSeconds)} before trying again.`
+		};
 	}
 	try {
 		// Only these three fields reach better-auth: a role or anything else in the form is ignored.

@@ -7,6 +7,7 @@ import { env } from '$env/dynamic/private';
 import { db } from './db';
 import { user, session, account, verification } from './db/schema';
 import type { Role } from '$lib/roles';
+import { redactText, safeLogArgs } from '$lib/domain/log-redaction';
 
 export type { Role } from '$lib/roles';
 
@@ -56,6 +57,19 @@ export const auth = betterAuth({
 		database: { generateId: () => crypto.randomUUID() }
 	},
 	telemetry: { enabled: false },
+	// better-auth logs a failed session lookup with the error whole, and a failed query's error
+	// lists its parameters: the session token. Its messages pass through the same redaction as
+	// ours (src/lib/domain/log-redaction.ts), and debug output stays off.
+	logger: {
+		level: 'warn',
+		disableColors: true,
+		log: (level, message, ...args) => {
+			const line = [`[auth] ${redactText(message)}`, ...safeLogArgs(args)].join(' ');
+			if (level === 'error') console.error(line);
+			else if (level === 'warn') console.warn(line);
+			else console.info(line);
+		}
+	},
 	// sveltekitCookies must be the last plugin: it copies better-auth's cookies onto SvelteKit's.
 	plugins: [sveltekitCookies(getRequestEvent)]
 });

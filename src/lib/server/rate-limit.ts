@@ -1,129 +1,129 @@
-// Brute-force limits on sign-in (OWASP ASVS 6.3.1). One process serves the studio, so counting
-// in memory is enough; a restart forgets the counts, which only ever helps the legitimate user.
+// Brute-force limits on signing in and up (OWASP ASVS 6.3.1), kept in PostgreSQL so that every
+// app instance counts the same attempts. The rules (what counts, windows, when to refuse, the
+// pauses) are in src/lib/domain/sign-in-limits.ts; this module reads and writes the counts.
+//
+// A check and the count after it are two statements, so a burst of attempts sent at the same
+// instant can each pass the check before any is counted: at most one attempt per request in
+// flight gets past a limit, each still paying for a full password check.
+import { and, eq, gt, lte, sql } from 'drizzle-orm';
 import { env } from '$env/dynamic/private';
+import {
+	accountKey,
+	addressKey,
+	judgeSignIn,
+	judgeSignUp,
+	limitConfig,
+	type Counter,
+	type LimitVerdict,
+	type SignInLimitConfig
+} from '$lib/domain/sign-in-limits';
+import { db } from './db';
+import { authLimit } from './db/schema';
 
-interface Bucket {
-	count: number;
-	resetAt: number;
+export function signInLimits(): SignInLimitConfig {
+	return limitConfig(env);
 }
 
-/**
- * Fixed-window counters by key, with bounded memory. Every bucket lives for the same window and
- * is (re)inserted when its window opens, so the Map's insertion order is also the order of
- * expiry: each `hit` drops the expired buckets at the front, and past `maxEntries` the oldest
- * buckets (the ones closest to expiring anyway) make room. Only `hit` makes a bucket; a look
- * (`peek`) never does.
- */
-export class RateLimitStore {
-	private readonly buckets = new Map<string, Bucket>();
+type Kind = 'sign_in' | 'sign_up';
 
-	constructor(
-		readonly windowMs: number,
-		readonly maxEntries: number
-	) {}
+const asCounter = (row: { count: number; windowStartedAt: Date; lastAt: Date }): Counter => ({
+	count: row.count,
+	windowStartedAt: row.windowStartedAt.getTime(),
+	lastAt: row.lastAt.getTime()
+});
 
-	get size() {
-		return this.buckets.size;
-	}
-
-	/** The live bucket for a key, if there is one; makes none. */
-	peek(key: string, now = Date.now()): Readonly<Bucket> | undefined {
-		const b = this.buckets.get(key);
-		if (b && b.resetAt <= now) {
-			this.buckets.delete(key);
-			return undefined;
-		}
-		return b;
-	}
-
-	/** Counts one more event for the key, opening a new window when there is none. */
-	hit(key: string, now = Date.now()): Readonly<Bucket> {
-		this.dropExpired(now);
-		let b = this.peek(key, now) as Bucket | undefined;
-		if (!b) {
-			for (const oldest of this.buckets.keys()) {
-				if (this.buckets.size < this.maxEntries) break;
-				this.buckets.delete(oldest);
-			}
-			b = { count: 0, resetAt: now + this.windowMs };
-			this.buckets.set(key, b);
-		}
-		b.count++;
-		return b;
-	}
-
-	delete(key: string) {
-		this.buckets.delete(key);
-	}
-
-	clear() {
-		this.buckets.clear();
-	}
-
-	private dropExpired(now: number) {
-		for (const [key, b] of this.buckets) {
-			if (b.resetAt > now) break;
-			this.buckets.delete(key);
-		}
-	}
-}
-
-const WINDOW_MS = 15 * 60 * 1000;
-// About 10 MB at most. Every bucket needs a failed attempt that was not itself limited, so one
-// address can open at most its per-address limit of account buckets per window.
-const MAX_BUCKETS = 50_000;
-
-/** Failed sign-ins allowed per account and per address, and sign-ups per address, in each window. */
-export function signInLimits() {
-	return { perAccount: Number(env.AUTH_RATE_LIMIT_PER_ACCOUNT ?? 5), perIp: Number(env.AUTH_RATE_LIMIT_PER_IP ?? 30) };
-}
-
-const store = new RateLimitStore(WINDOW_MS, MAX_BUCKETS);
-
-/** How many buckets are held (for tests and diagnostics). */
-export function trackedBuckets(): number {
-	return store.size;
-}
-
-/** Forgets every count (for tests). */
-export function resetRateLimits() {
-	store.clear();
-}
-
-export interface LimitResult {
-	limited: boolean;
-	retryAfterSeconds: number;
-}
-
-function over(b: Readonly<Bucket> | undefined, max: number): b is Readonly<Bucket> {
-	return !!b && b.count >= max;
+async function readCounter(kind: Kind, address: string, account: string): Promise<Counter | null> {
+	const [row] = await db
+		.select({ count: authLimit.count, windowStartedAt: authLimit.windowStartedAt, lastAt: authLimit.lastAt })
+		.from(authLimit)
+		.where(and(eq(authLimit.kind, kind), eq(authLimit.address, address), eq(authLimit.account, account)));
+	return row ? asCounter(row) : null;
 }
 
 /** Is another sign-in attempt allowed for this address and this e-mail? Only looks; counts nothing. */
-export function checkSignInLimit(ip: string, email: string, now = Date.now()): LimitResult {
-	const byIp = store.peek(`ip:${ip}`, now);
-	const byAccount = store.peek(`acct:${email.toLowerCase()}`, now);
-	const { perAccount, perIp } = signInLimits();
-	const ipOver = over(byIp, perIp);
-	const accountOver = over(byAccount, perAccount);
-	if (!ipOver && !accountOver) return { limited: false, retryAfterSeconds: 0 };
-	const resetAt = Math.max(ipOver ? byIp.resetAt : 0, accountOver ? byAccount.resetAt : 0);
-	return { limited: true, retryAfterSeconds: Math.ceil((resetAt - now) / 1000) };
+export async function checkSignInLimit(ip: string, email: string, now = new Date()): Promise<LimitVerdict> {
+	const config = signInLimits();
+	const address = addressKey(ip);
+	const windowOpenSince = new Date(now.getTime() - config.windowMs);
+	const [pair, [spread]] = await Promise.all([
+		readCounter('sign_in', address, accountKey(email)),
+		db
+			.select({
+				failures: sql<string | null>`sum(${authLimit.count})`,
+				last: sql<Date | string | null>`max(${authLimit.lastAt})`
+			})
+			.from(authLimit)
+			.where(and(eq(authLimit.kind, 'sign_in'), eq(authLimit.address, address), gt(authLimit.windowStartedAt, windowOpenSince)))
+	]);
+	const last = spread?.last ? new Date(spread.last).getTime() : null;
+	return judgeSignIn({ pair, address: { failures: Number(spread?.failures ?? 0), lastFailureAt: last } }, config, now.getTime());
 }
 
-export function recordSignInFailure(ip: string, email: string, now = Date.now()) {
-	store.hit(`ip:${ip}`, now);
-	store.hit(`acct:${email.toLowerCase()}`, now);
+/**
+ * Counts one event for the key in one statement: a row whose window has ended starts again at 1,
+ * so concurrent writers (several instances) never lose a count.
+ */
+async function countOne(kind: Kind, address: string, account: string, config: SignInLimitConfig, now: Date) {
+	const windowOpenSince = new Date(now.getTime() - config.windowMs);
+	const windowEndFromNow = new Date(now.getTime() + config.windowMs);
+	const pauseEnd = new Date(now.getTime() + config.backoffMaxMs);
+	// Instants go into raw SQL as ISO 8601 text; the driver takes Date objects only for typed columns.
+	const closed = sql`${authLimit.windowStartedAt} <= ${windowOpenSince.toISOString()}::timestamptz`;
+	const startedAt = sql`case when ${closed} then ${now.toISOString()}::timestamptz else ${authLimit.windowStartedAt} end`;
+	await db
+		.insert(authLimit)
+		.values({
+			kind,
+			address,
+			account,
+			count: 1,
+			windowStartedAt: now,
+			lastAt: now,
+			expiresAt: new Date(Math.max(windowEndFromNow.getTime(), pauseEnd.getTime()))
+		})
+		.onConflictDoUpdate({
+			target: [authLimit.kind, authLimit.address, authLimit.account],
+			set: {
+				count: sql`case when ${closed} then 1 else ${authLimit.count} + 1 end`,
+				windowStartedAt: startedAt,
+				lastAt: now,
+				expiresAt: sql`greatest(${startedAt} + make_interval(secs => ${config.windowMs / 1000}), ${pauseEnd.toISOString()}::timestamptz)`
+			}
+		});
+	sweepNow(now);
 }
 
-export function recordSignInSuccess(email: string) {
-	store.delete(`acct:${email.toLowerCase()}`);
+export async function recordSignInFailure(ip: string, email: string, now = new Date()) {
+	await countOne('sign_in', addressKey(ip), accountKey(email), signInLimits(), now);
 }
 
-/** Sign-ups from one address. */
-export function checkAndCountSignUp(ip: string, now = Date.now()): LimitResult {
-	const b = store.peek(`signup:${ip}`, now);
-	if (over(b, signInLimits().perIp)) return { limited: true, retryAfterSeconds: Math.ceil((b.resetAt - now) / 1000) };
-	store.hit(`signup:${ip}`, now);
-	return { limited: false, retryAfterSeconds: 0 };
+/** The right password from this address: its failures on this account are forgotten (others' stay). */
+export async function recordSignInSuccess(ip: string, email: string) {
+	await db
+		.delete(authLimit)
+		.where(and(eq(authLimit.kind, 'sign_in'), eq(authLimit.address, addressKey(ip)), eq(authLimit.account, accountKey(email))));
+}
+
+/** Sign-ups from one address: checks, and counts this one when it is allowed. */
+export async function checkAndCountSignUp(ip: string, now = new Date()): Promise<LimitVerdict> {
+	const config = signInLimits();
+	const address = addressKey(ip);
+	const verdict = judgeSignUp(await readCounter('sign_up', address, ''), config, now.getTime());
+	if (verdict.allowed) await countOne('sign_up', address, '', config, now);
+	return verdict;
+}
+
+const SWEEP_EVERY_MS = 60_000;
+let lastSweep = 0;
+
+/** Deletes the rows that can no longer refuse or slow anyone; at most once a minute per instance. */
+function sweepNow(now: Date) {
+	if (now.getTime() - lastSweep < SWEEP_EVERY_MS) return;
+	lastSweep = now.getTime();
+	void sweepExpiredLimits(now).catch((e: unknown) => console.warn('[auth] could not sweep sign-in limits:', (e as Error).name));
+}
+
+export async function sweepExpiredLimits(now = new Date()): Promise<number> {
+	const gone = await db.delete(authLimit).where(lte(authLimit.expiresAt, now)).returning({ kind: authLimit.kind });
+	return gone.length;
 }

@@ -22,7 +22,9 @@ import {
 	roomForOneFile,
 	SNIFF_BYTES,
 	uploadLimits,
-	Utf8TextCheck,
+	TextCheck,
+	audioStart,
+	PROBE_BYTES,
 	formatBytes,
 	type BookingUsage,
 	type UploadLimits
@@ -196,7 +198,7 @@ export async function save(
 	try {
 		let size = 0;
 		const hash = createHash('sha256');
-		const text = new Utf8TextCheck();
+		const text = new TextCheck();
 		const head: Uint8Array[] = [];
 		let headBytes = 0;
 		const out = await open(partPath, 'wx', 0o600);
@@ -239,7 +241,11 @@ export async function save(
 		// ASVS 5.2.2: the type from the first bytes (file-type's signatures), never the name or the browser's claim.
 		const first = Buffer.concat(head);
 		const detected = await fileTypeFromBuffer(first);
-		const verdict = judgeContent(detected, text.finish(), first, name);
+		// MP3 and AAC frames are checked where the audio starts, which a large ID3 tag (cover art)
+		// can put past the first bytes: read them back from the file.
+		const probe =
+			detected?.mime === 'audio/mpeg' || detected?.mime === 'audio/aac' ? await readAt(partPath, audioStart(first)) : undefined;
+		const verdict = judgeContent({ detected, text: text.finish(), head: first, probe, name });
 		if (!verdict.ok) return fail(415, 'unsupported_type', verdict.message);
 
 		await rename(partPath, finalPath);
@@ -274,6 +280,18 @@ export async function save(
 		return outcome;
 	} finally {
 		if (leftover) await rm(leftover, { force: true });
+	}
+}
+
+/** Up to PROBE_BYTES of a file from `offset` on. */
+async function readAt(file: string, offset: number): Promise<Uint8Array> {
+	const handle = await open(file, 'r');
+	try {
+		const buffer = Buffer.alloc(PROBE_BYTES);
+		const { bytesRead } = await handle.read(buffer, 0, PROBE_BYTES, offset);
+		return buffer.subarray(0, bytesRead);
+	} finally {
+		await handle.close();
 	}
 }
 

@@ -486,3 +486,27 @@ export const calendarFeed = pgTable('calendar_feed', {
 	token: text('token').notNull().unique(),
 	createdAt: created()
 });
+
+/**
+ * Sign-in failures and sign-ups, counted per client address and account in the database so
+ * that every app instance sees the same counts (src/lib/domain/sign-in-limits.ts has the rules).
+ * kind 'sign_in': failures of one account from one address; kind 'sign_up': sign-ups from an
+ * address (account ''). A row is deleted once it has expired.
+ */
+export const authLimit = pgTable(
+	'auth_limit',
+	{
+		kind: text('kind').notNull(),
+		address: text('address').notNull(),
+		account: text('account').notNull().default(''),
+		count: integer('count').notNull(),
+		windowStartedAt: ts('window_started_at').notNull(),
+		lastAt: ts('last_at').notNull(),
+		expiresAt: ts('expires_at').notNull()
+	},
+	(t) => [
+		primaryKey({ columns: [t.kind, t.address, t.account] }),
+		index('auth_limit_expires_idx').on(t.expiresAt),
+		check('auth_limit_kind', sql`${t.kind} in ('sign_in', 'sign_up')`)
+	]
+);

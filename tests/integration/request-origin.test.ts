@@ -1,0 +1,77 @@
+// A request that changes something through the API must come from the studio's own pages: the
+// artist's cookie riding along on a POST from another origin (another port, a sibling subdomain)
+// changes nothing.
+import { afterAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import { signedIn, type Client } from '../support/http';
+import { APP_URL, DEMO } from '../support/env';
+import { testDb } from '../support/db';
+import { weekdayAhead } from '../support/dates';
+import * as t from '../../src/lib/server/db/schema';
+
+const { db, client } = testDb();
+afterAll(() => client.end());
+
+const appPort = new URL(APP_URL).port;
+const otherPort = String(Number(appPort) + 1);
+
+async function hold(c: Client, day: string, from: string, to: string): Promise<string> {
+	const res = await c.json('/api/bookings', { room: 'vocal-booth', start: `${day}T${from}`, end: `${day}T${to}` });
+	expect(res.status, await res.clone().text()).toBe(201);
+	return ((await res.json()) as { id: string }).id;
+}
+
+async function statusOf(id: string) {
+	const [row] = await db.select({ status: t.booking.status }).from(t.booking).where(eq(t.booking.id, id));
+	return row?.status;
+}
+
+/** A body-less POST carrying the artist's cookie and whatever origin headers a browser would send. */
+function forged(c: Client, path: string, headers: Record<string, string>) {
+	return fetch(APP_URL + path, { method: 'POST', headers: { cookie: c.cookieHeader(), ...headers }, redirect: 'manual' });
+}
+
+describe('state-changing API requests come from the app’s own origin', () => {
+	const day = weekdayAhead(137);
+
+	it.each([
+		['another port of the same host', { origin: `http://127.0.0.1:${otherPort}` }],
+		['a sibling name of the same site', { origin: `http://files.localhost:${appPort}` }],
+		['the opaque origin of a sandboxed frame', { origin: 'null' }],
+		['fetch metadata saying cross-site', { 'sec-fetch-site': 'cross-site' }],
+		['fetch metadata saying same-site', { 'sec-fetch-site': 'same-site' }]
+	])('a cancel from %s is refused with 403 and the booking stays', async (_what, headers) => {
+		const artist = await signedIn(DEMO.artist);
+		const id = await hold(artist, day, '10:00', '12:00');
+		const res = await forged(artist, `/api/bookings/${id}/cancel`, headers);
+		expect(res.status).toBe(403);
+		expect(await res.json()).toEqual({ error: 'forbidden', message: expect.any(String) });
+		expect(await statusOf(id)).toBe('held');
+		// The same artist from the app's own page cancels it.
+		const own = await artist.json(`/api/bookings/${id}/cancel`, {});
+		expect(own.status).toBe(200);
+		expect(await statusOf(id)).toBe('cancelled');
+	});
+
+	it('a request from the app’s own origin, or from a program that sends neither header, goes through', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const first = await hold(artist, day, '12:30', '14:30');
+		expect((await forged(artist, `/api/bookings/${first}/cancel`, { 'sec-fetch-site': 'same-origin' })).status).toBe(200);
+		expect(await statusOf(first)).toBe('cancelled');
+		const second = await hold(artist, day, '15:00', '17:00');
+		// curl with the cookie: no Origin, no Sec-Fetch-Site (see src/lib/domain/request-origin.ts).
+		expect((await forged(artist, `/api/bookings/${second}/cancel`, {})).status).toBe(200);
+		expect(await statusOf(second)).toBe('cancelled');
+	});
+
+	it('sign-out from another origin is refused too; reading stays open', async () => {
+		const artist = await signedIn(DEMO.artist2);
+		const out = await forged(artist, '/api/auth/sign-out', { origin: `http://127.0.0.1:${otherPort}` });
+		expect(out.status).toBe(403);
+		const session = await fetch(`${APP_URL}/api/auth/get-session`, {
+			headers: { cookie: artist.cookieHeader(), origin: `http://127.0.0.1:${otherPort}` }
+		});
+		expect(session.status).toBe(200);
+		expect(((await session.json()) as { user: { email: string } }).user.email).toBe(DEMO.artist2);
+	});
+});
