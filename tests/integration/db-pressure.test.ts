@@ -255,10 +255,18 @@ describe('a lock pile-up', () => {
 				'the pool waiting on the lock',
 				20_000
 			);
-			// …and the app, asked, says the database is busy, not down.
+			// …and the app, asked, says the database is busy, not down; a page that cannot get a
+			// connection in time says the same, as a 503 with Retry-After.
+			const page = fetch(`${new Client().base}/rooms`, { headers: { accept: 'text/html' } });
 			const health = await fetch(`${new Client().base}/api/health`);
 			expect(health.status).toBe(200);
 			expect(await health.json()).toEqual({ ok: true, db: 'busy' });
+			const shown = await page;
+			const html = await shown.text();
+			expect(shown.status).toBe(503);
+			expect(Number(shown.headers.get('retry-after'))).toBeGreaterThan(0);
+			expect(html).toContain('very busy');
+			expect(html).not.toContain('not answering');
 
 			const answers = await Promise.all(cancels);
 			for (const a of answers) {

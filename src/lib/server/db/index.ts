@@ -35,8 +35,10 @@ const handle = createDb(url, {
 	// An unreachable server is given up on quickly: requests answer 503 instead of hanging.
 	connectTimeoutSeconds: setting('DATABASE_CONNECT_TIMEOUT', 3),
 	// A lock pile-up or a runaway statement ends in a 503 "busy", never in a request that hangs.
+	// Work that already holds a connection may wait for a lock longer than work waits for a
+	// connection: in a pile-up, the requests still queueing for a connection give up first.
 	statementTimeoutMs: setting('DATABASE_STATEMENT_TIMEOUT_MS', 30_000),
-	lockTimeoutMs: setting('DATABASE_LOCK_TIMEOUT_MS', 10_000),
+	lockTimeoutMs: setting('DATABASE_LOCK_TIMEOUT_MS', 15_000),
 	idleInTransactionTimeoutMs: 60_000,
 	onTrouble: markRequest
 });
