@@ -13,8 +13,8 @@ declare global {
 			user: SessionUser | null;
 			session: { id: string; expiresAt: Date } | null;
 			role: Role | null;
-			/** Set by handleError when a failure was the database being unreachable (see hooks.server.ts). */
-			databaseDown?: boolean;
+			/** Set when this request met the database down or busy (db/index.ts, handleError); hooks.server.ts answers 503. */
+			databaseTrouble?: import('$lib/server/db/trouble').DatabaseTrouble;
 		}
 	}
 }

@@ -1,11 +1,18 @@
-import { error, redirect, type Handle, type HandleServerError } from '@sveltejs/kit';
+import { error, isHttpError, redirect, type Handle, type HandleServerError } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
 import { svelteKitHandler } from 'better-auth/svelte-kit';
 import { auth, CLIENT_ADDRESS_HEADER } from '$lib/server/auth';
 import { isRole } from '$lib/roles';
 import { zoneFor } from '$lib/server/zones';
-import { DATABASE_UNAVAILABLE, databaseAnswers, isDatabaseDown } from '$lib/server/db/health';
+import {
+	DATABASE_UNAVAILABLE,
+	databaseAnswers,
+	databaseTrouble,
+	isDatabaseDown,
+	TROUBLE_ANSWER,
+	type DatabaseTrouble
+} from '$lib/server/db/health';
 import { apiError } from '$lib/server/api';
 import { startBackgroundJobs, stopBackgroundJobs } from '$lib/server/jobs';
 import { sqlClient } from '$lib/server/db';
@@ -91,18 +98,42 @@ const authRoutes: Handle = async ({ event, resolve }) => {
 };
 
 /**
- * A JSON endpoint that fails because the database is unreachable answers 503, not 500. Kit
- * catches an endpoint's error itself and answers 500 through handleError, which cannot change
- * the status but can leave a mark in locals; this handle, around everything else, sees the mark.
+ * A request that fails because the database is down or busy answers 503 with Retry-After and
+ * words that say which (health.ts), never a 500. Kit catches an endpoint's or a load's error
+ * itself and answers 500 through handleError, which cannot change the status; the pool
+ * (db/index.ts) and handleError leave a mark in locals, and this handle, around everything else,
+ * sees the mark. better-auth turns a failed query into its own 500 without handleError: the
+ * pool's mark covers that too.
  */
 const databaseOutage: Handle = async ({ event, resolve }) => {
-	event.locals.databaseDown = false;
-	const response = await resolve(event);
-	if (response.status === 500 && event.locals.databaseDown && event.url.pathname.startsWith('/api/')) {
-		return apiError(503, 'unavailable', DATABASE_UNAVAILABLE);
+	event.locals.databaseTrouble = undefined;
+	const api = event.url.pathname.startsWith('/api/');
+	let response: Response;
+	try {
+		response = await resolve(event);
+	} catch (e) {
+		// A handle that threw (reading the session): nothing was rendered yet.
+		const kind = databaseTrouble(e) ?? (isHttpError(e, 503) && e.body.error === 'unavailable' ? 'down' : null);
+		if (!kind) throw e;
+		const answer = TROUBLE_ANSWER[kind];
+		if (api) return withRetryAfter(apiError(503, answer.error, answer.message), kind);
+		error(503, { error: answer.error, message: answer.message });
 	}
-	return response;
+	// Set while the request ran (TypeScript still sees the undefined from above).
+	const kind = event.locals.databaseTrouble as DatabaseTrouble | undefined;
+	if (!kind || response.status < 500) return response;
+	if (api) {
+		const answer = TROUBLE_ANSWER[kind];
+		return withRetryAfter(apiError(503, answer.error, answer.message), kind);
+	}
+	// A page: keep what was rendered (the error page with handleError's words), as a 503.
+	return withRetryAfter(new Response(response.body, { status: 503, headers: response.headers }), kind);
 };
+
+function withRetryAfter(response: Response, kind: DatabaseTrouble) {
+	response.headers.set('retry-after', String(TROUBLE_ANSWER[kind].retryAfter));
+	return response;
+}
 
 /** The signed-in person, if any, into locals. */
 const sessionIntoLocals: Handle = async ({ event, resolve }) => {
@@ -180,9 +211,10 @@ export const handle = sequence(
 
 export const handleError: HandleServerError = ({ error: e, event, status, message }) => {
 	if (status === 404) return { message: 'Not found', error: 'not_found' };
-	if (isDatabaseDown(e)) {
-		event.locals.databaseDown = true;
-		return { message: DATABASE_UNAVAILABLE, error: 'unavailable' };
+	const trouble = databaseTrouble(e);
+	if (trouble) {
+		event.locals.databaseTrouble = trouble;
+		return { message: TROUBLE_ANSWER[trouble].message, error: TROUBLE_ANSWER[trouble].error };
 	}
 	const errorId = crypto.randomUUID().slice(0, 8);
 	// The route's pattern, not its path (a feed path holds a token), and the error described, not

@@ -370,15 +370,16 @@ describe('webhook signatures (Stripe-Signature, 300 s tolerance)', () => {
 // ---- failure and retry ---------------------------------------------------------------------------
 
 describe('a failed delivery is retried and processed once', () => {
-	it('answers 500 while the booking row is locked, then processes the retry once', async () => {
+	it('answers 503 busy while the booking row is locked, then processes the retry once', async () => {
 		const b = await book(await signedIn(DEMO.artist), 'control-room');
 		let sawFailure = false;
-		// Hold the booking's row lock in our own transaction: the webhook times out on it (lock_timeout) and answers 500.
+		// Hold the booking's row lock in our own transaction: the webhook times out on it (lock_timeout)
+		// and answers 503 busy, which Stripe retries like any answer that is not 2xx.
 		await db.transaction(async (tx) => {
 			await tx.execute(sql`select id from booking where id = ${b.id} for update`);
 			await control(`/sessions/${b.sessionId}/pay`, {});
 			const event = await completedEventOf(b.sessionId);
-			await waitFor(async () => (await deliveries(event.id)).some((d) => d.statusCode === 500), 'a 500', 15_000);
+			await waitFor(async () => (await deliveries(event.id)).some((d) => d.statusCode === 503), 'a 503', 15_000);
 			sawFailure = true;
 			expect((await bookingRow(b.id)).status).toBe('held');
 		});
@@ -386,7 +387,7 @@ describe('a failed delivery is retried and processed once', () => {
 		await waitStatus(b.id, 'confirmed', 20_000);
 		const event = await completedEventOf(b.sessionId);
 		const log = await deliveries(event.id);
-		expect(log[0]!.statusCode).toBe(500);
+		expect(log[0]!.statusCode).toBe(503);
 		expect(log.at(-1)!.statusCode).toBe(200);
 		expect(log.slice(1).every((d) => d.kind === 'retry')).toBe(true);
 		const m = await money(b.id);

@@ -2,6 +2,7 @@
 import { and, eq, lt } from 'drizzle-orm';
 import { db } from './db';
 import { booking } from './db/schema';
+import { databaseTrouble } from './db/trouble';
 
 let started = false;
 let timer: ReturnType<typeof setInterval> | null = null;
@@ -25,14 +26,25 @@ export function addPeriodicJob(job: () => Promise<unknown>) {
 export function startBackgroundJobs(intervalMs = 15_000) {
 	if (started) return;
 	started = true;
+	let running = false;
 	const tick = async () => {
-		for (const job of [expireStaleHolds, ...extraJobs]) {
-			try {
-				await job();
-			} catch (e) {
-				// The database may be down for a while; the next tick tries again.
-				console.warn('[jobs]', (e as Error).message);
+		// A tick that outlasts the interval (a slow or busy database) is not joined by another, so
+		// the jobs never pile up and take connections from requests; while the database is down
+		// the rest of a tick is skipped.
+		if (running) return;
+		running = true;
+		try {
+			for (const job of [expireStaleHolds, ...extraJobs]) {
+				try {
+					await job();
+				} catch (e) {
+					// The database may be down or busy for a while; the next tick tries again.
+					console.warn('[jobs]', (e as Error).message);
+					if (databaseTrouble(e) === 'down') break;
+				}
 			}
+		} finally {
+			running = false;
 		}
 	};
 	timer = setInterval(() => void tick(), intervalMs);
