@@ -15,6 +15,8 @@ declare global {
 			role: Role | null;
 			/** Set by handleError when a failure was the database being unreachable (see hooks.server.ts). */
 			databaseDown?: boolean;
+			/** Set by handleError when the database refused a value of the request as data (see hooks.server.ts). */
+			badInput?: boolean;
 		}
 	}
 }

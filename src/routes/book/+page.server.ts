@@ -120,7 +120,11 @@ export const actions: Actions = {
 	default: async ({ request, locals, url, getClientAddress }) => {
 		const form = await superValidate<BookForm, BookMessage>(request, zod4(bookFormSchema));
 		// Signed out (a session that ended while choosing): keep every choice through sign-in.
-		if (!locals.user) redirect(303, `/sign-in?next=${encodeURIComponent(bookPath(form.data as BookingChoices))}`);
+		if (!locals.user) {
+			// The choices ride along only when sign-in can follow them back (at most 500 characters).
+			const back = bookPath(form.data as BookingChoices);
+			redirect(303, `/sign-in?next=${encodeURIComponent(back.length <= 500 ? back : '/book')}`);
+		}
 		if (!form.valid) return fail(422, { form });
 
 		const { studio } = await getPolicy();

@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import { parseMoney, parsePercentToBasisPoints, toDecimalString, basisPointsToPercent } from '$lib/domain/money';
 import { CLOCK_RE, clockToMinute, exact, minuteToClock, moneyText, percentText } from '$lib/schemas/fields';
+import { lineText } from '$lib/schemas/input';
 import type { CancellationRung, OpeningHours } from '$lib/domain/types';
 // Types only: erased before the browser bundle is made.
 import type { PolicyValues, SurchargeValues } from '$lib/server/settings';
@@ -182,8 +183,7 @@ export const surchargeSchema = z
 			.string()
 			.regex(/^(?:[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})?$/i, { error: 'Unknown surcharge.' })
 			.default(''),
-		label: z
-			.string({ error: 'Name the surcharge, e.g. Evening.' })
+		label: lineText({ error: 'Name the surcharge, e.g. Evening.' })
 			.trim()
 			.min(1, { error: 'Name the surcharge, e.g. Evening.' })
 			.max(80, { error: 'Keep the name under 80 characters.' }),
