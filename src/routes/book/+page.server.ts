@@ -18,6 +18,7 @@ import {
 	type BookingChoices
 } from '$lib/components/booking/choices';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
+import { dateProblem } from '$lib/schemas/input';
 import { bookFormSchema, type BookForm, type BookMessage } from './schema';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -55,12 +56,15 @@ export const load: PageServerLoad = async ({ url, locals }) => {
 	// A date in the address that is not on the calendar (2027-02-31) is left out and said so.
 	const askedDate = url.searchParams.get('date');
 	if (askedDate && !asked.date) {
+		const problem = dateProblem(askedDate);
 		setError(
 			form,
 			'date',
-			YMD_RE.test(askedDate)
-				? `There is no ${askedDate} on the calendar: choose another date.`
-				: 'Choose a date such as 2027-03-28.'
+			!YMD_RE.test(askedDate) || !problem
+				? 'Choose a date such as 2027-03-28.'
+				: problem.startsWith('There is no')
+					? `${problem.slice(0, -1)}: choose another date.`
+					: problem
 		);
 	}
 
