@@ -263,6 +263,14 @@ describe('the Stripe webhook', () => {
 			expect(await recorded(id)).toBe(0);
 		}
 		expect((await apiError(await signed('[1,2,3]'), 400)).error).toBe('invalid_event');
+		// A session or refund event is acted on by its object's id: one without is refused too.
+		for (const type of ['checkout.session.completed', 'refund.updated']) {
+			for (const object of [{}, { id: 42 }, { id: `cs_${NUL}` }]) {
+				const id = eventId();
+				expect((await apiError(await signed(JSON.stringify({ id, type, data: { object } })), 400)).error).toBe('invalid_event');
+				expect(await recorded(id)).toBe(0);
+			}
+		}
 	});
 
 	it('refuses an event signed more than five minutes in the future, as one more than five minutes old', async () => {

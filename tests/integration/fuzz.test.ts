@@ -538,6 +538,18 @@ describe('hostile input on every route', () => {
 			'{"id":"evt_fuzz","type":"checkout.session.completed"}',
 			'{"id":"evt\\u0000","type":"x","data":{"object":{}}}'
 		);
+		// The types the endpoint acts on, each with hostile objects (ids of their own, so nothing matches).
+		const acted = [
+			'checkout.session.completed',
+			'checkout.session.expired',
+			'checkout.session.async_payment_failed',
+			'refund.updated'
+		];
+		fc.sample(hostileJson, { seed: SEED + 1, numRuns: 24 }).forEach((object, i) => {
+			const type = acted[i % acted.length];
+			bodies.push(JSON.stringify({ id: `evt_fuzz_${SEED}_${i}`, type, data: { object } }));
+			bodies.push(JSON.stringify({ id: `evt_fuzz_${SEED}_${i}_id`, type, data: { object: { id: object, metadata: object } } }));
+		});
 		const statuses: string[] = [];
 		for (const body of bodies) {
 			const t = Math.floor(Date.now() / 1000);

@@ -37,12 +37,21 @@ const eventShape = z.object({
 	data: z.object({ object: z.record(z.string(), z.unknown()) })
 });
 
+/** The sessions and refunds acted on are found by their Stripe id. */
+const actedOnObject = z.object({ id: lineText().min(1).max(255) });
+
 /** Why a signed body is not an event this endpoint can process, or null. */
 export function eventShapeProblem(event: unknown): string | null {
 	const parsed = eventShape.safeParse(event);
-	if (parsed.success) return null;
-	const where = parsed.error.issues[0]?.path.join('.') || 'event';
-	return `The event has no usable ${where}.`;
+	if (!parsed.success) {
+		const where = parsed.error.issues[0]?.path.join('.') || 'event';
+		return `The event has no usable ${where}.`;
+	}
+	const { type, data } = parsed.data;
+	if ((SESSION_FACTS[type] || REFUND_EVENTS.has(type)) && !actedOnObject.safeParse(data.object).success) {
+		return 'The event has no usable data.object.id.';
+	}
+	return null;
 }
 
 export async function processStripeEvent(event: Stripe.Event): Promise<{ duplicate: boolean; outcome: string }> {
