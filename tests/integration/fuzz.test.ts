@@ -308,7 +308,7 @@ function requestsFor(target: Target, seed: number, heavy: boolean): Sent[] {
 
 	const to = path + actionQuery;
 	// A page's form posted without JavaScript gets the whole page back; with it (accept JSON), only
-	// the action's result. The fixed requests are the first kind, the random ones the second.
+	// the action's result. The NUL and 1 MB posts are the first kind, the others the second.
 	const form = (pairs: [string, string][], accept = 'text/html') => ({
 		method: target.method,
 		path: to,
@@ -325,8 +325,18 @@ function requestsFor(target: Target, seed: number, heavy: boolean): Sent[] {
 	});
 	// Fixed: NUL and edge dates in every field, a 1 MB field, a multipart type over a body that is not.
 	out.push(form(names.map((n) => [n, 'a\u0000b'])));
-	out.push(form(names.map((n) => [n, '0001-01-01'])));
-	out.push(form(names.map((n) => [n, '9999-12-31'])));
+	out.push(
+		form(
+			names.map((n) => [n, '0001-01-01']),
+			'application/json'
+		)
+	);
+	out.push(
+		form(
+			names.map((n) => [n, '9999-12-31']),
+			'application/json'
+		)
+	);
 	out.push(json(jsonBodyText(names, ['a\u0000b'], true)));
 	out.push(json(jsonBodyText(names, ['9999-12-31T23:59:59+14:00', '0001-01-01'], false)));
 	if (heavy) {
