@@ -15,6 +15,8 @@ declare global {
 			role: Role | null;
 			/** Set when this request met the database down or busy (db/index.ts, handleError); hooks.server.ts answers 503. */
 			databaseTrouble?: import('$lib/server/db/trouble').DatabaseTrouble;
+			/** Set by handleError when the database refused a value of the request as data (see hooks.server.ts). */
+			badInput?: boolean;
 		}
 	}
 }

@@ -13,7 +13,7 @@ import {
 	TROUBLE_ANSWER,
 	type DatabaseTrouble
 } from '$lib/server/db/health';
-import { apiError } from '$lib/server/api';
+import { BAD_INPUT_MESSAGE, apiError, dataExceptionCode } from '$lib/server/api';
 import { startBackgroundJobs, stopBackgroundJobs } from '$lib/server/jobs';
 import { sqlClient } from '$lib/server/db';
 import { registerPaymentJobs } from '$lib/server/payments';
@@ -135,6 +135,18 @@ function withRetryAfter(response: Response, kind: DatabaseTrouble) {
 	return response;
 }
 
+/**
+ * Defence in depth behind the schemas: a request whose value the database refused as data (see
+ * dataExceptionCode) answers 400, not 500. handleError leaves the mark, as for an outage.
+ */
+const dataExceptions: Handle = async ({ event, resolve }) => {
+	event.locals.badInput = false;
+	const response = await resolve(event);
+	if (response.status !== 500 || !event.locals.badInput) return response;
+	if (event.url.pathname.startsWith('/api/')) return apiError(400, 'invalid', BAD_INPUT_MESSAGE);
+	return new Response(response.body, { status: 400, headers: response.headers });
+};
+
 /** The signed-in person, if any, into locals. */
 const sessionIntoLocals: Handle = async ({ event, resolve }) => {
 	event.locals.user = null;
@@ -176,8 +188,11 @@ const zoneGuard: Handle = ({ event, resolve }) => {
 	if (!zone) return resolve(event);
 	const user = event.locals.user;
 	if (!user) {
-		const next = event.url.pathname + event.url.search;
-		redirect(303, `/sign-in?next=${encodeURIComponent(next)}`);
+		// Sign-in follows a `next` of at most 500 characters (safeNext): a longer address is not
+		// carried along, so a huge query string cannot make a huge Location header.
+		const full = event.url.pathname + event.url.search;
+		const next = full.length <= 500 ? full : event.url.pathname.length <= 500 ? event.url.pathname : '';
+		redirect(303, next ? `/sign-in?next=${encodeURIComponent(next)}` : '/sign-in');
 	}
 	if (zone.roles !== 'signed-in' && !zone.roles.includes(user.role) && event.request.method !== 'GET') {
 		// Form actions run before any load, so the wrong role is stopped here. Pages (GET) are
@@ -204,6 +219,7 @@ export const handle = sequence(
 	databaseOutage,
 	clientAddress,
 	sameOriginApi,
+	dataExceptions,
 	authRoutes,
 	sessionIntoLocals,
 	zoneGuard
@@ -211,10 +227,19 @@ export const handle = sequence(
 
 export const handleError: HandleServerError = ({ error: e, event, status, message }) => {
 	if (status === 404) return { message: 'Not found', error: 'not_found' };
+	// SvelteKit's own refusals (a body of the wrong type for a form action, an address that does not
+	// decode): the request's fault, said as it is and not logged as our failure.
+	if (status >= 400 && status < 500) return { message, error: 'bad_request' };
 	const trouble = databaseTrouble(e);
 	if (trouble) {
 		event.locals.databaseTrouble = trouble;
 		return { message: TROUBLE_ANSWER[trouble].message, error: TROUBLE_ANSWER[trouble].error };
+	}
+	const dataCode = dataExceptionCode(e);
+	if (dataCode) {
+		event.locals.badInput = true;
+		console.warn(`[bad input] ${event.request.method} ${event.route.id ?? 'an unknown route'}: SQLSTATE ${dataCode}`);
+		return { message: BAD_INPUT_MESSAGE, error: 'invalid' };
 	}
 	const errorId = crypto.randomUUID().slice(0, 8);
 	// The route's pattern, not its path (a feed path holds a token), and the error described, not

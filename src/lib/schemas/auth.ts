@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { lineText } from './input';
 
 export const MIN_PASSWORD = 10;
 
@@ -9,7 +10,7 @@ export const signInSchema = z.object({
 });
 
 export const signUpSchema = z.object({
-	name: z.string().trim().min(2, { error: 'Tell us your name or your band’s name.' }).max(120),
+	name: lineText().trim().min(2, { error: 'Tell us your name or your band’s name.' }).max(120),
 	email: z.email({ error: 'Enter a valid e-mail address.' }).trim().toLowerCase().max(254),
 	password: z
 		.string()

@@ -26,7 +26,7 @@ import {
 	TimeInputError,
 	type Blackout
 } from '$lib/domain/availability';
-import { isYmd as isCalendarDate } from '$lib/domain/availability/calendar';
+import { dateProblem, lineText, multilineText } from '$lib/schemas/input';
 import { publicHolidayChecker, publicHolidayList } from '$lib/domain/holidays';
 import type { StudioPolicy } from '$lib/domain/types';
 import type { SessionUser } from './auth';
@@ -35,18 +35,20 @@ import { isoInZone, localYmd } from './time';
 export type FieldErrors = Record<string, string[]>;
 
 export const bookingRequestSchema = z.object({
-	room: z.string({ error: 'Choose a room.' }).trim().min(1, { error: 'Choose a room.' }).max(80),
-	start: z.string({ error: 'Choose a start time.' }).trim().min(1, { error: 'Choose a start time.' }).max(40),
-	end: z.string({ error: 'Choose an end time.' }).trim().min(1, { error: 'Choose an end time.' }).max(40),
+	room: lineText({ error: 'Choose a room.' }).trim().min(1, { error: 'Choose a room.' }).max(80),
+	start: lineText({ error: 'Choose a start time.' }).trim().min(1, { error: 'Choose a start time.' }).max(40),
+	end: lineText({ error: 'Choose an end time.' }).trim().min(1, { error: 'Choose an end time.' }).max(40),
 	engineer: z.boolean({ error: 'engineer is true or false.' }).optional().default(false),
 	gear: z
 		.array(z.uuid({ error: 'Unknown gear.' }), { error: 'gear is a list of gear ids.' })
 		.max(20)
 		.optional()
 		.default([]),
-	project: z.string().trim().max(200, { error: 'Keep the project name under 200 characters.' }).optional().default(''),
-	notes: z.string().trim().max(4000, { error: 'Keep notes under 4000 characters.' }).optional().default('')
+	project: lineText().trim().max(200, { error: 'Keep the project name under 200 characters.' }).optional().default(''),
+	notes: multilineText().trim().max(4000, { error: 'Keep notes under 4000 characters.' }).optional().default('')
 });
+
+const roomSlugSchema = lineText().max(80);
 export type BookingRequest = z.infer<typeof bookingRequestSchema>;
 
 export function zodFieldErrors(error: z.ZodError): FieldErrors {
@@ -226,23 +228,21 @@ export type AvailabilityResult =
 	  }
 	| { ok: false; fields: FieldErrors };
 
-const NO_SUCH_DATE = (ymd: string) => `There is no ${ymd} on the calendar.`;
-const ymdSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a date such as 2027-03-28.' });
-
 export async function availability(
 	params: { room: string | null; from: string | null; to: string | null },
 	now = new Date()
 ): Promise<AvailabilityResult> {
 	const fields: FieldErrors = {};
 	if (!params.room) fields.room = ['Choose a room.'];
-	const from = ymdSchema.safeParse(params.from ?? '');
-	const to = ymdSchema.safeParse(params.to ?? '');
+	else if (!roomSlugSchema.safeParse(params.room).success) fields.room = ['There is no room by that name.'];
 	// A real calendar date, not merely its shape: Date.parse reads 2027-02-31 as 3 March.
-	if (!from.success) fields.from = ['Use a date such as 2027-03-28.'];
-	else if (!isCalendarDate(from.data)) fields.from = [NO_SUCH_DATE(from.data)];
-	if (!to.success) fields.to = ['Use a date such as 2027-03-28.'];
-	else if (!isCalendarDate(to.data)) fields.to = [NO_SUCH_DATE(to.data)];
-	if (Object.keys(fields).length || !from.data || !to.data) return { ok: false, fields };
+	const fromProblem = dateProblem(params.from ?? '');
+	const toProblem = dateProblem(params.to ?? '');
+	if (fromProblem) fields.from = [fromProblem];
+	if (toProblem) fields.to = [toProblem];
+	if (Object.keys(fields).length || !params.from || !params.to) return { ok: false, fields };
+	const from = { data: params.from };
+	const to = { data: params.to };
 	const days = (Date.parse(to.data) - Date.parse(from.data)) / 86_400_000 + 1;
 	if (days < 1) return { ok: false, fields: { to: ['The end date is before the start date.'] } };
 	if (days > AVAILABILITY_MAX_DAYS)

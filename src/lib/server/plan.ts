@@ -9,11 +9,13 @@ import { booking, bookingGear, gearItem, recallSheet, room, user, type RecallCha
 import { getStudio } from './studio';
 import { isoInZone } from './time';
 import { summariesFor } from './uploads';
+import { isStudioDate } from '$lib/schemas/input';
 
 export const PLAN_STATUSES = ['pending', 'confirmed', 'completed'] as const;
 
+/** A day the plan can show: a real calendar date (2027-02-30 is not one) within the calendar's years. */
 export function isPlanDate(date: string): boolean {
-	return /^\d{4}-\d{2}-\d{2}$/.test(date) && !Number.isNaN(Date.parse(date));
+	return isStudioDate(date);
 }
 
 export async function todayInStudio(): Promise<string> {

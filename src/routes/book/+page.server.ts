@@ -19,6 +19,7 @@ import {
 } from '$lib/components/booking/choices';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import { mayBook } from '$lib/roles';
+import { dateProblem } from '$lib/schemas/input';
 import { bookFormSchema, type BookForm, type BookMessage } from './schema';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -64,12 +65,15 @@ export const load: PageServerLoad = async ({ url, locals }) => {
 	// A date in the address that is not on the calendar (2027-02-31) is left out and said so.
 	const askedDate = url.searchParams.get('date');
 	if (askedDate && !asked.date) {
+		const problem = dateProblem(askedDate);
 		setError(
 			form,
 			'date',
-			YMD_RE.test(askedDate)
-				? `There is no ${askedDate} on the calendar: choose another date.`
-				: 'Choose a date such as 2027-03-28.'
+			!YMD_RE.test(askedDate) || !problem
+				? 'Choose a date such as 2027-03-28.'
+				: problem.startsWith('There is no')
+					? `${problem.slice(0, -1)}: choose another date.`
+					: problem
 		);
 	}
 
@@ -129,7 +133,11 @@ export const actions: Actions = {
 	default: async ({ request, locals, url, getClientAddress }) => {
 		const form = await superValidate<BookForm, BookMessage>(request, zod4(bookFormSchema));
 		// Signed out (a session that ended while choosing): keep every choice through sign-in.
-		if (!locals.user) redirect(303, `/sign-in?next=${encodeURIComponent(bookPath(form.data as BookingChoices))}`);
+		if (!locals.user) {
+			// The choices ride along only when sign-in can follow them back (at most 500 characters).
+			const back = bookPath(form.data as BookingChoices);
+			redirect(303, `/sign-in?next=${encodeURIComponent(back.length <= 500 ? back : '/book')}`);
+		}
 		refuseNonBookers(locals);
 		if (!form.valid) return fail(422, { form });
 

@@ -3,9 +3,10 @@
 // (priceRequest and createHold), because only it knows the calendar.
 import { z } from 'zod';
 import { BOOKING_KINDS, HHMM_RE, YMD_RE, isCalendarDate } from '$lib/components/booking/choices';
+import { lineText, multilineText } from '$lib/schemas/input';
 
 export const bookFormSchema = z.object({
-	room: z.string({ error: 'Choose a room.' }).trim().min(1, { error: 'Choose a room.' }).max(80),
+	room: lineText({ error: 'Choose a room.' }).trim().min(1, { error: 'Choose a room.' }).max(80),
 	kind: z.enum(BOOKING_KINDS, { error: 'Choose hourly, a half day or a full day.' }).default('half'),
 	date: z
 		.string({ error: 'Choose a date.' })
@@ -23,8 +24,8 @@ export const bookFormSchema = z.object({
 		.array(z.uuid({ error: 'Unknown gear.' }))
 		.max(20, { error: 'Choose at most 20 pieces of gear.' })
 		.default([]),
-	project: z.string().trim().max(200, { error: 'Keep the project name under 200 characters.' }).default(''),
-	notes: z.string().trim().max(4000, { error: 'Keep notes under 4000 characters.' }).default('')
+	project: lineText().trim().max(200, { error: 'Keep the project name under 200 characters.' }).default(''),
+	notes: multilineText().trim().max(4000, { error: 'Keep notes under 4000 characters.' }).default('')
 });
 
 export type BookForm = z.infer<typeof bookFormSchema>;

@@ -6,12 +6,14 @@ import { dayPlan, isPlanDate, saveRecall, todayInStudio } from '$lib/server/plan
 import { audit } from '$lib/server/audit';
 import { feedTokenOf, replaceFeedToken } from '$lib/server/feed';
 import type { RecallChannel } from '$lib/server/db/schema';
+import { CONTROL_CHARS_MESSAGE, DATE_MESSAGE, dateProblem, hasControlChars, lineText, multilineText } from '$lib/schemas/input';
+import { readFormData } from '$lib/server/api';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
 	const me = requireRole(locals, 'owner', 'engineer');
 	const date = url.searchParams.get('date') ?? (await todayInStudio());
-	if (!isPlanDate(date)) error(400, { message: 'Use a date such as 2027-03-28.' });
+	if (!isPlanDate(date)) error(400, { message: dateProblem(date) ?? DATE_MESSAGE });
 	const day = new Date(`${date}T12:00:00Z`);
 	const [plan, feedToken] = await Promise.all([dayPlan(date), feedTokenOf(me.id)]);
 	return {
@@ -32,13 +34,13 @@ const optionalNumber = (min: number, max: number, what: string) =>
 		});
 
 const channelSchema = z.object({
-	source: z.string().trim().max(120),
-	microphone: z.string().trim().max(160),
-	placement: z.string().trim().max(200),
+	source: lineText().trim().max(120),
+	microphone: lineText().trim().max(160),
+	placement: lineText().trim().max(200),
 	preampGainDb: optionalNumber(0, 80, 'Preamp gain'),
 	highPassHz: optionalNumber(20, 500, 'High-pass'),
-	compressor: z.string().trim().max(200),
-	notes: z.string().trim().max(500)
+	compressor: lineText().trim().max(200),
+	notes: multilineText().trim().max(500)
 });
 
 export const actions: Actions = {
@@ -50,7 +52,8 @@ export const actions: Actions = {
 	},
 	recall: async ({ request, locals, getClientAddress }) => {
 		const me = requireRole(locals, 'owner', 'engineer');
-		const form = await request.formData();
+		const form = await readFormData(request);
+		if (!form) return fail(400, { bookingId: '', error: 'The form could not be read.' });
 		const bookingId = String(form.get('bookingId') ?? '');
 		if (!z.uuid().safeParse(bookingId).success) return fail(422, { bookingId, error: 'Unknown session.' });
 		const count = Math.min(Number(form.get('rows') ?? 0) || 0, 40);
@@ -71,6 +74,7 @@ export const actions: Actions = {
 			channels.push({ ...parsed.data, phantom: form.get(`phantom-${i}`) === 'on' });
 		}
 		const notes = String(form.get('notes') ?? '').slice(0, 4000);
+		if (hasControlChars(notes, true)) return fail(422, { bookingId, error: `Notes: ${CONTROL_CHARS_MESSAGE}` });
 		if (!(await saveRecall(bookingId, me.id, channels, notes))) return fail(404, { bookingId, error: 'Unknown session.' });
 		await audit({ actorId: me.id, action: 'recall.saved', entity: 'booking', entityId: bookingId, ip: getClientAddress() });
 		return { bookingId, saved: true };

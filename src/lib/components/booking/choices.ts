@@ -3,7 +3,7 @@
 // Times are local wall times in the studio's zone ('YYYY-MM-DD', 'HH:MM'); the server turns them
 // into instants (parseBookingInstant), refusing a wall time that the clocks skip.
 
-import { isYmd } from '$lib/domain/availability/calendar';
+import { isStudioDate } from '$lib/schemas/input';
 
 export const BOOKING_KINDS = ['hourly', 'half', 'full'] as const;
 export type BookingKind = (typeof BOOKING_KINDS)[number];
@@ -29,11 +29,12 @@ export interface BlockLengths {
 export const YMD_RE = /^\d{4}-\d{2}-\d{2}$/;
 
 /**
- * A real calendar date written 'YYYY-MM-DD' (ISO 8601, proleptic Gregorian): '2027-02-31' is not
- * one, though Date.parse quietly rolls it over to 3 March.
+ * A real calendar date written 'YYYY-MM-DD' (ISO 8601, proleptic Gregorian) within the years the
+ * studio's calendar covers: '2027-02-31' is not one, though Date.parse quietly rolls it over to
+ * 3 March, and neither is 0001-01-01.
  */
 export function isCalendarDate(s: string): boolean {
-	return isYmd(s);
+	return isStudioDate(s);
 }
 export const HHMM_RE = /^([01]\d|2[0-3]):[0-5]\d$/;
 
@@ -59,10 +60,12 @@ export function addWallMinutes(date: string, time: string, minutes: number): str
 /** The body POST /api/quote and createHold take (PRODUCT.md), built from the choices. */
 export function requestBody(c: BookingChoices, lengths: BlockLengths) {
 	const minutes = lengthMinutes(c.kind, c.hours, lengths);
+	// A date or start that is not one (a form sent back with errors) gives no times at all.
+	const when = isCalendarDate(c.date) && HHMM_RE.test(c.start);
 	return {
 		room: c.room,
-		start: c.date && c.start ? `${c.date}T${c.start}` : '',
-		end: c.date && c.start && minutes > 0 ? addWallMinutes(c.date, c.start, minutes) : '',
+		start: when ? `${c.date}T${c.start}` : '',
+		end: when && minutes > 0 ? addWallMinutes(c.date, c.start, minutes) : '',
 		engineer: c.engineer,
 		gear: c.gear,
 		project: c.project ?? '',

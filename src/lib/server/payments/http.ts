@@ -1,7 +1,7 @@
 // The money endpoints answer two kinds of client: JSON (the API, and the page's scripts) and a
 // browser posting a plain form without JavaScript, which gets a 303 back to the booking page.
 import { redirect } from '@sveltejs/kit';
-import { apiError, readJson } from '../api';
+import { apiError, readFormData, readJson } from '../api';
 
 export interface Input {
 	/** A plain HTML form post (answer with a 303, not JSON). */
@@ -18,7 +18,12 @@ export async function readInput(
 ): Promise<{ ok: true; input: Input } | { ok: false; response: Response }> {
 	const type = request.headers.get('content-type') ?? '';
 	if (FORM_TYPES.some((t) => type.startsWith(t))) {
-		const form = await request.formData();
+		const form = await readFormData(request);
+		if (!form)
+			return {
+				ok: false,
+				response: apiError(400, 'bad_request', 'The body could not be read as the form its content type names.')
+			};
 		const body: Record<string, unknown> = {};
 		for (const [key, value] of form) {
 			if (typeof value !== 'string') continue;

@@ -8,6 +8,8 @@
 // - a row lock that is not free within a few seconds fails the delivery (Stripe retries it)
 //   rather than holding Stripe past its timeout.
 import { eq } from 'drizzle-orm';
+import { z } from 'zod';
+import { lineText } from '$lib/schemas/input';
 import type Stripe from 'stripe';
 import { stripeEvent } from '../db/schema';
 import { inTransaction } from './core';
@@ -23,6 +25,34 @@ const SESSION_FACTS: Record<string, SessionFact> = {
 const REFUND_EVENTS = new Set(['refund.created', 'refund.updated', 'refund.failed']);
 
 export const WEBHOOK_LOCK_TIMEOUT_MS = 3000;
+
+/**
+ * What an event must have before it is recorded (Stripe API reference, "The Event object"): an
+ * id and a type that are plain text, and `data.object`. A signed body without them is refused,
+ * not retried: no retry of the same bytes could ever succeed.
+ */
+const eventShape = z.object({
+	id: lineText().min(1).max(255),
+	type: lineText().min(1).max(255),
+	data: z.object({ object: z.record(z.string(), z.unknown()) })
+});
+
+/** The sessions and refunds acted on are found by their Stripe id. */
+const actedOnObject = z.object({ id: lineText().min(1).max(255) });
+
+/** Why a signed body is not an event this endpoint can process, or null. */
+export function eventShapeProblem(event: unknown): string | null {
+	const parsed = eventShape.safeParse(event);
+	if (!parsed.success) {
+		const where = parsed.error.issues[0]?.path.join('.') || 'event';
+		return `The event has no usable ${where}.`;
+	}
+	const { type, data } = parsed.data;
+	if ((SESSION_FACTS[type] || REFUND_EVENTS.has(type)) && !actedOnObject.safeParse(data.object).success) {
+		return 'The event has no usable data.object.id.';
+	}
+	return null;
+}
 
 export async function processStripeEvent(event: Stripe.Event): Promise<{ duplicate: boolean; outcome: string }> {
 	return inTransaction(

@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { apiError } from '$lib/server/api';
 import { dayPlan, isPlanDate, todayInStudio } from '$lib/server/plan';
+import { DATE_MESSAGE, dateProblem } from '$lib/schemas/input';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, url }) => {
@@ -9,7 +10,9 @@ export const GET: RequestHandler = async ({ locals, url }) => {
 		return apiError(403, 'forbidden', 'The day plan is for engineers and the owner.');
 	}
 	const date = url.searchParams.get('date') ?? (await todayInStudio());
-	if (!isPlanDate(date))
-		return apiError(422, 'invalid', 'Use a date such as 2027-03-28.', { fields: { date: ['Use a date such as 2027-03-28.'] } });
+	if (!isPlanDate(date)) {
+		const problem = dateProblem(date) ?? DATE_MESSAGE;
+		return apiError(422, 'invalid', problem, { fields: { date: [problem] } });
+	}
 	return json(await dayPlan(date), { headers: { 'cache-control': 'private, no-store' } });
 };

@@ -6,6 +6,8 @@ import { user } from '$lib/server/db/schema';
 import { requireRole } from '$lib/server/guard';
 import { audit } from '$lib/server/audit';
 import { ROLES } from '$lib/roles';
+import { lineText } from '$lib/schemas/input';
+import { readFormData } from '$lib/server/api';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals }) => {
@@ -17,12 +19,13 @@ export const load: PageServerLoad = async ({ locals }) => {
 	return { people: people.map((p) => ({ ...p, createdAt: p.createdAt.toISOString() })), me: locals.user?.id };
 };
 
-const roleSchema = z.object({ userId: z.string().min(1).max(64), role: z.enum(ROLES) });
+const roleSchema = z.object({ userId: lineText().min(1).max(64), role: z.enum(ROLES) });
 
 export const actions: Actions = {
 	setRole: async ({ request, locals, getClientAddress }) => {
 		const owner = requireRole(locals, 'owner');
-		const parsed = roleSchema.safeParse(Object.fromEntries(await request.formData()));
+		const form = await readFormData(request);
+		const parsed = roleSchema.safeParse(form ? Object.fromEntries(form) : {});
 		if (!parsed.success) return fail(422, { error: 'Choose one of the four roles.' });
 		const { userId, role } = parsed.data;
 		if (userId === owner.id && role !== 'owner') {

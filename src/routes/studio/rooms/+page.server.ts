@@ -21,6 +21,7 @@ import {
 	type RoomForm
 } from './schema';
 import { blockRateFindings } from '$lib/schemas/rate-card';
+import { readFormData } from '$lib/server/api';
 import type { Actions, PageServerLoad } from './$types';
 
 type Note = { kind: 'saved' | 'error'; text: string };
@@ -122,7 +123,7 @@ export const actions: Actions = {
 
 	gearActive: async ({ request, locals, getClientAddress }) => {
 		const user = requireRole(locals, 'owner');
-		const parsed = activeSchema.safeParse(Object.fromEntries(await request.formData()));
+		const parsed = activeSchema.safeParse(Object.fromEntries((await readFormData(request)) ?? []));
 		if (!parsed.success) return fail(422, { gearActive: { kind: 'error' as const, text: 'Unknown gear.' } });
 		const row = await inventory.setGearActive({ user, ip: getClientAddress() }, parsed.data.id, parsed.data.active === 'true');
 		if (!row) return fail(404, { gearActive: { kind: 'error' as const, text: 'That gear is not here any more.' } });
@@ -136,7 +137,7 @@ export const actions: Actions = {
 
 	blackout: async ({ request, locals, getClientAddress }) => {
 		const user = requireRole(locals, 'owner');
-		const raw = Object.fromEntries(await request.formData());
+		const raw = Object.fromEntries((await readFormData(request)) ?? []);
 		const values = { startsOn: String(raw.startsOn ?? ''), endsOn: String(raw.endsOn ?? ''), reason: String(raw.reason ?? '') };
 		const parsed = blackoutSchema.safeParse(raw);
 		if (!parsed.success) return fail(422, { blackout: blackoutResult({ values, errors: zodFieldErrors(parsed.error) }) });
@@ -158,7 +159,7 @@ export const actions: Actions = {
 
 	removeBlackout: async ({ request, locals, getClientAddress }) => {
 		const user = requireRole(locals, 'owner');
-		const parsed = z.object({ id: z.uuid() }).safeParse(Object.fromEntries(await request.formData()));
+		const parsed = z.object({ id: z.uuid() }).safeParse(Object.fromEntries((await readFormData(request)) ?? []));
 		if (!parsed.success) return fail(422, { removed: { error: 'Unknown blackout.' } });
 		const row = await blackouts.removeBlackout({ user, ip: getClientAddress() }, parsed.data.id);
 		if (!row) return fail(404, { removed: { error: 'That blackout was already removed.' } });

@@ -5,6 +5,7 @@ import { parseMoney, toDecimalString } from '$lib/domain/money';
 import { exact, moneyText } from '$lib/schemas/fields';
 import { blockRateFindings, refuseErrors } from '$lib/schemas/rate-card';
 import type { BlockLengths } from '$lib/domain/pricing/rateCardChecks';
+import { isStudioDate, lineText, multilineText } from '$lib/schemas/input';
 // Types only: erased before the browser bundle is made.
 import type { GearValues, RoomValues } from '$lib/server/inventory';
 
@@ -43,12 +44,11 @@ function buildRoomSchema(currency: string, blocks: BlockLengths) {
 		z
 			.object({
 				id: z.string().regex(UUID_OR_EMPTY, { error: 'Unknown room.' }).min(1, { error: 'Unknown room.' }),
-				name: z
-					.string({ error: 'Name the room.' })
+				name: lineText({ error: 'Name the room.' })
 					.trim()
 					.min(1, { error: 'Name the room.' })
 					.max(80, { error: 'Keep the name under 80 characters.' }),
-				description: z.string().trim().max(1000, { error: 'Keep the description under 1000 characters.' }).default(''),
+				description: multilineText().trim().max(1000, { error: 'Keep the description under 1000 characters.' }).default(''),
 				hourly: moneyText(currency),
 				halfDay: moneyText(currency),
 				fullDay: moneyText(currency),
@@ -62,23 +62,21 @@ function buildRoomSchema(currency: string, blocks: BlockLengths) {
 function buildGearSchema(currency: string) {
 	return z.object({
 		id: z.string().regex(UUID_OR_EMPTY, { error: 'Unknown gear.' }).default(''),
-		name: z
-			.string({ error: 'Describe the piece by type.' })
+		name: lineText({ error: 'Describe the piece by type.' })
 			.trim()
 			.min(2, { error: 'Describe the piece by type, e.g. small-diaphragm condenser, cardioid.' })
 			.max(120, { error: 'Keep the name under 120 characters.' }),
-		category: z
-			.string({ error: 'Choose a category.' })
+		category: lineText({ error: 'Choose a category.' })
 			.trim()
 			.toLowerCase()
 			.min(1, { error: 'Choose a category.' })
 			.max(40, { error: 'Keep the category under 40 characters.' }),
-		description: z.string().trim().max(1000, { error: 'Keep the description under 1000 characters.' }).default(''),
+		description: multilineText().trim().max(1000, { error: 'Keep the description under 1000 characters.' }).default(''),
 		homeRoom: z.string().regex(UUID_OR_EMPTY, { error: 'Choose one of the rooms.' }).default(''),
 		hireFee: moneyText(currency),
 		hireable: z.boolean().default(false),
-		notes: z.string().trim().max(2000, { error: 'Keep notes under 2000 characters.' }).default(''),
-		caution: z.string().trim().max(1000, { error: 'Keep the caution under 1000 characters.' }).default('')
+		notes: multilineText().trim().max(2000, { error: 'Keep notes under 2000 characters.' }).default(''),
+		caution: multilineText().trim().max(1000, { error: 'Keep the caution under 1000 characters.' }).default('')
 	});
 }
 
@@ -165,14 +163,14 @@ export function gearValuesFrom(f: GearForm, currency: string): GearValues {
 // ---------------------------------------------------------------------------------------------
 // Blackout days
 
-const YMD = /^\d{4}-\d{2}-\d{2}$/;
-const realDate = (s: string) => YMD.test(s) && new Date(`${s}T00:00:00Z`).toISOString().slice(0, 10) === s;
+// A real day within the calendar's years (a blackout in year 1 or 9999 means nothing to a studio).
+const realDate = isStudioDate;
 
 export const blackoutSchema = z
 	.object({
 		startsOn: z.string().trim().refine(realDate, { error: 'Choose the first closed day.' }),
 		endsOn: z.string().trim().default(''),
-		reason: z.string().trim().max(200, { error: 'Keep the reason under 200 characters.' }).default(''),
+		reason: lineText().trim().max(200, { error: 'Keep the reason under 200 characters.' }).default(''),
 		confirm: z.string().optional()
 	})
 	.superRefine((v, ctx) => {

@@ -7,6 +7,7 @@ import { parseMoney, parsePercentToBasisPoints, toDecimalString, basisPointsToPe
 import { CLOCK_RE, clockToMinute, exact, minuteToClock, moneyText, percentText } from '$lib/schemas/fields';
 import { blockRateFindings, refuseErrors } from '$lib/schemas/rate-card';
 import type { BlockLengths, RateField } from '$lib/domain/pricing/rateCardChecks';
+import { lineText } from '$lib/schemas/input';
 import type { CancellationRung, OpeningHours } from '$lib/domain/types';
 // Types only: erased before the browser bundle is made.
 import type { PolicyValues, SurchargeValues } from '$lib/server/settings';
@@ -196,8 +197,7 @@ export const surchargeSchema = z
 			.string()
 			.regex(/^(?:[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})?$/i, { error: 'Unknown surcharge.' })
 			.default(''),
-		label: z
-			.string({ error: 'Name the surcharge, e.g. Evening.' })
+		label: lineText({ error: 'Name the surcharge, e.g. Evening.' })
 			.trim()
 			.min(1, { error: 'Name the surcharge, e.g. Evening.' })
 			.max(80, { error: 'Keep the name under 80 characters.' }),

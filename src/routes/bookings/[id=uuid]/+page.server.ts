@@ -10,6 +10,7 @@ import * as uploads from '$lib/server/uploads';
 import { audit } from '$lib/server/audit';
 import { localYmd } from '$lib/server/time';
 import type { Role } from '$lib/roles';
+import { readFormData } from '$lib/server/api';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params }) => {
@@ -147,7 +148,8 @@ export const actions: Actions = {
 	},
 	remove: async ({ request, locals, params, getClientAddress }) => {
 		const me = requireUser(locals);
-		const form = await request.formData();
+		const form = await readFormData(request);
+		if (!form) return fail(400, { remove: { error: 'The form could not be read.' } });
 		const uploadId = String(form.get('uploadId') ?? '');
 		const removed = await uploads.remove(me, params.id, uploadId);
 		if (!removed.ok) return fail(removed.status, { remove: { error: removed.message } });
