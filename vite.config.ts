@@ -15,7 +15,9 @@ export default defineConfig({
 				test: {
 					name: 'unit',
 					environment: 'node',
-					include: ['src/**/*.spec.ts', 'fake-services/**/*.spec.ts']
+					include: ['src/**/*.spec.ts', 'fake-services/**/*.spec.ts'],
+					// Property specs run hundreds of cases: on a busy machine they take longer than 5 s.
+					testTimeout: 60_000
 				}
 			},
 			{
