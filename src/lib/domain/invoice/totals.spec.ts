@@ -18,6 +18,7 @@ import {
 	lumpSumLines,
 	payableTotal,
 	splitByWeights,
+	type DocumentLine,
 	type DocumentLineInput
 } from './totals';
 
@@ -164,6 +165,64 @@ describe('BR-CO rules on a final invoice built from a quote', () => {
 		expect(documentViolations({ ...good, lines: [{ ...good.lines[0]!, unitPriceNet: -1 }, ...good.lines.slice(1)] })).toContain(
 			'BR-27: no negative item net price'
 		);
+	});
+
+	it('names each rule a stored document can break, and only that rule', () => {
+		const good = documentTotals(linesFromPriceLines(fiveHours().lines), { ...EUR, prepaid: 6200 });
+		const [first, second] = good.lines as [DocumentLine, DocumentLine];
+		const group = good.vat[0]!;
+		expect(documentViolations(good)).toEqual([]);
+		expect(documentViolations({ ...good, prepaid: 6200.5, amountDue: good.amountDue - 0.5 })).toEqual([
+			'BR-DEC: amounts in whole minor units'
+		]);
+		expect(documentViolations({ ...good, lines: [{ ...first, unitAmount: -1 }, second] })).toEqual([
+			'BR-27: no negative item net price'
+		]);
+		expect(documentViolations({ ...good, lines: [{ ...first, quantity: '-1' }, second] })).toEqual([
+			'BT-129: quantity is a non-negative decimal'
+		]);
+		expect(documentViolations({ ...good, lines: [{ ...first, quantity: '2.5' }, second] })).toEqual([]);
+		expect(documentViolations({ ...good, lines: [{ ...first, quantity: '1,5' }, second] })).toEqual([
+			'BT-129: quantity is a non-negative decimal'
+		]);
+		// BT-109 off by a cent: neither BT-106 − BT-107 + BT-108 nor the VAT bases, nor BT-112.
+		expect(documentViolations({ ...good, taxable: good.taxable + 1 })).toEqual([
+			'BR-CO-13',
+			'BR-CO-13 (VAT bases cover the taxable total)',
+			'BR-CO-15'
+		]);
+		// A VAT group for a rate no line uses; the only group at a rate no line has.
+		expect(documentViolations({ ...good, vat: [group, { ratePercent: '14', rateBp: 1400, base: 0, amount: 0 }] })).toEqual([
+			'BR-S-01/BR-CO-18: one VAT group per rate used'
+		]);
+		expect(documentViolations({ ...good, vat: [{ ...group, rateBp: 1400, ratePercent: '14', amount: 2287 }] })).toEqual([
+			'BR-S-01/BR-CO-18: one VAT group per rate used',
+			'BR-S-08 (14 %)',
+			'BR-CO-14'
+		]);
+		// Nets said to be 163.36 (VAT 41.6568 → 41.66, all else consistent) while the lines add up to 163.35.
+		expect(
+			documentViolations({
+				...good,
+				taxable: 16336,
+				lineNetTotal: 16336,
+				vat: [{ ...group, base: 16336, amount: 4166 }],
+				vatTotal: 4166,
+				gross: 20502,
+				amountDue: 14300,
+				rounding: -2
+			})
+		).toEqual(['BR-CO-10', 'BR-S-08 (25.5 %)']);
+		// What the customer was shown (Σ amounts incl. VAT) must be BT-112 + BT-114.
+		expect(documentViolations({ ...good, rounding: 1, amountDue: good.amountDue + 1 })).toEqual([
+			'advertised total: BT-112 + BT-114 = Σ line amounts incl. VAT'
+		]);
+		const excl = documentTotals([line(10000, 2550)], { currency: 'EUR', amountsIncludeVat: false });
+		expect(documentViolations(excl)).toEqual([]);
+		expect(documentViolations({ ...excl, rounding: 1, amountDue: excl.amountDue + 1 })).toEqual([
+			'no rounding amount when amounts exclude VAT'
+		]);
+		expect(documentViolations({ ...good, lines: [] })).toContain('BR-16: at least one invoice line');
 	});
 
 	it('holds BR-CO-10/13/14/15/16/17 for any mix of lines and rates (property)', () => {
