@@ -16,7 +16,7 @@ export default defineConfig({
 					name: 'unit',
 					environment: 'node',
 					// Property runs and PDF rendering take seconds on a busy machine; none is timed.
-					testTimeout: 30_000,
+					testTimeout: 60_000,
 					include: ['src/**/*.spec.ts', 'fake-services/**/*.spec.ts']
 				}
 			},

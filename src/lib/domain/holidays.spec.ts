@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import Holidays from 'date-holidays';
 import { isPublicHoliday, publicHolidayChecker, publicHolidayList, publicHolidays } from './holidays';
 
 /**
@@ -79,4 +80,80 @@ describe('public holidays (source: date-holidays, data CC BY-SA 3.0)', () => {
 		expect(() => isPublicHoliday('FI', '6.12.2027')).toThrow(RangeError);
 		expect(publicHolidayChecker('FI')('2027-12-06')).toBe(true);
 	});
+});
+
+/** Local dates covered by [start, end), walked hour by hour in `timeZone` (independent of holidays.ts). */
+function datesCovered(start: Date, end: Date, timeZone: string): string[] {
+	const format = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
+	const dates = new Set<string>();
+	for (let t = start.getTime(); t < end.getTime(); t += 3_600_000) dates.add(format.format(new Date(t)));
+	return [...dates];
+}
+
+describe('public holidays that last several days (other countries than Finland)', () => {
+	it('counts every day of the Russian New Year holidays, 1 to 8 January (Labour Code of the Russian Federation, Article 112)', () => {
+		// 1–6 and 8 January are the New Year holidays, 7 January is Christmas.
+		const january = publicHolidays('RU', 2027).filter((d) => d.startsWith('2027-01'));
+		expect(january).toEqual(['01', '02', '03', '04', '05', '06', '07', '08'].map((d) => `2027-01-${d}`));
+		expect(isPublicHoliday('RU', '2027-01-05')).toBe(true);
+		expect(isPublicHoliday('RU', '2027-01-09')).toBe(false);
+		expect(publicHolidayList('RU', 2027).find((h) => h.date === '2027-01-04')?.name).toBe('New Year Holiday');
+	});
+
+	it('Armenia: New Year over 1–2 January and the pre-Christmas days 3–5 January, Christmas on the 6th', () => {
+		const january = publicHolidays('AM', 2028).filter((d) => d.startsWith('2028-01-0'));
+		expect(january).toEqual(['2028-01-01', '2028-01-02', '2028-01-03', '2028-01-04', '2028-01-05', '2028-01-06']);
+		expect(publicHolidayList('AM', 2028).find((h) => h.date === '2028-01-02')?.name).toBe("New Year's Day");
+	});
+
+	it('Vietnam: the five days of Tết from the eve of the lunar new year (6 February 2027)', () => {
+		for (const d of ['05', '06', '07', '08', '09']) expect(isPublicHoliday('VN', `2027-02-${d}`), d).toBe(true);
+		expect(isPublicHoliday('VN', '2027-02-04')).toBe(false);
+		expect(isPublicHoliday('VN', '2027-02-10')).toBe(false);
+	});
+
+	it('Eswatini: Incwala, six days from 28 December, runs into the next year under that year', () => {
+		expect(publicHolidays('SZ', 2027).filter((d) => d >= '2027-12-28')).toEqual([
+			'2027-12-28',
+			'2027-12-29',
+			'2027-12-30',
+			'2027-12-31'
+		]);
+		expect(isPublicHoliday('SZ', '2028-01-01')).toBe(true); // New Year's Day, and Incwala
+		expect(isPublicHoliday('SZ', '2028-01-02')).toBe(true); // the last day of 2027's Incwala
+		expect(isPublicHoliday('SZ', '2028-01-03')).toBe(false);
+		const list = publicHolidayList('SZ', 2028);
+		expect(list.find((h) => h.date === '2028-01-01')?.name).toBe("New Year's Day"); // the year's own name first
+		expect(list.find((h) => h.date === '2028-01-02')?.name).toBe('Incwala Festival');
+		expect(list.every((h) => h.date.startsWith('2028-'))).toBe(true);
+	});
+
+	it('a holiday of 23 or 25 hours (a daylight-saving day) is one date: Slovenia, Easter Sunday and Reformation Day 2027', () => {
+		expect(isPublicHoliday('SI', '2027-03-28')).toBe(true);
+		expect(isPublicHoliday('SI', '2027-03-29')).toBe(true); // Easter Monday, a holiday of its own
+		expect(isPublicHoliday('SI', '2027-03-30')).toBe(false);
+		expect(isPublicHoliday('SI', '2027-10-31')).toBe(true);
+		expect(publicHolidayList('SI', 2027).find((h) => h.date === '2027-11-01')?.name).toBe('Day of Remembrance for the Dead');
+	});
+
+	it.each(['RU', 'AM', 'VN', 'CX', 'LC', 'MD', 'RO', 'SC', 'SZ', 'GA', 'KR'])(
+		'%s: every local date a public holiday of the data covers, hour by hour in the country’s zone, is a holiday',
+		(country) => {
+			const data = new Holidays(country);
+			const timeZone = data.getTimezones()[0]!;
+			let multiDay = 0;
+			for (const year of [2027, 2028]) {
+				for (const holiday of data.getHolidays(year, 'en')) {
+					if (holiday.type !== 'public') continue;
+					const dates = datesCovered(holiday.start, holiday.end, timeZone);
+					// Holidays of the Islamic calendar start at sunset the evening before their date;
+					// the product counts them from their date, so the walk is only a reference for the rest.
+					if (dates[0] !== holiday.date.slice(0, 10)) continue;
+					if (dates.length > 1) multiDay++;
+					for (const date of dates) expect(isPublicHoliday(country, date), `${holiday.name} on ${date}`).toBe(true);
+				}
+			}
+			expect(multiDay).toBeGreaterThan(0);
+		}
+	);
 });

@@ -51,7 +51,10 @@ export function publicHolidayList(country: string, year: number): readonly Publi
 	const cached = byYear.get(key);
 	if (cached) return cached;
 	const seen = new Map<string, PublicHoliday>();
-	for (const holiday of calendarFor(country).getHolidays(year, 'en')) {
+	const calendar = calendarFor(country);
+	// The year's own holidays first (they name its dates), then the previous year's, whose last
+	// one can run into this year (Eswatini's Incwala: six days from 28 December).
+	for (const holiday of [...calendar.getHolidays(year, 'en'), ...calendar.getHolidays(year - 1, 'en')]) {
 		if (holiday.type !== 'public') continue;
 		// `date` is the local date of the holiday ("YYYY-MM-DD hh:mm:ss [±hhmm]"). A few holidays
 		// in the data last several days (e.g. 72 h): count each local date they cover.

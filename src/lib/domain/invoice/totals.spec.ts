@@ -9,7 +9,7 @@ import fc from 'fast-check';
 import Decimal from 'decimal.js';
 import { DEMO_POLICY } from '../demo';
 import { overtimeCharge, quoteBooking } from '../pricing';
-import { at, LIVE_ROOM, noHolidays } from '../pricing/spec-fixtures';
+import { at, CONTROL_ROOM, LIVE_ROOM, noHolidays, VOCAL_BOOTH } from '../pricing/spec-fixtures';
 import {
 	documentTotals,
 	documentViolations,
@@ -18,6 +18,7 @@ import {
 	lumpSumLines,
 	payableTotal,
 	splitByWeights,
+	type DocumentLine,
 	type DocumentLineInput
 } from './totals';
 
@@ -48,17 +49,49 @@ const line = (amount: number, vatRateBp = 2550, extra: Partial<DocumentLineInput
 });
 
 describe('BR-CO rules on a final invoice built from a quote', () => {
-	it('has exactly the quote’s nets, VAT, gross and rounding (invoice gross = quoted gross)', () => {
-		const q = fiveHours();
-		const t = documentTotals(linesFromPriceLines(q.lines), { ...EUR, prepaid: q.deposit });
-		expect(documentViolations(t)).toEqual([]);
-		expect(t.lines.map((l) => l.net)).toEqual(q.lines.map((l) => l.net));
-		expect(t.lineNetTotal).toBe(q.net);
-		expect(t.vat).toEqual(q.vat);
-		expect(t.vatTotal).toBe(q.vatTotal);
-		expect(t.gross).toBe(q.gross);
-		expect(t.rounding).toBe(q.rounding); // BT-114 carried from the quote
-		expect(payableTotal(t)).toBe(q.total);
+	it('has the nets, VAT, gross and rounding worked out with decimal.js from the line amounts, and exactly the quote’s', () => {
+		const bookings = [
+			{ room: LIVE_ROOM, from: '10:00', to: '15:00', engineer: false },
+			{ room: VOCAL_BOOTH, from: '09:00', to: '12:30', engineer: true },
+			{ room: CONTROL_ROOM, from: '10:00', to: '19:45', engineer: true }
+		];
+		for (const b of bookings) {
+			const q = quoteBooking({
+				start: at('2027-03-02', b.from),
+				end: at('2027-03-02', b.to),
+				room: b.room,
+				engineer: b.engineer,
+				gear: [],
+				policy: DEMO_POLICY,
+				holidays: noHolidays
+			});
+			const t = documentTotals(linesFromPriceLines(q.lines), { ...EUR, prepaid: q.deposit });
+			expect(documentViolations(t)).toEqual([]);
+			// Independently: BT-131 = amount ÷ 1.255, BR-CO-17 VAT = base × 25.5 %, both half-up to cents.
+			const rate = new Decimal(2550).div(10_000);
+			const nets = q.lines.map((l) =>
+				new Decimal(l.amount).div(rate.plus(1)).toDecimalPlaces(0, Decimal.ROUND_HALF_UP).toNumber()
+			);
+			const base = nets.reduce((a, n) => a + n, 0);
+			const vat = new Decimal(base).mul(rate).toDecimalPlaces(0, Decimal.ROUND_HALF_UP).toNumber();
+			const advertised = q.lines.reduce((a, l) => a + l.amount, 0);
+			expect(t.lines.map((l) => l.net)).toEqual(nets);
+			expect(t.lineNetTotal).toBe(base);
+			expect(t.vat).toEqual([{ ratePercent: '25.5', rateBp: 2550, base, amount: vat }]);
+			expect(t.vatTotal).toBe(vat);
+			expect(t.gross).toBe(base + vat);
+			expect(t.rounding).toBe(advertised - (base + vat)); // BT-114
+			expect(t.amountDue).toBe(base + vat - q.deposit + t.rounding); // BR-CO-16
+			// The invoice has exactly the quote’s figures (invoice gross = quoted gross).
+			expect([t.lineNetTotal, t.vatTotal, t.gross, t.rounding, payableTotal(t)]).toEqual([
+				q.net,
+				q.vatTotal,
+				q.gross,
+				q.rounding,
+				q.total
+			]);
+			expect(t.vat).toEqual(q.vat);
+		}
 	});
 
 	it('worked example: 160.00 + 45.00 incl. 25.5 % VAT, 62.00 paid on account', () => {
@@ -134,6 +167,64 @@ describe('BR-CO rules on a final invoice built from a quote', () => {
 		);
 	});
 
+	it('names each rule a stored document can break, and only that rule', () => {
+		const good = documentTotals(linesFromPriceLines(fiveHours().lines), { ...EUR, prepaid: 6200 });
+		const [first, second] = good.lines as [DocumentLine, DocumentLine];
+		const group = good.vat[0]!;
+		expect(documentViolations(good)).toEqual([]);
+		expect(documentViolations({ ...good, prepaid: 6200.5, amountDue: good.amountDue - 0.5 })).toEqual([
+			'BR-DEC: amounts in whole minor units'
+		]);
+		expect(documentViolations({ ...good, lines: [{ ...first, unitAmount: -1 }, second] })).toEqual([
+			'BR-27: no negative item net price'
+		]);
+		expect(documentViolations({ ...good, lines: [{ ...first, quantity: '-1' }, second] })).toEqual([
+			'BT-129: quantity is a non-negative decimal'
+		]);
+		expect(documentViolations({ ...good, lines: [{ ...first, quantity: '2.5' }, second] })).toEqual([]);
+		expect(documentViolations({ ...good, lines: [{ ...first, quantity: '1,5' }, second] })).toEqual([
+			'BT-129: quantity is a non-negative decimal'
+		]);
+		// BT-109 off by a cent: neither BT-106 − BT-107 + BT-108 nor the VAT bases, nor BT-112.
+		expect(documentViolations({ ...good, taxable: good.taxable + 1 })).toEqual([
+			'BR-CO-13',
+			'BR-CO-13 (VAT bases cover the taxable total)',
+			'BR-CO-15'
+		]);
+		// A VAT group for a rate no line uses; the only group at a rate no line has.
+		expect(documentViolations({ ...good, vat: [group, { ratePercent: '14', rateBp: 1400, base: 0, amount: 0 }] })).toEqual([
+			'BR-S-01/BR-CO-18: one VAT group per rate used'
+		]);
+		expect(documentViolations({ ...good, vat: [{ ...group, rateBp: 1400, ratePercent: '14', amount: 2287 }] })).toEqual([
+			'BR-S-01/BR-CO-18: one VAT group per rate used',
+			'BR-S-08 (14 %)',
+			'BR-CO-14'
+		]);
+		// Nets said to be 163.36 (VAT 41.6568 → 41.66, all else consistent) while the lines add up to 163.35.
+		expect(
+			documentViolations({
+				...good,
+				taxable: 16336,
+				lineNetTotal: 16336,
+				vat: [{ ...group, base: 16336, amount: 4166 }],
+				vatTotal: 4166,
+				gross: 20502,
+				amountDue: 14300,
+				rounding: -2
+			})
+		).toEqual(['BR-CO-10', 'BR-S-08 (25.5 %)']);
+		// What the customer was shown (Σ amounts incl. VAT) must be BT-112 + BT-114.
+		expect(documentViolations({ ...good, rounding: 1, amountDue: good.amountDue + 1 })).toEqual([
+			'advertised total: BT-112 + BT-114 = Σ line amounts incl. VAT'
+		]);
+		const excl = documentTotals([line(10000, 2550)], { currency: 'EUR', amountsIncludeVat: false });
+		expect(documentViolations(excl)).toEqual([]);
+		expect(documentViolations({ ...excl, rounding: 1, amountDue: excl.amountDue + 1 })).toEqual([
+			'no rounding amount when amounts exclude VAT'
+		]);
+		expect(documentViolations({ ...good, lines: [] })).toContain('BR-16: at least one invoice line');
+	});
+
 	it('holds BR-CO-10/13/14/15/16/17 for any mix of lines and rates (property)', () => {
 		const arbLine = fc.record({
 			amount: fc.integer({ min: 0, max: 5_000_000 }),
@@ -181,6 +272,77 @@ describe('deposit invoices and credit notes (one amount incl. VAT, split by the 
 		expect(t.lines.every((l) => l.amount > 0 && l.net > 0 && l.unitPriceNet > 0)).toBe(true);
 		expect(t.vatTotal).toBeGreaterThan(0);
 		expect(payableTotal(t)).toBe(3100);
+	});
+
+	it('gives the spare cents to the largest remainders: 1.00 over 1 : 2 is 0.33 + 0.67, 10.00 over 1 : 2 : 4 is 1.43 + 2.86 + 5.71', () => {
+		// 100 × 1/3 = 33.33…, 100 × 2/3 = 66.66…: floors 33 + 66, the spare cent to the larger remainder (2/3 > 1/3).
+		expect(
+			splitByWeights(100, [
+				{ rateBp: 2550, weight: 1 },
+				{ rateBp: 1400, weight: 2 }
+			])
+		).toEqual([
+			{ rateBp: 2550, amount: 33 },
+			{ rateBp: 1400, amount: 67 }
+		]);
+		// 1000 × 1/7 = 142.857…, × 2/7 = 285.714…, × 4/7 = 571.428…: floors 998, two cents to the remainders 6/7 and 5/7.
+		expect(
+			splitByWeights(1000, [
+				{ rateBp: 2550, weight: 1 },
+				{ rateBp: 1400, weight: 2 },
+				{ rateBp: 1000, weight: 4 }
+			]).map((p) => p.amount)
+		).toEqual([143, 286, 571]);
+		// Equal remainders: the rate listed first gets the cent; a part of nothing is left out.
+		expect(
+			splitByWeights(1, [
+				{ rateBp: 2550, weight: 5 },
+				{ rateBp: 2400, weight: 5 }
+			])
+		).toEqual([{ rateBp: 2550, amount: 1 }]);
+		expect(
+			splitByWeights(1, [
+				{ rateBp: 2400, weight: 5 },
+				{ rateBp: 2550, weight: 5 }
+			])
+		).toEqual([{ rateBp: 2400, amount: 1 }]);
+		// Weights of zero take no part.
+		expect(
+			splitByWeights(500, [
+				{ rateBp: 2550, weight: 0 },
+				{ rateBp: 1400, weight: 3 }
+			])
+		).toEqual([{ rateBp: 1400, amount: 500 }]);
+		expect(() => splitByWeights(500, [{ rateBp: 2550, weight: 0 }])).toThrow(RangeError);
+	});
+
+	it('a deposit of 69.00 on a supply of 205.00 at 24 % and 22.50 at 25.5 %: 62.18 + 6.82, each with its own VAT', () => {
+		// The weights are the gross per rate: 165.32 + 39.68 = 205.00 at 24 %, 17.93 + 4.57 = 22.50 at 25.5 %.
+		const weights = grossByRate([
+			{ rateBp: 2550, base: 1793, amount: 457 },
+			{ rateBp: 2400, base: 16532, amount: 3968 }
+		]);
+		expect(weights).toEqual([
+			{ rateBp: 2550, weight: 2250 },
+			{ rateBp: 2400, weight: 20500 }
+		]);
+		// 69.00 × 22.50/227.50 = 6.824…, × 205.00/227.50 = 62.175…: floors 6.82 + 62.17, the cent to 62.17 (remainder 0.58 > 0.42).
+		const lines = lumpSumLines(6900, 'deposit', 'Deposit', weights);
+		expect(lines.map((l) => [l.key, l.amount, l.description])).toEqual([
+			['deposit:2550', 682, 'Deposit (VAT 25.5 % part)'],
+			['deposit:2400', 6218, 'Deposit (VAT 24 % part)']
+		]);
+		const t = documentTotals(lines, { ...EUR, prepaid: 6900 });
+		expect(documentViolations(t)).toEqual([]);
+		// 6.82 / 1.255 = 5.434… → 5.43, VAT 5.43 × 25.5 % = 1.38465 → 1.38 (6.81 with VAT);
+		// 62.18 / 1.24 = 50.145… → 50.15, VAT 50.15 × 24 % = 12.036 → 12.04 (62.19 with VAT): 69.00 in all, no rounding.
+		expect(t.vat).toEqual([
+			{ ratePercent: '25.5', rateBp: 2550, base: 543, amount: 138 },
+			{ ratePercent: '24', rateBp: 2400, base: 5015, amount: 1204 }
+		]);
+		expect(t.gross).toBe(6900);
+		expect(t.rounding).toBe(0);
+		expect(t.amountDue).toBe(0);
 	});
 
 	it('splits across rates in proportion, parts always adding up (largest remainder)', () => {

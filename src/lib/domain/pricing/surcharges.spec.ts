@@ -5,7 +5,7 @@ import { DEMO_POLICY } from '../demo';
 import { isPublicHoliday } from '../holidays';
 import type { SurchargeRule } from '../types';
 import { surchargeAmount, surchargeShares, surchargeSplit, surchargeWeight, type SurchargeShare } from './surcharges';
-import { at, HELSINKI } from './spec-fixtures';
+import { at, HELSINKI, noHolidays } from './spec-fixtures';
 
 const fiHoliday = (ymd: string) => isPublicHoliday('FI', ymd);
 
@@ -75,6 +75,45 @@ describe('surcharge minutes (source: PRODUCT.md: highest surcharge per minute, i
 		// 00:00–02:00 on Tuesday follows Monday night: covered.
 		const tuesday = surchargeShares(at('2027-03-09', '00:00'), at('2027-03-09', '03:00'), policy, () => false);
 		expect(tuesday.map((s) => [s.rule.id, s.minutes])).toEqual([['late', 120]]);
+	});
+
+	it('on equal percentages the rule listed first wins each minute, whichever it is', () => {
+		// Tuesday 2027-03-02 16:00–20:00: two windows of 25 % both hold 18:00–20:00.
+		const window = (id: string, fromMinute: number, toMinute: number): SurchargeRule => ({
+			id,
+			label: id,
+			kind: 'window',
+			percentBp: 2500,
+			weekdays: [2],
+			fromMinute,
+			toMinute
+		});
+		const early = window('early', 16 * 60, 20 * 60);
+		const late = window('late', 18 * 60, 22 * 60);
+		const minutes = (surcharges: SurchargeRule[]) =>
+			surchargeShares(at('2027-03-02', '16:00'), at('2027-03-02', '20:00'), { timeZone: HELSINKI, surcharges }, noHolidays).map(
+				(s) => [s.rule.id, s.minutes]
+			);
+		expect(minutes([early, late])).toEqual([['early', 240]]);
+		expect(minutes([late, early])).toEqual([
+			['late', 120],
+			['early', 120]
+		]);
+		// A holiday rule at the same percent as a window: the one listed first takes the shared minutes.
+		const holiday: SurchargeRule = { ...window('holiday', 0, 0), kind: 'holiday', weekdays: [] };
+		const onHoliday = (surcharges: SurchargeRule[]) =>
+			surchargeShares(at('2027-12-06', '16:00'), at('2027-12-06', '20:00'), { timeZone: HELSINKI, surcharges }, fiHoliday).map(
+				(s) => [s.rule.id, s.minutes]
+			);
+		const monday = { ...early, weekdays: [1] };
+		expect(onHoliday([holiday, monday])).toEqual([['holiday', 240]]);
+		expect(onHoliday([monday, holiday])).toEqual([['early', 240]]);
+		// A higher percent still wins wherever it holds, listed first or last.
+		const higher = { ...late, percentBp: 2501 };
+		expect(minutes([early, higher])).toEqual([
+			['early', 120],
+			['late', 120]
+		]);
 	});
 
 	it('matches a minute-by-minute TZDate reference across DST changes and holidays (property)', () => {
