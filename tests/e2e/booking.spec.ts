@@ -1,5 +1,5 @@
-import { expect, test, type Page } from '@playwright/test';
-import { DEMO_PASSWORD } from './support';
+import { type Page } from '@playwright/test';
+import { DEMO_PASSWORD, expect, newContext, test } from './support';
 
 // The artist's journey of PRODUCT.md: free time on the public calendar, a half-day block with an
 // engineer, the exact price, sign-in without losing the choices, a hold, and the slot then busy
@@ -218,7 +218,7 @@ test('an artist books a half day with an engineer from the calendar, and the slo
 	await expect(page.getByTestId('prepare-checklist')).toContainText('capo');
 
 	// 6. Anyone else now sees that morning booked, with no name, and no free window over it.
-	const other = await browser.newContext();
+	const other = await newContext(browser);
 	const visitor = await other.newPage();
 	await visitor.goto(`/calendar?room=live-room&date=${date}`);
 	await calendarReady(visitor);

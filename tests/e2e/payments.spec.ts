@@ -9,9 +9,9 @@
 // it: tests/e2e/booking.spec.ts takes the live room from 10:00 about ten days ahead, the demo
 // bookings (scripts/seed-bookings.ts) use days 3, 6 and 10 in the daytime, and the integration
 // specs book the daytime. The calendar is asked first anyway.
-import { expect, test, type APIRequestContext } from '@playwright/test';
+import { type APIRequestContext } from '@playwright/test';
+import { signIn, expect, test } from './support';
 import { isPublicHoliday } from '../../src/lib/domain/holidays';
-import { signIn } from './support';
 
 const TZ = 'Europe/Helsinki';
 const FROM = '19:00';

@@ -1,7 +1,6 @@
 import { readFile } from 'node:fs/promises';
-import { expect, test } from '@playwright/test';
+import { signIn, expect, test } from './support';
 import { parse } from 'csv-parse/sync';
-import { signIn } from './support';
 
 // The engineer's and the accountant's journeys of PRODUCT.md, in the browser, on the seeded demo
 // studio (scripts/seed-bookings.ts places its sessions relative to today; the app gives them their

@@ -1,5 +1,4 @@
-import { expect, test } from '@playwright/test';
-import { signIn } from './support';
+import { signIn, expect, test } from './support';
 
 /** A mono 16-bit 8 kHz PCM WAV: the 44-byte RIFF/WAVE header and a short 440 Hz tone. */
 function wav(samples = 800): Buffer {
