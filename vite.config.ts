@@ -15,6 +15,8 @@ export default defineConfig({
 				test: {
 					name: 'unit',
 					environment: 'node',
+					// Property specs run many cases: room for a busy machine (no spec asserts on time).
+					testTimeout: 60_000,
 					include: ['src/**/*.spec.ts', 'fake-services/**/*.spec.ts']
 				}
 			},
