@@ -4,6 +4,16 @@ import { defineConfig, devices } from '@playwright/test';
 // runs there), in Debian's Chromium: no downloaded browser.
 const baseURL = process.env.APP_URL ?? 'http://127.0.0.1:3100';
 
+// Under `npm run test:clock` every process of the run has libfaketime preloaded (FAKETIME is the
+// clock's offset). Chromium does not start with the library loaded, so it gets the environment
+// without it and tests/e2e/support.ts gives each browser context the run's clock instead.
+const FAKETIME_VARS = ['LD_PRELOAD', 'FAKETIME', 'FAKETIME_DONT_FAKE_MONOTONIC', 'FAKETIME_SHARED'];
+const browserEnv = process.env.FAKETIME
+	? Object.fromEntries(
+			Object.entries(process.env).filter((e): e is [string, string] => e[1] !== undefined && !FAKETIME_VARS.includes(e[0]))
+		)
+	: undefined;
+
 export default defineConfig({
 	testDir: 'tests/e2e',
 	fullyParallel: false,
@@ -23,6 +33,7 @@ export default defineConfig({
 		timezoneId: 'America/New_York',
 		launchOptions: {
 			executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+			env: browserEnv,
 			args: [
 				'--no-sandbox',
 				'--disable-gpu',

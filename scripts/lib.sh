@@ -56,6 +56,17 @@ ensure_chromium() {
 	fi
 }
 
+# libfaketime (Debian's faketime packages) for npm run test:clock, which runs the suite under a
+# fixed studio clock.
+FAKETIME_LIB=""
+ensure_faketime() {
+	FAKETIME_LIB="$(ls /usr/lib/*/faketime/libfaketime.so.1 2>/dev/null | head -n 1 || true)"
+	if [ -z "$FAKETIME_LIB" ]; then
+		apt_install faketime libfaketime
+		FAKETIME_LIB="$(ls /usr/lib/*/faketime/libfaketime.so.1 | head -n 1)"
+	fi
+}
+
 # Run a PostgreSQL server binary as the right user: PostgreSQL refuses to run as root.
 as_pg() {
 	if [ "$(id -u)" = "0" ]; then

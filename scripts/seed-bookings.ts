@@ -11,10 +11,14 @@ import { publicHolidayChecker } from '../src/lib/domain/holidays';
 
 const TZ = DEMO_POLICY.timeZone;
 
+/** The studio's calendar date `days` after today, counted in days and not in 24-hour steps (on the
+ * evening before a clock change, today plus 72 hours is already the fourth day). */
 function ymdAhead(days: number): string {
-	return new Intl.DateTimeFormat('en-CA', { timeZone: TZ, year: 'numeric', month: '2-digit', day: '2-digit' }).format(
-		new Date(Date.now() + days * 86_400_000)
+	const today = new Intl.DateTimeFormat('en-CA', { timeZone: TZ, year: 'numeric', month: '2-digit', day: '2-digit' }).format(
+		new Date()
 	);
+	const [y, m, d] = today.split('-').map(Number) as [number, number, number];
+	return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10);
 }
 
 function at(ymd: string, hhmm: string): Date {

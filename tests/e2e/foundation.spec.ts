@@ -1,5 +1,4 @@
-import { expect, test } from '@playwright/test';
-import { signIn } from './support';
+import { signIn, expect, test } from './support';
 
 test('the storefront shows the studio, its three rooms and their rates', async ({ page }) => {
 	await page.goto('/');

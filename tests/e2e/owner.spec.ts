@@ -1,5 +1,4 @@
-import { expect, test } from '@playwright/test';
-import { signIn } from './support';
+import { signIn, expect, test } from './support';
 
 test('the owner opens Rates & policy, sees the demo values, and a bad rate is refused with the typed value kept', async ({
 	page

@@ -1,19 +1,21 @@
 import { readFile } from 'node:fs/promises';
-import { expect, test } from '@playwright/test';
+import { signIn, expect, test } from './support';
 import { parse } from 'csv-parse/sync';
-import { signIn } from './support';
+import { signedIn } from '../support/http';
+import { ymdInZone } from '../support/dates';
 
 // The engineer's and the accountant's journeys of PRODUCT.md, in the browser, on the seeded demo
-// studio (scripts/seed-bookings.ts places its sessions relative to today; the app gives them their
-// money history at start-up, src/lib/server/demo-ledger.ts).
+// studio (scripts/seed-bookings.ts places its sessions relative to the day of the seed; the app
+// gives them their money history at start-up, src/lib/server/demo-ledger.ts). Days are read from
+// the seeded bookings, never counted from the clock now.
 
-function studioYmd(offsetDays: number): string {
-	return new Intl.DateTimeFormat('en-CA', {
-		timeZone: 'Europe/Helsinki',
-		year: 'numeric',
-		month: '2-digit',
-		day: '2-digit'
-	}).format(new Date(Date.now() + offsetDays * 86_400_000));
+/** The seeded session HP-DEMO3 as the API gives it to the engineer. */
+async function demoSession(): Promise<{ reference: string; start: string }> {
+	const res = await (await signedIn('engineer@slateroom.test')).fetch('/api/bookings');
+	const { bookings } = (await res.json()) as { bookings: { reference: string; start: string }[] };
+	const demo = bookings.find((b) => b.reference === 'HP-DEMO3');
+	expect(demo, 'the seeded session HP-DEMO3').toBeDefined();
+	return demo!;
 }
 
 test('the engineer opens the day plan, reads the carried-over recall sheet and writes this session’s', async ({ page }) => {
@@ -45,8 +47,9 @@ test('the engineer opens the day plan, reads the carried-over recall sheet and w
 
 test('the accountant opens a month and takes its documents away as CSV that matches the page', async ({ page }) => {
 	await signIn(page, 'accountant@slateroom.test');
-	// A demo deposit is paid seven days before today (ten days before a session three days ahead).
-	const month = studioYmd(-7).slice(0, 7);
+	// The demo ledger pays each demo deposit ten days before its session: the month of that day.
+	const demo = await demoSession();
+	const month = ymdInZone(Date.parse(demo.start) - 10 * 86_400_000).slice(0, 7);
 	await page.goto(`/accounts?month=${month}`);
 	const rows = page.getByTestId('documents').locator('tbody tr');
 	await expect(rows.first()).toBeVisible();

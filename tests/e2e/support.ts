@@ -1,4 +1,30 @@
-import { expect, type Page } from '@playwright/test';
+import { test as base, expect, type Browser, type BrowserContext, type Page } from '@playwright/test';
+
+export { expect };
+
+/**
+ * Under `npm run test:clock` the test process runs on a faked clock that Chromium does not share
+ * (it runs without libfaketime, see playwright.config.ts): each browser context gets the same
+ * clock, ticking from the test process's now.
+ */
+async function shareClock(context: BrowserContext) {
+	if (process.env.FAKETIME) await context.clock.install({ time: Date.now() });
+}
+
+/** Playwright's test, with every page on the run's clock. */
+export const test = base.extend({
+	context: async ({ context }, use) => {
+		await shareClock(context);
+		await use(context);
+	}
+});
+
+/** A second browser context (another person), on the run's clock too. */
+export async function newContext(browser: Browser): Promise<BrowserContext> {
+	const context = await browser.newContext();
+	await shareClock(context);
+	return context;
+}
 
 export const DEMO_PASSWORD = 'slateroom-demo';
 

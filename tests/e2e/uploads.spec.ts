@@ -1,5 +1,5 @@
-import { expect, test } from '@playwright/test';
-import { signIn } from './support';
+import { signIn, expect, test } from './support';
+import { workdaysAhead } from '../support/dates';
 
 /** A mono 16-bit 8 kHz PCM WAV: the 44-byte RIFF/WAVE header and a short 440 Hz tone. */
 function wav(samples = 800): Buffer {
@@ -20,27 +20,29 @@ function wav(samples = 800): Buffer {
 	return buf;
 }
 
-/** A weekday 150–175 days ahead (the uploads specs' days), as a local date. */
-function weekdayAhead(): string {
-	for (;;) {
-		const d = new Date(Date.now() + (150 + Math.floor(Math.random() * 26)) * 86_400_000);
-		const ymd = d.toISOString().slice(0, 10);
-		const dow = new Date(`${ymd}T12:00:00Z`).getUTCDay();
-		if (dow >= 1 && dow <= 5) return ymd;
-	}
-}
+/** The uploads specs' days (working weekdays from 150 days ahead) and two-hour slots, tried in order. */
+const DAYS = workdaysAhead(150, 15);
+const SLOTS = [
+	['16:30', '18:30'],
+	['09:00', '11:00'],
+	['11:30', '13:30'],
+	['14:00', '16:00']
+] as const;
 
 test('the artist uploads a reference track on the booking page and sees it listed', async ({ page }) => {
 	await signIn(page, 'artist@slateroom.test');
 	let bookingId = '';
-	for (let attempt = 0; attempt < 30 && !bookingId; attempt++) {
-		const day = weekdayAhead();
-		const res = await page.request.post('/api/bookings', {
-			data: { room: 'vocal-booth', start: `${day}T09:00`, end: `${day}T11:00` }
-		});
-		if (res.status() === 409 || res.status() === 422) continue;
-		expect(res.status()).toBe(201);
-		bookingId = ((await res.json()) as { id: string }).id;
+	for (const day of DAYS) {
+		for (const [from, to] of SLOTS) {
+			const res = await page.request.post('/api/bookings', {
+				data: { room: 'vocal-booth', start: `${day}T${from}`, end: `${day}T${to}` }
+			});
+			if (res.status() === 409) continue;
+			expect(res.status()).toBe(201);
+			bookingId = ((await res.json()) as { id: string }).id;
+			break;
+		}
+		if (bookingId) break;
 	}
 	expect(bookingId).not.toBe('');
 

@@ -5,6 +5,7 @@ import { eq } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DEMO, DEMO_PASSWORD } from '../support/env';
 import { testDb } from '../support/db';
+import { sleep } from '../support/wait';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -129,12 +130,21 @@ describe('better-auth’s JSON routes are no side door', () => {
 		const session = await c.fetch('/api/auth/get-session');
 		expect(session.status).toBe(200);
 		expect(((await session.json()) as { user: { email: string } }).user.email).toBe(DEMO.artist2);
-		const out = await c.json('/api/auth/sign-out', {});
+		let out = await c.json('/api/auth/sign-out', {});
+		if (out.status === 429) {
+			// The limiter test below may have used up this address's sign-out allowance (in whatever
+			// order the tests run): wait the time better-auth names, once, and sign out then.
+			const seconds = Number(out.headers.get('x-retry-after'));
+			expect(seconds).toBeGreaterThan(0);
+			expect(seconds).toBeLessThanOrEqual(60);
+			await sleep(seconds * 1000 + 500);
+			out = await c.json('/api/auth/sign-out', {});
+		}
 		expect(out.status).toBe(200);
 		const replay = await fetch(`${c.base}/api/auth/get-session`, { headers: { cookie } });
 		expect(replay.status).toBe(200);
 		expect(await replay.json()).toBeNull();
-	});
+	}, 120_000);
 });
 
 describe('a made-up X-Forwarded-For resets no limit', () => {
@@ -157,8 +167,8 @@ describe('a made-up X-Forwarded-For resets no limit', () => {
 		expect(statuses).toEqual([400, 400, 400, 400, 400, 429, 429]);
 	});
 
-	// Runs last in this file: it uses up better-auth's sign-out allowance for this address (100 a
-	// minute, src/lib/server/auth.ts) until the window ends.
+	// Uses up better-auth's sign-out allowance for this address (100 a minute, src/lib/server/auth.ts)
+	// until the window ends; the sign-out test above waits for the window when it runs after this one.
 	it('in better-auth’s own limiter, whatever address headers are sent', async () => {
 		const statuses: number[] = [];
 		for (let i = 0; i < 110; i++) {

@@ -7,7 +7,9 @@ import ical from 'node-ical';
 import { Client, signedIn } from '../support/http';
 import { APP_URL, DEMO } from '../support/env';
 import { testDb } from '../support/db';
-import { sleep } from '../support/wait';
+import { waitFor } from '../support/wait';
+import { addDays, studioToday } from '../support/dates';
+import { expectRefusedPage } from '../support/refusal';
 import { payOnFake } from '../support/stripe-fake';
 import * as t from '../../src/lib/server/db/schema';
 
@@ -43,8 +45,9 @@ describe('the calendar feed', () => {
 		// A session held but not paid is nobody's yet: it stays out of the feed until its deposit arrives.
 		const artist = await signedIn(DEMO.artist);
 		let booked: { id: string; checkoutUrl: string } | undefined;
-		for (let i = 0; i < 20 && !booked; i++) {
-			const ymd = new Date(Date.now() + (20 + Math.floor(Math.random() * 8)) * 86_400_000).toISOString().slice(0, 10);
+		// The first free late evening in the control room from 20 days ahead, on the studio's calendar.
+		for (let i = 20; i < 40 && !booked; i++) {
+			const ymd = addDays(studioToday(), i);
 			const res = await artist.json('/api/bookings', { room: 'control-room', start: `${ymd}T21:00`, end: `${ymd}T23:00` });
 			if (res.status === 201) booked = (await res.json()) as { id: string; checkoutUrl: string };
 		}
@@ -62,28 +65,38 @@ describe('the calendar feed', () => {
 
 		const sessionId = booked!.checkoutUrl.split('/pay/')[1]!;
 		expect(await payOnFake(sessionId)).toBe(200);
-		let after: ical.VEvent | undefined;
-		for (let i = 0; i < 50 && !after; i++) {
-			after = vevents((await feed(token!)).text).find((e) => e.uid === booked!.id);
-			if (!after) await sleep(200);
-		}
-		expect(after?.status).toBe('CONFIRMED');
+		const after = await waitFor(
+			async () => vevents((await feed(token!)).text).find((e) => e.uid === booked!.id),
+			'the paid session in the feed'
+		);
+		expect(after.status).toBe('CONFIRMED');
 
 		await engineer.form('/plan?/feed', {});
 		const replaced = await tokenOf(DEMO.engineer);
 		expect(replaced).not.toBe(token);
-		expect((await feed(token!)).status).toBe(404);
-		expect((await feed(replaced!)).status).toBe(200);
+		const old = await feed(token!);
+		expect(old.status).toBe(404);
+		expect(old.text).not.toContain('BEGIN:VEVENT');
+		expect(old.text).not.toContain(booked!.id);
+		const current = await feed(replaced!);
+		expect(current.status).toBe(200);
+		expect(vevents(current.text).map((e) => e.uid)).toContain(booked!.id);
 	});
 
 	it('has no address for artists or accountants, and an unknown address is a 404', async () => {
 		for (const who of [DEMO.artist, DEMO.accountant]) {
 			const res = await (await signedIn(who)).form('/plan?/feed', {});
-			expect(res.status).toBe(403);
+			await expectRefusedPage(res, 403, /Your role does not give access/, ['/feed/']);
 			expect(await tokenOf(who)).toBeUndefined();
 		}
-		expect((await feed('A'.repeat(43))).status).toBe(404);
-		expect((await feed('not-a-token')).status).toBe(404);
-		expect((await new Client().fetch('/plan')).status).toBe(303);
+		for (const token of ['A'.repeat(43), 'not-a-token']) {
+			const res = await feed(token);
+			expect(res.status).toBe(404);
+			expect(res.type).not.toMatch(/calendar/);
+			expect(res.text).not.toContain('BEGIN:VCALENDAR');
+		}
+		const stranger = await new Client().fetch('/plan');
+		expect(stranger.status).toBe(303);
+		expect(stranger.headers.get('location')).toBe('/sign-in?next=%2Fplan');
 	});
 });

@@ -3,6 +3,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DEMO, DEMO_PASSWORD } from '../support/env';
+import { expectRefusedPage } from '../support/refusal';
 import { testDb } from '../support/db';
 import * as t from '../../src/lib/server/db/schema';
 
@@ -138,7 +139,11 @@ describe('role zones', () => {
 	it.each(pages)('%s as %s gives %i', async (path, who, status) => {
 		const c = await signedIn(who);
 		const res = await c.fetch(path, { headers: { accept: 'text/html' } });
+		const html = await res.text();
 		expect(res.status).toBe(status);
+		// A refused page is the site's own 403 page and says why; an allowed one is not.
+		if (status === 403) expect(html).toContain('Not part of your role');
+		else expect(html).not.toContain('Not part of your role');
 	});
 
 	it('sends an anonymous visitor to sign-in with the page to come back to', async () => {
@@ -151,7 +156,7 @@ describe('role zones', () => {
 		const artist = await signedIn(DEMO.artist);
 		const [target] = await db.select().from(t.user).where(eq(t.user.email, DEMO.artist2));
 		const res = await artist.form('/studio/people?/setRole', { userId: target!.id, role: 'owner' });
-		expect(res.status).toBe(403);
+		await expectRefusedPage(res, 403, /Your role does not give access/, [DEMO.artist2, target!.id]);
 		const [after] = await db.select().from(t.user).where(eq(t.user.email, DEMO.artist2));
 		expect(after!.role).toBe('artist');
 	});

@@ -1,11 +1,21 @@
 // The engineer's day plan over HTTP, on the seeded demo sessions (scripts/seed-bookings.ts puts
-// The Lantern Static in the live room three days from today, with a recall sheet from 14 days ago).
-import { describe, expect, it } from 'vitest';
+// The Lantern Static in the live room three days after the day of the seed, with a recall sheet
+// from 14 days before it). The day is read from the seeded booking itself, not counted from the
+// clock now: a run that crosses midnight still opens the day the seed chose.
+import { beforeAll, describe, expect, it } from 'vitest';
 import { Client, signedIn } from '../support/http';
 import { DEMO } from '../support/env';
 import { ymdInZone } from '../support/dates';
+import { expectRefused, expectRefusedPage } from '../support/refusal';
 
-const day = ymdInZone(new Date(Date.now() + 3 * 86_400_000));
+let day = '';
+beforeAll(async () => {
+	const res = await (await signedIn(DEMO.engineer)).fetch('/api/bookings');
+	const { bookings } = (await res.json()) as { bookings: { reference: string; start: string }[] };
+	const demo = bookings.find((b) => b.reference === 'HP-DEMO3');
+	if (!demo) throw new Error('the seeded session HP-DEMO3 is missing');
+	day = ymdInZone(new Date(demo.start));
+});
 
 interface Plan {
 	date: string;
@@ -32,15 +42,20 @@ describe('GET /api/plan', () => {
 	});
 
 	it('is for engineers and the owner only', async () => {
-		expect((await new Client().fetch(`/api/plan?date=${day}`)).status).toBe(401);
-		expect((await (await signedIn(DEMO.artist)).fetch(`/api/plan?date=${day}`)).status).toBe(403);
-		expect((await (await signedIn(DEMO.accountant)).fetch(`/api/plan?date=${day}`)).status).toBe(403);
-		expect((await (await signedIn(DEMO.owner)).fetch(`/api/plan?date=${day}`)).status).toBe(200);
+		// Nothing of the day's plan in a refusal: not the session, its artist or its recall sheet.
+		const secrets = ['HP-DEMO3', 'Lantern', 'Kick drum'];
+		await expectRefused(await new Client().fetch(`/api/plan?date=${day}`), 401, { secrets });
+		await expectRefused(await (await signedIn(DEMO.artist)).fetch(`/api/plan?date=${day}`), 403, { secrets });
+		await expectRefused(await (await signedIn(DEMO.accountant)).fetch(`/api/plan?date=${day}`), 403, { secrets });
+		const owner = await (await signedIn(DEMO.owner)).fetch(`/api/plan?date=${day}`);
+		expect(owner.status).toBe(200);
+		expect(await owner.text()).toContain('HP-DEMO3');
 	});
 
 	it('answers 422 for a malformed date', async () => {
 		const res = await (await signedIn(DEMO.engineer)).fetch('/api/plan?date=next-tuesday');
 		expect(res.status).toBe(422);
+		expect(((await res.json()) as { error: string }).error).toBe('invalid');
 	});
 
 	it('lets the engineer write this session’s recall sheet, which the plan then shows', async () => {
@@ -71,6 +86,14 @@ describe('GET /api/plan', () => {
 		expect(own).toMatchObject({ notes: 'Amp on the riser', channels: [{ source: 'Rhythm guitar', preampGainDb: 45 }] });
 		const bad = await c.form(`/plan?/recall`, { bookingId: session.id, rows: '1', 'source-0': 'Vox', 'preampGainDb-0': '900' });
 		expect(bad.status).toBe(422);
-		expect((await (await signedIn(DEMO.artist)).form(`/plan?/recall`, { bookingId: session.id, rows: '0' })).status).toBe(403);
+		await expectRefusedPage(
+			await (await signedIn(DEMO.artist)).form(`/plan?/recall`, { bookingId: session.id, rows: '0' }),
+			403,
+			/Your role does not give access/,
+			['Amp on the riser', 'Rhythm guitar']
+		);
+		// The artist's try changed nothing.
+		const kept = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as typeof after;
+		expect(kept.rooms.flatMap((r) => r.sessions).find((s) => s.id === session.id)!.ownRecall).toEqual(own);
 	});
 });

@@ -9,9 +9,10 @@ import { eq } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DEMO } from '../support/env';
 import { testDb } from '../support/db';
-import { sleep } from '../support/wait';
+import { waitFor } from '../support/wait';
 import { payOnFake } from '../support/stripe-fake';
-import { weekdayAhead } from '../support/dates';
+import { workdaysAhead } from '../support/dates';
+import { expectRefused } from '../support/refusal';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -52,28 +53,35 @@ function upload(who: Client, bookingId: string, bytes: Uint8Array<ArrayBuffer>, 
 	return who.fetch(`/api/bookings/${bookingId}/uploads`, { method: 'POST', body: form });
 }
 
-/** Two hours in the vocal booth, 09:00–11:00 on a weekday 150–175 days ahead (this file's days). */
+/** This file's days: working weekdays from 150 days ahead, and two-hour slots on each. */
+const DAYS = workdaysAhead(150, 15);
+const SLOTS: [string, string][] = [
+	['09:00', '11:00'],
+	['11:30', '13:30'],
+	['14:00', '16:00']
+];
+
+/** Two hours in the vocal booth on the first free slot of this file's days. */
 async function book(who: Client): Promise<{ id: string; checkoutUrl: string; day: string }> {
-	for (let attempt = 0; attempt < 30; attempt++) {
-		const day = weekdayAhead(150 + Math.floor(Math.random() * 26));
-		const res = await who.json('/api/bookings', { room: 'vocal-booth', start: `${day}T09:00`, end: `${day}T11:00` });
-		if (res.status === 409) continue;
-		const body = (await res.json()) as { id: string; checkoutUrl: string };
-		expect(res.status, JSON.stringify(body)).toBe(201);
-		return { ...body, day };
+	for (const day of DAYS) {
+		for (const [from, to] of SLOTS) {
+			const res = await who.json('/api/bookings', { room: 'vocal-booth', start: `${day}T${from}`, end: `${day}T${to}` });
+			if (res.status === 409) continue;
+			const body = (await res.json()) as { id: string; checkoutUrl: string };
+			expect(res.status, JSON.stringify(body)).toBe(201);
+			return { ...body, day };
+		}
 	}
-	throw new Error('no free slot found');
+	throw new Error(`no free slot in the vocal booth from ${DAYS[0]} to ${DAYS.at(-1)}`);
 }
 
 async function payDeposit(bookingId: string, checkoutUrl: string) {
 	const session = checkoutUrl.split('/pay/')[1]!;
 	expect(await payOnFake(session)).toBe(200);
-	for (let i = 0; i < 100; i++) {
+	await waitFor(async () => {
 		const [row] = await db.select({ status: t.booking.status }).from(t.booking).where(eq(t.booking.id, bookingId));
-		if (row?.status === 'confirmed') return;
-		await sleep(100);
-	}
-	throw new Error('the booking was not confirmed');
+		return row?.status === 'confirmed';
+	}, 'the booking confirmed');
 }
 
 /** Every file in the booking's folder, and the storage keys its rows name: the two must agree. */
@@ -101,9 +109,7 @@ let artist2: Client;
 let engineer: Client;
 let owner: Client;
 let accountant: Client;
-let booking: { id: string; checkoutUrl: string; day: string };
 const track = wav();
-let stored: UploadJson;
 
 beforeAll(async () => {
 	[artist, artist2, engineer, owner, accountant] = await Promise.all([
@@ -113,12 +119,23 @@ beforeAll(async () => {
 		signedIn(DEMO.owner),
 		signedIn(DEMO.accountant)
 	]);
-	booking = await book(artist);
 });
+
+const TRACK_NAME = 'Guide vocal, Kesäyö (take 3).wav';
+
+/** Each test's own booking, with the artist's guide vocal already on it: nothing is shared between tests. */
+async function bookingWithTrack() {
+	const booking = await book(artist);
+	const res = await upload(artist, booking.id, track, TRACK_NAME);
+	const stored = (await res.json()) as UploadJson;
+	expect(res.status, JSON.stringify(stored)).toBe(201);
+	return { booking, stored };
+}
 
 describe('uploading to a booking', () => {
 	it('takes a small WAV from the booking’s artist, stores it under a server-chosen name, and lists it', async () => {
-		const res = await upload(artist, booking.id, track, 'Guide vocal, Kesäyö (take 3).wav');
+		const booking = await book(artist);
+		const res = await upload(artist, booking.id, track, TRACK_NAME);
 		const body = (await res.json()) as UploadJson;
 		expect(res.status, JSON.stringify(body)).toBe(201);
 		expect(body).toMatchObject({
@@ -129,7 +146,6 @@ describe('uploading to a booking', () => {
 			sha256: sha256(track)
 		});
 		expect(body.downloadUrl).toBe(`/uploads/${body.id}`);
-		stored = body;
 
 		const [row] = await db.select().from(t.upload).where(eq(t.upload.id, body.id));
 		expect(row!.storageKey).toMatch(new RegExp(`^${booking.id}/[0-9a-f-]{36}$`));
@@ -144,6 +160,7 @@ describe('uploading to a booking', () => {
 	});
 
 	it('lets the engineer list and download the same bytes, as an attachment that is never sniffed', async () => {
+		const { booking, stored } = await bookingWithTrack();
 		const list = (await (await engineer.fetch(`/api/bookings/${booking.id}/uploads`)).json()) as { uploads: UploadJson[] };
 		expect(list.uploads.map((u) => u.id)).toContain(stored.id);
 		const res = await engineer.fetch(stored.downloadUrl);
@@ -159,6 +176,7 @@ describe('uploading to a booking', () => {
 	});
 
 	it('shows the files in the engineer’s day plan once the booking is confirmed', async () => {
+		const { booking, stored } = await bookingWithTrack();
 		await payDeposit(booking.id, booking.checkoutUrl);
 		const res = await engineer.fetch(`/api/plan?date=${booking.day}`);
 		const plan = (await res.json()) as {
@@ -171,27 +189,39 @@ describe('uploading to a booking', () => {
 	});
 
 	it('answers another artist 404 for the list, an upload, a download and a removal, as for no booking at all', async () => {
-		expect((await artist2.fetch(`/api/bookings/${booking.id}/uploads`)).status).toBe(404);
-		const up = await upload(artist2, booking.id, wav(), 'mine.wav');
-		expect(up.status).toBe(404);
-		expect(await up.json()).toMatchObject({ error: 'not_found' });
-		expect((await artist2.fetch(stored.downloadUrl)).status).toBe(404);
-		expect((await artist2.fetch(`/api/bookings/${booking.id}/uploads/${stored.id}`, { method: 'DELETE' })).status).toBe(404);
-		expect((await artist.fetch(`/api/bookings/00000000-0000-4000-8000-000000000000/uploads`)).status).toBe(404);
+		const { booking, stored } = await bookingWithTrack();
+		// Nothing of the file in the answer: not its name, its id or its digest.
+		const secrets = [stored.id, 'Guide vocal', stored.sha256];
+		await expectRefused(await artist2.fetch(`/api/bookings/${booking.id}/uploads`), 404, { secrets });
+		await expectRefused(await upload(artist2, booking.id, wav(), 'mine.wav'), 404, { secrets });
+		await expectRefused(await artist2.fetch(stored.downloadUrl), 404, { secrets });
+		await expectRefused(await artist2.fetch(`/api/bookings/${booking.id}/uploads/${stored.id}`, { method: 'DELETE' }), 404, {
+			secrets
+		});
+		await expectRefused(await artist.fetch(`/api/bookings/00000000-0000-4000-8000-000000000000/uploads`), 404);
 		expect((await onDisk(booking.id)).keys).toHaveLength(1);
 	});
 
 	it('answers the accountant 403, an engineer 403 for changes, and a stranger 401', async () => {
-		expect((await accountant.fetch(`/api/bookings/${booking.id}/uploads`)).status).toBe(403);
-		expect((await upload(accountant, booking.id, wav(), 'a.wav')).status).toBe(403);
-		expect((await accountant.fetch(stored.downloadUrl)).status).toBe(403);
-		expect((await upload(engineer, booking.id, wav(), 'e.wav')).status).toBe(403);
-		expect((await engineer.fetch(`/api/bookings/${booking.id}/uploads/${stored.id}`, { method: 'DELETE' })).status).toBe(403);
-		expect((await new Client().fetch(`/api/bookings/${booking.id}/uploads`)).status).toBe(401);
-		expect((await upload(new Client(), booking.id, wav(), 's.wav')).status).toBe(401);
+		const { booking, stored } = await bookingWithTrack();
+		const secrets = [stored.id, 'Guide vocal', stored.sha256];
+		await expectRefused(await accountant.fetch(`/api/bookings/${booking.id}/uploads`), 403, { secrets });
+		await expectRefused(await upload(accountant, booking.id, wav(), 'a.wav'), 403, { secrets });
+		await expectRefused(await accountant.fetch(stored.downloadUrl), 403, { secrets });
+		await expectRefused(await upload(engineer, booking.id, wav(), 'e.wav'), 403, { secrets });
+		await expectRefused(await engineer.fetch(`/api/bookings/${booking.id}/uploads/${stored.id}`, { method: 'DELETE' }), 403, {
+			secrets
+		});
+		await expectRefused(await new Client().fetch(`/api/bookings/${booking.id}/uploads`), 401, { secrets });
+		await expectRefused(await upload(new Client(), booking.id, wav(), 's.wav'), 401, { secrets });
+		// Nothing was added or removed by any of them.
+		const disk = await onDisk(booking.id);
+		expect(disk.keys).toHaveLength(1);
+		expect(disk.files).toEqual(disk.keys);
 	});
 
 	it('decides the type from the content: HTML or a Windows program named track.wav is refused with 415', async () => {
+		const { booking } = await bookingWithTrack();
 		const html = new TextEncoder().encode('<!doctype html><html><body><script>alert(document.cookie)</script></body></html>');
 		const mz = new Uint8Array(512);
 		mz.set([0x4d, 0x5a, 0x90, 0x00, 0x03]);
@@ -210,6 +240,7 @@ describe('uploading to a booking', () => {
 	});
 
 	it('takes a plain UTF-8 lyric sheet and serves it as text', async () => {
+		const booking = await book(artist);
 		const lyrics = new TextEncoder().encode('Säkeistö 1\nThe tape hiss sings along\n');
 		const res = await upload(artist, booking.id, lyrics, 'lyrics.txt', 'application/octet-stream');
 		const body = (await res.json()) as UploadJson;
@@ -254,6 +285,7 @@ describe('uploading to a booking', () => {
 	});
 
 	it('answers 413 for a file just over UPLOAD_MAX_BYTES and for a body over BODY_SIZE_LIMIT, leaving nothing behind', async () => {
+		const booking = await book(artist);
 		const before = await onDisk(booking.id);
 		const over = await upload(artist, booking.id, wav(100, MAX_FILE + 1), 'too-long.wav');
 		const body = (await over.json()) as { error: string; message: string };
@@ -265,13 +297,19 @@ describe('uploading to a booking', () => {
 		expect(huge.status).toBe(413);
 		expect(await huge.json()).toMatchObject({ error: 'too_large' });
 
-		await sleep(200);
-		expect(await onDisk(booking.id)).toEqual(before);
+		// Whatever part of the refused bodies reached the disk is removed: wait for the folder to
+		// match what was there before, then say what it holds.
+		const after = await waitFor(async () => {
+			const now = await onDisk(booking.id);
+			return JSON.stringify(now) === JSON.stringify(before) ? now : undefined;
+		}, 'the refused uploads gone from the disk').catch(() => onDisk(booking.id));
+		expect(after).toEqual(before);
 		// The connection pool is still healthy afterwards.
 		expect((await artist.fetch(`/api/bookings/${booking.id}/uploads`)).status).toBe(200);
 	});
 
 	it('answers 415 for a body that is not multipart, and 422 without a file', async () => {
+		const booking = await book(artist);
 		const json = await artist.json(`/api/bookings/${booking.id}/uploads`, { file: 'x' });
 		expect(json.status).toBe(415);
 		const form = new FormData();
@@ -282,17 +320,19 @@ describe('uploading to a booking', () => {
 	});
 
 	it('removes a file: the row and the bytes', async () => {
+		const { booking, stored } = await bookingWithTrack();
 		const [row] = await db.select().from(t.upload).where(eq(t.upload.id, stored.id));
 		const res = await artist.fetch(`/api/bookings/${booking.id}/uploads/${stored.id}`, { method: 'DELETE' });
 		expect(res.status).toBe(204);
 		expect(await db.select().from(t.upload).where(eq(t.upload.id, stored.id))).toEqual([]);
 		await expect(readFile(path.join(UPLOAD_DIR, row!.storageKey))).rejects.toThrow(/ENOENT/);
-		expect((await engineer.fetch(stored.downloadUrl)).status).toBe(404);
+		await expectRefused(await engineer.fetch(stored.downloadUrl), 404, { secrets: [stored.sha256] });
 		const disk = await onDisk(booking.id);
 		expect(disk.files).toEqual(disk.keys);
 	});
 
 	it('holds a booking to ten files (413 for the eleventh), and takes none once it is cancelled', async () => {
+		const booking = await book(artist);
 		const { keys } = await onDisk(booking.id);
 		for (let i = keys.length; i < 10; i++)
 			expect((await upload(artist, booking.id, wav(50 + i), `take-${i}.wav`)).status).toBe(201);

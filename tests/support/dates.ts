@@ -1,34 +1,114 @@
-// Picking days for tests: in the studio's zone (Europe/Helsinki), relative to today, so the
-// tests keep working as the calendar moves on.
-import { TZDate } from '@date-fns/tz';
+// Picking days and times for tests, in the studio's zone (Europe/Helsinki). Tests book relative to
+// today (the app refuses the past and anything past its horizon), so every choice here is made by
+// what the test needs (a working weekday, so many full days of notice), never by "today + n" read
+// as a number of 24-hour steps: days are counted on the studio's calendar, so a run at 23:30, on a
+// Sunday night, on New Year's Eve or on the evening before a clock change picks the same kind of
+// day as a run at noon. `npm run test:clock` runs the suite at such times.
+import { localDateOf, zonedWallTime } from '../../src/lib/domain/availability/zoned';
 import { isPublicHoliday } from '../../src/lib/domain/holidays';
 
 export const TZ = 'Europe/Helsinki';
+const HOUR = 3_600_000;
+const DAY = 24 * HOUR;
 
-export function ymdInZone(d: Date, tz = TZ): string {
-	return new Intl.DateTimeFormat('en-CA', { timeZone: tz, year: 'numeric', month: '2-digit', day: '2-digit' }).format(d);
+/** The local calendar date of an instant in the studio's zone (or another). */
+export function ymdInZone(d: Date | number, tz = TZ): string {
+	return localDateOf(d, tz);
 }
 
-/** The local date `days` after today, moved forward to a Monday–Friday that is not a Finnish public holiday. */
-export function weekdayAhead(days: number): string {
-	let t = Date.now() + days * 86_400_000;
-	for (;;) {
-		const ymd = ymdInZone(new Date(t));
-		const dow = new TZDate(t, TZ).getDay();
-		if (dow !== 0 && dow !== 6 && !isPublicHoliday('FI', ymd)) return ymd;
-		t += 86_400_000;
+/** Today's date in the studio. */
+export function studioToday(now = Date.now()): string {
+	return ymdInZone(now);
+}
+
+/** A calendar date `days` after `ymd` (negative: before), whatever the clock changes in between. */
+export function addDays(ymd: string, days: number): string {
+	const [y, m, d] = ymd.split('-').map(Number) as [number, number, number];
+	return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10);
+}
+
+/** ISO weekday of a calendar date: 1 Monday … 7 Sunday. */
+export function isoWeekday(ymd: string): number {
+	const day = new Date(`${ymd}T12:00:00Z`).getUTCDay();
+	return day === 0 ? 7 : day;
+}
+
+/** Monday to Friday and not a Finnish public holiday: no weekend or holiday surcharge. */
+export function isWorkday(ymd: string): boolean {
+	return isoWeekday(ymd) <= 5 && !isPublicHoliday('FI', ymd);
+}
+
+/** The first working weekday on or after `ymd`. */
+export function workdayFrom(ymd: string): string {
+	let d = ymd;
+	while (!isWorkday(d)) d = addDays(d, 1);
+	return d;
+}
+
+/** The studio date `days` calendar days after today, moved forward to a working weekday. */
+export function weekdayAhead(days: number, now = Date.now()): string {
+	return workdayFrom(addDays(studioToday(now), days));
+}
+
+/** The instant (ms) at which the studio's clock reads `hhmm` on `ymd`. */
+export function studioInstant(ymd: string, hhmm: string): number {
+	return zonedWallTime(ymd, hhmm, TZ).getTime();
+}
+
+/** A studio wall time as an ISO 8601 instant (in UTC). */
+export function studioIso(ymd: string, hhmm: string): string {
+	return new Date(studioInstant(ymd, hhmm)).toISOString();
+}
+
+/**
+ * Whole days of notice that cancelling at `now` gives for a start (floor of the hours / 24), as the
+ * cancellation page counts them.
+ */
+export function noticeDays(startMs: number, now = Date.now()): number {
+	return Math.floor((startMs - now) / DAY);
+}
+
+/**
+ * Working weekdays whose `hhmm` start gives between `minHours` and `maxHours` hours of notice
+ * from now, each at least `marginHours` inside those bounds, so that a slow test cannot cross a
+ * bound while it runs. Nearest first; `count` of them.
+ */
+export function workdaysWithNotice(
+	hhmm: string,
+	opts: { minHours: number; maxHours?: number; marginHours?: number; count?: number; now?: number }
+): string[] {
+	const now = opts.now ?? Date.now();
+	const margin = opts.marginHours ?? 2;
+	const max = opts.maxHours ?? Infinity;
+	const found: string[] = [];
+	for (let d = studioToday(now); found.length < (opts.count ?? 5); d = addDays(d, 1)) {
+		const notice = (studioInstant(d, hhmm) - now) / HOUR;
+		if (notice > max - margin) break;
+		if (notice >= opts.minHours + margin && isWorkday(d)) found.push(d);
 	}
+	return found;
 }
 
-/** The first local date after `fromDays` whose length is not 24 hours (a daylight-saving change). */
-export function nextDstChange(fromDays = 2): { ymd: string; hours: number } {
+/** The first studio date from `fromDays` days ahead whose length is not 24 hours (a daylight-saving change). */
+export function nextDstChange(fromDays = 2, now = Date.now()): { ymd: string; hours: number } {
+	const today = studioToday(now);
 	for (let i = fromDays; i < 400; i++) {
-		const ymd = ymdInZone(new Date(Date.now() + i * 86_400_000));
-		const [y, m, d] = ymd.split('-').map(Number) as [number, number, number];
-		const start = new TZDate(y, m - 1, d, TZ).getTime();
-		const end = new TZDate(y, m - 1, d + 1, TZ).getTime();
-		const hours = (end - start) / 3_600_000;
+		const ymd = addDays(today, i);
+		const hours = (studioInstant(addDays(ymd, 1), '00:00') - studioInstant(ymd, '00:00')) / HOUR;
 		if (hours !== 24) return { ymd, hours };
 	}
 	throw new Error('no daylight-saving change within 400 days');
+}
+
+/**
+ * `count` different working weekdays, the first on or after `fromDays` calendar days ahead: a
+ * file's own days, one per test, so two tests never share a day whatever weekday or holiday
+ * today's date puts them on (the app books at most `horizonDays`, 180 in the demo, ahead).
+ */
+export function workdaysAhead(fromDays: number, count: number, now = Date.now(), horizonDays = 180): string[] {
+	const days: string[] = [];
+	for (let d = weekdayAhead(fromDays, now); days.length < count; d = workdayFrom(addDays(d, 1))) days.push(d);
+	const last = days.at(-1)!;
+	if (last > addDays(studioToday(now), horizonDays - 1)) throw new Error(`the days ${days[0]}…${last} reach past the horizon`);
+	return days;
 }

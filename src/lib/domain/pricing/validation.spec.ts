@@ -52,15 +52,13 @@ describe('validateBookingTimes (source: PRODUCT.md demo policy)', () => {
 		expect(codes(at('2027-03-27', '22:00'), at('2027-03-28', '22:00'), openAllHours(), at('2027-03-01', '00:00'))).toEqual([]);
 	});
 
-	it('refuses far-off times and over-long bookings from arithmetic alone, quickly', () => {
-		const t0 = performance.now();
+	it('refuses far-off times and over-long bookings from arithmetic alone', () => {
 		// A valid start with an end in the year 9999: refused as too long, without walking the calendar.
 		expect(codes(at('2027-03-02', '10:00'), new Date('9999-12-31T10:00:00Z'))).toEqual(['end:too_long']);
 		expect(codes(at('2027-03-02', '10:00'), new Date('9999-12-31T10:00:00Z'), openAllHours())).toEqual(['end:too_long']);
 		// A start in the year 1 or 9999.
 		expect(codes(new Date('0001-01-01T10:00:00Z'), at('2027-03-02', '12:00'))).toEqual(['start:out_of_range', 'end:too_long']);
 		expect(codes(new Date('9999-12-31T10:00:00Z'), new Date('9999-12-31T12:00:00Z'))).toEqual(['start:out_of_range']);
-		expect(performance.now() - t0).toBeLessThan(200);
 	});
 
 	it('caps a booking at 72 h even round the clock (past 366 days the block pricing cannot price it)', () => {
