@@ -17,6 +17,7 @@ import { waitFor } from '../support/wait';
 import { payOnFake } from '../support/stripe-fake';
 import { TZ, weekdayAhead, ymdInZone } from '../support/dates';
 import { pdfRows, type PdfRow } from '../support/pdf-text';
+import { moveIntoPast } from '../support/started';
 import * as t from '../../src/lib/server/db/schema';
 import { linesOf, type InvoiceRow, type Party } from '../../src/lib/server/invoices/issue';
 
@@ -267,7 +268,9 @@ describe('invoice PDFs say what the documents say', () => {
 			expect(depositPdf.totals.get('Paid on account')).toBe(-6200);
 			expect(depositPdf.totals.get('Amount due')).toBe(0);
 
-			const res = await owner.json(`/api/bookings/${b.id}/close`, { actualEnd: b.end.replace('T15:00', 'T15:20') });
+			// A session's end is recorded only once it has begun: move it back to the same weekday and hours.
+			const held = await moveIntoPast(db, b.id);
+			const res = await owner.json(`/api/bookings/${b.id}/close`, { actualEnd: held.end.replace('T15:00', 'T15:20') });
 			expect(res.status).toBe(200);
 			const final = (await docsOf(b.id)).find((d) => d.typeCode === 380)!;
 			const finalPdf = await expectPdfShows(await pdfOf(owner, final), final, {
