@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { DEMO_POLICY } from '../demo';
-import { parseLocalOrOffset, toFieldErrors, validateBookingTimes } from './validation';
-import { at, HELSINKI, openAllHours } from './spec-fixtures';
+import { toFieldErrors, validateBookingTimes } from './validation';
+import { at, openAllHours } from './spec-fixtures';
 
 // Demo policy (PRODUCT.md): open 09:00–23:00, min 2 h, 30-min grid, 24 h notice, 180 days ahead.
 const now = at('2027-03-01', '12:00');
@@ -75,42 +75,5 @@ describe('validateBookingTimes (source: PRODUCT.md demo policy)', () => {
 			end: 'A booking lasts at least 2 h.'
 		});
 		expect(codes(new Date('nonsense'), at('2027-03-02', '09:00'))).toEqual(['start:invalid_time']);
-	});
-});
-
-describe('parseLocalOrOffset (ISO 8601; RFC 5545 first occurrence; IANA tz)', () => {
-	it('reads an instant with an offset or Z', () => {
-		const r = parseLocalOrOffset('2027-03-02T16:00:00+02:00', HELSINKI);
-		expect(r).toEqual({ ok: true, instant: new Date('2027-03-02T14:00:00Z'), ambiguous: false });
-		expect(parseLocalOrOffset('2027-03-02T14:00Z', HELSINKI)).toMatchObject({
-			ok: true,
-			instant: new Date('2027-03-02T14:00:00Z')
-		});
-	});
-
-	it("reads a wall time without an offset in the studio's zone", () => {
-		expect(parseLocalOrOffset('2027-07-01T10:00', HELSINKI)).toEqual({
-			ok: true,
-			instant: new Date('2027-07-01T07:00:00Z'), // summer time, UTC+3
-			ambiguous: false
-		});
-	});
-
-	it('refuses a wall time in the spring-forward gap: 2027-03-28 03:30 does not exist', () => {
-		expect(parseLocalOrOffset('2027-03-28T03:30', HELSINKI)).toMatchObject({ ok: false, code: 'nonexistent_local_time' });
-	});
-
-	it('reads a repeated wall time as its first occurrence: 2027-10-31 03:30 is 00:30 UTC', () => {
-		expect(parseLocalOrOffset('2027-10-31T03:30', HELSINKI)).toEqual({
-			ok: true,
-			instant: new Date('2027-10-31T00:30:00Z'),
-			ambiguous: true
-		});
-	});
-
-	it('refuses malformed input and impossible dates', () => {
-		for (const text of ['2027-02-30T10:00', '2027-03-02 10:00', '2027-03-02T25:00', 'tomorrow', '2027-03-02T10:00+25:00']) {
-			expect(parseLocalOrOffset(text, HELSINKI)).toMatchObject({ ok: false, code: 'invalid_time' });
-		}
 	});
 });
