@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { startsThatFit } from '../availability';
 import { DEMO_POLICY } from '../demo';
 import { toFieldErrors, validateBookingTimes } from './validation';
 import { at, openAllHours } from './spec-fixtures';
@@ -31,6 +32,19 @@ describe('validateBookingTimes (source: PRODUCT.md demo policy)', () => {
 		// Across midnight is refused by 09:00–23:00 and allowed by a round-the-clock policy.
 		expect(codes(at('2027-03-03', '22:00'), at('2027-03-04', '02:00'))).toEqual(['start:outside_opening_hours']);
 		expect(codes(at('2027-03-03', '22:00'), at('2027-03-04', '02:00'), openAllHours())).toEqual([]);
+	});
+
+	it('accepts every start availability offers, also when the opening falls in the spring-forward gap', () => {
+		// Directive 2000/84/EC: Helsinki's clocks go from 03:00 to 04:00 on Sunday 2027-03-28, so an
+		// opening at 03:30 that day opens when the clocks jump, for the checks as for availability.
+		const early = { ...DEMO_POLICY, openingHours: [{ weekday: 7, openMinute: 3 * 60 + 30, closeMinute: 12 * 60 }] };
+		const when = at('2027-03-20', '12:00');
+		const day = { from: '2027-03-28', to: '2027-03-28', policy: early, busy: [], blackouts: [], now: when };
+		const starts = startsThatFit({ ...day, durationMinutes: 120 });
+		expect(starts[0]).toEqual(at('2027-03-28', '04:00'));
+		expect(starts).toHaveLength(13); // 04:00 … 10:00 every half hour
+		for (const s of starts) expect(codes(s, new Date(s.getTime() + 120 * 60_000), early, when)).toEqual([]);
+		expect(codes(at('2027-03-28', '02:30'), at('2027-03-28', '06:00'), early, when)).toEqual(['start:outside_opening_hours']);
 	});
 
 	it('supports opening past midnight (closeMinute > 1440)', () => {
