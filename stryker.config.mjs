@@ -12,6 +12,7 @@ export default {
 		'!src/lib/domain/types.ts',
 		'!src/lib/domain/pricing/index.ts',
 		'!src/lib/domain/invoice/index.ts',
+		'!src/lib/domain/time/index.ts',
 		'!src/lib/domain/pricing/types.ts'
 	],
 	coverageAnalysis: 'perTest',

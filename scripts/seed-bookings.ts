@@ -6,7 +6,7 @@ import type { Database } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
 import { DEMO_POLICY, DEMO_ROOMS } from '../src/lib/domain/demo';
 import { quoteBooking } from '../src/lib/domain/pricing';
-import { localToInstant } from '../src/lib/domain/pricing/zonedTime';
+import { addDays, localDateOf, localToInstant } from '../src/lib/domain/time';
 import { publicHolidayChecker } from '../src/lib/domain/holidays';
 
 const TZ = DEMO_POLICY.timeZone;
@@ -14,11 +14,7 @@ const TZ = DEMO_POLICY.timeZone;
 /** The studio's calendar date `days` after today, counted in days and not in 24-hour steps (on the
  * evening before a clock change, today plus 72 hours is already the fourth day). */
 function ymdAhead(days: number): string {
-	const today = new Intl.DateTimeFormat('en-CA', { timeZone: TZ, year: 'numeric', month: '2-digit', day: '2-digit' }).format(
-		new Date()
-	);
-	const [y, m, d] = today.split('-').map(Number) as [number, number, number];
-	return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10);
+	return addDays(localDateOf(new Date(), TZ), days);
 }
 
 function at(ymd: string, hhmm: string): Date {

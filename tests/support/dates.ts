@@ -4,8 +4,10 @@
 // as a number of 24-hour steps: days are counted on the studio's calendar, so a run at 23:30, on a
 // Sunday night, on New Year's Eve or on the evening before a clock change picks the same kind of
 // day as a run at noon. `npm run test:clock` runs the suite at such times.
-import { localDateOf, zonedWallTime } from '../../src/lib/domain/availability/zoned';
+import { addDays, isoWeekday, localDateOf, zonedWallTime } from '../../src/lib/domain/time';
 import { isPublicHoliday } from '../../src/lib/domain/holidays';
+
+export { addDays, isoWeekday };
 
 export const TZ = 'Europe/Helsinki';
 const HOUR = 3_600_000;
@@ -19,18 +21,6 @@ export function ymdInZone(d: Date | number, tz = TZ): string {
 /** Today's date in the studio. */
 export function studioToday(now = Date.now()): string {
 	return ymdInZone(now);
-}
-
-/** A calendar date `days` after `ymd` (negative: before), whatever the clock changes in between. */
-export function addDays(ymd: string, days: number): string {
-	const [y, m, d] = ymd.split('-').map(Number) as [number, number, number];
-	return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10);
-}
-
-/** ISO weekday of a calendar date: 1 Monday … 7 Sunday. */
-export function isoWeekday(ymd: string): number {
-	const day = new Date(`${ymd}T12:00:00Z`).getUTCDay();
-	return day === 0 ? 7 : day;
 }
 
 /** Monday to Friday and not a Finnish public holiday: no weekend or holiday surcharge. */

@@ -3,7 +3,7 @@
 // to a day that is not a public holiday, so its weekday, wall-clock times and price stay the same.
 import { eq } from 'drizzle-orm';
 import * as t from '../../src/lib/server/db/schema';
-import { addDaysToYmd, localParts, localToInstant } from '../../src/lib/domain/pricing';
+import { addDays, daysFrom, localParts, localToInstant } from '../../src/lib/domain/time';
 import { isPublicHoliday } from '../../src/lib/domain/holidays';
 import type { Database } from '../../src/lib/server/db/client';
 import { TZ } from './dates';
@@ -27,14 +27,14 @@ export async function moveIntoPast(db: Database, bookingId: string): Promise<{ s
 	if (!b) throw new Error(`no booking ${bookingId}`);
 	const start = localParts(b.startsAt, TZ);
 	const end = localParts(b.endsAt, TZ);
-	const endDayOffset = Math.round((Date.parse(end.ymd) - Date.parse(start.ymd)) / 86_400_000);
+	const endDayOffset = daysFrom(start.ymd, end.ymd);
 	const turnaround = b.busyUntil.getTime() - b.endsAt.getTime();
 	const weeksAhead = Math.ceil((b.startsAt.getTime() - Date.now()) / (7 * 86_400_000));
 	for (let weeks = weeksAhead + 1; weeks < weeksAhead + 60; weeks++) {
-		const ymd = addDaysToYmd(start.ymd, -7 * weeks);
+		const ymd = addDays(start.ymd, -7 * weeks);
 		if (isPublicHoliday('FI', ymd)) continue;
 		const startsAt = localToInstant(ymd, start.minuteOfDay, TZ).instant;
-		const endsAt = localToInstant(addDaysToYmd(ymd, endDayOffset), end.minuteOfDay, TZ).instant;
+		const endsAt = localToInstant(addDays(ymd, endDayOffset), end.minuteOfDay, TZ).instant;
 		try {
 			await db
 				.update(t.booking)
@@ -45,7 +45,7 @@ export async function moveIntoPast(db: Database, bookingId: string): Promise<{ s
 			if (sqlState(e) === '23P01') continue;
 			throw e;
 		}
-		return { start: wall(ymd, start.minuteOfDay), end: wall(addDaysToYmd(ymd, endDayOffset), end.minuteOfDay) };
+		return { start: wall(ymd, start.minuteOfDay), end: wall(addDays(ymd, endDayOffset), end.minuteOfDay) };
 	}
 	throw new Error('no free week in the past for this session');
 }

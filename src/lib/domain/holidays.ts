@@ -10,6 +10,7 @@
  * Finland that makes Christmas Eve and Midsummer Eve ordinary days, as the data marks them 'bank'.
  */
 import Holidays from 'date-holidays';
+import { addDays } from './time';
 
 /** Attribution line to show beside holiday dates (CC BY-SA 3.0 asks for it). */
 export const HOLIDAY_DATA_ATTRIBUTION = 'Public holiday data: date-holidays (github.com/commenthol/date-holidays), CC BY-SA 3.0';
@@ -38,11 +39,6 @@ function calendarFor(country: string): Holidays {
 	const calendar = state ? new Holidays(countryCode, state) : new Holidays(countryCode);
 	calendars.set(key, calendar);
 	return calendar;
-}
-
-function addDays(ymd: string, days: number): string {
-	const [y = 0, m = 1, d = 1] = ymd.split('-').map(Number);
-	return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10);
 }
 
 /** Public holidays of `country` in `year`, each local date once, in date order. Cached. */

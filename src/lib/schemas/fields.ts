@@ -6,19 +6,6 @@ import { minorUnits, parseMoney, parsePercentToBasisPoints, type ParsedDecimal }
 /** 'HH:MM' from 00:00 to 24:00 (24:00 is midnight at the end of the day). */
 export const CLOCK_RE = /^(?:([01]\d|2[0-3]):([0-5]\d)|24:00)$/;
 
-export function clockToMinute(text: string): number {
-	const s = text.trim();
-	if (s === '24:00') return 1440;
-	const [h, m] = s.split(':').map(Number) as [number, number];
-	return h * 60 + m;
-}
-
-export function minuteToClock(minute: number): string {
-	const m = ((minute % 1440) + 1440) % 1440;
-	if (minute === 1440) return '24:00';
-	return `${String(Math.floor(m / 60)).padStart(2, '0')}:${String(m % 60).padStart(2, '0')}`;
-}
-
 function moneyProblem(parsed: ParsedDecimal, currency: string): string | null {
 	if (parsed.ok) return null;
 	switch (parsed.reason) {

@@ -1,7 +1,7 @@
 // What every text and date field accepts, for the API's schemas, the forms and query parameters
 // alike: checked where the request comes in, so nothing the database cannot store gets that far.
 import { z } from 'zod';
-import { parseYmd } from '$lib/domain/availability/calendar';
+import { parseYmd } from '$lib/domain/time';
 
 /**
  * True when the text holds a C0 control character (U+0000–U+001F) or DEL (U+007F). PostgreSQL's

@@ -10,7 +10,8 @@ import {
 	type RateField,
 	type SurchargeField
 } from '$lib/domain/pricing/rateCardChecks';
-import { CLOCK_RE, clockToMinute } from './fields';
+import { CLOCK_RE } from './fields';
+import { clockMinutes } from '$lib/domain/time';
 
 /** The findings on three typed rates; none while any of them does not parse (the field says why). */
 export function blockRateFindings(
@@ -32,8 +33,8 @@ export function surchargeFindings(f: { kind: string; percent: string; from: stri
 	return checkSurcharge({
 		kind: f.kind === 'holiday' ? 'holiday' : 'window',
 		percentBp: percent.ok ? percent.value : 0,
-		fromMinute: clocks ? clockToMinute(f.from) : 0,
-		toMinute: clocks ? clockToMinute(f.to) : 1440
+		fromMinute: clocks ? clockMinutes(f.from) : 0,
+		toMinute: clocks ? clockMinutes(f.to) : 1440
 	});
 }
 

@@ -1,13 +1,11 @@
 // The engineer's day plan: each room's sessions, the gear each needs (and any piece booked in two
 // rooms at overlapping times), the recall sheet carried over from the artist's last session, and
 // the files the artist uploaded for it.
-import { TZDate } from '@date-fns/tz';
-import { addDays, format } from 'date-fns';
 import { and, asc, desc, eq, gt, inArray, lt, ne } from 'drizzle-orm';
 import { db } from './db';
 import { booking, bookingGear, gearItem, recallSheet, room, user, type RecallChannel } from './db/schema';
 import { getStudio } from './studio';
-import { isoInZone } from './time';
+import { isoInZone, localDateOf, localDayBounds } from '$lib/domain/time';
 import { summariesFor } from './uploads';
 import { isStudioDate } from '$lib/schemas/input';
 
@@ -20,7 +18,7 @@ export function isPlanDate(date: string): boolean {
 
 export async function todayInStudio(): Promise<string> {
 	const studio = await getStudio();
-	return format(TZDate.tz(studio.timeZone), 'yyyy-MM-dd');
+	return localDateOf(new Date(), studio.timeZone);
 }
 
 export interface PlanSession {
@@ -49,9 +47,7 @@ export interface DayPlan {
 export async function dayPlan(date: string): Promise<DayPlan> {
 	const studio = await getStudio();
 	const tz = studio.timeZone;
-	const [y, m, d] = date.split('-').map(Number) as [number, number, number];
-	const dayStart = new TZDate(y, m - 1, d, tz);
-	const dayEnd = addDays(dayStart, 1);
+	const { start: dayStart, end: dayEnd } = localDayBounds(date, tz);
 	const engineer = user;
 
 	const [rooms, sessions] = await Promise.all([

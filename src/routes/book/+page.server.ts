@@ -8,15 +8,8 @@ import { availability, createHold } from '$lib/server/bookings';
 import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
 import { startDepositCheckout } from '$lib/server/payments';
 import { audit } from '$lib/server/audit';
-import {
-	bookPath,
-	choicesFromQuery,
-	requestBody,
-	wallClock,
-	addDays,
-	YMD_RE,
-	type BookingChoices
-} from '$lib/components/booking/choices';
+import { bookPath, choicesFromQuery, requestBody, YMD_RE, type BookingChoices } from '$lib/components/booking/choices';
+import { addDays, wallClock } from '$lib/domain/time';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import { mayBook } from '$lib/roles';
 import { dateProblem } from '$lib/schemas/input';

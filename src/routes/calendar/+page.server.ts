@@ -1,7 +1,8 @@
 import { availability } from '$lib/server/bookings';
 import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
 import { publicHolidayList } from '$lib/domain/holidays';
-import { addDays, mondayOf, wallClock, isCalendarDate } from '$lib/components/booking/choices';
+import { isCalendarDate } from '$lib/components/booking/choices';
+import { addDays, mondayOf, wallClock } from '$lib/domain/time';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import type { PageServerLoad } from './$types';
 

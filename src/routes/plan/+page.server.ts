@@ -1,5 +1,4 @@
 import { error, fail } from '@sveltejs/kit';
-import { addDays, format } from 'date-fns';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/guard';
 import { dayPlan, isPlanDate, saveRecall, todayInStudio } from '$lib/server/plan';
@@ -8,19 +7,19 @@ import { feedTokenOf, replaceFeedToken } from '$lib/server/feed';
 import type { RecallChannel } from '$lib/server/db/schema';
 import { CONTROL_CHARS_MESSAGE, DATE_MESSAGE, dateProblem, hasControlChars, lineText, multilineText } from '$lib/schemas/input';
 import { readFormData } from '$lib/server/api';
+import { addDays } from '$lib/domain/time';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
 	const me = requireRole(locals, 'owner', 'engineer');
 	const date = url.searchParams.get('date') ?? (await todayInStudio());
 	if (!isPlanDate(date)) error(400, { message: dateProblem(date) ?? DATE_MESSAGE });
-	const day = new Date(`${date}T12:00:00Z`);
 	const [plan, feedToken] = await Promise.all([dayPlan(date), feedTokenOf(me.id)]);
 	return {
 		plan,
 		feedUrl: feedToken ? `${url.origin}/feed/${feedToken}/sessions.ics` : null,
-		prev: format(addDays(day, -1), 'yyyy-MM-dd'),
-		next: format(addDays(day, 1), 'yyyy-MM-dd')
+		prev: addDays(date, -1),
+		next: addDays(date, 1)
 	};
 };
 

@@ -3,6 +3,7 @@
 // Times are local wall times in the studio's zone ('YYYY-MM-DD', 'HH:MM'); the server turns them
 // into instants (parseBookingInstant), refusing a wall time that the clocks skip.
 
+import { addWallMinutes, wallClock } from '$lib/domain/time';
 import { isStudioDate } from '$lib/schemas/input';
 
 export const BOOKING_KINDS = ['hourly', 'half', 'full'] as const;
@@ -45,19 +46,7 @@ export function lengthMinutes(kind: BookingKind, hours: number, lengths: BlockLe
 	return Math.round(hours * 60);
 }
 
-/**
- * The wall time `minutes` after a local date and time, as 'YYYY-MM-DDTHH:MM' with no offset.
- * Plain calendar arithmetic on the wall clock (a booking from 10:00 for 4 h ends at 14:00 on the
- * wall clock, which is what the artist reads on the studio's clock that day).
- */
-export function addWallMinutes(date: string, time: string, minutes: number): string {
-	const [y = 0, mo = 1, d = 1] = date.split('-').map(Number);
-	const [h = 0, mi = 0] = time.split(':').map(Number);
-	const t = new Date(Date.UTC(y, mo - 1, d, h, mi + minutes));
-	return t.toISOString().slice(0, 16);
-}
-
-/** The body POST /api/quote and createHold take (PRODUCT.md), built from the choices. */
+/** The body that POST /api/quote and createHold take, built from the choices. */
 export function requestBody(c: BookingChoices, lengths: BlockLengths) {
 	const minutes = lengthMinutes(c.kind, c.hours, lengths);
 	// A date or start that is not one (a form sent back with errors) gives no times at all.
@@ -118,33 +107,7 @@ export function choicesFromQuery(q: URLSearchParams): Partial<BookingChoices> {
 }
 
 // ---------------------------------------------------------------------------------------------
-// Wall clock of an instant in the studio's zone, for showing and for picking starts.
-
-const partsCache = new Map<string, Intl.DateTimeFormat>();
-
-function partsFormat(timeZone: string): Intl.DateTimeFormat {
-	let f = partsCache.get(timeZone);
-	if (!f) {
-		f = new Intl.DateTimeFormat('en-GB', {
-			timeZone,
-			year: 'numeric',
-			month: '2-digit',
-			day: '2-digit',
-			hour: '2-digit',
-			minute: '2-digit',
-			hourCycle: 'h23'
-		});
-		partsCache.set(timeZone, f);
-	}
-	return f;
-}
-
-/** The local date and time of an instant in a zone: { date: 'YYYY-MM-DD', time: 'HH:MM' }. */
-export function wallClock(instant: string | Date | number, timeZone: string): { date: string; time: string } {
-	const parts = partsFormat(timeZone).formatToParts(new Date(instant));
-	const get = (type: string) => parts.find((p) => p.type === type)?.value ?? '00';
-	return { date: `${get('year')}-${get('month')}-${get('day')}`, time: `${get('hour')}:${get('minute')}` };
-}
+// Picking starts from the studio's open windows.
 
 export interface Window {
 	start: string;
@@ -182,33 +145,4 @@ export function startsInWindows(
 		}
 	}
 	return out;
-}
-
-/** 'YYYY-MM-DD' plus days, by the calendar. */
-export function addDays(ymd: string, days: number): string {
-	const [y = 0, m = 1, d = 1] = ymd.split('-').map(Number);
-	return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10);
-}
-
-/** ISO weekday of a calendar date, Monday 1 … Sunday 7. */
-export function isoWeekday(ymd: string): number {
-	const [y = 0, m = 1, d = 1] = ymd.split('-').map(Number);
-	return ((new Date(Date.UTC(y, m - 1, d)).getUTCDay() + 6) % 7) + 1;
-}
-
-/** The Monday of the week a date falls in (weeks start on Monday, ISO 8601). */
-export function mondayOf(ymd: string): string {
-	return addDays(ymd, 1 - isoWeekday(ymd));
-}
-
-export function daysBetween(from: string, to: string): string[] {
-	const out: string[] = [];
-	for (let d = from; d <= to && out.length < 70; d = addDays(d, 1)) out.push(d);
-	return out;
-}
-
-/** '10:00' → 600. */
-export function clockMinutes(hhmm: string): number {
-	const [h = 0, m = 0] = hhmm.split(':').map(Number);
-	return h * 60 + m;
 }

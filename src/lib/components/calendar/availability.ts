@@ -1,6 +1,6 @@
 // The public calendar's data: GET /api/availability per room, and the shapes the calendar and
 // the list of free times read. No names ever: the API sends only times.
-import { daysBetween, wallClock } from '$lib/components/booking/choices';
+import { eachDay, wallClock } from '$lib/domain/time';
 
 export interface AvailabilityBody {
 	timeZone: string;
@@ -67,7 +67,7 @@ export function summariseDays(
 	data: Record<string, AvailabilityBody | undefined>,
 	timeZone: string
 ): DaySummary[] {
-	const days = new Map<string, DaySummary>(daysBetween(from, to).map((d) => [d, { date: d, free: [], busy: [], closed: [] }]));
+	const days = new Map<string, DaySummary>(eachDay(from, to).map((d) => [d, { date: d, free: [], busy: [], closed: [] }]));
 	for (const room of rooms) {
 		const body = data[room];
 		if (!body) continue;

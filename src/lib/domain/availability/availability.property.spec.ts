@@ -17,12 +17,12 @@ import {
 	computeAvailability,
 	isOnGrid,
 	isWithinOpeningHours,
-	localDayBounds,
 	overlaps,
 	startsThatFit,
 	type AvailabilityInput,
 	type Interval
 } from './index';
+import { localDayBounds } from '../time';
 import { demoPolicy } from './spec-fixtures';
 
 const MIN = 60_000;

@@ -6,11 +6,11 @@ import {
 	computeAvailability,
 	isOnGrid,
 	isWithinOpeningHours,
-	localDayBounds,
 	nearestFreeStarts,
 	startsThatFit,
 	type AvailabilityInput
 } from './index';
+import { localDayBounds } from '../time';
 import { at, demoPolicy, everyDay, HELSINKI, iso } from './spec-fixtures';
 
 const HOUR = 3_600_000;
@@ -31,7 +31,7 @@ function input(over: Partial<AvailabilityInput> = {}): AvailabilityInput {
 	};
 }
 
-describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2 h min, 30 min grid and turnaround)', () => {
+describe('computeAvailability — demo studio (open 09:00–23:00, 2 h min, 30 min grid and turnaround)', () => {
 	it('an empty winter day is one window 09:00–23:00 at +02:00', () => {
 		const a = computeAvailability(input());
 		expect(a.timeZone).toBe(HELSINKI);
@@ -50,7 +50,7 @@ describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2
 	});
 
 	it('a booking 10:00–14:00 leaves 14:30–23:00 (turnaround after) and drops the 09:00 stub (< 2 h minimum)', () => {
-		// PRODUCT.md: turnaround 30 min after each booking, minimum booking 2 h.
+		// The demo policy: turnaround 30 min after each booking, minimum booking 2 h.
 		const booking = {
 			start: at('2027-01-15T10:00:00+02:00'),
 			end: at('2027-01-15T14:00:00+02:00')
@@ -62,7 +62,7 @@ describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2
 	});
 
 	it('keeps room for the new booking’s own turnaround before the next booking', () => {
-		// PRODUCT.md "turnaround 30 min after each booking" applies to the booking being made too:
+		// The 30 min turnaround after each booking applies to the booking being made too:
 		// before an 11:30 booking, a new one must end by 11:00, so the window is 09:00–11:00 (2 h, kept).
 		const booking = {
 			start: at('2027-01-15T11:30:00+02:00'),
@@ -95,7 +95,7 @@ describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2
 				blackouts: [{ date: '2027-12-24', reason: 'Christmas Eve' }, { date: '2027-12-25' }, { date: '2028-01-01' }]
 			})
 		);
-		// PRODUCT.md: the owner "blocks out days"; a blocked day sells nothing.
+		// A day the owner blocks out sells nothing.
 		expect(iso(a.open)).toEqual([[helsinki(2027, 12, 23, 9), helsinki(2027, 12, 23, 23)]]);
 		expect(a.closed).toEqual([
 			{ date: '2027-12-24', reason: 'Christmas Eve' },
@@ -104,14 +104,14 @@ describe('computeAvailability — demo studio (PRODUCT.md: open 09:00–23:00, 2
 	});
 
 	it('minimum notice (24 h) clips today and part of tomorrow', () => {
-		// PRODUCT.md: minimum notice 24 h. now = 10:10 local, so nothing before tomorrow 10:10,
+		// The demo policy: minimum notice 24 h. now = 10:10 local, so nothing before tomorrow 10:10,
 		// rounded up to the 10:30 grid line.
 		const a = computeAvailability(input({ from: '2027-01-15', to: '2027-01-16', now: at('2027-01-15T10:10:00+02:00') }));
 		expect(iso(a.open)).toEqual([[helsinki(2027, 1, 16, 10, 30), helsinki(2027, 1, 16, 23)]]);
 	});
 
 	it('the 180-day horizon clips the far end (same wall time 180 calendar days on, across the March change)', () => {
-		// PRODUCT.md: horizon 180 days. now = 2027-01-01 12:00+02:00; Temporal's add({ days: 180 })
+		// The demo policy: horizon 180 days. now = 2027-01-01 12:00+02:00; Temporal's add({ days: 180 })
 		// gives 2027-06-30 12:00+03:00 (nominal days keep the wall time, Temporal proposal).
 		const now = at('2027-01-01T12:00:00+02:00');
 		const horizon = Temporal.Instant.fromEpochMilliseconds(now.getTime()).toZonedDateTimeISO(HELSINKI).add({ days: 180 });
@@ -251,7 +251,7 @@ describe('startsThatFit and nearestFreeStarts', () => {
 			local(20, 30),
 			local(21)
 		]);
-		// A 4 h half-day block (PRODUCT.md rate card) only fits in the evening window.
+		// A 4 h half-day block (the demo rate card) only fits in the evening window.
 		expect(startsThatFit({ ...fit, durationMinutes: 240 }).map((d) => d.toISOString())).toEqual([
 			local(15, 30),
 			local(16),
@@ -272,8 +272,14 @@ describe('startsThatFit and nearestFreeStarts', () => {
 		expect(nearestFreeStarts(fit, at('2027-01-15T12:00:00+02:00'), 0)).toEqual([]);
 	});
 
+	it('skips starts the caller cannot take (no engineer free), still closest first', () => {
+		const engineerBusyAt16 = (d: Date) => d.toISOString() !== local(16);
+		const near = nearestFreeStarts(fit, at('2027-01-15T13:30:00+02:00'), 3, engineerBusyAt16);
+		expect(near.map((d) => d.toISOString())).toEqual([local(15, 30), local(10, 30), local(16, 30)]);
+	});
+
 	it('refuses a duration the policy cannot sell', () => {
-		// PRODUCT.md: minimum booking 2 h, increment 30 min.
+		// The demo policy: minimum booking 2 h, increment 30 min.
 		expect(() => startsThatFit({ ...fit, durationMinutes: 90 })).toThrow(AvailabilityInputError);
 		expect(() => startsThatFit({ ...fit, durationMinutes: 135 })).toThrow(/increments/);
 		expect(() => startsThatFit({ ...fit, durationMinutes: 0 })).toThrow(/positive integer/);
@@ -284,7 +290,7 @@ describe('isWithinOpeningHours and isOnGrid', () => {
 	const policy = demoPolicy();
 
 	it('checks [start, end) against 09:00–23:00 local', () => {
-		// PRODUCT.md: open 09:00 to 23:00 every day; half-open, so ending at 23:00 is inside.
+		// The demo policy: open 09:00 to 23:00 every day; half-open, so ending at 23:00 is inside.
 		expect(isWithinOpeningHours(at('2027-01-15T09:00:00+02:00'), at('2027-01-15T23:00:00+02:00'), policy)).toBe(true);
 		expect(isWithinOpeningHours(at('2027-07-15T21:00:00+03:00'), at('2027-07-15T23:00:00+03:00'), policy)).toBe(true);
 		expect(isWithinOpeningHours(at('2027-01-15T08:30:00+02:00'), at('2027-01-15T10:00:00+02:00'), policy)).toBe(false);

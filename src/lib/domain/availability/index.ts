@@ -11,7 +11,7 @@
  *    day); touching windows are joined, so a studio open round the clock has one long window.
  * 2. Minus each busy interval, widened by the turnaround on BOTH sides: after it, because the
  *    room is being reset; before it, because the new booking's own turnaround must also end
- *    before the next booking starts ("turnaround follows each booking", PRODUCT.md). So every
+ *    before the next booking starts (every booking is followed by its turnaround). So every
  *    instant reported open can really be booked, turnaround included. The turnaround of a
  *    booking that ends at closing time may run past closing: tidying up after hours needs no
  *    opening hours.
@@ -24,30 +24,34 @@
  * 6. Windows shorter than minBookingMinutes (real elapsed time) are dropped.
  */
 import type { StudioPolicy } from '../types';
-import { addDays, eachDay, isoWeekday, isYmd, maxYmd, minYmd } from './calendar';
-import { AvailabilityInputError } from './errors';
-import { clipSpans, mergeSpans, subtractSpans, toInterval, toSpan, type Interval, type Span } from './intervals';
 import {
+	addDays,
 	addLocalDays,
 	assertTimeZone,
 	ceilToLocalGrid,
+	eachDay,
 	floorToLocalGrid,
 	isOnLocalGrid,
+	isoWeekday,
+	isYmd,
 	localDateOf,
-	wallMinuteInstant
-} from './zoned';
+	localToInstant,
+	maxYmd,
+	minYmd
+} from '../time';
+import { AvailabilityInputError } from './errors';
+import { clipSpans, mergeSpans, subtractSpans, toInterval, toSpan, type Interval, type Span } from './intervals';
 
 export { overlaps, type Interval } from './intervals';
-export { localDayBounds, parseBookingInstant, resolveWallTime, zonedWallTime, type WallTimeResolution } from './zoned';
-export {
-	AvailabilityInputError,
-	NonexistentLocalTimeError,
-	TimeInputError,
-	type AvailabilityInputErrorCode,
-	type TimeInputErrorCode
-} from './errors';
+export { AvailabilityInputError, type AvailabilityInputErrorCode } from './errors';
+// Only until src/lib/server/bookings.ts imports these from the time engine ($lib/domain/time).
+export { parseBookingInstant, TimeInputError } from '../time';
 
 const MINUTE_MS = 60_000;
+
+/** The instant (ms) of a local wall time, as a rule boundary (see localToInstant). */
+const wallInstant = (ymd: string, minuteOfDay: number, timeZone: string): number =>
+	localToInstant(ymd, minuteOfDay, timeZone).instant.getTime();
 
 /** The parts of the studio policy availability reads; a full StudioPolicy fits. */
 export type AvailabilityPolicy = Pick<
@@ -176,8 +180,8 @@ function prepare(input: AvailabilityInput): Prepared {
 	return {
 		policy,
 		timeZone: tz,
-		rangeStart: wallMinuteInstant(from, 0, tz),
-		rangeEnd: wallMinuteInstant(to, 1440, tz),
+		rangeStart: wallInstant(from, 0, tz),
+		rangeEnd: wallInstant(to, 1440, tz),
 		earliest: nowMs + policy.minNoticeMinutes * MINUTE_MS,
 		horizonEnd: addLocalDays(nowMs, policy.horizonDays, tz),
 		// A zero-length interval books nothing, so it blocks nothing (not even turnaround).
@@ -200,8 +204,8 @@ function openingSpans(
 		const weekday = isoWeekday(day);
 		for (const h of policy.openingHours) {
 			if (h.weekday !== weekday || h.closeMinute <= h.openMinute) continue;
-			const start = wallMinuteInstant(day, h.openMinute, tz);
-			const end = wallMinuteInstant(day, h.closeMinute, tz);
+			const start = wallInstant(day, h.openMinute, tz);
+			const end = wallInstant(day, h.closeMinute, tz);
 			if (end > start) spans.push({ start, end });
 		}
 	}
@@ -233,7 +237,7 @@ function freeSpans(p: Prepared, anchorFrom: string, anchorTo: string): Span[] {
 	for (const date of closedDates) {
 		// Windows of anchors lo..hi end before hi + 2 days; later or earlier blackouts cannot touch them.
 		if (date < addDays(lo, -1) || date > addDays(hi, 1)) continue;
-		cuts.push({ start: wallMinuteInstant(date, 0, tz), end: wallMinuteInstant(date, 1440, tz) });
+		cuts.push({ start: wallInstant(date, 0, tz), end: wallInstant(date, 1440, tz) });
 	}
 	const free = clipSpans(subtractSpans(opening, cuts), p.earliest, p.horizonEnd);
 
@@ -309,17 +313,27 @@ export function startsThatFit(input: FitInput): Date[] {
 
 /**
  * The `count` starts that fit closest to desiredStart by absolute distance, closest first (an
- * earlier start wins a tie), for the "try one of these" answer to a 409.
+ * earlier start wins a tie), for the "try one of these" answer to a 409. `accept` leaves out
+ * starts that fit the room but not something else the booking needs (an engineer, its gear).
  */
-export function nearestFreeStarts(input: FitInput, desiredStart: Date, count = 3): Date[] {
+export function nearestFreeStarts(
+	input: FitInput,
+	desiredStart: Date,
+	count = 3,
+	accept: (start: Date) => boolean = () => true
+): Date[] {
 	if (!isValidDate(desiredStart)) fail('invalid-now', 'desiredStart must be a valid Date');
 	if (!isInt(count, 0)) fail('invalid-count', 'count must be a non-negative integer');
 	const want = desiredStart.getTime();
-	return startsThatFit(input)
+	const out: Date[] = [];
+	const byNearness = startsThatFit(input)
 		.map((d) => ({ d, distance: Math.abs(d.getTime() - want) }))
-		.sort((a, b) => a.distance - b.distance || a.d.getTime() - b.d.getTime())
-		.slice(0, count)
-		.map((x) => x.d);
+		.sort((a, b) => a.distance - b.distance || a.d.getTime() - b.d.getTime());
+	for (const { d } of byNearness) {
+		if (out.length >= count) break;
+		if (accept(d)) out.push(d);
+	}
+	return out;
 }
 
 /**

@@ -14,6 +14,7 @@
  * under a row lock (src/lib/server/invoices/issue.ts). The year is the calendar year of the
  * issue date in the studio's time zone.
  */
+import { localDateOf } from '../time';
 
 /** UNTDID 1001 document name codes used by Slateroom (EN 16931 BT-3). */
 export const DOCUMENT_TYPE = {
@@ -60,10 +61,9 @@ export function parseDocumentNumber(text: string): { series: string; year: numbe
 	return { series: match[1]!, year: Number(match[2]), number };
 }
 
-/** Calendar year of an instant in a time zone (IANA tz via Intl): the year a number belongs to. */
+/** Calendar year of an instant in a time zone (IANA tz database): the year a number belongs to. */
 export function documentYear(issuedAt: Date, timeZone: string): number {
-	const year = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric' }).format(issuedAt);
-	return Number(year);
+	return Number(localDateOf(issuedAt, timeZone).slice(0, 4));
 }
 
 /** Numbers missing from 1..max (a gap in a series); empty when the series is whole. */

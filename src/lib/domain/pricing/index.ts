@@ -5,8 +5,8 @@
  * Sources by rule: block cover and surcharges — PRODUCT.md, common practice / our rule: the
  * cover with the lowest price + surcharge, each surcharged minute paying its percent of its share
  * of the block time bought (blocks.ts, surcharges.ts); VAT and totals — EN 16931-1 BR-CO-10/13/14/15/16/17 (vat.ts); deposit —
- * PRODUCT.md, whole units per ISO 4217 (deposit.ts); time — IANA tz via @date-fns/tz and
- * Directive 2000/84/EC (zonedTime.ts); overtime and the cancellation ladder — common practice
+ * PRODUCT.md, whole units per ISO 4217 (deposit.ts); wall-clock time — the time engine
+ * (../time: IANA tz via @date-fns/tz, Directive 2000/84/EC); overtime and the cancellation ladder — common practice
  * (overtime.ts, cancellation.ts).
  */
 export { quoteBooking, type QuoteInput } from './quote';
@@ -17,26 +17,14 @@ export {
 	isUnboundedTime,
 	MAX_BOOKING_MINUTES,
 	toFieldErrors,
-	parseLocalOrOffset,
 	type BookingTimeCode,
 	type BookingTimeField,
-	type BookingTimeIssue,
-	type ParsedTime
+	type BookingTimeIssue
 } from './validation';
 export { cheapestCover, hourlyAmount, type BlockCover } from './blocks';
 export { surchargeShares, surchargeAmount, surchargeSplit, surchargeWeight, type SurchargeShare } from './surcharges';
 export { summariseCharges, lineNet, vatOf, en16931Violations, type ChargeItem } from './vat';
 export { depositFor, depositAndBalance } from './deposit';
-export { formatDuration, decimalHours, formatPercent } from './labels';
-export {
-	localParts,
-	localToInstant,
-	localSegments,
-	isoWeekdayOf,
-	addDaysToYmd,
-	type LocalParts,
-	type LocalSegment,
-	type ResolvedLocalTime
-} from './zonedTime';
+export { decimalHours, formatPercent } from './labels';
 export type { ChargeTotals, LineKind, OvertimeCharge, PriceLine, Quote, SurchargeMinutes, VatGroup } from './types';
 export { DEMO_POLICY, DEMO_ROOMS, DEMO_STUDIO, demoPolicy, demoRoom } from '../demo';

@@ -12,7 +12,8 @@
  */
 import type { RoomRates, StudioPolicy } from '../types';
 import { hourlyAmount } from './blocks';
-import { decimalHours, formatDuration } from './labels';
+import { decimalHours } from './labels';
+import { formatDuration } from '../time';
 import { engineerResource, holidayCheckerFor, roomResource, surchargeLines, surchargeSummary, type Resource } from './lines';
 import { surchargeShares } from './surcharges';
 import type { OvertimeCharge } from './types';

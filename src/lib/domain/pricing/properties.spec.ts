@@ -9,7 +9,7 @@ import { DEMO_POLICY, DEMO_ROOMS } from '../demo';
 import type { GearHire, RoomRates, StudioPolicy, SurchargeRule } from '../types';
 import { quoteBooking } from './quote';
 import { validateBookingTimes } from './validation';
-import { addDaysToYmd, localToInstant } from './zonedTime';
+import { addDays, localToInstant } from '../time';
 import { expectEn16931, openAllHours } from './spec-fixtures';
 
 const SLOT = 30;
@@ -34,7 +34,7 @@ const demoBookingArb = fc
 	.map(({ day, startSlot, lengthSeed, ...rest }) => {
 		const maxLength = SLOTS_PER_DAY - startSlot;
 		const lengthSlots = 4 + (lengthSeed % (maxLength - 3));
-		const ymd = addDaysToYmd('2026-01-01', day);
+		const ymd = addDays('2026-01-01', day);
 		return { ...rest, ymd, startSlot, lengthSlots };
 	});
 

@@ -16,7 +16,7 @@
  */
 import { basisPointsToPercent, formatMoney } from '../money';
 import { hourlyAmount } from './blocks';
-import { formatDuration } from './labels';
+import { clockLabel, formatDuration } from '../time';
 
 export type FindingLevel = 'error' | 'warning';
 
@@ -118,9 +118,6 @@ export interface SurchargeShape {
 	toMinute: number;
 }
 
-const clock = (minute: number) =>
-	minute === 1440 ? '24:00' : `${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(minute % 60).padStart(2, '0')}`;
-
 /** Findings on one surcharge rule. Equal ends are the form's own error (a window needs a length). */
 export function checkSurcharge(rule: SurchargeShape): Finding<SurchargeField>[] {
 	const found: Finding<SurchargeField>[] = [];
@@ -137,7 +134,7 @@ export function checkSurcharge(rule: SurchargeShape): Finding<SurchargeField>[] 
 		found.push({
 			field: 'to',
 			level: 'warning',
-			message: `The window ends before it starts, so it runs past midnight: ${clock(rule.fromMinute)} to ${clock(rule.toMinute)} the next morning, ${formatDuration(span.minutes)} a night, starting on each day ticked.`
+			message: `The window ends before it starts, so it runs past midnight: ${clockLabel(rule.fromMinute)} to ${clockLabel(rule.toMinute)} the next morning, ${formatDuration(span.minutes)} a night, starting on each day ticked.`
 		});
 	}
 	return found;

@@ -7,7 +7,7 @@ import { DEMO_POLICY, demoPolicy, demoRoom } from '../demo';
 import type { StudioPolicy } from '../types';
 import type { ChargeTotals, PriceLine } from './types';
 import { en16931Violations } from './vat';
-import { localToInstant } from './zonedTime';
+import { localToInstant } from '../time';
 
 export const HELSINKI = DEMO_POLICY.timeZone;
 export const LIVE_ROOM = demoRoom('live-room');

@@ -23,7 +23,7 @@
  */
 import { mulDivRoundHalfUp } from '../money';
 import type { Minor, StudioPolicy, SurchargeRule } from '../types';
-import { localSegments } from './zonedTime';
+import { localSegments } from '../time';
 
 export interface SurchargeShare {
 	rule: SurchargeRule;

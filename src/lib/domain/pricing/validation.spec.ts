@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
+import { startsThatFit } from '../availability';
 import { DEMO_POLICY } from '../demo';
-import { parseLocalOrOffset, toFieldErrors, validateBookingTimes } from './validation';
-import { at, HELSINKI, openAllHours } from './spec-fixtures';
+import { toFieldErrors, validateBookingTimes } from './validation';
+import { at, openAllHours } from './spec-fixtures';
 
 // Demo policy (PRODUCT.md): open 09:00–23:00, min 2 h, 30-min grid, 24 h notice, 180 days ahead.
 const now = at('2027-03-01', '12:00');
@@ -31,6 +32,19 @@ describe('validateBookingTimes (source: PRODUCT.md demo policy)', () => {
 		// Across midnight is refused by 09:00–23:00 and allowed by a round-the-clock policy.
 		expect(codes(at('2027-03-03', '22:00'), at('2027-03-04', '02:00'))).toEqual(['start:outside_opening_hours']);
 		expect(codes(at('2027-03-03', '22:00'), at('2027-03-04', '02:00'), openAllHours())).toEqual([]);
+	});
+
+	it('accepts every start availability offers, also when the opening falls in the spring-forward gap', () => {
+		// Directive 2000/84/EC: Helsinki's clocks go from 03:00 to 04:00 on Sunday 2027-03-28, so an
+		// opening at 03:30 that day opens when the clocks jump, for the checks as for availability.
+		const early = { ...DEMO_POLICY, openingHours: [{ weekday: 7, openMinute: 3 * 60 + 30, closeMinute: 12 * 60 }] };
+		const when = at('2027-03-20', '12:00');
+		const day = { from: '2027-03-28', to: '2027-03-28', policy: early, busy: [], blackouts: [], now: when };
+		const starts = startsThatFit({ ...day, durationMinutes: 120 });
+		expect(starts[0]).toEqual(at('2027-03-28', '04:00'));
+		expect(starts).toHaveLength(13); // 04:00 … 10:00 every half hour
+		for (const s of starts) expect(codes(s, new Date(s.getTime() + 120 * 60_000), early, when)).toEqual([]);
+		expect(codes(at('2027-03-28', '02:30'), at('2027-03-28', '06:00'), early, when)).toEqual(['start:outside_opening_hours']);
 	});
 
 	it('supports opening past midnight (closeMinute > 1440)', () => {
@@ -75,42 +89,5 @@ describe('validateBookingTimes (source: PRODUCT.md demo policy)', () => {
 			end: 'A booking lasts at least 2 h.'
 		});
 		expect(codes(new Date('nonsense'), at('2027-03-02', '09:00'))).toEqual(['start:invalid_time']);
-	});
-});
-
-describe('parseLocalOrOffset (ISO 8601; RFC 5545 first occurrence; IANA tz)', () => {
-	it('reads an instant with an offset or Z', () => {
-		const r = parseLocalOrOffset('2027-03-02T16:00:00+02:00', HELSINKI);
-		expect(r).toEqual({ ok: true, instant: new Date('2027-03-02T14:00:00Z'), ambiguous: false });
-		expect(parseLocalOrOffset('2027-03-02T14:00Z', HELSINKI)).toMatchObject({
-			ok: true,
-			instant: new Date('2027-03-02T14:00:00Z')
-		});
-	});
-
-	it("reads a wall time without an offset in the studio's zone", () => {
-		expect(parseLocalOrOffset('2027-07-01T10:00', HELSINKI)).toEqual({
-			ok: true,
-			instant: new Date('2027-07-01T07:00:00Z'), // summer time, UTC+3
-			ambiguous: false
-		});
-	});
-
-	it('refuses a wall time in the spring-forward gap: 2027-03-28 03:30 does not exist', () => {
-		expect(parseLocalOrOffset('2027-03-28T03:30', HELSINKI)).toMatchObject({ ok: false, code: 'nonexistent_local_time' });
-	});
-
-	it('reads a repeated wall time as its first occurrence: 2027-10-31 03:30 is 00:30 UTC', () => {
-		expect(parseLocalOrOffset('2027-10-31T03:30', HELSINKI)).toEqual({
-			ok: true,
-			instant: new Date('2027-10-31T00:30:00Z'),
-			ambiguous: true
-		});
-	});
-
-	it('refuses malformed input and impossible dates', () => {
-		for (const text of ['2027-02-30T10:00', '2027-03-02 10:00', '2027-03-02T25:00', 'tomorrow', '2027-03-02T10:00+25:00']) {
-			expect(parseLocalOrOffset(text, HELSINKI)).toMatchObject({ ok: false, code: 'invalid_time' });
-		}
 	});
 });

@@ -25,8 +25,8 @@ import {
 	type VatRow
 } from '$lib/domain/invoice';
 import type { PriceLine, Quote } from '$lib/domain/pricing';
-import { formatDate, formatMoney, formatTime } from '$lib/format';
-import { localYmd } from '../time';
+import { formatDate, formatTime, localDateOf } from '$lib/domain/time';
+import { formatMoney } from '$lib/domain/money';
 
 type StudioRow = typeof studio.$inferSelect;
 
@@ -102,7 +102,7 @@ export async function issueDepositInvoice(tx: Tx, input: { paymentId: string; is
 		typeCode: DOCUMENT_TYPE.prepayment,
 		issuedAt: input.issuedAt,
 		timeZone: tz,
-		supplyDate: localYmd(paidAt, tz),
+		supplyDate: localDateOf(paidAt, tz),
 		supplier: supplierOf(s),
 		customer: b.customer,
 		bookingId: b.id,
@@ -186,7 +186,7 @@ export async function issueFinalInvoice(tx: Tx, input: FinalInvoiceInput): Promi
 		typeCode: DOCUMENT_TYPE.invoice,
 		issuedAt: input.issuedAt,
 		timeZone: tz,
-		supplyDate: localYmd(b.startsAt, tz),
+		supplyDate: localDateOf(b.startsAt, tz),
 		supplier: supplierOf(s),
 		customer: b.customer,
 		bookingId: b.id,
@@ -245,7 +245,7 @@ export async function issueCreditNote(tx: Tx, input: { refundId: string; issuedA
 		typeCode: DOCUMENT_TYPE.creditNote,
 		issuedAt,
 		timeZone: tz,
-		supplyDate: localYmd(issuedAt, tz),
+		supplyDate: localDateOf(issuedAt, tz),
 		supplier: supplierOf(s),
 		customer: preceding.customer as Party,
 		bookingId: b.id,

@@ -4,7 +4,7 @@
 // notes and refunds count negatively, so each amount column adds up to the month's figure.
 import { zipSync, strToU8 } from 'fflate';
 import { toDecimalString } from '$lib/domain/money';
-import { localYmd } from '../time';
+import { localDateOf } from '$lib/domain/time';
 import { toCsv, type CsvColumn } from '$lib/domain/csv';
 import { DOCUMENT_TYPE } from '$lib/domain/invoice/numbering';
 import { documentForViewer } from './access';
@@ -25,7 +25,7 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 		{ header: 'Number', kind: 'text', value: (d) => d.number },
 		{ header: 'Type code (UNTDID 1001)', kind: 'number', value: (d) => String(d.typeCode) },
 		{ header: 'Kind', kind: 'text', value: (d) => d.kind },
-		{ header: 'Issue date', kind: 'date', value: (d) => localYmd(d.issuedAt, timeZone) },
+		{ header: 'Issue date', kind: 'date', value: (d) => localDateOf(d.issuedAt, timeZone) },
 		{ header: 'Booking', kind: 'text', value: (d) => d.bookingReference ?? '' },
 		{ header: 'Customer', kind: 'text', value: (d) => d.customer },
 		{ header: 'Refers to', kind: 'text', value: (d) => d.precedingNumber ?? '' },
@@ -39,7 +39,7 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 		{ header: 'Currency', kind: 'text', value: (d) => d.currency }
 	];
 	const payments: CsvColumn<Pay>[] = [
-		{ header: 'Paid on', kind: 'date', value: (p) => localYmd(p.paidAt, timeZone) },
+		{ header: 'Paid on', kind: 'date', value: (p) => localDateOf(p.paidAt, timeZone) },
 		{ header: 'Booking', kind: 'text', value: (p) => p.bookingReference },
 		{ header: 'Artist', kind: 'text', value: (p) => p.artist },
 		{ header: 'For', kind: 'text', value: (p) => p.kind },
@@ -47,7 +47,7 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 		{ header: 'Currency', kind: 'text', value: (p) => p.currency }
 	];
 	const refunds: CsvColumn<Ref>[] = [
-		{ header: 'Created on', kind: 'date', value: (r) => localYmd(r.createdAt, timeZone) },
+		{ header: 'Created on', kind: 'date', value: (r) => localDateOf(r.createdAt, timeZone) },
 		{ header: 'Booking', kind: 'text', value: (r) => r.bookingReference },
 		{ header: 'Artist', kind: 'text', value: (r) => r.artist },
 		{ header: 'Status', kind: 'text', value: (r) => r.status },

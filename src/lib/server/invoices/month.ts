@@ -1,30 +1,27 @@
 // A month of the books, for the accountant and the owner: the documents issued in it, the
 // payments received and refunds made in it, what is still owed, refunds that failed, and VAT by
 // rate (ledger.ts). Months are calendar months in the studio's zone.
-import { TZDate } from '@date-fns/tz';
-import { addMonths, format } from 'date-fns';
 import { and, asc, eq, gte, inArray, lt } from 'drizzle-orm';
 import { db } from '../db';
 import { booking, invoice, payment, refund, user } from '../db/schema';
 import { documentKindLabel, payableTotal, vatLedger, type LedgerRow } from '$lib/domain/invoice';
 import { unresolvedFailures } from '../payments/state';
+import { addMonths, localDateOf, localToInstant } from '$lib/domain/time';
 
 export const MONTH_PATTERN = /^\d{4}-(0[1-9]|1[0-2])$/;
 
 export function monthRange(month: string, timeZone: string): { from: Date; to: Date; prev: string; next: string } {
-	const [y, m] = month.split('-').map(Number) as [number, number];
-	const from = new TZDate(y, m - 1, 1, timeZone);
-	const to = addMonths(from, 1);
+	const next = addMonths(month, 1);
 	return {
-		from: new Date(from.getTime()),
-		to: new Date(to.getTime()),
-		prev: format(addMonths(from, -1), 'yyyy-MM'),
-		next: format(to, 'yyyy-MM')
+		from: localToInstant(`${month}-01`, 0, timeZone).instant,
+		to: localToInstant(`${next}-01`, 0, timeZone).instant,
+		prev: addMonths(month, -1),
+		next
 	};
 }
 
 export function currentMonth(timeZone: string): string {
-	return format(TZDate.tz(timeZone), 'yyyy-MM');
+	return localDateOf(new Date(), timeZone).slice(0, 7);
 }
 
 export interface MonthReport {

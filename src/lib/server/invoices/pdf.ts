@@ -10,6 +10,7 @@ import type { InvoiceLineRow, InvoiceRow, Party } from './issue';
 import { invoiceFonts } from './fonts';
 import { basisPointsToPercent, formatMoney } from '$lib/domain/money';
 import { payableTotal } from '$lib/domain/invoice';
+import { formatCalendarDate, localDateOf } from '$lib/domain/time';
 
 const require = createRequire(import.meta.url);
 // CommonJS pdfkit, the build that uses the fontkit copy fonts.ts adjusts.
@@ -20,18 +21,15 @@ const SUPPLY_LABEL: Record<number, string> = { 380: 'Date of supply', 381: 'Date
 /** UN/ECE Recommendation 20 units as printed after a quantity ('C62', one, prints nothing). */
 const UNIT_WORDS: Record<string, string> = { HUR: ' h', C62: '', DAY: ' days' };
 
+const LONG_DATE = { day: 'numeric', month: 'long', year: 'numeric' } as const;
+
 const INK = '#1d2a24';
 const SOFT = '#5b6b63';
 const LINE = '#c9d3cd';
 
+/** An instant's date in the studio's zone, or a calendar date as it is, e.g. '28 March 2027'. */
 function longDate(value: Date | string, timeZone: string): string {
-	const d = typeof value === 'string' ? new Date(`${value}T12:00:00Z`) : value;
-	return new Intl.DateTimeFormat('en-GB', {
-		timeZone: typeof value === 'string' ? 'UTC' : timeZone,
-		day: 'numeric',
-		month: 'long',
-		year: 'numeric'
-	}).format(d);
+	return formatCalendarDate(typeof value === 'string' ? value : localDateOf(value, timeZone), LONG_DATE);
 }
 
 export interface PdfInput {

@@ -11,7 +11,7 @@
 import { create } from 'xmlbuilder2';
 import type { XMLBuilder } from 'xmlbuilder2/lib/interfaces';
 import { toDecimalString } from '$lib/domain/money';
-import { localYmd } from '../time';
+import { localDateOf } from '$lib/domain/time';
 import { DOCUMENT_TYPE } from '$lib/domain/invoice/numbering';
 import type { InvoiceLineRow, InvoiceRow, Party } from './issue';
 
@@ -71,7 +71,7 @@ export function documentAsUbl({ invoice: d, lines, preceding, timeZone }: UblInp
 	);
 	root.ele('cbc:CustomizationID').txt(CUSTOMIZATION_ID); // BT-24
 	root.ele('cbc:ID').txt(d.displayNumber); // BT-1
-	root.ele('cbc:IssueDate').txt(localYmd(d.issuedAt, timeZone)); // BT-2
+	root.ele('cbc:IssueDate').txt(localDateOf(d.issuedAt, timeZone)); // BT-2
 	root.ele(credit ? 'cbc:CreditNoteTypeCode' : 'cbc:InvoiceTypeCode').txt(String(d.typeCode)); // BT-3
 	if (d.note) root.ele('cbc:Note').txt(d.note); // BT-22
 	root.ele('cbc:DocumentCurrencyCode').txt(d.currency); // BT-5
@@ -79,7 +79,7 @@ export function documentAsUbl({ invoice: d, lines, preceding, timeZone }: UblInp
 		// BT-25 and BT-26: the invoice a credit note corrects, or the deposit invoice a final invoice deducts.
 		const ref = root.ele('cac:BillingReference').ele('cac:InvoiceDocumentReference');
 		ref.ele('cbc:ID').txt(preceding.number);
-		ref.ele('cbc:IssueDate').txt(localYmd(preceding.issuedAt, timeZone));
+		ref.ele('cbc:IssueDate').txt(localDateOf(preceding.issuedAt, timeZone));
 	}
 	party(root.ele('cac:AccountingSupplierParty'), supplier, supplier.country ?? '');
 	party(root.ele('cac:AccountingCustomerParty'), customer, supplier.country ?? '');

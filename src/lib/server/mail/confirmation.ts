@@ -9,7 +9,7 @@
 import ical, { ICalCalendarMethod, ICalEventStatus } from 'ical-generator';
 import { formatMoney } from '$lib/domain/money';
 import { preparationChecklist } from '$lib/domain/preparation';
-import { formatDate, formatTime } from '$lib/format';
+import { formatDate, formatTime } from '$lib/domain/time';
 
 export interface ConfirmationFacts {
 	bookingId: string;

@@ -17,7 +17,8 @@ import { booking, invoice, payment, room, studio, user } from '../db/schema';
 import { inTransaction, lockBooking, paymentsOf, type PaymentRow } from './core';
 import { stripe } from './stripe';
 import { isExactStripeAmount, toStripeAmount } from '$lib/domain/money';
-import { formatDate, formatTime, formatMoney } from '$lib/format';
+import { formatDate, formatTime } from '$lib/domain/time';
+import { formatMoney } from '$lib/domain/money';
 
 export type CheckoutKind = 'deposit' | 'balance';
 

@@ -9,7 +9,8 @@ import type { SessionUser } from '../auth';
 import { inTransaction, lockBooking, pgCode } from './core';
 import { auditTx } from './state';
 import { issueFinalInvoice } from '../invoices/documents';
-import { overtimeCharge, parseLocalOrOffset, quoteBooking, type OvertimeCharge, type Quote } from '$lib/domain/pricing';
+import { overtimeCharge, quoteBooking, type OvertimeCharge, type Quote } from '$lib/domain/pricing';
+import { parseBookingInstant, TimeInputError } from '$lib/domain/time';
 import { publicHolidayChecker } from '$lib/domain/holidays';
 import { closeRefusal } from '$lib/domain/lifecycle';
 
@@ -53,9 +54,14 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 		return { ok: false, status: 422, code: 'invalid', message: 'Some details need another look.', fields };
 	}
 	const { policy } = await getPolicy();
-	const when = parseLocalOrOffset(parsed.data.actualEnd, policy.timeZone);
-	if (!when.ok) return invalid('actualEnd', when.message);
-	const actualEnd = new Date(Math.ceil(when.instant.getTime() / 60_000) * 60_000);
+	let recordedEnd: Date;
+	try {
+		recordedEnd = parseBookingInstant(parsed.data.actualEnd, policy.timeZone);
+	} catch (e) {
+		if (e instanceof TimeInputError) return invalid('actualEnd', e.message);
+		throw e;
+	}
+	const actualEnd = new Date(Math.ceil(recordedEnd.getTime() / 60_000) * 60_000);
 
 	try {
 		return await inTransaction<CloseOutcome>(async (tx) => {

@@ -1,7 +1,7 @@
 // What the booking page shows about money, scoped to the viewer (OWASP ASVS 8.2.2): the artist
 // sees their own booking's payments, refunds and documents; the owner also sees why a refund
 // failed and may try it again; the owner and engineers record the end of a session. Engineers see
-// the money (PRODUCT.md: bookings with their price) and which documents exist, but not the
+// the money (they see each booking with its price) and which documents exist, but not the
 // documents themselves (those are for the artist, the owner and the accountant).
 import { and, asc, eq } from 'drizzle-orm';
 import { z } from 'zod';
@@ -14,25 +14,8 @@ import { unresolvedFailures } from './state';
 import { cancelAccess, isCancellable, previewCancellation } from './refunds';
 import { documentKindLabel, payableTotal } from '$lib/domain/invoice';
 import { closeRefusal } from '$lib/domain/lifecycle';
+import { wallDateTime } from '$lib/domain/time';
 import type { MoneyPanelData } from '$lib/types/money';
-
-/** A datetime-local value ('2027-03-02T15:00') of an instant in a zone. */
-export function localInputValue(instant: Date, timeZone: string): string {
-	const parts = Object.fromEntries(
-		new Intl.DateTimeFormat('en-GB', {
-			timeZone,
-			year: 'numeric',
-			month: '2-digit',
-			day: '2-digit',
-			hour: '2-digit',
-			minute: '2-digit',
-			hourCycle: 'h23'
-		})
-			.formatToParts(instant)
-			.map((p) => [p.type, p.value])
-	);
-	return `${parts.year}-${parts.month}-${parts.day}T${parts.hour}:${parts.minute}`;
-}
 
 const OPEN_LINK_MARGIN_MS = 60_000;
 
@@ -93,7 +76,7 @@ export async function loadMoneyPanel(
 		]);
 		const bookedIds = new Set(booked.map((g) => g.id));
 		recordEnd = {
-			bookedEnd: localInputValue(row.endsAt, studioRow.timeZone),
+			bookedEnd: wallDateTime(row.endsAt, studioRow.timeZone),
 			opensAt: row.startsAt.toISOString(),
 			open: closeRefusal(row, now) === null,
 			gear: items.map((g) => ({ id: g.id, name: g.name, booked: bookedIds.has(g.id), hireFee: g.hireable ? g.hireFee : 0 }))

@@ -3,7 +3,7 @@ import { bookingJson, createHold, listForViewer, publicQuote } from '$lib/server
 import { apiError, readJson } from '$lib/server/api';
 import { startDepositCheckout } from '$lib/server/payments';
 import { getStudio } from '$lib/server/studio';
-import { isoInZone } from '$lib/server/time';
+import { isoInZone } from '$lib/domain/time';
 import { audit } from '$lib/server/audit';
 import { mayBook } from '$lib/roles';
 import type { RequestHandler } from './$types';

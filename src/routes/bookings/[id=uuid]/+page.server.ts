@@ -1,14 +1,14 @@
 import { error, fail } from '@sveltejs/kit';
 import { getForViewer, rebookable } from '$lib/server/bookings';
 import { getStudio } from '$lib/server/studio';
-import { bookPath, wallClock, type BookingKind } from '$lib/components/booking/choices';
+import { bookPath, type BookingKind } from '$lib/components/booking/choices';
 import { requireUser } from '$lib/server/guard';
 import { loadMoneyPanel } from '$lib/server/payments';
 import type { QuoteView } from '$lib/components/booking/PriceBreakdown.svelte';
 import { readFileField } from '$lib/server/multipart';
 import * as uploads from '$lib/server/uploads';
 import { audit } from '$lib/server/audit';
-import { localYmd } from '$lib/server/time';
+import { localDateOf, wallClock } from '$lib/domain/time';
 import type { Role } from '$lib/roles';
 import { readFormData } from '$lib/server/api';
 import type { Actions, PageServerLoad } from './$types';
@@ -108,7 +108,11 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 			: null,
 		viewerIsArtist: me.role === 'artist',
 		// The accountant goes back to the month of the booking's latest document (its session's month without one).
-		back: backLink(me.role, localYmd(b.startsAt, timeZone), localYmd(money?.invoices.at(-1)?.issuedAt ?? b.startsAt, timeZone)),
+		back: backLink(
+			me.role,
+			localDateOf(b.startsAt, timeZone),
+			localDateOf(money?.invoices.at(-1)?.issuedAt ?? b.startsAt, timeZone)
+		),
 		// The accountant reads what the accounts need: the session, its price and its money.
 		showDetails: me.role !== 'accountant'
 	};

@@ -2,7 +2,7 @@ import { listForViewer } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guard';
 import { getStudio, listRooms } from '$lib/server/studio';
 import { BOOKING_STATUSES, type BookingStatus } from '$lib/server/db/schema';
-import { localDayBounds } from '$lib/domain/availability';
+import { localDayBounds } from '$lib/domain/time';
 import { isCalendarDate } from '$lib/components/booking/choices';
 import { dateProblem } from '$lib/schemas/input';
 import type { PageServerLoad } from './$types';

@@ -4,7 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/guard';
 import { getStudio, listRooms } from '$lib/server/studio';
-import { localYmd } from '$lib/server/time';
+import { localDateOf } from '$lib/domain/time';
 import * as inventory from '$lib/server/inventory';
 import * as blackouts from '$lib/server/blackouts';
 import { zodFieldErrors } from '$lib/server/bookings';
@@ -40,7 +40,7 @@ export const load: PageServerLoad = async ({ locals }) => {
 	const [studio, rooms, gear] = await Promise.all([getStudio(), listRooms({ includeInactive: true }), inventory.listGear()]);
 	const currency = studio.currency;
 	const blocks = { halfDayMinutes: studio.halfDayMinutes, fullDayMinutes: studio.fullDayMinutes };
-	const upcoming = await blackouts.listUpcoming(localYmd(new Date(), studio.timeZone));
+	const upcoming = await blackouts.listUpcoming(localDateOf(new Date(), studio.timeZone));
 	const [roomForms, gearForms, newGear] = await Promise.all([
 		Promise.all(
 			rooms.map((r) =>

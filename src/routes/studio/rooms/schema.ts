@@ -6,6 +6,7 @@ import { exact, moneyText } from '$lib/schemas/fields';
 import { blockRateFindings, refuseErrors } from '$lib/schemas/rate-card';
 import type { BlockLengths } from '$lib/domain/pricing/rateCardChecks';
 import { isStudioDate, lineText, multilineText } from '$lib/schemas/input';
+import { daysFrom } from '$lib/domain/time';
 // Types only: erased before the browser bundle is made.
 import type { GearValues, RoomValues } from '$lib/server/inventory';
 
@@ -178,7 +179,7 @@ export const blackoutSchema = z
 			ctx.addIssue({ code: 'custom', path: ['endsOn'], message: 'Choose the last closed day, or leave it empty for one day.' });
 		else if (v.endsOn && realDate(v.startsOn) && v.endsOn < v.startsOn) {
 			ctx.addIssue({ code: 'custom', path: ['endsOn'], message: 'The last day is before the first.' });
-		} else if (v.endsOn && realDate(v.startsOn) && (Date.parse(v.endsOn) - Date.parse(v.startsOn)) / 86_400_000 > 366) {
+		} else if (v.endsOn && realDate(v.startsOn) && daysFrom(v.startsOn, v.endsOn) > 366) {
 			ctx.addIssue({ code: 'custom', path: ['endsOn'], message: 'Block out at most a year at a time.' });
 		}
 	});

@@ -4,7 +4,8 @@
 // are read by string arithmetic (parseMoney, parsePercentToBasisPoints), never through a float.
 import { z } from 'zod';
 import { parseMoney, parsePercentToBasisPoints, toDecimalString, basisPointsToPercent } from '$lib/domain/money';
-import { CLOCK_RE, clockToMinute, exact, minuteToClock, moneyText, percentText } from '$lib/schemas/fields';
+import { CLOCK_RE, exact, moneyText, percentText } from '$lib/schemas/fields';
+import { clockLabel, clockMinutes } from '$lib/domain/time';
 import { blockRateFindings, refuseErrors } from '$lib/schemas/rate-card';
 import type { BlockLengths, RateField } from '$lib/domain/pricing/rateCardChecks';
 import { lineText } from '$lib/schemas/input';
@@ -136,10 +137,10 @@ export function settingsFormFrom(s: PolicyValues, currency: string): SettingsFor
 		depositPercent: basisPointsToPercent(s.depositBp),
 		depositMinimum: toDecimalString(s.depositMinimum, currency),
 		openDays: [...byDay.keys()].sort((a, b) => a - b),
-		opens: [1, 2, 3, 4, 5, 6, 7].map((d) => minuteToClock(byDay.get(d)?.openMinute ?? 9 * 60)),
+		opens: [1, 2, 3, 4, 5, 6, 7].map((d) => clockLabel(byDay.get(d)?.openMinute ?? 9 * 60)),
 		closes: [1, 2, 3, 4, 5, 6, 7].map((d) => {
 			const h = byDay.get(d);
-			return minuteToClock(h ? h.closeMinute : 17 * 60);
+			return clockLabel(h ? h.closeMinute : 17 * 60);
 		}),
 		noticeHours: pad(ladder.map((r) => String(r.minNoticeHours))),
 		refundPercents: pad(ladder.map((r) => basisPointsToPercent(r.refundBp))),
@@ -152,8 +153,8 @@ export function policyValuesFrom(f: SettingsForm, currency: string): PolicyValue
 	const openingHours: OpeningHours[] = [];
 	for (let d = 1; d <= 7; d++) {
 		if (!f.openDays.includes(d)) continue;
-		const open = clockToMinute(f.opens[d - 1]!);
-		let close = clockToMinute(f.closes[d - 1]!);
+		const open = clockMinutes(f.opens[d - 1]!);
+		let close = clockMinutes(f.closes[d - 1]!);
 		// A closing time at or before the opening time is on the next morning.
 		if (close <= open) close += 1440;
 		openingHours.push({ weekday: d, openMinute: open, closeMinute: Math.min(close, open + 1440) });
@@ -215,7 +216,7 @@ export const surchargeSchema = z
 			if (!CLOCK_RE.test(v[key]))
 				ctx.addIssue({ code: 'custom', path: [key], message: 'Use a time such as 18:00 (24:00 is midnight).' });
 		}
-		if (CLOCK_RE.test(v.from) && CLOCK_RE.test(v.to) && clockToMinute(v.from) === clockToMinute(v.to)) {
+		if (CLOCK_RE.test(v.from) && CLOCK_RE.test(v.to) && clockMinutes(v.from) === clockMinutes(v.to)) {
 			ctx.addIssue({ code: 'custom', path: ['to'], message: 'The window needs a length: use 00:00 to 24:00 for the whole day.' });
 		}
 	});
@@ -229,8 +230,8 @@ export function surchargeFormFrom(r: SurchargeValues & { id: string }): Surcharg
 		kind: r.kind,
 		percent: basisPointsToPercent(r.percentBp),
 		weekdays: [...r.weekdays].sort((a, b) => a - b),
-		from: minuteToClock(r.fromMinute),
-		to: minuteToClock(r.toMinute),
+		from: clockLabel(r.fromMinute),
+		to: clockLabel(r.toMinute),
 		active: r.active
 	};
 }
@@ -242,8 +243,8 @@ export function surchargeValuesFrom(f: SurchargeForm): SurchargeValues {
 		kind: f.kind,
 		percentBp: exact(parsePercentToBasisPoints(f.percent)),
 		weekdays: window ? [...new Set(f.weekdays)].sort((a, b) => a - b) : [],
-		fromMinute: window ? clockToMinute(f.from) : 0,
-		toMinute: window ? clockToMinute(f.to) : 1440,
+		fromMinute: window ? clockMinutes(f.from) : 0,
+		toMinute: window ? clockMinutes(f.to) : 1440,
 		active: f.active
 	};
 }

@@ -4,7 +4,7 @@ import { readFileField } from '$lib/server/multipart';
 import * as uploads from '$lib/server/uploads';
 import { audit } from '$lib/server/audit';
 import { getStudio } from '$lib/server/studio';
-import { isoInZone } from '$lib/server/time';
+import { isoInZone } from '$lib/domain/time';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, params }) => {

@@ -2,18 +2,11 @@ import { TZDate } from '@date-fns/tz';
 import { Temporal } from 'temporal-polyfill';
 import { describe, expect, it } from 'vitest';
 import { NonexistentLocalTimeError, TimeInputError } from './errors';
-import { HELSINKI } from './spec-fixtures';
-import {
-	addLocalDays,
-	ceilToLocalGrid,
-	floorToLocalGrid,
-	isOnLocalGrid,
-	localDayBounds,
-	parseBookingInstant,
-	resolveWallTime,
-	zonedWallTime
-} from './zoned';
+import fc from 'fast-check';
+import { addDays, isoWeekday } from './dates';
+import { addLocalDays, localDayBounds, localParts, localSegments, localToInstant, resolveWallTime, zonedWallTime } from './zoned';
 
+const HELSINKI = 'Europe/Helsinki';
 const HOUR = 3_600_000;
 
 /** Independent oracle: Temporal (temporal-polyfill), not our code, turns a wall time into an instant. */
@@ -118,73 +111,6 @@ describe('zonedWallTime', () => {
 	});
 });
 
-describe('parseBookingInstant', () => {
-	it('takes an explicit offset or Z as the instant (RFC 3339 §5.6)', () => {
-		expect(parseBookingInstant('2027-03-28T10:00:00+03:00', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
-		expect(parseBookingInstant('2027-03-28T07:00:00Z', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
-		expect(parseBookingInstant('2027-03-28T07:00Z', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
-		expect(parseBookingInstant('2027-03-28T07:00:00.250-05:30', HELSINKI).toISOString()).toBe('2027-03-28T12:30:00.250Z');
-		// The offset wins even for a wall time that does not exist in the studio's zone.
-		expect(parseBookingInstant('2027-03-28T03:30:00+02:00', HELSINKI).toISOString()).toBe('2027-03-28T01:30:00.000Z');
-	});
-
-	it('reads a local YYYY-MM-DDTHH:MM in the studio zone, with the gap and overlap rules', () => {
-		// IANA tz: 10:00 on 2027-03-28 is already EEST (+03:00).
-		expect(parseBookingInstant('2027-03-28T10:00', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
-		// RFC 5545 §3.3.5: repeated time -> first occurrence.
-		expect(parseBookingInstant('2027-10-31T03:30', HELSINKI).toISOString()).toBe('2027-10-31T00:30:00.000Z');
-		// Directive 2000/84/EC gap -> refused.
-		expect(() => parseBookingInstant('2027-03-28T03:30', HELSINKI)).toThrow(NonexistentLocalTimeError);
-	});
-
-	it('errors clearly on anything else', () => {
-		const bad = ['', '2027-03-28', '2027-03-28 10:00', '28.03.2027 10:00', '2027-03-28T10:00+0300', 'tomorrow'];
-		for (const s of bad) {
-			expect(() => parseBookingInstant(s, HELSINKI)).toThrow(/Not a date and time/);
-		}
-		expect(() => parseBookingInstant('2027-02-30T10:00:00Z', HELSINKI)).toThrow(/calendar date/);
-		expect(() => parseBookingInstant('2027-03-28T25:00:00Z', HELSINKI)).toThrow(TimeInputError);
-		expect(() => parseBookingInstant('2027-03-28T10:00:00+24:00', HELSINKI)).toThrow(/UTC offset/);
-		expect(() => parseBookingInstant('2027-06-30T23:59:60Z', HELSINKI)).toThrow(TimeInputError); // leap seconds are not bookable
-	});
-});
-
-describe('local grid', () => {
-	it('matches the local wall clock, not UTC, where the offset is not whole hours', () => {
-		// IANA tz: Asia/Kolkata is +05:30 all year; a 60-min grid is at :30 UTC there.
-		expect(isOnLocalGrid(Date.parse('2027-01-15T04:30:00Z'), 'Asia/Kolkata', 60)).toBe(true); // 10:00 IST
-		expect(isOnLocalGrid(Date.parse('2027-01-15T05:00:00Z'), 'Asia/Kolkata', 60)).toBe(false); // 10:30 IST
-		// Asia/Kathmandu is +05:45: 30-min lines fall at :15 and :45 UTC.
-		expect(isOnLocalGrid(Date.parse('2027-01-15T04:15:00Z'), 'Asia/Kathmandu', 30)).toBe(true);
-		expect(ceilToLocalGrid(Date.parse('2027-01-15T04:16:00Z'), 'Asia/Kathmandu', 30)).toBe(Date.parse('2027-01-15T04:45:00Z'));
-		expect(floorToLocalGrid(Date.parse('2027-01-15T04:14:00Z'), 'Asia/Kathmandu', 30)).toBe(Date.parse('2027-01-15T03:45:00Z'));
-	});
-
-	it('rounds across the Helsinki spring gap', () => {
-		// 02:50+02:00 rounds up to 04:00+03:00 (03:00 does not exist; Directive 2000/84/EC).
-		expect(new Date(ceilToLocalGrid(Date.parse('2027-03-28T00:50:00Z'), HELSINKI, 30)).toISOString()).toBe(
-			'2027-03-28T01:00:00.000Z'
-		);
-		// 04:10+03:00 rounds down to 04:00+03:00.
-		expect(new Date(floorToLocalGrid(Date.parse('2027-03-28T01:10:00Z'), HELSINKI, 30)).toISOString()).toBe(
-			'2027-03-28T01:00:00.000Z'
-		);
-	});
-
-	it('rounds across Lord Howe Island’s 30-minute change with a 60-minute grid', () => {
-		// IANA tz Australia/Lord_Howe: +10:30, +11:00 in summer; 2027-10-03 02:00 -> 02:30.
-		// From 01:50 the next whole local hour is 03:00+11:00 (02:00 is skipped, 02:30 is off-grid).
-		const from = temporalInstant('2027-10-03T01:50', 'Australia/Lord_Howe').getTime();
-		const want = temporalInstant('2027-10-03T03:00', 'Australia/Lord_Howe').getTime();
-		expect(ceilToLocalGrid(from, 'Australia/Lord_Howe', 60)).toBe(want);
-		// And back down from 02:40+11:00 the last whole hour is 01:00+10:30.
-		const from2 = temporalInstant('2027-10-03T02:40', 'Australia/Lord_Howe').getTime();
-		expect(floorToLocalGrid(from2, 'Australia/Lord_Howe', 60)).toBe(
-			temporalInstant('2027-10-03T01:00', 'Australia/Lord_Howe').getTime()
-		);
-	});
-});
-
 describe('addLocalDays', () => {
 	it('keeps the wall time across a DST change, like Temporal ZonedDateTime#add({ days })', () => {
 		// Temporal proposal: adding days is calendar (nominal) arithmetic in the zone.
@@ -192,5 +118,79 @@ describe('addLocalDays', () => {
 		const z = Temporal.Instant.fromEpochMilliseconds(now).toZonedDateTimeISO(HELSINKI).add({ days: 180 });
 		expect(addLocalDays(now, 180, HELSINKI)).toBe(z.epochMilliseconds);
 		expect(new Date(addLocalDays(now, 180, HELSINKI)).toISOString()).toBe('2027-06-30T09:00:00.000Z'); // 12:00+03:00
+	});
+});
+
+describe('local wall time in Europe/Helsinki (IANA tz via @date-fns/tz; Directive 2000/84/EC)', () => {
+	it('summer time starts 01:00 UTC on the last Sunday of March 2027: 03:00 jumps to 04:00', () => {
+		// Art. 2: 2027-03-28 01:00 UTC. Helsinki is UTC+2 before, UTC+3 after.
+		expect(localParts(new Date('2027-03-28T00:59:00Z'), HELSINKI)).toMatchObject({
+			minuteOfDay: 2 * 60 + 59,
+			offsetMinutes: 120
+		});
+		expect(localParts(new Date('2027-03-28T01:00:00Z'), HELSINKI)).toMatchObject({ minuteOfDay: 4 * 60, offsetMinutes: 180 });
+		expect(localToInstant('2027-03-28', 3 * 60 + 30, HELSINKI).kind).toBe('gap');
+		// A skipped wall time, as a rule boundary, is the instant the clocks jumped (04:00+03:00).
+		expect(localToInstant('2027-03-28', 3 * 60 + 30, HELSINKI).instant.toISOString()).toBe('2027-03-28T01:00:00.000Z');
+		expect(localToInstant('2027-03-28', 3 * 60, HELSINKI).instant.toISOString()).toBe('2027-03-28T01:00:00.000Z');
+	});
+
+	it('summer time ends 01:00 UTC on the last Sunday of October 2027: 04:00 falls back to 03:00', () => {
+		// Art. 3: 2027-10-31 01:00 UTC. 03:30 happens twice; the first occurrence is UTC+3 (00:30 UTC).
+		const r = localToInstant('2027-10-31', 3 * 60 + 30, HELSINKI);
+		expect(r.kind).toBe('ambiguous');
+		expect(r.instant.toISOString()).toBe('2027-10-31T00:30:00.000Z');
+	});
+
+	it('has 23 real hours on 2027-03-28 and 25 on 2027-10-31', () => {
+		const hours = (ymd: string) =>
+			(localToInstant(addDays(ymd, 1), 0, HELSINKI).instant.getTime() - localToInstant(ymd, 0, HELSINKI).instant.getTime()) /
+			3_600_000;
+		expect(hours('2027-03-28')).toBe(23);
+		expect(hours('2027-10-31')).toBe(25);
+		expect(hours('2027-03-02')).toBe(24);
+	});
+
+	it('splits at local midnight and at offset changes, counting real minutes', () => {
+		const start = localToInstant('2027-10-30', 22 * 60, HELSINKI).instant;
+		const end = localToInstant('2027-10-31', 22 * 60, HELSINKI).instant;
+		const segments = localSegments(start, end, HELSINKI);
+		expect(segments.map((s) => [s.ymd, s.startMinuteOfDay, s.minutes])).toEqual([
+			['2027-10-30', 22 * 60, 120], // Sat 22:00–24:00
+			['2027-10-31', 0, 4 * 60], // Sun 00:00–04:00 summer time
+			['2027-10-31', 3 * 60, 19 * 60] // Sun 03:00 (again) –22:00 winter time
+		]);
+		expect(segments.reduce((n, s) => n + s.minutes, 0)).toBe(25 * 60);
+	});
+
+	it('gives ISO weekdays (2027-03-02 is a Tuesday, 2027-12-06 a Monday, 2027-03-28 a Sunday)', () => {
+		expect(isoWeekday('2027-03-02')).toBe(2);
+		expect(isoWeekday('2027-12-06')).toBe(1);
+		expect(isoWeekday('2027-03-28')).toBe(7);
+	});
+
+	it('agrees with TZDate minute by minute around both 2027 changes (property)', () => {
+		const around = fc.constantFrom('2027-03-28T01:00:00Z', '2027-10-31T01:00:00Z', '2027-06-15T12:00:00Z');
+		fc.assert(
+			fc.property(around, fc.integer({ min: -48 * 60, max: 48 * 60 }), (anchor, offset) => {
+				const instant = new Date(new Date(anchor).getTime() + offset * 60_000);
+				const reference = new TZDate(instant.getTime(), HELSINKI);
+				const parts = localParts(instant, HELSINKI);
+				const ymd = `${reference.getFullYear()}-${String(reference.getMonth() + 1).padStart(2, '0')}-${String(reference.getDate()).padStart(2, '0')}`;
+				expect(parts.ymd).toBe(ymd);
+				expect(parts.minuteOfDay).toBe(reference.getHours() * 60 + reference.getMinutes());
+				expect(parts.isoWeekday).toBe(reference.getDay() === 0 ? 7 : reference.getDay());
+				// Every existing wall time resolves back to an instant with that wall time.
+				const back = localToInstant(parts.ymd, parts.minuteOfDay, HELSINKI);
+				expect(localParts(back.instant, HELSINKI)).toMatchObject({ ymd: parts.ymd, minuteOfDay: parts.minuteOfDay });
+			}),
+			{ numRuns: 400 }
+		);
+	});
+
+	it('handles zones off the whole hour (Asia/Kolkata +05:30)', () => {
+		const r = localToInstant('2027-03-02', 9 * 60, 'Asia/Kolkata');
+		expect(r.instant.toISOString()).toBe('2027-03-02T03:30:00.000Z');
+		expect(() => localParts(new Date(), 'Nowhere/Else')).toThrow(RangeError);
 	});
 });

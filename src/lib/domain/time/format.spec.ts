@@ -1,0 +1,79 @@
+import { describe, expect, it } from 'vitest';
+import { TZDate } from '@date-fns/tz';
+import { formatISO } from 'date-fns';
+import { formatDuration, isoInZone, wallClock, wallDateTime } from './format';
+
+// Cross-checked against date-fns formatISO on @date-fns/tz's TZDate (the IANA database through
+// ICU), around the 2027 EU changes (Directive 2000/84/EC: 01:00 UTC on 28 March and 31 October)
+// and in zones with half-hour, negative and zero offsets.
+describe('isoInZone', () => {
+	const zones = ['Europe/Helsinki', 'America/New_York', 'Asia/Kolkata', 'Australia/Adelaide', 'UTC', 'Europe/London'];
+	const instants: number[] = [];
+	for (const day of ['2027-03-28', '2027-10-31', '2027-03-14', '2027-11-07', '2027-04-04']) {
+		const start = Date.parse(`${day}T00:00:00Z`) - 6 * 3_600_000;
+		for (let m = 0; m < 36 * 60; m += 30) instants.push(start + m * 60_000);
+	}
+	instants.push(
+		Date.parse('2027-03-28T00:59:59.999Z'),
+		Date.parse('2027-03-28T01:00:00.000Z'),
+		Date.parse('2026-12-02T12:34:56.789Z')
+	);
+
+	it('writes what formatISO writes for a TZDate, across daylight-saving changes', () => {
+		for (const zone of zones) {
+			for (const ms of instants)
+				expect(isoInZone(new Date(ms), zone), `${zone} ${new Date(ms).toISOString()}`).toBe(formatISO(new TZDate(ms, zone)));
+		}
+	});
+
+	it('gives Helsinki summer time from 04:00 local on 28 March 2027', () => {
+		expect(isoInZone(new Date('2027-03-28T00:59:00Z'), 'Europe/Helsinki')).toBe('2027-03-28T02:59:00+02:00');
+		expect(isoInZone(new Date('2027-03-28T01:00:00Z'), 'Europe/Helsinki')).toBe('2027-03-28T04:00:00+03:00');
+	});
+});
+
+describe('wallClock and wallDateTime', () => {
+	it('agree with Intl (ICU) reading the same instants in the same zones', () => {
+		const intl = (ms: number, timeZone: string) => {
+			const parts = Object.fromEntries(
+				new Intl.DateTimeFormat('en-GB', {
+					timeZone,
+					year: 'numeric',
+					month: '2-digit',
+					day: '2-digit',
+					hour: '2-digit',
+					minute: '2-digit',
+					hourCycle: 'h23'
+				})
+					.formatToParts(ms)
+					.map((p) => [p.type, p.value])
+			);
+			return `${parts.year}-${parts.month}-${parts.day}T${parts.hour}:${parts.minute}`;
+		};
+		for (const zone of ['Europe/Helsinki', 'America/New_York', 'Asia/Kolkata', 'UTC']) {
+			for (const ms of [
+				Date.parse('2027-03-28T00:59:59.999Z'),
+				Date.parse('2027-03-28T01:00:00Z'),
+				Date.parse('2027-10-31T00:30:00Z')
+			]) {
+				expect(wallDateTime(ms, zone), zone).toBe(intl(ms, zone));
+			}
+		}
+	});
+
+	it('gives the studio date and time of an instant, an ISO string read as an instant', () => {
+		expect(wallClock('2027-10-31T00:30:00Z', 'Europe/Helsinki')).toEqual({ date: '2027-10-31', time: '03:30' });
+		expect(wallClock(new Date('2027-10-31T01:30:00Z'), 'Europe/Helsinki')).toEqual({ date: '2027-10-31', time: '03:30' });
+		expect(wallDateTime(new Date('2027-03-01T22:30:00Z'), 'Europe/Helsinki')).toBe('2027-03-02T00:30');
+	});
+});
+
+describe('formatDuration', () => {
+	it('writes hours and minutes, leaving out a zero part', () => {
+		expect(formatDuration(45)).toBe('45 min');
+		expect(formatDuration(120)).toBe('2 h');
+		expect(formatDuration(150)).toBe('2 h 30 min');
+		expect(formatDuration(0)).toBe('0 min');
+		expect(formatDuration(72 * 60)).toBe('72 h');
+	});
+});

@@ -1,0 +1,65 @@
+import { describe, expect, it } from 'vitest';
+import { NonexistentLocalTimeError, TimeInputError } from './errors';
+import { parseBookingInstant } from './parse';
+import { resolveWallTime } from './zoned';
+
+const HELSINKI = 'Europe/Helsinki';
+
+describe('parseBookingInstant', () => {
+	it('takes an explicit offset or Z as the instant (RFC 3339 §5.6)', () => {
+		expect(parseBookingInstant('2027-03-28T10:00:00+03:00', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
+		expect(parseBookingInstant('2027-03-28T07:00:00Z', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
+		expect(parseBookingInstant('2027-03-28T07:00Z', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
+		expect(parseBookingInstant('2027-03-28T07:00:00.250-05:30', HELSINKI).toISOString()).toBe('2027-03-28T12:30:00.250Z');
+		// The offset wins even for a wall time that does not exist in the studio's zone.
+		expect(parseBookingInstant('2027-03-28T03:30:00+02:00', HELSINKI).toISOString()).toBe('2027-03-28T01:30:00.000Z');
+	});
+
+	it('reads a local YYYY-MM-DDTHH:MM in the studio zone, with the gap and overlap rules', () => {
+		// IANA tz: 10:00 on 2027-03-28 is already EEST (+03:00).
+		expect(parseBookingInstant('2027-03-28T10:00', HELSINKI).toISOString()).toBe('2027-03-28T07:00:00.000Z');
+		// RFC 5545 §3.3.5: repeated time -> first occurrence.
+		expect(parseBookingInstant('2027-10-31T03:30', HELSINKI).toISOString()).toBe('2027-10-31T00:30:00.000Z');
+		// Directive 2000/84/EC gap -> refused.
+		expect(() => parseBookingInstant('2027-03-28T03:30', HELSINKI)).toThrow(NonexistentLocalTimeError);
+	});
+
+	it('errors clearly on anything else', () => {
+		const bad = ['', '2027-03-28', '2027-03-28 10:00', '28.03.2027 10:00', '2027-03-28T10:00+0300', 'tomorrow'];
+		for (const s of bad) {
+			expect(() => parseBookingInstant(s, HELSINKI)).toThrow(/Not a date and time/);
+		}
+		expect(() => parseBookingInstant('2027-02-30T10:00:00Z', HELSINKI)).toThrow(/calendar date/);
+		expect(() => parseBookingInstant('2027-03-28T25:00:00Z', HELSINKI)).toThrow(TimeInputError);
+		expect(() => parseBookingInstant('2027-03-28T10:00:00+24:00', HELSINKI)).toThrow(/UTC offset/);
+		expect(() => parseBookingInstant('2027-06-30T23:59:60Z', HELSINKI)).toThrow(TimeInputError); // leap seconds are not bookable
+	});
+});
+
+describe('parseBookingInstant, as the recorded end of a session reads it (ISO 8601; RFC 5545 first occurrence; IANA tz)', () => {
+	it('reads an instant with an offset or Z', () => {
+		expect(parseBookingInstant('2027-03-02T16:00:00+02:00', HELSINKI)).toEqual(new Date('2027-03-02T14:00:00Z'));
+		expect(parseBookingInstant('2027-03-02T14:00Z', HELSINKI)).toEqual(new Date('2027-03-02T14:00:00Z'));
+	});
+
+	it("reads a wall time without an offset in the studio's zone", () => {
+		expect(parseBookingInstant('2027-07-01T10:00', HELSINKI)).toEqual(new Date('2027-07-01T07:00:00Z')); // summer time, UTC+3
+	});
+
+	it('refuses a wall time in the spring-forward gap: 2027-03-28 03:30 does not exist', () => {
+		expect(() => parseBookingInstant('2027-03-28T03:30', HELSINKI)).toThrow(
+			expect.objectContaining({ code: 'nonexistent-local-time' })
+		);
+	});
+
+	it('reads a repeated wall time as its first occurrence: 2027-10-31 03:30 is 00:30 UTC', () => {
+		expect(parseBookingInstant('2027-10-31T03:30', HELSINKI)).toEqual(new Date('2027-10-31T00:30:00Z'));
+		expect(resolveWallTime('2027-10-31', '03:30', HELSINKI).kind).toBe('repeated');
+	});
+
+	it('refuses malformed input and impossible dates', () => {
+		for (const text of ['2027-02-30T10:00', '2027-03-02 10:00', '2027-03-02T25:00', 'tomorrow', '2027-03-02T10:00+25:00']) {
+			expect(() => parseBookingInstant(text, HELSINKI), text).toThrow(TimeInputError);
+		}
+	});
+});
