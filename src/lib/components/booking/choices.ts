@@ -57,22 +57,6 @@ export function addWallMinutes(date: string, time: string, minutes: number): str
 	return t.toISOString().slice(0, 16);
 }
 
-/** The body POST /api/quote and createHold take (PRODUCT.md), built from the choices. */
-export function requestBody(c: BookingChoices, lengths: BlockLengths) {
-	const minutes = lengthMinutes(c.kind, c.hours, lengths);
-	// A date or start that is not one (a form sent back with errors) gives no times at all.
-	const when = isCalendarDate(c.date) && HHMM_RE.test(c.start);
-	return {
-		room: c.room,
-		start: when ? `${c.date}T${c.start}` : '',
-		end: when && minutes > 0 ? addWallMinutes(c.date, c.start, minutes) : '',
-		engineer: c.engineer,
-		gear: c.gear,
-		project: c.project ?? '',
-		notes: c.notes ?? ''
-	};
-}
-
 /** The query string that brings the booking page back with these choices (notes stay out). */
 export function choicesQuery(c: Partial<BookingChoices>): string {
 	const q = new URLSearchParams();

@@ -18,6 +18,7 @@ import { inTransaction, lockBooking, paymentsOf, type PaymentRow } from './core'
 import { stripe } from './stripe';
 import { isExactStripeAmount, toStripeAmount } from '$lib/domain/money';
 import { formatDate, formatTime, formatMoney } from '$lib/format';
+import { holdLive } from '$lib/domain/lifecycle';
 
 export type CheckoutKind = 'deposit' | 'balance';
 
@@ -59,7 +60,7 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 		let amount: number;
 		let expiresAt: Date;
 		if (kind === 'deposit') {
-			if (b.status !== 'held' || (b.holdExpiresAt && b.holdExpiresAt <= now)) {
+			if (!holdLive(b, now)) {
 				throw new CheckoutError('not_payable', 'This booking is not waiting for its deposit.');
 			}
 			if (mine.some((p) => p.status === 'paid' || p.status === 'processing')) {
