@@ -49,19 +49,22 @@ export async function listForViewer(actor: SessionUser, filter: { status?: Booki
 		.limit(500);
 }
 
+/** What a line of a booking list shows. */
+const lineColumns = {
+	id: booking.id,
+	reference: booking.reference,
+	startsAt: booking.startsAt,
+	endsAt: booking.endsAt,
+	status: booking.status,
+	room: room.name,
+	total: booking.total,
+	currency: booking.currency
+};
+
 /** The acting user's own bookings (as artist), newest first: the "My bookings" page. */
 export async function listOwn(actor: SessionUser) {
 	return db
-		.select({
-			id: booking.id,
-			reference: booking.reference,
-			startsAt: booking.startsAt,
-			endsAt: booking.endsAt,
-			status: booking.status,
-			room: room.name,
-			total: booking.total,
-			currency: booking.currency
-		})
+		.select(lineColumns)
 		.from(booking)
 		.innerJoin(room, eq(room.id, booking.roomId))
 		.where(eq(booking.artistId, actor.id))
@@ -78,17 +81,7 @@ export async function ownerDesk(actor: SessionUser, now = new Date()) {
 	const weekAhead = new Date(now.getTime() + 7 * 24 * 3600 * 1000);
 	const [upcoming, counts, toClose] = await Promise.all([
 		db
-			.select({
-				id: booking.id,
-				reference: booking.reference,
-				startsAt: booking.startsAt,
-				endsAt: booking.endsAt,
-				status: booking.status,
-				room: room.name,
-				artist: user.name,
-				total: booking.total,
-				currency: booking.currency
-			})
+			.select({ ...lineColumns, artist: user.name })
 			.from(booking)
 			.innerJoin(room, eq(room.id, booking.roomId))
 			.innerJoin(user, eq(user.id, booking.artistId))
