@@ -2,7 +2,7 @@
 # npm run test:clock: the whole of `npm test` once under each of several fixed studio clocks, so a
 # test that only passes at some hours, on some weekdays or away from a clock change shows up here
 # rather than on the one evening it fails. Prints one line per clock and exits non-zero if any run
-# failed. Each run's output is kept in .data/test-clock/NAME.log.
+# failed. Each run's output is kept in .data/test-clock/NAME.log, its services' logs in NAME-logs/.
 #
 # Clocks (studio time, Europe/Helsinki), name|wall time:
 #   TEST_CLOCKS="thursday-evening|2027-01-14 20:00:00;nye|2026-12-31 23:30:00" npm run test:clock
@@ -62,6 +62,9 @@ for clock in "${CLOCKS[@]}"; do
 	code=$?
 	set -e
 	clean_shm
+	# The next run starts by emptying the logs folder: keep this run's service logs (the app's above
+	# all: a crash is only explained there).
+	[ -d "$ROOT/.data/test-logs" ] && cp -r "$ROOT/.data/test-logs" "$OUT/$name-logs"
 	line="$(grep -aE '^slateroom: [0-9]+ passed' "$OUT/$name.log" | tail -n 1 || true)"
 	[ -n "$line" ] || line="no test summary (see the log)"
 	if [ "$code" != "0" ]; then

@@ -68,6 +68,27 @@ const sameOriginApi: Handle = ({ event, resolve }) => {
 	return verdict.ok ? resolve(event) : apiError(403, 'forbidden', verdict.message);
 };
 
+/**
+ * An address whose path does not decode (a stray `%` or a broken UTF-8 sequence, RFC 3986 §2.1)
+ * is refused here with 400, before any other handle runs. SvelteKit still runs the handles for
+ * such a path, but a redirect or error thrown from one of them (the zone guard sends visitors to
+ * sign-in) is then not caught, and the rejection would stop the whole server.
+ */
+const malformedPath: Handle = ({ event, resolve }) => {
+	try {
+		// The same decoding SvelteKit applies to a path (an encoded `%` stays encoded).
+		event.url.pathname.split('%25').forEach((part) => decodeURI(part));
+	} catch {
+		return event.url.pathname.startsWith('/api/')
+			? apiError(400, 'invalid', 'The address does not decode: check its % escapes.')
+			: new Response('The address does not decode: check its % escapes.', {
+					status: 400,
+					headers: { 'content-type': 'text/plain; charset=utf-8' }
+				});
+	}
+	return resolve(event);
+};
+
 const AUTH_BASE = '/api/auth/';
 /**
  * The only better-auth routes open over HTTP. Signing in and up go through the site's own pages,
@@ -209,6 +230,7 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 
 export const handle = sequence(
 	securityHeaders,
+	malformedPath,
 	databaseOutage,
 	clientAddress,
 	sameOriginApi,

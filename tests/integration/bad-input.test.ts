@@ -298,3 +298,32 @@ describe('a stranger sent to sign in from a very long address', () => {
 		expect(res.headers.get('location')).toBe(`/sign-in?next=${encodeURIComponent('/studio/bookings')}`);
 	});
 });
+
+describe('an address whose path does not decode', () => {
+	// A broken UTF-8 sequence and a stray "%" (RFC 3986 §2.1: "%" starts an escape of two hex digits).
+	const broken = ['%E0%A4%A', '%ZZ', '%C0%80', 'a%'];
+
+	it('is a 400 on every zone and in the API, for visitors and the signed-in, and the server stays up', async () => {
+		const visitor = new Client();
+		const cases: [Client, string, string][] = [];
+		for (const bad of broken) {
+			cases.push(
+				[visitor, 'GET', `/uploads/${bad}`],
+				[visitor, 'GET', `/studio/${bad}`],
+				[visitor, 'GET', `/bookings/${bad}/x`],
+				[visitor, 'POST', `/api/bookings/${bad}/cancel`],
+				[artist, 'GET', `/bookings/${bad}`],
+				[artist, 'POST', `/api/bookings/${bad}/cancel`],
+				[engineer, 'POST', `/studio/${bad}`],
+				[owner, 'GET', `/calendar/${bad}`]
+			);
+		}
+		for (const [who, method, path] of cases) {
+			const res = await who.fetch(path, { method });
+			expect(res.status, `${method} ${path}`).toBe(400);
+			if (path.startsWith('/api/')) await apiError(res, 400);
+			else expect(await res.text()).toMatch(/does not decode/);
+			expect((await fetch(`${APP_URL}/api/health`)).status, `the server answers after ${method} ${path}`).toBe(200);
+		}
+	});
+});
