@@ -4,7 +4,8 @@
 import { sql } from 'drizzle-orm';
 import type { Database } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
-import { DEMO_POLICY, DEMO_ROOMS } from '../src/lib/domain/demo';
+import { DEMO_BOOKING_IDS, DEMO_POLICY, DEMO_ROOMS } from '../src/lib/domain/demo';
+import { newReference } from '../src/lib/server/bookings/reference';
 import { quoteBooking } from '../src/lib/domain/pricing';
 import { addDays, localDateOf, localToInstant } from '../src/lib/domain/time';
 import { publicHolidayChecker } from '../src/lib/domain/holidays';
@@ -159,7 +160,8 @@ export async function seedDemoBookings(
 		const [row] = await db
 			.insert(t.booking)
 			.values({
-				reference: `HP-DEMO${i + 1}`,
+				id: DEMO_BOOKING_IDS[i],
+				reference: newReference(),
 				roomId: ids.roomIds[d.room]!,
 				engineerId: d.engineer ? engineerId : null,
 				artistId: ids.userIds[d.artist]!,

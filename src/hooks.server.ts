@@ -16,19 +16,12 @@ import {
 import { BAD_INPUT_MESSAGE, apiError, dataExceptionCode } from '$lib/server/api';
 import { startBackgroundJobs, stopBackgroundJobs } from '$lib/server/jobs';
 import { sqlClient } from '$lib/server/db';
-import { registerPaymentJobs } from '$lib/server/payments';
-import { registerMail } from '$lib/server/mail';
 import { ensureDemoLedger } from '$lib/server/demo-ledger';
-import { registerUploadJobs } from '$lib/server/uploads';
 import { judgeRequestOrigin } from '$lib/domain/request-origin';
 import { describeError } from '$lib/domain/log-redaction';
 
 if (!building) {
-	// Payment sweeps (expiring lapsed sessions, sending recorded refunds) must run from start-up,
-	// not only once some page happens to import the payments module.
-	registerPaymentJobs();
-	registerMail();
-	registerUploadJobs();
+	// Every periodic job (src/lib/server/jobs.ts lists them) runs from start-up.
 	startBackgroundJobs();
 	ensureDemoLedger().catch((e) => console.warn('[demo]', (e as Error).message));
 	// adapter-node emits this once the HTTP server has closed (after SIGTERM or SIGINT). The

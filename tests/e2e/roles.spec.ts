@@ -3,32 +3,33 @@ import { signIn, expect, test } from './support';
 import { parse } from 'csv-parse/sync';
 import { signedIn } from '../support/http';
 import { ymdInZone } from '../support/dates';
+import { DEMO_BOOKING_IDS } from '../../src/lib/domain/demo';
 
-// The engineer's and the accountant's journeys of PRODUCT.md, in the browser, on the seeded demo
+// The engineer's and the accountant's journeys, in the browser, on the seeded demo
 // studio (scripts/seed-bookings.ts places its sessions relative to the day of the seed; the app
 // gives them their money history at start-up, src/lib/server/demo-ledger.ts). Days are read from
 // the seeded bookings, never counted from the clock now.
 
-/** The seeded session HP-DEMO3 as the API gives it to the engineer. */
+/** The third seeded session as the API gives it to the engineer. */
 async function demoSession(): Promise<{ reference: string; start: string }> {
 	const res = await (await signedIn('engineer@slateroom.test')).fetch('/api/bookings');
-	const { bookings } = (await res.json()) as { bookings: { reference: string; start: string }[] };
-	const demo = bookings.find((b) => b.reference === 'HP-DEMO3');
-	expect(demo, 'the seeded session HP-DEMO3').toBeDefined();
+	const { bookings } = (await res.json()) as { bookings: { id: string; reference: string; start: string }[] };
+	const demo = bookings.find((b) => b.id === DEMO_BOOKING_IDS[2]);
+	expect(demo, 'the third seeded session').toBeDefined();
 	return demo!;
 }
 
 test('the engineer opens the day plan, reads the carried-over recall sheet and writes this session’s', async ({ page }) => {
 	await signIn(page, 'engineer@slateroom.test');
 	const { bookings } = (await (await page.request.get('/api/bookings')).json()) as {
-		bookings: { reference: string; start: string }[];
+		bookings: { id: string; reference: string; start: string }[];
 	};
-	const demo = bookings.find((b) => b.reference === 'HP-DEMO3');
-	expect(demo, 'the seeded session HP-DEMO3').toBeDefined();
+	const demo = bookings.find((b) => b.id === DEMO_BOOKING_IDS[2]);
+	expect(demo, 'the third seeded session').toBeDefined();
 	const date = demo!.start.slice(0, 10); // local date: the start carries the studio's offset
 
 	await page.goto(`/plan?date=${date}`);
-	const session = page.getByTestId('plan-session').filter({ hasText: 'HP-DEMO3' });
+	const session = page.getByTestId('plan-session').filter({ hasText: demo!.reference });
 	await expect(session).toBeVisible();
 	await expect(session.getByTestId('previous-recall')).toContainText('Kick drum');
 	await expect(session).toContainText('Noa Virta');
@@ -40,7 +41,7 @@ test('the engineer opens the day plan, reads the carried-over recall sheet and w
 	await expect(session.getByRole('status')).toContainText('Recall sheet saved.');
 
 	await page.reload();
-	const again = page.getByTestId('plan-session').filter({ hasText: 'HP-DEMO3' });
+	const again = page.getByTestId('plan-session').filter({ hasText: demo!.reference });
 	await again.getByText('Recall sheet for this session').click();
 	await expect(again.getByLabel('Session notes')).toHaveValue(notes);
 });

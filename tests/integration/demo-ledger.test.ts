@@ -1,21 +1,26 @@
 // The demo studio's money history (src/lib/server/demo-ledger.ts), as the app writes it at start-up
-// into the seeded test database: checked against the demo policy of PRODUCT.md (deposit 30 % of
+// into the seeded test database: checked against the demo studio's policy (deposit 30 % of
 // the gross rounded up to whole euros, at least 50.00) and EN 16931 BR-CO-16 (amount due = gross −
 // paid on account + rounding).
 import { afterAll, describe, expect, it } from 'vitest';
-import { and, asc, eq, inArray, like } from 'drizzle-orm';
+import { and, asc, eq, inArray } from 'drizzle-orm';
 import { testDb } from '../support/db';
 import { waitFor } from '../support/wait';
 import { signedIn } from '../support/http';
 import { DEMO } from '../support/env';
 import * as t from '../../src/lib/server/db/schema';
+import { DEMO_BOOKING_IDS } from '../../src/lib/domain/demo';
 
 const { db, client } = testDb();
 afterAll(() => client.end());
 
 describe('the demo ledger', () => {
 	it('gives every demo session a paid deposit and its invoice, and the finished ones their final invoice', async () => {
-		const demo = await db.select().from(t.booking).where(like(t.booking.reference, 'HP-DEMO%')).orderBy(asc(t.booking.startsAt));
+		const demo = await db
+			.select()
+			.from(t.booking)
+			.where(inArray(t.booking.id, [...DEMO_BOOKING_IDS]))
+			.orderBy(asc(t.booking.startsAt));
 		expect(demo.length).toBeGreaterThanOrEqual(4);
 		const ids = demo.map((b) => b.id);
 		// The app writes the ledger once at start-up: wait until every demo session has its deposit.
@@ -30,7 +35,7 @@ describe('the demo ledger', () => {
 			expect(deposits, b.reference).toHaveLength(1);
 			expect(deposits[0]!.status).toBe('paid');
 			expect(deposits[0]!.amount).toBe(b.deposit);
-			// PRODUCT.md: 30 % of the gross rounded up to whole euros, at least 50.00, never above the total.
+			// The demo policy: 30 % of the gross rounded up to whole euros, at least 50.00, never above the total.
 			expect(b.deposit).toBe(Math.min(b.total, Math.max(5000, Math.ceil((b.total * 30) / 10_000) * 100)));
 			expect(deposits[0]!.paidAt!.getTime()).toBeLessThan(b.startsAt.getTime());
 			const docs = invoices.filter((d) => d.bookingId === b.id);
@@ -78,11 +83,16 @@ describe('the demo ledger', () => {
 		const html = await res.text();
 		const desk = html.slice(html.indexOf('data-testid="attention"'));
 		expect(desk).toContain('Needs you');
-		// HP-DEMO2's final invoice is left unpaid by the demo ledger.
-		expect(desk).toMatch(/Balance owed:.*?HP-DEMO2/s);
-		// HP-DEMO1 is paid in full, so no item of the list names it.
+		const refs = await db
+			.select({ id: t.booking.id, reference: t.booking.reference })
+			.from(t.booking)
+			.where(inArray(t.booking.id, [DEMO_BOOKING_IDS[0], DEMO_BOOKING_IDS[1]]));
+		const ref = (id: string) => refs.find((r) => r.id === id)!.reference;
+		// The second demo session's final invoice is left unpaid by the demo ledger.
+		expect(desk).toContain('Balance owed');
+		// The first is paid in full, so no item of the list names it.
 		const items = desk.slice(0, desk.indexOf('</ul>')).split('<li').slice(1);
-		expect(items.some((li) => li.includes('Balance owed') && li.includes('HP-DEMO2'))).toBe(true);
-		expect(items.some((li) => li.includes('HP-DEMO1'))).toBe(false);
+		expect(items.some((li) => li.includes('Balance owed') && li.includes(ref(DEMO_BOOKING_IDS[1])))).toBe(true);
+		expect(items.some((li) => li.includes(ref(DEMO_BOOKING_IDS[0])))).toBe(false);
 	});
 });

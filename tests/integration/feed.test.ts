@@ -12,6 +12,7 @@ import { addDays, studioToday } from '../support/dates';
 import { expectRefusedPage } from '../support/refusal';
 import { payOnFake } from '../support/stripe-fake';
 import * as t from '../../src/lib/server/db/schema';
+import { DEMO_BOOKING_IDS } from '../../src/lib/domain/demo';
 
 const { db, client } = testDb();
 afterAll(() => client.end());
@@ -57,7 +58,7 @@ describe('the calendar feed', () => {
 		expect(before.type).toMatch(/^text\/calendar/);
 		expect(vevents(before.text).map((e) => e.uid)).not.toContain(booked!.id);
 		// The seeded demo sessions of the coming week are in it, at their exact instants.
-		const [demo] = await db.select().from(t.booking).where(eq(t.booking.reference, 'HP-DEMO3'));
+		const [demo] = await db.select().from(t.booking).where(eq(t.booking.id, DEMO_BOOKING_IDS[2]));
 		const demoEvent = vevents(before.text).find((e) => e.uid === demo!.id);
 		expect(demoEvent?.status).toBe('CONFIRMED');
 		expect(new Date(demoEvent!.start!).getTime()).toBe(demo!.startsAt.getTime());

@@ -7,14 +7,20 @@ import { Client, signedIn } from '../support/http';
 import { DEMO } from '../support/env';
 import { ymdInZone } from '../support/dates';
 import { expectRefused, expectRefusedPage } from '../support/refusal';
+import { DEMO_BOOKING_IDS } from '../../src/lib/domain/demo';
 
 let day = '';
+/** The references of the seeded sessions: the third is this day's, the first its recall sheet's. */
+let ref3 = '';
+let ref1 = '';
 beforeAll(async () => {
 	const res = await (await signedIn(DEMO.engineer)).fetch('/api/bookings');
-	const { bookings } = (await res.json()) as { bookings: { reference: string; start: string }[] };
-	const demo = bookings.find((b) => b.reference === 'HP-DEMO3');
-	if (!demo) throw new Error('the seeded session HP-DEMO3 is missing');
+	const { bookings } = (await res.json()) as { bookings: { id: string; reference: string; start: string }[] };
+	const demo = bookings.find((b) => b.id === DEMO_BOOKING_IDS[2]);
+	if (!demo) throw new Error('the third seeded session is missing');
 	day = ymdInZone(new Date(demo.start));
+	ref3 = demo.reference;
+	ref1 = bookings.find((b) => b.id === DEMO_BOOKING_IDS[0])!.reference;
 });
 
 interface Plan {
@@ -35,21 +41,21 @@ describe('GET /api/plan', () => {
 		expect(res.status).toBe(200);
 		const plan = (await res.json()) as Plan;
 		expect(plan.rooms.map((r) => r.slug)).toEqual(['live-room', 'vocal-booth', 'control-room']);
-		const live = plan.rooms.find((r) => r.slug === 'live-room')!.sessions.find((s) => s.reference === 'HP-DEMO3');
+		const live = plan.rooms.find((r) => r.slug === 'live-room')!.sessions.find((s) => s.reference === ref3);
 		expect(live?.artist.name).toContain('The Lantern Static');
-		expect(live?.recall?.fromBooking).toBe('HP-DEMO1');
+		expect(live?.recall?.fromBooking).toBe(ref1);
 		expect(live?.recall?.channels.map((c) => c.source)).toContain('Kick drum');
 	});
 
 	it('is for engineers and the owner only', async () => {
 		// Nothing of the day's plan in a refusal: not the session, its artist or its recall sheet.
-		const secrets = ['HP-DEMO3', 'Lantern', 'Kick drum'];
+		const secrets = [ref3, 'Lantern', 'Kick drum'];
 		await expectRefused(await new Client().fetch(`/api/plan?date=${day}`), 401, { secrets });
 		await expectRefused(await (await signedIn(DEMO.artist)).fetch(`/api/plan?date=${day}`), 403, { secrets });
 		await expectRefused(await (await signedIn(DEMO.accountant)).fetch(`/api/plan?date=${day}`), 403, { secrets });
 		const owner = await (await signedIn(DEMO.owner)).fetch(`/api/plan?date=${day}`);
 		expect(owner.status).toBe(200);
-		expect(await owner.text()).toContain('HP-DEMO3');
+		expect(await owner.text()).toContain(ref3);
 	});
 
 	it('answers 422 for a malformed date', async () => {
@@ -63,7 +69,7 @@ describe('GET /api/plan', () => {
 		const plan = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as Plan & {
 			rooms: { sessions: { id: string; ownRecall: unknown }[] }[];
 		};
-		const session = plan.rooms.flatMap((r) => r.sessions).find((s) => s.reference === 'HP-DEMO3') as unknown as { id: string };
+		const session = plan.rooms.flatMap((r) => r.sessions).find((s) => s.reference === ref3) as unknown as { id: string };
 		const res = await c.form(`/plan?/recall`, {
 			bookingId: session.id,
 			rows: '1',

@@ -1,9 +1,23 @@
 /**
- * Demo values of PRODUCT.md ("Demo scenario"): Hollow Pine Studio, an invented studio in a
+ * The demo studio's values: Hollow Pine Studio, an invented studio in a
  * converted barn outside Tampere, Finland. Shared by the seed script and the tests; not a real
  * business. Amounts are integer cents (EUR, ISO 4217: 2 decimals).
  */
 import type { RoomRates, StudioPolicy } from './types';
+
+/**
+ * The demo sessions' ids, in the order scripts/seed-bookings.ts seeds them: the demo ledger
+ * (src/lib/server/demo-ledger.ts) and the tests find the demo's bookings by these, never by
+ * anything in their references.
+ */
+export const DEMO_BOOKING_IDS = [
+	'de300000-0000-4000-8000-000000000001',
+	'de300000-0000-4000-8000-000000000002',
+	'de300000-0000-4000-8000-000000000003',
+	'de300000-0000-4000-8000-000000000004',
+	'de300000-0000-4000-8000-000000000005',
+	'de300000-0000-4000-8000-000000000006'
+] as const;
 
 export const DEMO_STUDIO = {
 	name: 'Hollow Pine Studio',

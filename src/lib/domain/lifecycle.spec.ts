@@ -1,5 +1,17 @@
 import { describe, expect, it } from 'vitest';
-import { closeRefusal } from './lifecycle';
+import {
+	BOOKING_STATUSES,
+	canMove,
+	closeRefusal,
+	hasEnded,
+	holdExpiry,
+	holdGone,
+	holdLapsed,
+	holdLive,
+	isBookingStatus,
+	isCancellable,
+	statusesBefore
+} from './lifecycle';
 
 const start = new Date('2027-03-02T08:00:00Z');
 
@@ -21,5 +33,62 @@ describe('closing a session', () => {
 		for (const status of ['held', 'pending', 'cancelled', 'expired', 'completed']) {
 			expect(closeRefusal({ status, startsAt: start }, later)?.code).toBe('not_confirmed');
 		}
+	});
+});
+
+describe('the moves of a booking', () => {
+	it('lets a hold be paid, wait for a delayed payment, lapse or be cancelled', () => {
+		for (const to of ['pending', 'confirmed', 'cancelled', 'expired'] as const) expect(canMove('held', to)).toBe(true);
+		expect(canMove('held', 'completed')).toBe(false);
+	});
+
+	it('completes only a confirmed booking, and nothing follows completed or cancelled', () => {
+		expect(statusesBefore('completed')).toEqual(['confirmed']);
+		for (const to of BOOKING_STATUSES) {
+			expect(canMove('completed', to)).toBe(false);
+			expect(canMove('cancelled', to)).toBe(false);
+		}
+	});
+
+	it('brings an expired hold back only through a payment that still arrives', () => {
+		expect(canMove('expired', 'confirmed')).toBe(true);
+		expect(canMove('expired', 'pending')).toBe(true);
+		expect(canMove('expired', 'held')).toBe(false);
+		expect(canMove('expired', 'cancelled')).toBe(false);
+	});
+
+	it('cancels what is still ahead and wanted, nothing else', () => {
+		expect(BOOKING_STATUSES.filter(isCancellable)).toEqual(['held', 'pending', 'confirmed']);
+		expect(statusesBefore('cancelled')).toEqual(['held', 'pending', 'confirmed']);
+		expect(BOOKING_STATUSES.filter(hasEnded)).toEqual(['cancelled', 'expired']);
+	});
+
+	it('knows its own words only', () => {
+		expect(isBookingStatus('held')).toBe(true);
+		expect(isBookingStatus('HELD')).toBe(false);
+		expect(isBookingStatus(undefined)).toBe(false);
+	});
+});
+
+describe('a hold running out', () => {
+	const expiry = new Date('2027-03-02T08:30:00Z');
+	const held = { status: 'held', holdExpiresAt: expiry };
+
+	it('has lapsed from its expiry on, not a millisecond before', () => {
+		expect(holdLapsed(held, new Date(expiry.getTime() - 1))).toBe(false);
+		expect(holdLapsed(held, expiry)).toBe(true);
+		expect(holdLapsed(held, expiry.toISOString())).toBe(true);
+		expect(holdLive(held, new Date(expiry.getTime() - 1))).toBe(true);
+		expect(holdLive(held, expiry)).toBe(false);
+	});
+
+	it('is about held bookings only, and a hold without an expiry never lapses', () => {
+		expect(holdLapsed({ status: 'pending', holdExpiresAt: expiry }, expiry.getTime() + 1)).toBe(false);
+		expect(holdLapsed({ status: 'held', holdExpiresAt: null }, expiry)).toBe(false);
+		expect(holdGone({ status: 'expired', holdExpiresAt: null }, 0)).toBe(true);
+	});
+
+	it('ends the studio’s hold time after it was made', () => {
+		expect(holdExpiry(new Date('2027-03-02T08:00:00Z'), 30).toISOString()).toBe('2027-03-02T08:30:00.000Z');
 	});
 });

@@ -1,4 +1,5 @@
-// JSON API helpers: every error has the shape { error, message, fields? } (PRODUCT.md).
+// JSON API helpers: every error has the one shape { error, message, fields? }, a code for programs
+// and words for people, so a client handles every refusal the same way.
 import { json } from '@sveltejs/kit';
 
 export function apiError(status: number, error: string, message: string, extra: Record<string, unknown> = {}) {

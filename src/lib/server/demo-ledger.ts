@@ -5,13 +5,14 @@
 // and the first one's balance paid, the second's still owed. Every document goes through the same
 // issuing code as a real one, in date order, so numbers stay gapless and in sequence.
 //
-// It touches only bookings whose reference starts with HP-DEMO and that have no payment yet, so
-// it does nothing on a real studio's database (SEED_DEMO=0 seeds no demo sessions).
-import { and, asc, eq, inArray, like, notExists, sql } from 'drizzle-orm';
+// It touches only the demo's own bookings (the ids the seed gives them, DEMO_BOOKING_IDS) that have
+// no payment yet, so it does nothing on a real studio's database (SEED_DEMO=0 seeds no demo sessions).
+import { and, asc, eq, inArray, notExists, sql } from 'drizzle-orm';
 import { db } from './db';
 import { booking, payment } from './db/schema';
 import { issueDepositInvoice, issueFinalInvoice } from './invoices/documents';
 import type { Tx } from './payments/core';
+import { DEMO_BOOKING_IDS } from '$lib/domain/demo';
 
 const DAY = 86_400_000;
 
@@ -26,7 +27,7 @@ export async function ensureDemoLedger(now = new Date()): Promise<number> {
 			.from(booking)
 			.where(
 				and(
-					like(booking.reference, 'HP-DEMO%'),
+					inArray(booking.id, [...DEMO_BOOKING_IDS]),
 					inArray(booking.status, ['confirmed', 'completed']),
 					notExists(
 						tx

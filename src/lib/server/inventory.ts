@@ -1,6 +1,6 @@
 // Rooms with their rate cards, and the gear inventory, as the owner keeps them. A rate change
 // touches only future quotes: a booking keeps the quote it was made with (booking.quote).
-import { asc, eq } from 'drizzle-orm';
+import { and, asc, eq, isNotNull } from 'drizzle-orm';
 import { db } from './db';
 import { gearItem, room } from './db/schema';
 import { audit } from './audit';
@@ -55,6 +55,23 @@ export async function updateRoom(actor: Actor, id: string, values: RoomValues): 
 /** Every piece of gear, retired ones last. */
 export async function listGear(): Promise<GearRow[]> {
 	return db.select().from(gearItem).orderBy(asc(gearItem.category), asc(gearItem.name));
+}
+
+/** The gear an artist may hire with a room (active, hireable, kept in a room), for the booking page. */
+export async function listHireableGear() {
+	return db
+		.select({
+			id: gearItem.id,
+			name: gearItem.name,
+			category: gearItem.category,
+			description: gearItem.description,
+			hireFee: gearItem.hireFee,
+			caution: gearItem.caution,
+			homeRoomId: gearItem.homeRoomId
+		})
+		.from(gearItem)
+		.where(and(eq(gearItem.active, true), eq(gearItem.hireable, true), isNotNull(gearItem.homeRoomId)))
+		.orderBy(asc(gearItem.category), asc(gearItem.name));
 }
 
 async function roomExists(id: string | null): Promise<boolean> {

@@ -1,27 +1,28 @@
-// Work that happens on its own, without anyone visiting a page: expired holds free their slot.
-import { and, eq, lt } from 'drizzle-orm';
-import { db } from './db';
-import { booking } from './db/schema';
+// Work that happens on its own, without anyone visiting a page, every one of it named here and
+// started from start-up (hooks.server.ts) and stopped on shutdown:
+// - holds whose time ran out free their slot;
+// - Checkout Sessions of holds that lapsed are expired, and sessions no webhook told us about are
+//   reconciled; refunds recorded but not sent are sent (payments/jobs.ts, payments/refunds.ts);
+// - the e-mail outbox is sent;
+// - files a crash left behind are removed.
 import { databaseTrouble } from './db/trouble';
+import { expireLapsedHolds } from './bookings/occupancy';
+import { sweepCheckouts } from './payments/jobs';
+import { sweepRefunds } from './payments/refunds';
+import { flushOutbox } from './mail/outbox';
+import { sweepStraysNow } from './uploads';
+
+/** In order; each is tried on its own, so a failure of one never keeps the others from running. */
+const PERIODIC_JOBS: Array<() => Promise<unknown>> = [
+	() => expireLapsedHolds(),
+	() => sweepCheckouts(),
+	() => sweepRefunds(),
+	() => flushOutbox(),
+	() => sweepStraysNow()
+];
 
 let started = false;
 let timer: ReturnType<typeof setInterval> | null = null;
-
-export async function expireStaleHolds(now = new Date()): Promise<number> {
-	const rows = await db
-		.update(booking)
-		.set({ status: 'expired' })
-		.where(and(eq(booking.status, 'held'), lt(booking.holdExpiresAt, now)))
-		.returning({ id: booking.id });
-	return rows.length;
-}
-
-const extraJobs: Array<() => Promise<unknown>> = [];
-
-/** Other modules add their periodic work here (the mail outbox, for one). */
-export function addPeriodicJob(job: () => Promise<unknown>) {
-	extraJobs.push(job);
-}
 
 export function startBackgroundJobs(intervalMs = 15_000) {
 	if (started) return;
@@ -34,7 +35,7 @@ export function startBackgroundJobs(intervalMs = 15_000) {
 		if (running) return;
 		running = true;
 		try {
-			for (const job of [expireStaleHolds, ...extraJobs]) {
+			for (const job of PERIODIC_JOBS) {
 				try {
 					await job();
 				} catch (e) {

@@ -30,8 +30,8 @@ import {
 	type UploadLimits
 } from '$lib/domain/uploads';
 import { db } from './db';
-import { booking, upload, type BookingStatus } from './db/schema';
-import { addPeriodicJob } from './jobs';
+import { booking, upload } from './db/schema';
+import { holdLapsed, isCancellable, type BookingStatus } from '$lib/domain/lifecycle';
 import { isBodyTooLarge, type IncomingFile } from './multipart';
 import type { SessionUser } from './auth';
 
@@ -47,9 +47,6 @@ export interface Failure {
 const fail = (status: Failure['status'], error: string, message: string): Failure => ({ ok: false, status, error, message });
 const NOT_FOUND = fail(404, 'not_found', 'No such booking.');
 const FORBIDDEN = fail(403, 'forbidden', 'Your role does not give access to the files of a booking.');
-
-/** Statuses in which a booking takes new files (a held booking only while its hold lasts). */
-export const UPLOADS_OPEN: BookingStatus[] = ['held', 'pending', 'confirmed'];
 
 export function limits(): UploadLimits {
 	return uploadLimits(env.UPLOAD_MAX_BYTES);
@@ -67,9 +64,9 @@ function storedPath(storageKey: string): string {
 	return full;
 }
 
+/** A booking takes new files while it is still ahead and wanted, a held one only while its hold lasts. */
 export function uploadsOpen(b: { status: BookingStatus; holdExpiresAt: Date | null }, now = new Date()): boolean {
-	if (!UPLOADS_OPEN.includes(b.status)) return false;
-	return !(b.status === 'held' && b.holdExpiresAt && b.holdExpiresAt.getTime() <= now.getTime());
+	return isCancellable(b.status) && !holdLapsed(b, now);
 }
 
 type Access = 'read' | 'write';
@@ -360,14 +357,10 @@ export async function sweepStrays(now = Date.now()): Promise<number> {
 	return removed;
 }
 
-let registered = false;
-export function registerUploadJobs() {
-	if (registered) return;
-	registered = true;
-	addPeriodicJob(async () => {
-		if (Date.now() - lastSweep < SWEEP_EVERY_MS) return;
-		lastSweep = Date.now();
-		const removed = await sweepStrays();
-		if (removed) console.info(`[uploads] removed ${removed} stray file(s)`);
-	});
+/** The periodic job's turn: sweeps at most every SWEEP_EVERY_MS, whatever the jobs' interval. */
+export async function sweepStraysNow(): Promise<void> {
+	if (Date.now() - lastSweep < SWEEP_EVERY_MS) return;
+	lastSweep = Date.now();
+	const removed = await sweepStrays();
+	if (removed) console.info(`[uploads] removed ${removed} stray file(s)`);
 }

@@ -1,14 +1,10 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
-import { and, asc, eq, isNotNull } from 'drizzle-orm';
-import { db } from '$lib/server/db';
-import { gearItem } from '$lib/server/db/schema';
-import { availability, createHold } from '$lib/server/bookings';
+import { listHireableGear } from '$lib/server/inventory';
+import * as bookings from '$lib/server/bookings';
 import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
-import { startDepositCheckout } from '$lib/server/payments';
-import { audit } from '$lib/server/audit';
-import { bookPath, choicesFromQuery, requestBody, YMD_RE, type BookingChoices } from '$lib/components/booking/choices';
+import { bookPath, choicesFromQuery, YMD_RE, type BookingChoices } from '$lib/components/booking/choices';
 import { addDays, wallClock } from '$lib/domain/time';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import { mayBook } from '$lib/roles';
@@ -25,23 +21,7 @@ function refuseNonBookers(locals: App.Locals) {
 
 export const load: PageServerLoad = async ({ url, locals }) => {
 	refuseNonBookers(locals);
-	const [{ studio, policy }, rows, gearRows] = await Promise.all([
-		getPolicy(),
-		listRooms(),
-		db
-			.select({
-				id: gearItem.id,
-				name: gearItem.name,
-				category: gearItem.category,
-				description: gearItem.description,
-				hireFee: gearItem.hireFee,
-				caution: gearItem.caution,
-				homeRoomId: gearItem.homeRoomId
-			})
-			.from(gearItem)
-			.where(and(eq(gearItem.active, true), eq(gearItem.hireable, true), isNotNull(gearItem.homeRoomId)))
-			.orderBy(asc(gearItem.category), asc(gearItem.name))
-	]);
+	const [{ studio, policy }, rows, gearRows] = await Promise.all([getPolicy(), listRooms(), listHireableGear()]);
 	const rooms = rows.map((r) => ({ ...publicRoom(r, studio.currency), id: r.id }));
 	const slugOf = new Map(rooms.map((r) => [r.id, r.slug]));
 
@@ -74,7 +54,7 @@ export const load: PageServerLoad = async ({ url, locals }) => {
 	// asks GET /api/availability again when the room or the day changes.
 	let open: AvailabilityBody | null = null;
 	if (room && form.data.date) {
-		const result = await availability({ room, from: form.data.date, to: form.data.date });
+		const result = await bookings.availability({ room, from: form.data.date, to: form.data.date });
 		if (result.ok) open = result.body;
 	}
 
@@ -134,8 +114,13 @@ export const actions: Actions = {
 		refuseNonBookers(locals);
 		if (!form.valid) return fail(422, { form });
 
-		const { studio } = await getPolicy();
-		const outcome = await createHold(locals.user, requestBody(form.data, studio));
+		const ctx = await bookings.pricingContext();
+		const { studio } = ctx;
+		const outcome = await bookings.holdAndCheckout(locals.user, bookings.requestFromForm(form.data, studio), {
+			origin: url.origin,
+			ip: getClientAddress(),
+			ctx
+		});
 		if (!outcome.ok) {
 			if (outcome.status === 409) {
 				return message(
@@ -162,19 +147,6 @@ export const actions: Actions = {
 			return message(form, { kind: 'error', text: general.join(' ') || outcome.message }, { status: 422 });
 		}
 
-		const booking = outcome.booking;
-		await audit({
-			actorId: locals.user.id,
-			action: 'booking.held',
-			entity: 'booking',
-			entityId: booking.id,
-			ip: getClientAddress()
-		});
-		const checkout = await startDepositCheckout(booking.id, url.origin).catch((e: unknown) => {
-			// The hold stands; the booking page offers the deposit payment again.
-			console.warn('[book] could not start the deposit checkout', (e as Error).message);
-			return null;
-		});
-		redirect(303, checkout?.url ?? `/bookings/${booking.id}`);
+		redirect(303, outcome.checkoutUrl ?? `/bookings/${outcome.booking.id}`);
 	}
 };

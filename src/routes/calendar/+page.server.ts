@@ -1,4 +1,4 @@
-import { availability } from '$lib/server/bookings';
+import * as bookings from '$lib/server/bookings';
 import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
 import { publicHolidayList } from '$lib/domain/holidays';
 import { isCalendarDate } from '$lib/components/booking/choices';
@@ -22,7 +22,7 @@ export const load: PageServerLoad = async ({ url }) => {
 	// The first week is rendered on the server too, so the list of free times works before (and
 	// without) the calendar's script; the browser refetches as the visitor moves between weeks.
 	const slugs = room === 'all' ? rooms.map((r) => r.slug) : [room];
-	const results = await Promise.all(slugs.map((slug) => availability({ room: slug, from, to })));
+	const results = await Promise.all(slugs.map((slug) => bookings.availability({ room: slug, from, to })));
 	const initial: Record<string, AvailabilityBody> = {};
 	results.forEach((r, i) => {
 		if (r.ok) initial[slugs[i]!] = r.body;

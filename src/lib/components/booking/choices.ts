@@ -3,7 +3,7 @@
 // Times are local wall times in the studio's zone ('YYYY-MM-DD', 'HH:MM'); the server turns them
 // into instants (parseBookingInstant), refusing a wall time that the clocks skip.
 
-import { addWallMinutes, wallClock } from '$lib/domain/time';
+import { wallClock } from '$lib/domain/time';
 import { isStudioDate } from '$lib/schemas/input';
 
 export const BOOKING_KINDS = ['hourly', 'half', 'full'] as const;
@@ -44,22 +44,6 @@ export function lengthMinutes(kind: BookingKind, hours: number, lengths: BlockLe
 	if (kind === 'half') return lengths.halfDayMinutes;
 	if (kind === 'full') return lengths.fullDayMinutes;
 	return Math.round(hours * 60);
-}
-
-/** The body that POST /api/quote and createHold take, built from the choices. */
-export function requestBody(c: BookingChoices, lengths: BlockLengths) {
-	const minutes = lengthMinutes(c.kind, c.hours, lengths);
-	// A date or start that is not one (a form sent back with errors) gives no times at all.
-	const when = isCalendarDate(c.date) && HHMM_RE.test(c.start);
-	return {
-		room: c.room,
-		start: when ? `${c.date}T${c.start}` : '',
-		end: when && minutes > 0 ? addWallMinutes(c.date, c.start, minutes) : '',
-		engineer: c.engineer,
-		gear: c.gear,
-		project: c.project ?? '',
-		notes: c.notes ?? ''
-	};
 }
 
 /** The query string that brings the booking page back with these choices (notes stay out). */

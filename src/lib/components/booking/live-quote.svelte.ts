@@ -2,7 +2,9 @@
 // choices stop changing, with an older answer dropped when a newer question is on its way.
 import type { QuoteView } from './PriceBreakdown.svelte';
 
-export type QuoteBody = ReturnType<typeof import('./choices').requestBody>;
+import type { BookingRequest } from '$lib/schemas/booking';
+
+export type QuoteBody = BookingRequest;
 
 export class LiveQuote {
 	quote = $state<QuoteView | null>(null);

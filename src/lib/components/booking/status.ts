@@ -1,6 +1,5 @@
 // A booking's status in plain words, shared by the booking page and the lists.
-/** The statuses of src/lib/server/db/schema.ts (kept here: this module runs in the browser). */
-export type BookingStatus = 'held' | 'pending' | 'confirmed' | 'completed' | 'cancelled' | 'expired';
+import type { BookingStatus } from '$lib/domain/lifecycle';
 
 export const STATUS_LABELS: Record<BookingStatus, string> = {
 	held: 'Held',

@@ -23,6 +23,8 @@ import {
 } from 'drizzle-orm/pg-core';
 import { user } from './auth-schema';
 import type { CancellationRung, OpeningHours } from '$lib/domain/types';
+// A relative import: drizzle-kit and the scripts load this file without SvelteKit's aliases.
+import { BOOKING_STATUSES, type BookingStatus } from '../../domain/lifecycle';
 
 export * from './auth-schema';
 
@@ -143,17 +145,15 @@ export const gearItem = pgTable(
 	(t) => [check('gear_fee_non_negative', sql`${t.hireFee} >= 0`)]
 );
 
-/** Booking status. A hold keeps its slot until hold_expires_at; expired and cancelled free it. */
-export const BOOKING_STATUSES = ['held', 'pending', 'confirmed', 'completed', 'cancelled', 'expired'] as const;
-export type BookingStatus = (typeof BOOKING_STATUSES)[number];
-/** Statuses that occupy the room, the engineer and the gear (matches the exclusion constraints). */
-export const ACTIVE_BOOKING_STATUSES: BookingStatus[] = ['held', 'pending', 'confirmed', 'completed'];
+// A booking's statuses and their moves are the domain's (src/lib/domain/lifecycle.ts). A hold keeps its
+// slot until hold_expires_at; expired and cancelled free it.
+export { BOOKING_STATUSES, type BookingStatus };
 
 export const booking = pgTable(
 	'booking',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
-		/** Short reference shown to people, e.g. "HP-7K3QX". */
+		/** Short reference shown to people, e.g. "7K3Q-XM2P". */
 		reference: text('reference').notNull().unique(),
 		roomId: uuid('room_id')
 			.notNull()
@@ -189,7 +189,7 @@ export const booking = pgTable(
 		index('booking_artist_idx').on(t.artistId, t.startsAt),
 		index('booking_status_idx').on(t.status, t.holdExpiresAt),
 		check('booking_times', sql`${t.endsAt} > ${t.startsAt} and ${t.busyUntil} >= ${t.endsAt}`),
-		check('booking_status_known', sql`${t.status} in ('held','pending','confirmed','completed','cancelled','expired')`),
+		check('booking_status_known', sql`${t.status} in (${sql.raw(BOOKING_STATUSES.map((s) => `'${s}'`).join(','))})`),
 		check('booking_money', sql`${t.total} >= 0 and ${t.deposit} >= 0 and ${t.deposit} <= ${t.total}`)
 	]
 );

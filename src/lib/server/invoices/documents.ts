@@ -77,7 +77,7 @@ export async function bookingForDocuments(tx: Tx, bookingId: string): Promise<Bo
 	};
 }
 
-/** "Live room, Tuesday 2 March 2027, 10:00–15:00 (booking HP-7K3QX)". */
+/** "Live room, Tuesday 2 March 2027, 10:00–15:00 (booking 7K3Q-XM2P)". */
 export function sessionWords(
 	b: Pick<BookingForDocuments, 'roomName' | 'startsAt' | 'endsAt' | 'reference'>,
 	timeZone: string

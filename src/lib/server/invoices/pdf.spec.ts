@@ -62,7 +62,7 @@ describe('invoice PDF', () => {
 			invoice,
 			lines: [line(1, 'Live room, half day (4 h)', 12749, 16000), line(2, 'Live room, hourly (1 h) – “överdub”', 3586, 4500)],
 			timeZone: 'Europe/Helsinki',
-			bookingReference: 'HP-7K3QX',
+			bookingReference: '7K3Q-XM2P',
 			preceding: { number: 'DEP-2027-0001', issuedAt: new Date('2027-02-01T10:00:00Z') }
 		});
 		expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');

@@ -10,7 +10,7 @@ const helsinki = (wall: string) => new Date(Temporal.ZonedDateTime.from(`${wall}
 function facts(over: Partial<ConfirmationFacts> = {}): ConfirmationFacts {
 	return {
 		bookingId: '7f1c2a9e-52b4-4c1d-9e0a-3b6f4d2c8a11',
-		reference: 'HP-7K3QX',
+		reference: '7K3Q-XM2P',
 		sequence: 0,
 		// 2027-03-28 is the EU spring change (Directive 2000/84/EC): Helsinki is UTC+3 from 04:00.
 		startsAt: helsinki('2027-03-28T10:00'),
@@ -105,7 +105,7 @@ describe('the confirmation message', () => {
 		expect(m.text).toContain('Engineer:  none booked');
 		expect(m.text).not.toContain('Gear:');
 		expect(m.text).not.toContain('Project:');
-		expect(m.text).toContain('Engineer:  none booked\n  Reference: HP-7K3QX');
+		expect(m.text).toContain('Engineer:  none booked\n  Reference: 7K3Q-XM2P');
 		expect(m.text).toContain('Write a running order');
 	});
 });

@@ -1,12 +1,12 @@
-// E-mail: the outbox, the messages the studio sends, and their registration with the periodic
-// jobs and the payment facts. hooks.server.ts calls registerMail() once at start-up.
+// E-mail: the messages the studio sends about a booking, queued in the outbox inside the
+// transaction that confirms or cancels it (payments/state.ts and payments/refunds.ts call these);
+// the periodic jobs (src/lib/server/jobs.ts) send what is queued.
 import { and, eq } from 'drizzle-orm';
 import { booking, bookingGear, gearItem, room, studio, user } from '../db/schema';
-import { addPeriodicJob } from '../jobs';
-import { onBookingCancelled, onBookingConfirmed, type CancellationFact } from '../payments';
+import type { CancellationFact } from '../payments/refunds';
 import type { Tx } from '../payments/core';
 import { composeCancellation, composeConfirmation, type ConfirmationFacts } from './confirmation';
-import { enqueueMail, flushOutbox, flushSoon } from './outbox';
+import { enqueueMail, flushSoon } from './outbox';
 import { publicOrigin } from './transport';
 
 export { flushOutbox } from './outbox';
@@ -88,14 +88,4 @@ export async function queueCancellation(tx: Tx, fact: CancellationFact): Promise
 		attachments: [calendarAttachment(facts.reference, mail.ics, 'CANCEL')]
 	});
 	flushSoon();
-}
-
-let registered = false;
-
-export function registerMail() {
-	if (registered) return;
-	registered = true;
-	onBookingConfirmed(queueConfirmation);
-	onBookingCancelled(queueCancellation);
-	addPeriodicJob(() => flushOutbox());
 }

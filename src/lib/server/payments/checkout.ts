@@ -19,6 +19,7 @@ import { stripe } from './stripe';
 import { isExactStripeAmount, toStripeAmount } from '$lib/domain/money';
 import { formatDate, formatTime } from '$lib/domain/time';
 import { formatMoney } from '$lib/domain/money';
+import { holdLive } from '$lib/domain/lifecycle';
 
 export type CheckoutKind = 'deposit' | 'balance';
 
@@ -60,7 +61,7 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 		let amount: number;
 		let expiresAt: Date;
 		if (kind === 'deposit') {
-			if (b.status !== 'held' || (b.holdExpiresAt && b.holdExpiresAt <= now)) {
+			if (!holdLive(b, now)) {
 				throw new CheckoutError('not_payable', 'This booking is not waiting for its deposit.');
 			}
 			if (mine.some((p) => p.status === 'paid' || p.status === 'processing')) {

@@ -3,10 +3,10 @@
 // every line of the quote, the deposit deducted as paid on account; the booking is completed.
 import { and, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
-import { bookingGear, booking, gearItem, room } from '../db/schema';
+import { bookingGear, gearItem, room } from '../db/schema';
 import { getPolicy, roomRates } from '../studio';
 import type { SessionUser } from '../auth';
-import { inTransaction, lockBooking, pgCode } from './core';
+import { inTransaction, lockBooking, pgCode, setBookingStatus } from './core';
 import { auditTx } from './state';
 import { issueFinalInvoice } from '../invoices/documents';
 import { overtimeCharge, quoteBooking, type OvertimeCharge, type Quote } from '$lib/domain/pricing';
@@ -133,7 +133,7 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 				}
 			}
 
-			await tx.update(booking).set({ status: 'completed', actualEndsAt: actualEnd }).where(eq(booking.id, b.id));
+			await setBookingStatus(tx, b, 'completed', { actualEndsAt: actualEnd });
 			const final = await issueFinalInvoice(tx, { bookingId: b.id, overtimeLines: overtime?.lines ?? [], extraLines });
 			await auditTx(
 				tx,

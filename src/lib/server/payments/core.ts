@@ -3,6 +3,7 @@
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from '../db';
 import { booking, payment, refund, type BookingStatus } from '../db/schema';
+import { canMove } from '$lib/domain/lifecycle';
 import type { Tx } from '../invoices/issue';
 
 export type { Tx };
@@ -114,13 +115,18 @@ export function isLiveDeposit(p: PaymentRow, now = new Date()): boolean {
 	return p.status === 'open' && (!p.expiresAt || p.expiresAt > now);
 }
 
-export const HOLDING_STATUSES: BookingStatus[] = ['held', 'pending'];
-
-export async function setBookingStatus(tx: Tx, bookingId: string, status: BookingStatus, extra: Partial<BookingRow> = {}) {
+/** Moves a locked booking on in its life; a move the lifecycle does not allow is a bug, never done. */
+export async function setBookingStatus(
+	tx: Tx,
+	b: Pick<BookingRow, 'id' | 'status'>,
+	status: BookingStatus,
+	extra: Partial<BookingRow> = {}
+) {
+	if (!canMove(b.status, status)) throw new Error(`A booking cannot go from ${b.status} to ${status}.`);
 	await tx
 		.update(booking)
 		.set({ ...extra, status })
-		.where(and(eq(booking.id, bookingId)));
+		.where(and(eq(booking.id, b.id)));
 }
 
 /** Runs work for each item on its own: a failure is logged and the next item still runs. */

@@ -1,9 +1,7 @@
 // Payments through Stripe Checkout: deposits, balances, refunds and the webhook that confirms
-// them. The booking routes and the booking page use these entry points.
-import { registerPaymentJobs } from './jobs';
+// them. The booking routes and the booking page use these entry points; the periodic sweeps are
+// started with the other jobs (src/lib/server/jobs.ts).
 import { startCheckout } from './checkout';
-
-registerPaymentJobs();
 
 /** Creates (or hands back the open) Checkout Session for a held booking's deposit. */
 export async function startDepositCheckout(bookingId: string, origin: string): Promise<{ url: string; sessionId: string }> {
@@ -12,16 +10,7 @@ export async function startDepositCheckout(bookingId: string, origin: string): P
 
 export { startCheckout, CheckoutError, type CheckoutKind } from './checkout';
 export { loadMoneyPanel } from './panel';
-export {
-	cancelBooking,
-	previewCancellation,
-	retryFailedRefunds,
-	cancelAccess,
-	onBookingCancelled,
-	type CancellationFact
-} from './refunds';
+export { cancelBooking, previewCancellation, retryFailedRefunds, cancelAccess, type CancellationFact } from './refunds';
 export { closeBooking } from './close';
 export { processStripeEvent } from './webhook';
-export { onBookingConfirmed } from './state';
-export { registerPaymentJobs } from './jobs';
 export type { MoneyPanelData } from '$lib/types/money';

@@ -10,10 +10,10 @@ import { and, asc, eq, inArray, isNotNull, isNull, lt, or, sql } from 'drizzle-o
 import type Stripe from 'stripe';
 import { db } from '../db';
 import { booking, payment } from '../db/schema';
-import { addPeriodicJob } from '../jobs';
+import { holdLapsedSql } from '../bookings/occupancy';
+import { BOOKING_STATUSES, awaitsDeposit } from '$lib/domain/lifecycle';
 import { eachIsolated, inTransaction, isMissing } from './core';
-import { applySession, setSenders } from './state';
-import { sendRefund, sweepRefunds } from './refunds';
+import { applySession } from './state';
 import { stripe } from './stripe';
 
 /** How long the job leaves a checkout it has asked about before asking again. */
@@ -97,9 +97,13 @@ export async function sweepCheckouts(now = new Date()): Promise<void> {
 				eq(payment.status, 'open'),
 				eq(payment.kind, 'deposit'),
 				isNotNull(payment.checkoutSessionId),
+				// No longer waiting for this deposit: moved on, or a hold that ran out.
 				or(
-					inArray(booking.status, ['expired', 'cancelled', 'confirmed', 'completed']),
-					and(eq(booking.status, 'held'), lt(booking.holdExpiresAt, now))
+					inArray(
+						booking.status,
+						BOOKING_STATUSES.filter((s) => !awaitsDeposit(s))
+					),
+					holdLapsedSql(now)
 				)
 			)
 		)
@@ -135,16 +139,4 @@ export async function sweepCheckouts(now = new Date()): Promise<void> {
 		// Only a final answer changes anything.
 		else if (session.status !== 'open') await reconcileSession(session);
 	});
-}
-
-let registered = false;
-
-/** Idempotent; the payments module calls it on load. hooks.server.ts may call it at start-up too. */
-export function registerPaymentJobs() {
-	if (registered) return;
-	registered = true;
-	setSenders({ refund: sendRefund, expireSession: expireAndReconcile });
-	// Two jobs: a failure of one never keeps the other from running.
-	addPeriodicJob(() => sweepCheckouts());
-	addPeriodicJob(() => sweepRefunds());
 }

@@ -1,7 +1,7 @@
 // What the booking page shows about money, scoped to the viewer (OWASP ASVS 8.2.2): the artist
 // sees their own booking's payments, refunds and documents; the owner also sees why a refund
 // failed and may try it again; the owner and engineers record the end of a session. Engineers see
-// the money (they see each booking with its price) and which documents exist, but not the
+// the money (they read bookings with their price) and which documents exist, but not the
 // documents themselves (those are for the artist, the owner and the accountant).
 import { and, asc, eq } from 'drizzle-orm';
 import { z } from 'zod';
@@ -11,9 +11,9 @@ import { getStudio } from '../studio';
 import type { SessionUser } from '../auth';
 import { loadMoneyState } from './core';
 import { unresolvedFailures } from './state';
-import { cancelAccess, isCancellable, previewCancellation } from './refunds';
+import { cancelAccess, previewCancellation } from './refunds';
 import { documentKindLabel, payableTotal } from '$lib/domain/invoice';
-import { closeRefusal } from '$lib/domain/lifecycle';
+import { closeRefusal, holdLive, isCancellable } from '$lib/domain/lifecycle';
 import { wallDateTime } from '$lib/domain/time';
 import type { MoneyPanelData } from '$lib/types/money';
 
@@ -60,7 +60,6 @@ export async function loadMoneyPanel(
 	};
 
 	const depositPaid = state.payments.some((p) => p.kind === 'deposit' && (p.status === 'paid' || p.status === 'processing'));
-	const holdLive = row.status === 'held' && (!row.holdExpiresAt || row.holdExpiresAt > now);
 	const canCancel = mayPay && isCancellable(row.status) && cancelAccess(viewer, row) === 'ok';
 	const preview = canCancel ? await previewCancellation(row, now) : null;
 
@@ -129,7 +128,9 @@ export async function loadMoneyPanel(
 		})),
 		actions: {
 			payDeposit:
-				mayPay && holdLive && !depositPaid && row.deposit > 0 ? { amount: row.deposit, checkoutUrl: openLink('deposit') } : null,
+				mayPay && holdLive(row, now) && !depositPaid && row.deposit > 0
+					? { amount: row.deposit, checkoutUrl: openLink('deposit') }
+					: null,
 			payBalance:
 				mayPay &&
 				row.status === 'completed' &&

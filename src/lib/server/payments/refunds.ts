@@ -22,13 +22,14 @@ import {
 	type BookingRow,
 	type MoneyState,
 	type PaymentRow,
-	type RefundRow,
-	type Tx
+	type RefundRow
 } from './core';
 import { applyRefundObject, auditTx, queueRefund, unresolvedFailures } from './state';
 import { expireSession } from './checkout';
 import { stripe } from './stripe';
+import { queueCancellation } from '../mail';
 import { refundForCancellation } from '$lib/domain/pricing';
+import { isCancellable } from '$lib/domain/lifecycle';
 import { toStripeAmount } from '$lib/domain/money';
 
 export interface CancellationFact {
@@ -41,21 +42,8 @@ export interface CancellationFact {
 	/** What was paid and stays with the studio. */
 	retained: number;
 }
-type CancellationListener = (tx: Tx, fact: CancellationFact) => Promise<void>;
-const cancellationListeners: CancellationListener[] = [];
 
-/** Other modules (the cancellation e-mail) run inside the transaction that cancels a booking. */
-export function onBookingCancelled(listener: CancellationListener) {
-	cancellationListeners.push(listener);
-}
-
-export const CANCELLABLE = ['held', 'pending', 'confirmed'] as const;
-
-export function isCancellable(status: string): boolean {
-	return (CANCELLABLE as readonly string[]).includes(status);
-}
-
-/** Who may cancel: the booking's artist and the owner (PRODUCT.md, public API). */
+/** Who may cancel: the booking's artist and the owner; another artist's booking is not theirs to know of. */
 export function cancelAccess(actor: SessionUser, b: Pick<BookingRow, 'artistId'>): 'ok' | 'not_found' | 'forbidden' {
 	if (actor.role === 'owner') return 'ok';
 	if (actor.role === 'artist') return b.artistId === actor.id ? 'ok' : 'not_found';
@@ -161,15 +149,14 @@ export async function cancelBooking(
 			return { ok: false, status: 409, code: 'not_cancellable', message };
 		}
 		const r = refundForCancellation({ paid: state.held, deposit: b.deposit, bookingStart: b.startsAt, cancelledAt: now, policy });
-		await setBookingStatus(tx, b.id, 'cancelled', {
+		await setBookingStatus(tx, b, 'cancelled', {
 			cancelledAt: now,
 			cancelledBy: actor.id,
 			cancelReason: input.reason?.trim() || null,
 			holdExpiresAt: null
 		});
-		for (const listener of cancellationListeners) {
-			await listener(tx, { bookingId: b.id, was: b.status, refund: r.refund, rule: r.rungLabel, retained: r.retained });
-		}
+		// The notice to the artist is queued in the transaction that cancels, so it exists exactly once with it.
+		await queueCancellation(tx, { bookingId: b.id, was: b.status, refund: r.refund, rule: r.rungLabel, retained: r.retained });
 		// The refund comes out of the paid payments, the deposit first.
 		const refunds: RefundRow[] = [];
 		let left = r.refund;

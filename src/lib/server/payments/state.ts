@@ -13,7 +13,6 @@ import { and, eq, isNull, sql } from 'drizzle-orm';
 import { auditLog, booking, invoice, payment, refund } from '../db/schema';
 import { issueCreditNote, issueDepositInvoice } from '../invoices/documents';
 import {
-	HOLDING_STATUSES,
 	isLiveDeposit,
 	lockBooking,
 	paymentsOf,
@@ -26,29 +25,14 @@ import {
 	type RefundRow,
 	type Tx
 } from './core';
+import { queueConfirmation } from '../mail';
+import { sendRefund } from './refunds';
+import { expireAndReconcile } from './jobs';
 import type Stripe from 'stripe';
 import { formatMoney, fromStripeAmount, toStripeAmount } from '$lib/domain/money';
+import { awaitsDeposit } from '$lib/domain/lifecycle';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
-type ConfirmationListener = (tx: Tx, bookingId: string) => Promise<void>;
-const confirmationListeners: ConfirmationListener[] = [];
-
-/**
- * Other modules (the confirmation e-mail, for one) run inside the transaction that confirms a
- * booking, so their work is made exactly once with the confirmation (e.g. an email_outbox row).
- */
-export function onBookingConfirmed(listener: ConfirmationListener) {
-	confirmationListeners.push(listener);
-}
-
-// Late imports of sending functions would make a cycle; the sender registers itself here.
-let refundSender: ((refundId: string) => Promise<void>) | null = null;
-let sessionExpirer: ((sessionId: string) => Promise<void>) | null = null;
-export function setSenders(senders: { refund: (id: string) => Promise<void>; expireSession: (id: string) => Promise<void> }) {
-	refundSender = senders.refund;
-	sessionExpirer = senders.expireSession;
-}
 
 export async function auditTx(tx: Tx, action: string, bookingId: string, data: unknown, actorId: string | null = null) {
 	await tx.insert(auditLog).values({ actorId, action, entity: 'booking', entityId: bookingId, data: data ?? null });
@@ -203,7 +187,7 @@ async function depositArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: After
 		}
 		await auditTx(tx, 'booking.confirmed_late', b.id, { paymentId: p.id });
 	} else {
-		await setBookingStatus(tx, b.id, 'confirmed', { holdExpiresAt: null });
+		await setBookingStatus(tx, b, 'confirmed', { holdExpiresAt: null });
 	}
 	await confirmed(tx, b, p, after);
 	return 'confirmed';
@@ -226,12 +210,13 @@ async function settledAfterCancellation(tx: Tx, b: BookingRow, p: PaymentRow, af
 async function confirmed(tx: Tx, b: BookingRow, p: PaymentRow, after: AfterCommit) {
 	await issueDepositInvoice(tx, { paymentId: p.id });
 	await auditTx(tx, 'booking.confirmed', b.id, { paymentId: p.id });
-	for (const listener of confirmationListeners) await listener(tx, b.id);
+	// The confirmation e-mail is queued in the transaction that confirms, so it exists exactly once with it.
+	await queueConfirmation(tx, b.id);
 	// Other open deposit sessions of this booking can no longer be wanted.
 	for (const other of await paymentsOf(tx, b.id)) {
 		if (other.kind === 'deposit' && other.status === 'open' && other.checkoutSessionId && other.id !== p.id) {
 			const id = other.checkoutSessionId;
-			after.push(() => sessionExpirer?.(id) ?? Promise.resolve());
+			after.push(() => expireAndReconcile(id));
 		}
 	}
 }
@@ -276,9 +261,9 @@ async function markMismatch(
 		asked: { amount: p.amount, currency: p.currency },
 		reported: { amount: session.amount_total ?? null, currency: session.currency ?? null }
 	});
-	if (p.kind === 'deposit' && HOLDING_STATUSES.includes(b.status)) {
+	if (p.kind === 'deposit' && awaitsDeposit(b.status)) {
 		const live = (await paymentsOf(tx, b.id)).some((x) => x.id !== p.id && isLiveDeposit(x));
-		if (!live) await setBookingStatus(tx, b.id, 'expired');
+		if (!live) await setBookingStatus(tx, b, 'expired');
 	}
 	return 'amount_mismatch';
 }
@@ -288,7 +273,7 @@ async function markProcessing(tx: Tx, b: BookingRow, p: PaymentRow): Promise<str
 	await tx.update(payment).set({ status: 'processing' }).where(eq(payment.id, p.id));
 	if (p.kind === 'deposit') {
 		// A delayed method (bank debit): the slot stays the artist's while the money is on its way.
-		if (b.status === 'held') await setBookingStatus(tx, b.id, 'pending', { holdExpiresAt: null });
+		if (b.status === 'held') await setBookingStatus(tx, b, 'pending', { holdExpiresAt: null });
 		else if (b.status === 'expired') await revive(tx, b.id, 'pending'); // if the slot has gone, the settled payment is refunded
 	}
 	return 'processing';
@@ -303,11 +288,11 @@ async function markEnded(
 ): Promise<string> {
 	if (p.status === 'paid' || p.status === 'failed' || p.status === 'expired') return `already_${p.status}`;
 	await tx.update(payment).set({ status, failureReason: reason }).where(eq(payment.id, p.id));
-	if (p.kind === 'deposit' && HOLDING_STATUSES.includes(b.status)) {
+	if (p.kind === 'deposit' && awaitsDeposit(b.status)) {
 		const live = (await paymentsOf(tx, b.id)).some((x) => x.id !== p.id && isLiveDeposit(x));
 		if (!live) {
 			// The deposit did not come: the slot goes back to the calendar.
-			await setBookingStatus(tx, b.id, 'expired');
+			await setBookingStatus(tx, b, 'expired');
 			await auditTx(tx, 'booking.expired_unpaid', b.id, { paymentId: p.id, status });
 			return `${status}_booking_expired`;
 		}
@@ -346,7 +331,7 @@ export async function queueRefund(tx: Tx, after: AfterCommit, r: QueueRefund): P
 			idempotencyKey: `slateroom-refund-${r.booking.id}-${r.payment.id}-${n + 1}`
 		})
 		.returning();
-	after.push(() => refundSender?.(row!.id) ?? Promise.resolve());
+	after.push(() => sendRefund(row!.id));
 	return row!;
 }
 

@@ -1,10 +1,10 @@
 import { json } from '@sveltejs/kit';
-import { availability } from '$lib/server/bookings';
+import * as bookings from '$lib/server/bookings';
 import { apiError } from '$lib/server/api';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ url }) => {
-	const result = await availability({
+	const result = await bookings.availability({
 		room: url.searchParams.get('room'),
 		from: url.searchParams.get('from'),
 		to: url.searchParams.get('to')

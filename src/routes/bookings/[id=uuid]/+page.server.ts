@@ -1,9 +1,9 @@
 import { error, fail } from '@sveltejs/kit';
-import { getForViewer, rebookable } from '$lib/server/bookings';
+import * as bookings from '$lib/server/bookings';
 import { getStudio } from '$lib/server/studio';
 import { bookPath, type BookingKind } from '$lib/components/booking/choices';
 import { requireUser } from '$lib/server/guard';
-import { loadMoneyPanel } from '$lib/server/payments';
+import * as payments from '$lib/server/payments';
 import type { QuoteView } from '$lib/components/booking/PriceBreakdown.svelte';
 import { readFileField } from '$lib/server/multipart';
 import * as uploads from '$lib/server/uploads';
@@ -11,18 +11,19 @@ import { audit } from '$lib/server/audit';
 import { localDateOf, wallClock } from '$lib/domain/time';
 import type { Role } from '$lib/roles';
 import { readFormData } from '$lib/server/api';
+import { holdGone } from '$lib/domain/lifecycle';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params }) => {
 	const me = requireUser(locals);
-	const b = await getForViewer(me, params.id);
+	const b = await bookings.getForViewer(me, params.id);
 	// Another artist's booking is a 404, not a 403: its existence is not theirs to know.
 	if (!b) error(404, { error: 'not_found', message: 'There is no booking at this address, or it is not yours to see.' });
 	// The booking itself matters more than its payment panel: if payments cannot be read, the
 	// page still shows the booking and says so.
 	let moneyUnavailable = false;
 	const [money, listed] = await Promise.all([
-		loadMoneyPanel(me, b).catch((e: unknown) => {
+		payments.loadMoneyPanel(me, b).catch((e: unknown) => {
 			console.error('[booking page] could not load the payment panel', b.id, e);
 			moneyUnavailable = true;
 			return null;
@@ -35,8 +36,8 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 	// A hold that ran out (swept or not yet): say so, and offer the same time again if it is free.
 	const now = new Date();
 	let rebook: { free: boolean; taken: 'room' | 'engineer' | 'gear' | null; bookHref: string; calendarHref: string } | null = null;
-	if (b.status === 'expired' || (b.status === 'held' && b.holdExpiresAt && b.holdExpiresAt.getTime() <= now.getTime())) {
-		const [studio, outcome] = await Promise.all([getStudio(), rebookable(b, now)]);
+	if (holdGone(b, now)) {
+		const [studio, outcome] = await Promise.all([getStudio(), bookings.rebookable(b, now)]);
 		const at = wallClock(b.startsAt, studio.timeZone);
 		const minutes = q.durationMinutes;
 		const kind: BookingKind = minutes === studio.halfDayMinutes ? 'half' : minutes === studio.fullDayMinutes ? 'full' : 'hourly';

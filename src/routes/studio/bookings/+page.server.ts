@@ -1,13 +1,12 @@
-import { listForViewer } from '$lib/server/bookings';
+import * as bookings from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guard';
 import { getStudio, listRooms } from '$lib/server/studio';
-import { BOOKING_STATUSES, type BookingStatus } from '$lib/server/db/schema';
+import { BOOKING_STATUSES, holdLapsed, isBookingStatus } from '$lib/domain/lifecycle';
 import { localDayBounds } from '$lib/domain/time';
 import { isCalendarDate } from '$lib/components/booking/choices';
 import { dateProblem } from '$lib/schemas/input';
 import type { PageServerLoad } from './$types';
 
-const isStatus = (s: string): s is BookingStatus => (BOOKING_STATUSES as readonly string[]).includes(s);
 const validDate = (s: string | null) => (s && isCalendarDate(s) ? s : '');
 
 export const load: PageServerLoad = async ({ locals, url }) => {
@@ -15,7 +14,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	const [studio, rooms] = await Promise.all([getStudio(), listRooms({ includeInactive: true })]);
 	const tz = studio.timeZone;
 
-	const status = url.searchParams.getAll('status').filter(isStatus);
+	const status = url.searchParams.getAll('status').filter(isBookingStatus);
 	const room = rooms.some((r) => r.slug === url.searchParams.get('room')) ? url.searchParams.get('room')! : '';
 	let from = validDate(url.searchParams.get('from'));
 	let to = validDate(url.searchParams.get('to'));
@@ -29,13 +28,13 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	const q = (url.searchParams.get('q') ?? '').trim().slice(0, 100);
 
 	// Local dates of the studio, both ends included: from its midnight to the midnight after `to`.
-	const rows = await listForViewer(owner, {
+	const rows = await bookings.listForViewer(owner, {
 		status: status.length ? status : undefined,
 		from: from ? localDayBounds(from, tz).start : undefined,
 		to: to ? localDayBounds(to, tz).end : undefined
 	});
 	const needle = q.toLowerCase();
-	const bookings = rows
+	const list = rows
 		.filter((b) => !room || b.roomSlug === room)
 		.filter((b) => !needle || [b.reference, b.artistName, b.project].some((v) => v?.toLowerCase().includes(needle)))
 		.map((b) => ({
@@ -43,7 +42,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 			reference: b.reference,
 			status: b.status,
 			// A hold whose time ran out frees the slot even before the sweep marks it expired.
-			holdLapsed: b.status === 'held' && !!b.holdExpiresAt && b.holdExpiresAt.getTime() <= Date.now(),
+			holdLapsed: holdLapsed(b, Date.now()),
 			startsAt: b.startsAt,
 			endsAt: b.endsAt,
 			roomName: b.roomName,
@@ -60,7 +59,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 		problems,
 		rooms: rooms.map((r) => ({ slug: r.slug, name: r.name })),
 		statuses: [...BOOKING_STATUSES],
-		bookings,
+		bookings: list,
 		truncated: rows.length >= 500
 	};
 };

@@ -1,9 +1,6 @@
 // GET: what cancelling now would refund, by the studio's ladder, before anyone commits.
 import { json } from '@sveltejs/kit';
-import { eq } from 'drizzle-orm';
-import { z } from 'zod';
-import { db } from '$lib/server/db';
-import { booking } from '$lib/server/db/schema';
+import * as bookings from '$lib/server/bookings';
 import { apiError } from '$lib/server/api';
 import { cancelAccess, previewCancellation } from '$lib/server/payments';
 import { unauthenticated } from '$lib/server/payments/http';
@@ -11,7 +8,7 @@ import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, params }) => {
 	if (!locals.user) return unauthenticated();
-	const [b] = z.uuid().safeParse(params.id).success ? await db.select().from(booking).where(eq(booking.id, params.id)) : [];
+	const b = await bookings.getRow(locals.user, params.id);
 	const access = b ? cancelAccess(locals.user, b) : 'not_found';
 	// Another artist's booking is a 404: its existence is not theirs to know.
 	if (!b || access === 'not_found') return apiError(404, 'not_found', 'No such booking.');

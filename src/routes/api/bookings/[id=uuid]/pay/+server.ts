@@ -1,12 +1,8 @@
 // POST: a Checkout page for the booking's deposit (while held) or balance (once closed), made or
 // reused; JSON `{ checkoutUrl }`, or a 303 to it for a plain form. Amounts come from the booking
 // and its final invoice, never from the request (OWASP ASVS 15.3.3).
-import { json } from '@sveltejs/kit';
-import { eq } from 'drizzle-orm';
-import { z } from 'zod';
-import { redirect } from '@sveltejs/kit';
-import { db } from '$lib/server/db';
-import { booking } from '$lib/server/db/schema';
+import { json, redirect } from '@sveltejs/kit';
+import * as bookings from '$lib/server/bookings';
 import { apiError } from '$lib/server/api';
 import { CheckoutError, startCheckout, type CheckoutKind } from '$lib/server/payments';
 import { backToBooking, readInput, unauthenticated } from '$lib/server/payments/http';
@@ -15,8 +11,8 @@ import type { RequestHandler } from './$types';
 export const POST: RequestHandler = async ({ locals, params, request, url }) => {
 	if (!locals.user) return unauthenticated();
 	const actor = locals.user;
-	const [b] = z.uuid().safeParse(params.id).success ? await db.select().from(booking).where(eq(booking.id, params.id)) : [];
-	if (!b || (actor.role === 'artist' && b.artistId !== actor.id)) return apiError(404, 'not_found', 'No such booking.');
+	const b = await bookings.getRow(actor, params.id);
+	if (!b) return apiError(404, 'not_found', 'No such booking.');
 	if (actor.role !== 'artist' && actor.role !== 'owner')
 		return apiError(403, 'forbidden', 'Only the artist or the owner starts a payment.');
 	const read = await readInput(request);

@@ -1,0 +1,202 @@
+// The calendar as bookings see it: closed days, the times a room is taken, the open windows of a
+// few days, the nearest starts that fit a booking, and whether a lapsed hold's time is free again.
+import { and, asc, eq, gt, gte, lt, lte } from 'drizzle-orm';
+import { db } from '../db';
+import { blackout, booking } from '../db/schema';
+import { getRoomBySlug, type RoomRow } from '../studio';
+import { AvailabilityInputError, computeAvailability, startsThatFit, type Blackout } from '$lib/domain/availability';
+import { publicHolidayList } from '$lib/domain/holidays';
+import { dateProblem, lineText } from '$lib/schemas/input';
+import { pricingContext, type PricingContext } from './context';
+import { occupying } from './occupancy';
+import type { BookingDetail } from './read';
+import {
+	busyUntil as busyUntilOf,
+	daysInclusive,
+	instantsAround,
+	isoInZone,
+	localDays,
+	localYmd,
+	minutesBetween,
+	nextYmd,
+	shiftDays,
+	type FieldErrors
+} from './request';
+import { hireableGear, resourceCalendar, type BookingNeeds, type Taken } from './resources';
+
+const AVAILABILITY_MAX_DAYS = 62;
+const roomSlugSchema = lineText().max(80);
+
+/** Local dates the studio is closed between two dates: blackouts, and public holidays if it closes on them. */
+export async function closedDays(ctx: PricingContext, from: string, to: string): Promise<Blackout[]> {
+	const rows = await db
+		.select()
+		.from(blackout)
+		.where(and(lte(blackout.startsOn, to), gte(blackout.endsOn, from)));
+	const out: Blackout[] = [];
+	for (const r of rows) {
+		for (let d = r.startsOn > from ? r.startsOn : from; d <= r.endsOn && d <= to; d = nextYmd(d)) {
+			out.push({ date: d, reason: r.reason || 'Closed' });
+		}
+	}
+	if (ctx.studio.closedOnPublicHolidays) {
+		for (let y = Number(from.slice(0, 4)); y <= Number(to.slice(0, 4)); y++) {
+			for (const h of publicHolidayList(ctx.policy.country, y)) {
+				if (h.date >= from && h.date <= to) out.push({ date: h.date, reason: h.name });
+			}
+		}
+	}
+	return out;
+}
+
+/** The times a room is kept (its bookings' start to busy-until) over [from, to). */
+export async function busyIntervals(roomId: string, from: Date, to: Date, now = new Date()) {
+	return db
+		.select({ start: booking.startsAt, end: booking.endsAt })
+		.from(booking)
+		.where(and(eq(booking.roomId, roomId), occupying(now), lt(booking.startsAt, to), gt(booking.busyUntil, from)))
+		.orderBy(asc(booking.startsAt));
+}
+
+export type AvailabilityResult =
+	| {
+			ok: true;
+			body: {
+				timeZone: string;
+				room: string;
+				open: { start: string; end: string }[];
+				busy: { start: string; end: string }[];
+				closed: { date: string; reason: string }[];
+			};
+	  }
+	| { ok: false; fields: FieldErrors };
+
+/** GET /api/availability, the calendar and the booking page: a room's open and busy times over local dates. */
+export async function availability(
+	params: { room: string | null; from: string | null; to: string | null },
+	now = new Date()
+): Promise<AvailabilityResult> {
+	const fields: FieldErrors = {};
+	if (!params.room) fields.room = ['Choose a room.'];
+	else if (!roomSlugSchema.safeParse(params.room).success) fields.room = ['There is no room by that name.'];
+	// A real calendar date, not merely its shape: Date.parse reads 2027-02-31 as 3 March.
+	const fromProblem = dateProblem(params.from ?? '');
+	const toProblem = dateProblem(params.to ?? '');
+	if (fromProblem) fields.from = [fromProblem];
+	if (toProblem) fields.to = [toProblem];
+	if (Object.keys(fields).length || !params.room || !params.from || !params.to) return { ok: false, fields };
+	const { from, to } = params;
+	const days = daysInclusive(from, to);
+	if (days < 1) return { ok: false, fields: { to: ['The end date is before the start date.'] } };
+	if (days > AVAILABILITY_MAX_DAYS)
+		return { ok: false, fields: { to: [`Ask for at most ${AVAILABILITY_MAX_DAYS} days at a time.`] } };
+
+	const roomRow = await getRoomBySlug(params.room);
+	if (!roomRow) return { ok: false, fields: { room: ['There is no room by that name.'] } };
+	const ctx = await pricingContext();
+	const tz = ctx.policy.timeZone;
+	const window = instantsAround(from, to);
+	const [busy, blackouts] = await Promise.all([
+		busyIntervals(roomRow.id, window.start, window.end, now),
+		closedDays(ctx, from, to)
+	]);
+	const result = computeAvailability({ from, to, policy: ctx.policy, busy, blackouts, now });
+	return {
+		ok: true,
+		body: {
+			timeZone: tz,
+			room: roomRow.slug,
+			open: result.open.map((i) => ({ start: isoInZone(i.start, tz), end: isoInZone(i.end, tz) })),
+			busy: result.busy.map((i) => ({ start: isoInZone(i.start, tz), end: isoInZone(i.end, tz) })),
+			closed: result.closed
+		}
+	};
+}
+
+/**
+ * Up to three starts near the wanted one where the same length of booking fits in the room, with
+ * an engineer and the chosen gear free too when the booking needs them; closest first.
+ */
+export async function nearestStarts(
+	roomRow: RoomRow,
+	ctx: PricingContext,
+	wanted: Date,
+	minutes: number,
+	now = new Date(),
+	needs: BookingNeeds = {}
+): Promise<string[]> {
+	const tz = ctx.policy.timeZone;
+	const from = localYmd(shiftDays(wanted, -3), tz);
+	const to = localYmd(shiftDays(wanted, 3), tz);
+	const windowStart = shiftDays(wanted, -5);
+	const windowEnd = shiftDays(wanted, 5);
+	const [busy, blackouts, resources] = await Promise.all([
+		busyIntervals(roomRow.id, windowStart, windowEnd, now),
+		closedDays(ctx, from, to),
+		resourceCalendar(needs, windowStart, windowEnd, now)
+	]);
+	let starts: Date[];
+	try {
+		starts = startsThatFit({ from, to, policy: ctx.policy, busy, blackouts, now, durationMinutes: minutes });
+	} catch (e) {
+		if (e instanceof AvailabilityInputError) return [];
+		throw e;
+	}
+	const want = wanted.getTime();
+	// Closest first; an earlier start wins a tie.
+	return starts
+		.map((d) => d.getTime())
+		.sort((a, b) => Math.abs(a - want) - Math.abs(b - want) || a - b)
+		.filter((s) => !resources.taken(s, busyUntilOf(s + minutes * 60_000, ctx.policy.turnaroundMinutes).getTime()))
+		.slice(0, 3)
+		.map((s) => isoInZone(new Date(s), tz));
+}
+
+/**
+ * Whether a booking's time could be booked again just as it was (room, opening hours, notice,
+ * closed days, other bookings, an engineer and its gear), for a booking whose hold ran out.
+ * `taken` says what stands in the way.
+ */
+export async function rebookable(b: BookingDetail, now = new Date()): Promise<{ free: true } | { free: false; taken: Taken }> {
+	const ctx = await pricingContext();
+	const tz = ctx.policy.timeZone;
+	const roomRow = await getRoomBySlug(b.roomSlug);
+	if (!roomRow) return { free: false, taken: 'room' };
+	const start = b.startsAt.getTime();
+	const minutes = minutesBetween(b.startsAt, b.endsAt);
+	const days = localDays(b.startsAt, b.endsAt, tz);
+	const [busy, blackouts] = await Promise.all([
+		busyIntervals(roomRow.id, shiftDays(start, -2), shiftDays(b.endsAt, 2), now),
+		closedDays(ctx, days.first, days.last)
+	]);
+	let fits = false;
+	try {
+		fits = startsThatFit({
+			from: days.first,
+			to: days.first,
+			policy: ctx.policy,
+			busy,
+			blackouts,
+			now,
+			durationMinutes: minutes
+		}).some((s) => s.getTime() === start);
+	} catch (e) {
+		if (!(e instanceof AvailabilityInputError)) throw e;
+	}
+	if (!fits) return { free: false, taken: 'room' };
+	const until = busyUntilOf(b.endsAt, ctx.policy.turnaroundMinutes).getTime();
+	const gearIds = b.gear.map((g) => g.id);
+	const [resources, hireable] = await Promise.all([
+		resourceCalendar(
+			{ engineer: !!b.engineerId, gearIds, exceptBookingId: b.id },
+			shiftDays(start, -1),
+			shiftDays(until, 1),
+			now
+		),
+		hireableGear(gearIds)
+	]);
+	const taken = resources.taken(start, until);
+	if (taken === 'engineer') return { free: false, taken };
+	if (taken === 'gear' || hireable.length !== gearIds.length) return { free: false, taken: 'gear' };
+	return { free: true };
+}

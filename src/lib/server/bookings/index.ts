@@ -1,0 +1,26 @@
+// Bookings: requests, the calendar they meet, holds, and reading bookings as each role may.
+// Routes import this module as a namespace (`import * as bookings from '$lib/server/bookings'`).
+export {
+	parseBookingRequest,
+	requestFromForm,
+	zodFieldErrors,
+	type BookingRequest,
+	type FieldErrors,
+	type InvalidRequest
+} from './request';
+export { pricingContext, type PricingContext } from './context';
+export { expireLapsedHolds, holdLapsedSql } from './occupancy';
+export { availability, rebookable, type AvailabilityResult } from './availability';
+export { priceRequest, publicQuote, quoteFor, type Priced } from './quote';
+export { createHold, holdAndCheckout, type HoldOutcome, type HoldRefusal, type HeldWithCheckout } from './hold';
+export {
+	bookingJson,
+	canSeeAll,
+	getForViewer,
+	getRow,
+	listForViewer,
+	listOwn,
+	ownerDesk,
+	type BookingDetail,
+	type BookingRow
+} from './read';
