@@ -44,8 +44,6 @@ import { clipSpans, mergeSpans, subtractSpans, toInterval, toSpan, type Interval
 
 export { overlaps, type Interval } from './intervals';
 export { AvailabilityInputError, type AvailabilityInputErrorCode } from './errors';
-// Only until src/lib/server/bookings.ts imports these from the time engine ($lib/domain/time).
-export { parseBookingInstant, TimeInputError } from '../time';
 
 const MINUTE_MS = 60_000;
 

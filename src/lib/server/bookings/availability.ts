@@ -4,7 +4,13 @@ import { and, asc, eq, gt, gte, lt, lte } from 'drizzle-orm';
 import { db } from '../db';
 import { blackout, booking } from '../db/schema';
 import { getRoomBySlug, type RoomRow } from '../studio';
-import { AvailabilityInputError, computeAvailability, startsThatFit, type Blackout } from '$lib/domain/availability';
+import {
+	AvailabilityInputError,
+	computeAvailability,
+	nearestFreeStarts,
+	startsThatFit,
+	type Blackout
+} from '$lib/domain/availability';
 import { publicHolidayList } from '$lib/domain/holidays';
 import { dateProblem, lineText } from '$lib/schemas/input';
 import { pricingContext, type PricingContext } from './context';
@@ -15,8 +21,8 @@ import {
 	daysInclusive,
 	instantsAround,
 	isoInZone,
+	localDateOf,
 	localDays,
-	localYmd,
 	minutesBetween,
 	nextYmd,
 	shiftDays,
@@ -126,8 +132,8 @@ export async function nearestStarts(
 	needs: BookingNeeds = {}
 ): Promise<string[]> {
 	const tz = ctx.policy.timeZone;
-	const from = localYmd(shiftDays(wanted, -3), tz);
-	const to = localYmd(shiftDays(wanted, 3), tz);
+	const from = localDateOf(shiftDays(wanted, -3), tz);
+	const to = localDateOf(shiftDays(wanted, 3), tz);
 	const windowStart = shiftDays(wanted, -5);
 	const windowEnd = shiftDays(wanted, 5);
 	const [busy, blackouts, resources] = await Promise.all([
@@ -135,21 +141,20 @@ export async function nearestStarts(
 		closedDays(ctx, from, to),
 		resourceCalendar(needs, windowStart, windowEnd, now)
 	]);
-	let starts: Date[];
+	// Closest first, an earlier start winning a tie, and only where the engineer and gear are free too.
+	const resourcesFree = (s: Date) =>
+		!resources.taken(s.getTime(), busyUntilOf(s.getTime() + minutes * 60_000, ctx.policy.turnaroundMinutes).getTime());
 	try {
-		starts = startsThatFit({ from, to, policy: ctx.policy, busy, blackouts, now, durationMinutes: minutes });
+		return nearestFreeStarts(
+			{ from, to, policy: ctx.policy, busy, blackouts, now, durationMinutes: minutes },
+			wanted,
+			3,
+			resourcesFree
+		).map((s) => isoInZone(s, tz));
 	} catch (e) {
 		if (e instanceof AvailabilityInputError) return [];
 		throw e;
 	}
-	const want = wanted.getTime();
-	// Closest first; an earlier start wins a tie.
-	return starts
-		.map((d) => d.getTime())
-		.sort((a, b) => Math.abs(a - want) - Math.abs(b - want) || a - b)
-		.filter((s) => !resources.taken(s, busyUntilOf(s + minutes * 60_000, ctx.policy.turnaroundMinutes).getTime()))
-		.slice(0, 3)
-		.map((s) => isoInZone(new Date(s), tz));
 }
 
 /**

@@ -1,11 +1,10 @@
 // A booking request, read once: the JSON API's body is parsed here, the /book form's choices
 // (already checked by superforms against the same field rules, src/lib/schemas/booking.ts) are
-// mapped here, and the times they name become instants here. The time parsing and arithmetic
-// the bookings code needs lives in this file and nowhere else in src/lib/server/bookings.
+// mapped here, and the times they name become instants here, through the time engine
+// ($lib/domain/time), which the rest of src/lib/server/bookings reaches only through this file.
 import type { z } from 'zod';
 import { bookingRequestSchema, requestFromChoices, type BookForm, type BookingRequest } from '$lib/schemas/booking';
-import { parseBookingInstant, TimeInputError } from '$lib/domain/availability';
-import { isoInZone, localYmd } from '../time';
+import { addDays, daysFrom, isoInZone, localDateOf, parseBookingInstant, TimeInputError } from '$lib/domain/time';
 import type { StudioRow } from '../studio';
 
 export { bookingRequestSchema, type BookingRequest };
@@ -78,19 +77,17 @@ export function shiftDays(instant: Date | number, days: number): Date {
 
 /** The local dates a booking's time touches: its first day and its last (an end at midnight is the day before). */
 export function localDays(start: Date, end: Date, timeZone: string): { first: string; last: string } {
-	return { first: localYmd(start, timeZone), last: localYmd(new Date(end.getTime() - 1), timeZone) };
+	return { first: localDateOf(start, timeZone), last: localDateOf(new Date(end.getTime() - 1), timeZone) };
 }
 
 /** 'YYYY-MM-DD' and the day after, by the calendar. */
 export function nextYmd(ymd: string): string {
-	const d = new Date(`${ymd}T00:00:00Z`);
-	d.setUTCDate(d.getUTCDate() + 1);
-	return d.toISOString().slice(0, 10);
+	return addDays(ymd, 1);
 }
 
 /** Days from one 'YYYY-MM-DD' to another, both counted. */
 export function daysInclusive(from: string, to: string): number {
-	return (Date.parse(to) - Date.parse(from)) / DAY + 1;
+	return daysFrom(from, to) + 1;
 }
 
 /**
@@ -101,4 +98,4 @@ export function instantsAround(from: string, to: string): { start: Date; end: Da
 	return { start: new Date(Date.parse(from) - 36 * 3600_000), end: new Date(Date.parse(to) + 60 * 3600_000) };
 }
 
-export { isoInZone, localYmd };
+export { isoInZone, localDateOf };
