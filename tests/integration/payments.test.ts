@@ -643,7 +643,7 @@ describe('closing a session and paying the balance', () => {
 		expect(await early.json()).toMatchObject({ error: 'not_started' });
 		expect((await bookingRow(b.id)).status).toBe('confirmed');
 		expect((await money(b.id)).invoices.filter((i) => i.typeCode === 380)).toHaveLength(0);
-		const asForm = await engineer.form(`/api/bookings/${b.id}/close`, { actualEnd: b.end });
+		const asForm = await engineer.form(`/bookings/${b.id}?/close`, { actualEnd: b.end });
 		expect(asForm.status).toBe(303);
 		expect(asForm.headers.get('location')).toBe(`/bookings/${b.id}?money=close-not_started#money`);
 		expect((await bookingRow(b.id)).status).toBe('confirmed');

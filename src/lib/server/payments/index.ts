@@ -12,5 +12,6 @@ export { startCheckout, CheckoutError, type CheckoutKind } from './checkout';
 export { loadMoneyPanel } from './panel';
 export { cancelBooking, previewCancellation, retryFailedRefunds, cancelAccess, type CancellationFact } from './refunds';
 export { closeBooking } from './close';
+export { cancel, pay, payable, type MoneyRefusal } from './actions';
 export { processStripeEvent } from './webhook';
 export type { MoneyPanelData } from '$lib/types/money';

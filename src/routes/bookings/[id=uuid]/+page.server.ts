@@ -1,9 +1,10 @@
-import { error, fail } from '@sveltejs/kit';
+import { error, fail, redirect } from '@sveltejs/kit';
 import * as bookings from '$lib/server/bookings';
 import { getStudio } from '$lib/server/studio';
 import { bookPath, type BookingKind } from '$lib/components/booking/choices';
-import { requireUser } from '$lib/server/guard';
+import { requireRole, requireUser } from '$lib/server/guard';
 import * as payments from '$lib/server/payments';
+import { formFields } from '$lib/server/payments/http';
 import type { QuoteView } from '$lib/components/booking/PriceBreakdown.svelte';
 import { readFileField } from '$lib/server/multipart';
 import * as uploads from '$lib/server/uploads';
@@ -133,7 +134,61 @@ function backLink(role: Role, day: string, accountsDay: string): { href: string;
 	}
 }
 
+/** Back to this page's money panel with a notice code it turns into words. */
+function backWith(bookingId: string, notice: string): never {
+	redirect(303, `/bookings/${bookingId}?money=${encodeURIComponent(notice)}#money`);
+}
+
+/** A refusal that is not a notice on the panel: the page's own 403 or 404. */
+function refuse(status: 403 | 404, code: string, message: string): never {
+	error(status, { error: code, message });
+}
+
+async function formOf(request: Request, listFields: string[] = []) {
+	const form = await readFormData(request);
+	if (!form) error(400, { error: 'bad_request', message: 'The form could not be read.' });
+	return formFields(form, listFields);
+}
+
 export const actions: Actions = {
+	/** Stripe Checkout for the deposit or the balance: off to Stripe's page, or back with why not. */
+	pay: async ({ request, locals, params, url }) => {
+		const me = requireUser(locals);
+		const found = await payments.payable(me, params.id);
+		if (!found.ok) refuse(found.status === 404 ? 404 : 403, found.code, found.message);
+		const body = await formOf(request);
+		const paid = await payments.pay(found.booking, body.kind, url.origin);
+		if (!paid.ok) backWith(params.id, paid.status === 503 ? 'pay-unavailable' : 'pay-refused');
+		redirect(303, paid.checkoutUrl);
+	},
+	cancel: async ({ request, locals, params, getClientAddress }) => {
+		const me = requireUser(locals);
+		const body = await formOf(request);
+		const outcome = await payments.cancel(me, params.id, body.reason, getClientAddress());
+		if (!outcome.ok) {
+			if (outcome.status === 409) backWith(params.id, 'cancel-refused');
+			refuse(outcome.status, outcome.code, outcome.message);
+		}
+		backWith(params.id, 'cancelled');
+	},
+	/** The owner sends failed refunds again. */
+	retry: async ({ request, locals, params }) => {
+		const owner = requireRole(locals, 'owner');
+		await formOf(request);
+		const result = await payments.retryFailedRefunds(owner, params.id);
+		backWith(params.id, result.retried ? 'refund-retried' : 'refund-nothing');
+	},
+	/** The owner or an engineer records the end of the session: overtime, final invoice, completed. */
+	close: async ({ request, locals, params }) => {
+		const me = requireUser(locals);
+		const body = await formOf(request, ['gearUsed']);
+		const outcome = await payments.closeBooking(me, params.id, body);
+		if (!outcome.ok) {
+			if (outcome.status === 403 || outcome.status === 404) refuse(outcome.status, outcome.code, outcome.message);
+			backWith(params.id, `close-${outcome.code}`);
+		}
+		backWith(params.id, 'closed');
+	},
 	/** A file for the session, posted as multipart/form-data and stored as it streams in. */
 	upload: async ({ request, locals, params, getClientAddress }) => {
 		const me = requireUser(locals);

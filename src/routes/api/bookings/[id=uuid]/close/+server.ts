@@ -3,19 +3,16 @@
 import { json } from '@sveltejs/kit';
 import { apiError } from '$lib/server/api';
 import { closeBooking } from '$lib/server/payments';
-import { backToBooking, readInput, unauthenticated } from '$lib/server/payments/http';
+import { readInput, unauthenticated } from '$lib/server/payments/http';
 import type { RequestHandler } from './$types';
 
 export const POST: RequestHandler = async ({ locals, params, request }) => {
 	if (!locals.user) return unauthenticated();
 	const read = await readInput(request, ['gearUsed']);
 	if (!read.ok) return read.response;
-	const outcome = await closeBooking(locals.user, params.id, read.input.body);
-	if (!outcome.ok) {
-		if (read.input.isForm && outcome.status !== 403 && outcome.status !== 404) backToBooking(params.id, `close-${outcome.code}`);
+	const outcome = await closeBooking(locals.user, params.id, read.body);
+	if (!outcome.ok)
 		return apiError(outcome.status, outcome.code, outcome.message, outcome.fields ? { fields: outcome.fields } : {});
-	}
-	if (read.input.isForm) backToBooking(params.id, 'closed');
 	return json({
 		id: params.id,
 		status: 'completed',

@@ -2,7 +2,7 @@
 import { json } from '@sveltejs/kit';
 import { apiError } from '$lib/server/api';
 import { retryFailedRefunds } from '$lib/server/payments';
-import { backToBooking, readInput, unauthenticated } from '$lib/server/payments/http';
+import { readInput, unauthenticated } from '$lib/server/payments/http';
 import type { RequestHandler } from './$types';
 
 export const POST: RequestHandler = async ({ locals, params, request }) => {
@@ -11,6 +11,5 @@ export const POST: RequestHandler = async ({ locals, params, request }) => {
 	const read = await readInput(request);
 	if (!read.ok) return read.response;
 	const result = await retryFailedRefunds(locals.user, params.id);
-	if (read.input.isForm) backToBooking(params.id, result.retried ? 'refund-retried' : 'refund-nothing');
 	return json({ retried: result.retried });
 };
