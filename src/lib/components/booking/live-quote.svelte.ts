@@ -1,6 +1,6 @@
 // The price of the booking being chosen, from POST /api/quote: asked again a moment after the
 // choices stop changing, with an older answer dropped when a newer question is on its way.
-import type { QuoteView } from './PriceBreakdown.svelte';
+import type { QuoteView } from '$lib/types/quote';
 
 import type { BookingRequest } from '$lib/schemas/booking';
 

@@ -5,7 +5,7 @@ import { bookPath, type BookingKind } from '$lib/components/booking/choices';
 import { requireRole, requireUser } from '$lib/server/guard';
 import * as payments from '$lib/server/payments';
 import { formFields } from '$lib/server/payments/http';
-import type { QuoteView } from '$lib/components/booking/PriceBreakdown.svelte';
+import type { QuoteView } from '$lib/types/quote';
 import { readFileField } from '$lib/server/multipart';
 import * as uploads from '$lib/server/uploads';
 import { audit } from '$lib/server/audit';
