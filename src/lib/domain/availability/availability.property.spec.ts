@@ -23,7 +23,7 @@ import {
 	type AvailabilityInput,
 	type Interval
 } from './index';
-import { demoPolicy } from './spec-fixtures';
+import { demoPolicy } from '$fixtures/availability';
 
 const MIN = 60_000;
 const DAY = 86_400_000;

@@ -11,7 +11,7 @@ import {
 	startsThatFit,
 	type AvailabilityInput
 } from './index';
-import { at, demoPolicy, everyDay, HELSINKI, iso } from './spec-fixtures';
+import { at, demoPolicy, everyDay, HELSINKI, iso } from '$fixtures/availability';
 
 const HOUR = 3_600_000;
 

@@ -2,7 +2,7 @@ import { TZDate } from '@date-fns/tz';
 import { Temporal } from 'temporal-polyfill';
 import { describe, expect, it } from 'vitest';
 import { NonexistentLocalTimeError, TimeInputError } from './errors';
-import { HELSINKI } from './spec-fixtures';
+import { HELSINKI } from '$fixtures/availability';
 import {
 	addLocalDays,
 	ceilToLocalGrid,

@@ -9,7 +9,7 @@ import fc from 'fast-check';
 import Decimal from 'decimal.js';
 import { DEMO_POLICY } from '../demo';
 import { overtimeCharge, quoteBooking } from '../pricing';
-import { at, CONTROL_ROOM, LIVE_ROOM, noHolidays, VOCAL_BOOTH } from '../pricing/spec-fixtures';
+import { at, CONTROL_ROOM, LIVE_ROOM, noHolidays, VOCAL_BOOTH } from '$fixtures/pricing';
 import {
 	documentTotals,
 	documentViolations,

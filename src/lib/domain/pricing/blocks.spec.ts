@@ -4,7 +4,7 @@ import { DEMO_POLICY } from '../demo';
 import { divRoundHalfUp, mulDivRoundHalfUp } from '../money';
 import type { BlockLengths, BlockRates } from '../types';
 import { cheapestCover, hourlyAmount } from './blocks';
-import { LIVE_ROOM } from './spec-fixtures';
+import { LIVE_ROOM } from '$fixtures/pricing';
 
 const blocks = DEMO_POLICY.blocks; // half day 240 min, full day 480 min (PRODUCT.md)
 const live = LIVE_ROOM.rates; // 45.00 / 160.00 / 300.00 (PRODUCT.md)

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { DEMO_POLICY } from '../demo';
 import { overtimeCharge, type OvertimeInput } from './overtime';
-import { at, expectEn16931, LIVE_ROOM, line } from './spec-fixtures';
+import { at, expectEn16931, LIVE_ROOM, line } from '$fixtures/pricing';
 
 const overtime = (overrides: Partial<OvertimeInput> & Pick<OvertimeInput, 'bookedEnd' | 'actualEnd'>) => {
 	const o = overtimeCharge({ room: LIVE_ROOM, engineer: false, policy: DEMO_POLICY, ...overrides });

@@ -18,7 +18,7 @@ import {
 	openAllHours,
 	policyWith,
 	VOCAL_BOOTH
-} from './spec-fixtures';
+} from '$fixtures/pricing';
 
 const quote = (overrides: Partial<QuoteInput> & Pick<QuoteInput, 'start' | 'end'>) => {
 	const q = quoteBooking({ room: LIVE_ROOM, engineer: false, gear: [], policy: DEMO_POLICY, ...overrides });

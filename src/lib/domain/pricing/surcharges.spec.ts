@@ -5,7 +5,7 @@ import { DEMO_POLICY } from '../demo';
 import { isPublicHoliday } from '../holidays';
 import type { SurchargeRule } from '../types';
 import { surchargeAmount, surchargeShares, surchargeSplit, surchargeWeight, type SurchargeShare } from './surcharges';
-import { at, HELSINKI, noHolidays } from './spec-fixtures';
+import { at, HELSINKI, noHolidays } from '$fixtures/pricing';
 
 const fiHoliday = (ymd: string) => isPublicHoliday('FI', ymd);
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { DEMO_POLICY } from '../demo';
 import { parseLocalOrOffset, toFieldErrors, validateBookingTimes } from './validation';
-import { at, HELSINKI, openAllHours } from './spec-fixtures';
+import { at, HELSINKI, openAllHours } from '$fixtures/pricing';
 
 // Demo policy (PRODUCT.md): open 09:00–23:00, min 2 h, 30-min grid, 24 h notice, 180 days ahead.
 const now = at('2027-03-01', '12:00');

@@ -1,10 +1,10 @@
 /**
- * Test fixtures only (imported by the *.spec.ts files of this folder, never by app code).
- * The demo studio of PRODUCT.md, "Demo scenario": Hollow Pine Studio, Europe/Helsinki, open
- * 09:00–23:00 every day, minimum booking 2 h, increment 30 min, turnaround 30 min after each
- * booking, minimum notice 24 h, horizon 180 days, hold 30 min.
+ * Fixtures of the availability unit specs (`$fixtures/availability`), never imported by app code.
+ * The policy is the invented demo studio's, written out: Europe/Helsinki, open 09:00–23:00 every
+ * day, minimum booking 2 h, increment 30 min, turnaround 30 min after each booking, minimum notice
+ * 24 h, horizon 180 days, hold 30 min.
  */
-import type { OpeningHours, StudioPolicy } from '../types';
+import type { OpeningHours, StudioPolicy } from '../../src/lib/domain/types';
 
 export const HELSINKI = 'Europe/Helsinki';
 
