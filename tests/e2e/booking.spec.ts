@@ -104,7 +104,6 @@ test('an artist books a half day with an engineer from the calendar, and the slo
 	page,
 	browser
 }) => {
-	test.setTimeout(120_000);
 	// From 20 days ahead, the first week with a free weekday morning (the scan below moves on by
 	// itself when a morning is taken).
 	let target = addDays(studioToday(), 20);
@@ -175,9 +174,7 @@ test('an artist books a half day with an engineer from the calendar, and the slo
 
 	// 5. Confirm: a hold, then Stripe's page (the local fake) or straight to the booking.
 	await page.getByRole('button', { name: 'Confirm and pay the deposit' }).click();
-	await page.waitForURL((url) => /\/bookings\/[0-9a-f-]{36}/.test(url.pathname) || /\/pay\//.test(url.pathname), {
-		timeout: 20_000
-	});
+	await page.waitForURL((url) => /\/bookings\/[0-9a-f-]{36}/.test(url.pathname) || /\/pay\//.test(url.pathname));
 
 	await page.goto('/bookings');
 	// Holds that lapsed on the same morning in earlier runs are marked expired when a hold is made.

@@ -93,7 +93,7 @@ test('pay the deposit on Stripe’s page, see the booking confirmed, cancel and 
 
 	// Back on the booking; the webhook confirms it (the page looks again by itself).
 	await expect(page).toHaveURL(new RegExp(`/bookings/${id}\\?paid=1`));
-	await expect(panel.getByTestId('payments').locator('li[data-status="paid"]')).toHaveCount(1, { timeout: 20_000 });
+	await expect(panel.getByTestId('payments').locator('li[data-status="paid"]')).toHaveCount(1);
 	await expect(panel.getByTestId('invoices').locator('li[data-type="386"]')).toContainText(/DEP-\d{4}-\d{4}/);
 	const api = await page.request.get(`/api/bookings/${id}`);
 	expect(((await api.json()) as { status: string }).status).toBe('confirmed');

@@ -10,9 +10,6 @@ import { expect, test, type Page, type TestInfo } from '@playwright/test';
 import { isPublicHoliday } from '../../src/lib/domain/holidays';
 import { signIn } from './support';
 
-// Both journeys take many steps on a busy machine; no step depends on speed.
-test.describe.configure({ timeout: 180_000 });
-
 const TZ = 'Europe/Helsinki';
 const STRIPE = process.env.STRIPE_API_BASE ?? 'http://127.0.0.1:12112';
 const DESK = { width: 1280, height: 900 };
@@ -83,15 +80,17 @@ test('back from Checkout: one waiting notice, no second payment, then confirmed;
 		await expect(page.locator('[data-testid="money-confirming"], [data-testid="paid-waiting"]')).toHaveCount(1);
 		await expect(page.getByTestId('pay-deposit')).toHaveCount(0);
 		await expect(page.getByTestId('status-line')).toHaveText('Held while your deposit payment is confirmed.');
-		// The page looks again by itself every moment: still one notice and no button after a few looks.
-		await page.waitForTimeout(3500);
+		// The page looks again by itself every moment: still one notice and no button after two looks.
+		for (let look = 0; look < 2; look++) {
+			await page.waitForResponse((r) => r.url().includes(`/bookings/${id}/__data.json`));
+		}
 		await expect(page.locator('[data-testid="money-confirming"], [data-testid="paid-waiting"]')).toHaveCount(1);
 		await expect(page.getByTestId('pay-deposit')).toHaveCount(0);
 		await shoot(page, info, 'booking-paid-waiting');
 	} finally {
 		await fakeControl('release-deliveries');
 	}
-	await expect(page.getByTestId('booking-status')).toHaveAttribute('data-status', 'confirmed', { timeout: 30_000 });
+	await expect(page.getByTestId('booking-status')).toHaveAttribute('data-status', 'confirmed');
 	await expect(page.getByTestId('money-confirming')).toHaveCount(0);
 	await expect(page.getByTestId('pay-deposit')).toHaveCount(0);
 	await expect(page.getByTestId('quote-balance')).toHaveCount(1);

@@ -32,12 +32,6 @@ import type { Quote } from '../../src/lib/domain/pricing';
 const { db, client } = testDb();
 afterAll(() => client.end());
 
-/**
- * Rendering a PDF (fonts embedded as subsets) takes the app seconds on a busy machine: the tests
- * that fetch several get more than the default 30 s (no assertion is on time).
- */
-const PDF_TIMEOUT = 180_000;
-
 /** This file's days: working weekdays from 100 days ahead (no surcharge), tried in order. */
 const DAYS = workdaysAhead(100, 45);
 
@@ -298,35 +292,31 @@ describe('issued documents are immutable (corrections only by credit note)', () 
 });
 
 describe('PDFs and the month', () => {
-	it(
-		'serves the PDF to the booking’s artist, the owner and the accountant only',
-		async () => {
-			const artist = await signedIn(DEMO.artist);
-			const b = await bookAndPay(artist, 'vocal-booth', '13:00');
-			const [doc] = await docsOf(b.id);
-			const path = `/invoices/${doc!.id}/pdf`;
-			const res = await artist.fetch(path);
-			expect(res.status).toBe(200);
-			expect(res.headers.get('content-type')).toBe('application/pdf');
-			expect(res.headers.get('content-disposition')).toContain(`${doc!.displayNumber}.pdf`);
-			const bytes = Buffer.from(await res.arrayBuffer());
-			expect(bytes.subarray(0, 5).toString()).toBe('%PDF-');
-			// The fonts the app ships (@fontsource: Inter, IBM Plex Mono), embedded as subsets.
-			const text = bytes.toString('latin1');
-			expect(text).toMatch(/\/BaseFont \/[A-Z]{6}\+Inter/);
-			expect(text).toMatch(/\/BaseFont \/[A-Z]{6}\+IBMPlexMono/);
+	it('serves the PDF to the booking’s artist, the owner and the accountant only', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await bookAndPay(artist, 'vocal-booth', '13:00');
+		const [doc] = await docsOf(b.id);
+		const path = `/invoices/${doc!.id}/pdf`;
+		const res = await artist.fetch(path);
+		expect(res.status).toBe(200);
+		expect(res.headers.get('content-type')).toBe('application/pdf');
+		expect(res.headers.get('content-disposition')).toContain(`${doc!.displayNumber}.pdf`);
+		const bytes = Buffer.from(await res.arrayBuffer());
+		expect(bytes.subarray(0, 5).toString()).toBe('%PDF-');
+		// The fonts the app ships (@fontsource: Inter, IBM Plex Mono), embedded as subsets.
+		const text = bytes.toString('latin1');
+		expect(text).toMatch(/\/BaseFont \/[A-Z]{6}\+Inter/);
+		expect(text).toMatch(/\/BaseFont \/[A-Z]{6}\+IBMPlexMono/);
 
-			expect((await (await signedIn(DEMO.owner)).fetch(path)).status).toBe(200);
-			expect((await (await signedIn(DEMO.accountant)).fetch(path)).status).toBe(200);
-			// The refusals carry no part of the document.
-			const secrets = ['%PDF', doc!.displayNumber];
-			await expectRefused(await (await signedIn(DEMO.artist2)).fetch(path), 404, { secrets });
-			await expectRefused(await (await signedIn(DEMO.engineer)).fetch(path), 403, { secrets });
-			await expectRefused(await new Client().fetch(path), 401, { secrets });
-			await expectRefused(await artist.fetch(`/invoices/${crypto.randomUUID()}/pdf`), 404);
-		},
-		PDF_TIMEOUT
-	);
+		expect((await (await signedIn(DEMO.owner)).fetch(path)).status).toBe(200);
+		expect((await (await signedIn(DEMO.accountant)).fetch(path)).status).toBe(200);
+		// The refusals carry no part of the document.
+		const secrets = ['%PDF', doc!.displayNumber];
+		await expectRefused(await (await signedIn(DEMO.artist2)).fetch(path), 404, { secrets });
+		await expectRefused(await (await signedIn(DEMO.engineer)).fetch(path), 403, { secrets });
+		await expectRefused(await new Client().fetch(path), 401, { secrets });
+		await expectRefused(await artist.fetch(`/invoices/${crypto.randomUUID()}/pdf`), 404);
+	});
 
 	it('GET /api/invoices?month lists the month’s documents, payments and VAT by rate for the accountant', async () => {
 		const ids = await db

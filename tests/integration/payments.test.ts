@@ -102,8 +102,8 @@ async function bookingRow(id: string) {
 	return row!;
 }
 
-const waitStatus = (id: string, status: string, ms = 10_000) =>
-	waitFor(async () => ((await bookingRow(id)).status === status ? true : undefined), `booking ${id} ${status}`, ms);
+const waitStatus = (id: string, status: string) =>
+	waitFor(async () => ((await bookingRow(id)).status === status ? true : undefined), `booking ${id} ${status}`);
 
 async function money(id: string) {
 	const [payments, refunds, invoices, events] = await Promise.all([
@@ -230,14 +230,10 @@ describe('deposit through Stripe Checkout', () => {
 			const sent = await Promise.all(Array.from({ length: 10 }, () => control(`/events/${event.id}/resend`, {})));
 			expect(sent.every((r) => r.status === 202)).toBe(true);
 		}
-		const all = await waitFor(
-			async () => {
-				const d = await deliveries(event.id);
-				return d.length >= 51 && d.every((x) => x.statusCode !== null) ? d : undefined;
-			},
-			'51 deliveries',
-			20_000
-		);
+		const all = await waitFor(async () => {
+			const d = await deliveries(event.id);
+			return d.length >= 51 && d.every((x) => x.statusCode !== null) ? d : undefined;
+		}, '51 deliveries');
 		expect(all.every((d) => d.statusCode === 200)).toBe(true);
 		const m = await money(b.id);
 		expect(m.payments.filter((p) => p.status === 'paid')).toHaveLength(1);
@@ -392,12 +388,12 @@ describe('a failed delivery is retried and processed once', () => {
 				await tx.execute(sql`select id from booking where id = ${b.id} for update`);
 				await control(`/sessions/${b.sessionId}/pay`, {});
 				const event = await completedEventOf(b.sessionId);
-				await waitFor(async () => (await deliveries(event.id)).some((d) => d.statusCode === 503), 'a 503', 15_000);
+				await waitFor(async () => (await deliveries(event.id)).some((d) => d.statusCode === 503), 'a 503');
 				sawFailure = true;
 				expect((await bookingRow(b.id)).status).toBe('held');
 			});
 			expect(sawFailure).toBe(true);
-			await waitStatus(b.id, 'confirmed', 20_000);
+			await waitStatus(b.id, 'confirmed');
 			const event = await completedEventOf(b.sessionId);
 			const log = await deliveries(event.id);
 			expect(log[0]!.statusCode).toBe(503);
@@ -407,8 +403,7 @@ describe('a failed delivery is retried and processed once', () => {
 			expect(m.payments.map((p) => p.status)).toEqual(['paid']);
 			expect(m.invoices).toHaveLength(1);
 			expect(m.confirmations).toBe(1);
-		},
-		40_000
+		}
 	);
 });
 
@@ -910,7 +905,7 @@ describe('the payments job', () => {
 			return lost;
 		};
 		const expiredByTheJob = (b: Booked) =>
-			waitFor(async () => (await money(b.id)).payments[0]!.status === 'expired', 'the unknown checkout expired', 40_000);
+			waitFor(async () => (await money(b.id)).payments[0]!.status === 'expired', 'the unknown checkout expired');
 
 		// 1. A lost checkout.
 		const lost = await lostCheckout();
