@@ -5,10 +5,11 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq, inArray, sql } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
-import { DATABASE_URL, DEMO, STRIPE_API_BASE } from '../support/env';
+import { DATABASE_URL, DEMO } from '../support/env';
 import { testDb } from '../support/db';
-import { weekdayAhead } from '../support/dates';
+import { workdaysAhead } from '../support/dates';
 import { waitFor } from '../support/wait';
+import { holdAt, payAndConfirm } from '../support/booking';
 import { createDb } from '../../src/lib/server/db/client';
 import { databaseTrouble } from '../../src/lib/server/db/trouble';
 import * as t from '../../src/lib/server/db/schema';
@@ -18,15 +19,8 @@ afterAll(() => client.end());
 
 const UNDER_FAKED_CLOCK = process.env.FAKETIME !== undefined;
 
-/** Distinct weekdays from 84 days ahead on: this file's own days. */
-const DAYS = (() => {
-	const days: string[] = [];
-	for (let i = 84; days.length < 4; i++) {
-		const d = weekdayAhead(i);
-		if (!days.includes(d)) days.push(d);
-	}
-	return days;
-})();
+/** Working weekdays from 84 days ahead on: this file's own days. */
+const DAYS = workdaysAhead(84, 4);
 
 // A rerun against the same database starts these days clean.
 beforeAll(async () => {
@@ -44,27 +38,8 @@ beforeAll(async () => {
 /** The app's pool size (scripts/test.sh leaves DATABASE_POOL_SIZE at its default). */
 const APP_POOL = Number(process.env.DATABASE_POOL_SIZE ?? 10);
 
-async function hold(who: Client, day: string, from = '10:00', to = '14:00') {
-	const res = await who.json('/api/bookings', { room: 'control-room', start: `${day}T${from}`, end: `${day}T${to}` });
-	const body = (await res.json()) as { id: string; checkoutUrl: string };
-	expect(res.status, JSON.stringify(body)).toBe(201);
-	return body;
-}
-
-/** Pays the booking's Checkout Session on the Stripe fake and waits for the webhook to confirm it. */
-async function payDeposit(bookingId: string, checkoutUrl: string) {
-	const sessionId = checkoutUrl.split('/pay/')[1]!;
-	const paid = await fetch(`${STRIPE_API_BASE}/_control/sessions/${sessionId}/pay`, {
-		method: 'POST',
-		headers: { 'content-type': 'application/json' },
-		body: '{}'
-	});
-	expect(paid.status).toBe(200);
-	await waitFor(async () => {
-		const [row] = await db.select({ status: t.booking.status }).from(t.booking).where(eq(t.booking.id, bookingId));
-		return row?.status === 'confirmed';
-	}, `booking ${bookingId} confirmed`);
-}
+/** Holds the control room on `day` (10:00–14:00 unless said). */
+const hold = (who: Client, day: string, from = '10:00', to = '14:00') => holdAt(who, 'control-room', day, from, to);
 
 async function answer(res: Response) {
 	const started = performance.now();
@@ -173,7 +148,7 @@ describe('bursts over HTTP while the database is up', () => {
 	it('twenty-four cancels of one paid booking at once: one cancels, the rest say it was already cancelled, none 503', async () => {
 		const artist = await signedIn(DEMO.artist);
 		const booked = await hold(artist, DAYS[0]!);
-		await payDeposit(booked.id, booked.checkoutUrl);
+		await payAndConfirm(db, booked);
 
 		const started = performance.now();
 		const ms: number[] = [];

@@ -13,7 +13,7 @@ import { testDb } from '../support/db';
 import { waitFor } from '../support/wait';
 import { workdaysAhead, ymdInZone } from '../support/dates';
 import { expectRefused } from '../support/refusal';
-import { payOnFake } from '../support/stripe-fake';
+import { bookAndPay as bookAndPayOn } from '../support/booking';
 import { brokenRules } from '../support/en16931';
 import * as t from '../../src/lib/server/db/schema';
 
@@ -25,20 +25,7 @@ const DAYS = workdaysAhead(120, 20);
 
 /** Books two hours in the vocal booth on the first free one of this file's days and pays the deposit on the fake. */
 async function bookAndPay(who: Client): Promise<string> {
-	for (const ymd of DAYS) {
-		const res = await who.json('/api/bookings', { room: 'vocal-booth', start: `${ymd}T16:00`, end: `${ymd}T18:00` });
-		if (res.status === 409) continue;
-		const body = (await res.json()) as { id: string; checkoutUrl: string };
-		expect(res.status, JSON.stringify(body)).toBe(201);
-		const session = body.checkoutUrl.split('/pay/')[1]!;
-		expect(await payOnFake(session)).toBe(200);
-		await waitFor(async () => {
-			const [row] = await db.select({ status: t.booking.status }).from(t.booking).where(eq(t.booking.id, body.id));
-			return row?.status === 'confirmed';
-		}, 'the booking confirmed');
-		return body.id;
-	}
-	throw new Error(`no free slot from ${DAYS[0]} to ${DAYS.at(-1)}`);
+	return (await bookAndPayOn(db, who, { room: 'vocal-booth', days: DAYS, slots: [['16:00', '18:00']] })).id;
 }
 
 /**

@@ -14,8 +14,8 @@ import { signedIn, type Client } from '../support/http';
 import { DEMO } from '../support/env';
 import { testDb } from '../support/db';
 import { waitFor } from '../support/wait';
-import { payOnFake } from '../support/stripe-fake';
-import { TZ, weekdayAhead, ymdInZone } from '../support/dates';
+import { bookAndPay as bookAndPayOn } from '../support/booking';
+import { TZ, workdaysAhead, ymdInZone } from '../support/dates';
 import { pdfRows, type PdfRow } from '../support/pdf-text';
 import { moveIntoPast } from '../support/started';
 import * as t from '../../src/lib/server/db/schema';
@@ -73,34 +73,12 @@ const TITLE: Record<number, string> = { 380: 'INVOICE', 381: 'CREDIT NOTE', 386:
 const SUPPLY: Record<number, string> = { 380: 'Date of supply', 381: 'Date of refund', 386: 'Deposit received' };
 const PAID: Record<number, string> = { 380: 'Deposit paid (deducted)', 381: 'Refunded', 386: 'Paid on account' };
 
-interface Booked {
-	id: string;
-	reference: string;
-	start: string;
-	end: string;
-	quote: { total: number; deposit: number };
-}
+/** This file's days: working weekdays from 80 days ahead, tried in order. */
+const DAYS = workdaysAhead(80, 14);
 
-/** Books `room` on a free weekday 80–99 days ahead from 10:00 to `endHour` and pays the deposit on the fake. */
-async function bookAndPay(who: Client, room: string, endHour: string): Promise<Booked> {
-	for (let attempt = 0; attempt < 30; attempt++) {
-		const ymd = weekdayAhead(80 + Math.floor(Math.random() * 19));
-		const start = `${ymd}T10:00`;
-		const end = `${ymd}T${endHour}`;
-		const res = await who.json('/api/bookings', { room, start, end });
-		if (res.status === 409) continue;
-		expect(res.status).toBe(201);
-		const body = (await res.json()) as { id: string; checkoutUrl: string; quote: Booked['quote'] };
-		await payOnFake(body.checkoutUrl.split('/pay/')[1]!);
-		await waitFor(
-			async () => (await db.select().from(t.booking).where(eq(t.booking.id, body.id)))[0]?.status === 'confirmed',
-			'confirmed'
-		);
-		const [row] = await db.select().from(t.booking).where(eq(t.booking.id, body.id));
-		return { id: body.id, reference: row!.reference, start, end, quote: body.quote };
-	}
-	throw new Error('no free slot');
-}
+/** Books `room` from 10:00 to `endHour` on the first free one of this file's days and pays the deposit on the fake. */
+const bookAndPay = (who: Client, room: string, endHour: string) =>
+	bookAndPayOn(db, who, { room, days: DAYS, slots: [['10:00', endHour]] });
 
 const docsOf = (bookingId: string) => db.select().from(t.invoice).where(eq(t.invoice.bookingId, bookingId));
 

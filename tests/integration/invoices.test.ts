@@ -12,7 +12,7 @@ import { Client, signedIn } from '../support/http';
 import { DATABASE_URL, DEMO } from '../support/env';
 import { testDb } from '../support/db';
 import { sleep, waitFor } from '../support/wait';
-import { payOnFake } from '../support/stripe-fake';
+import { bookAndPay as bookAndPayOn } from '../support/booking';
 import { moveIntoPast } from '../support/started';
 import { createDb } from '../../src/lib/server/db/client';
 import * as t from '../../src/lib/server/db/schema';
@@ -35,33 +35,9 @@ afterAll(() => client.end());
 /** This file's days: working weekdays from 100 days ahead (no surcharge), tried in order. */
 const DAYS = workdaysAhead(100, 45);
 
-interface Booked {
-	id: string;
-	checkoutUrl: string;
-	start: string;
-	end: string;
-	quote: { total: number; gross: number; deposit: number; rounding: number };
-}
-
-/** Books `room` from 10:00 for `hours` on a free far weekday and pays the deposit on the fake. */
-async function bookAndPay(who: Client, room: string, endHour: string): Promise<Booked> {
-	for (const ymd of DAYS) {
-		const start = `${ymd}T10:00`;
-		const end = `${ymd}T${endHour}`;
-		const res = await who.json('/api/bookings', { room, start, end });
-		if (res.status === 409) continue;
-		expect(res.status).toBe(201);
-		const b = { ...((await res.json()) as Omit<Booked, 'start' | 'end'>), start, end };
-		const sessionId = b.checkoutUrl.split('/pay/')[1]!;
-		await payOnFake(sessionId);
-		await waitFor(
-			async () => (await db.select().from(t.booking).where(eq(t.booking.id, b.id)))[0]?.status === 'confirmed',
-			'confirmed'
-		);
-		return b;
-	}
-	throw new Error(`no free morning in the ${room} from ${DAYS[0]} to ${DAYS.at(-1)}`);
-}
+/** Books `room` from 10:00 to `endHour` on the first free one of this file's days and pays the deposit on the fake. */
+const bookAndPay = (who: Client, room: string, endHour: string) =>
+	bookAndPayOn(db, who, { room, days: DAYS, slots: [['10:00', endHour]] });
 
 const docsOf = (bookingId: string) => db.select().from(t.invoice).where(eq(t.invoice.bookingId, bookingId));
 
