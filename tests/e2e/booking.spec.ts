@@ -2,9 +2,9 @@ import { type Page } from '@playwright/test';
 import { DEMO_PASSWORD, expect, newContext, test } from './support';
 import { addDays, isoWeekday, studioToday, weekdayAhead } from '../support/dates';
 
-// The artist's journey of PRODUCT.md: free time on the public calendar, a half-day block with an
+// The artist's journey: free time on the public calendar, a half-day block with an
 // engineer, the exact price, sign-in without losing the choices, a hold, and the slot then busy
-// for everyone else. Demo rates (PRODUCT.md): live room half day 160.00 + engineer half day
+// for everyone else. Demo rates (src/lib/domain/demo.ts): live room half day 160.00 + engineer half day
 // 120.00 = 280.00 on a weekday morning (no surcharge); deposit 30 % = 84.00 (rounded up to whole
 // euros, at least 50.00).
 

@@ -4,7 +4,7 @@ import { parse } from 'csv-parse/sync';
 import { signedIn } from '../support/http';
 import { ymdInZone } from '../support/dates';
 
-// The engineer's and the accountant's journeys of PRODUCT.md, in the browser, on the seeded demo
+// The engineer's and the accountant's journeys, in the browser, on the seeded demo
 // studio (scripts/seed-bookings.ts places its sessions relative to the day of the seed; the app
 // gives them their money history at start-up, src/lib/server/demo-ledger.ts). Days are read from
 // the seeded bookings, never counted from the clock now.

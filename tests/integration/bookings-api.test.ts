@@ -52,7 +52,7 @@ const helsinki = studioIso;
 describe('POST /api/quote', () => {
 	const day = ownDay(0);
 
-	it('prices 5 h in the live room as a half day plus one hour (PRODUCT.md demo rates)', async () => {
+	it('prices 5 h in the live room as a half day plus one hour (demo rates)', async () => {
 		// 160.00 (half day, 4 h) + 45.00 (1 h) = 205.00, cheaper than 5 × 45.00 = 225.00.
 		const { status, body } = await quote({ room: 'live-room', start: `${day}T10:00`, end: `${day}T15:00` });
 		expect(status).toBe(200);
@@ -216,7 +216,7 @@ describe('GET /api/availability', () => {
 			open: { start: string; end: string }[];
 		};
 		expect(body.timeZone).toBe(TZ);
-		// Busy: the booking and its 30-minute turnaround (PRODUCT.md), 10:00–14:30 local.
+		// Busy: the booking and its 30-minute turnaround (demo policy), 10:00–14:30 local.
 		expect(body.busy.map((b) => [Date.parse(b.start), Date.parse(b.end)])).toEqual([
 			[Date.parse(helsinki(day, '10:00')), Date.parse(helsinki(day, '14:30'))]
 		]);
@@ -367,7 +367,7 @@ describe('POST /api/bookings', () => {
 	it('answers 409 taken: engineer with nearby starts where the engineer is free too', async () => {
 		const day = ownDay(15);
 		const engineers = await db.select().from(t.user).where(eq(t.user.role, 'engineer'));
-		expect(engineers).toHaveLength(1); // the seed's one engineer (PRODUCT.md demo)
+		expect(engineers).toHaveLength(1); // the seed's one engineer
 		const a = await signedIn(DEMO.artist);
 		const b = await signedIn(DEMO.artist2);
 		expect(

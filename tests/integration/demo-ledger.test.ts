@@ -1,5 +1,5 @@
 // The demo studio's money history (src/lib/server/demo-ledger.ts), as the app writes it at start-up
-// into the seeded test database: checked against the demo policy of PRODUCT.md (deposit 30 % of
+// into the seeded test database: checked against the demo policy of src/lib/domain/demo.ts (deposit 30 % of
 // the gross rounded up to whole euros, at least 50.00) and EN 16931 BR-CO-16 (amount due = gross −
 // paid on account + rounding).
 import { afterAll, describe, expect, it } from 'vitest';
@@ -30,7 +30,7 @@ describe('the demo ledger', () => {
 			expect(deposits, b.reference).toHaveLength(1);
 			expect(deposits[0]!.status).toBe('paid');
 			expect(deposits[0]!.amount).toBe(b.deposit);
-			// PRODUCT.md: 30 % of the gross rounded up to whole euros, at least 50.00, never above the total.
+			// The demo policy: 30 % of the gross rounded up to whole euros, at least 50.00, never above the total.
 			expect(b.deposit).toBe(Math.min(b.total, Math.max(5000, Math.ceil((b.total * 30) / 10_000) * 100)));
 			expect(deposits[0]!.paidAt!.getTime()).toBeLessThan(b.startsAt.getTime());
 			const docs = invoices.filter((d) => d.bookingId === b.id);

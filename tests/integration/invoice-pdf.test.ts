@@ -6,7 +6,7 @@
 //   note names the invoice it corrects);
 // - EN 16931-1: BT-106 sum of line nets, BT-109 taxable amount, BT-110 VAT, BT-112 total with VAT,
 //   BT-113 paid, BT-114 rounding, BT-115 amount due, BG-23 VAT per rate; UNTDID 1001 codes 380, 381, 386;
-// - PRODUCT.md demo rates: live room 45.00/h, 160.00 the half day; prices include VAT; deposit 30 %
+// - the demo rates (src/lib/domain/demo.ts): live room 45.00/h, 160.00 the half day; prices include VAT; deposit 30 %
 //   rounded up to whole euros; overtime per started 15 minutes at the hourly rate.
 import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';

@@ -4,7 +4,7 @@
 //   note refers to the invoice it amends), Article 65 (VAT on a payment on account);
 // - EN 16931-1 business rules (CEN validation artefacts, github.com/ConnectingEurope/eInvoicing-EN16931):
 //   BR-CO-10, -13, -14, -15, -16, -17, BR-27; UNTDID 1001 codes 380, 381, 386; BT-25;
-// - PRODUCT.md demo rates: live room 45.00/h, 160.00 the half day; prices include 25.5 % VAT;
+// - the demo rates (src/lib/domain/demo.ts): live room 45.00/h, 160.00 the half day; prices include 25.5 % VAT;
 //   deposit 30 % rounded up to whole euros; overtime per started 15 minutes at the hourly rate.
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, desc, eq, inArray, isNotNull } from 'drizzle-orm';
@@ -74,7 +74,7 @@ async function expectArticle226(doc: InvoiceRow) {
 describe('documents of a booking', () => {
 	it('deposit invoice, final invoice with overtime, and the worked figures (BR-CO-16 with rounding)', async () => {
 		const artist = await signedIn(DEMO.artist);
-		// PRODUCT.md: live room 10:00–15:00 = half day 160.00 + 1 h 45.00 = 205.00; deposit 62.00.
+		// Demo rates: live room 10:00–15:00 = half day 160.00 + 1 h 45.00 = 205.00; deposit 62.00.
 		const b = await bookAndPay(artist, 'live-room', '15:00');
 		expect(b.quote.total).toBe(20500);
 		expect(b.quote.deposit).toBe(6200);

@@ -7,7 +7,7 @@
 //   or on async_payment_succeeded; never on the success page.
 // - Stripe docs, "Idempotent requests" and "Refunds": one session and one refund per click;
 //   a refund can fail after it was created (refund.failed).
-// - PRODUCT.md: deposit 30 % rounded up to whole euros, at least 50.00; cancellation with 7 days'
+// - the demo policy (src/lib/domain/demo.ts): deposit 30 % rounded up to whole euros, at least 50.00; cancellation with 7 days'
 //   notice or more refunds the whole deposit, 48 hours to 7 days half.
 // - Directive 2006/112/EC Article 65 (deposit invoice on receipt), Article 219 and UNTDID 1001
 //   (credit note 381 referring to the invoice it corrects, EN 16931 BT-25).
@@ -171,7 +171,7 @@ describe('deposit through Stripe Checkout', () => {
 		const artist = await signedIn(DEMO.artist);
 		const b = await book(artist, 'vocal-booth');
 		expect(b.status).toBe('held');
-		// PRODUCT.md: 30 % of 100.00 = 30.00, at least 50.00.
+		// Demo policy: 30 % of 100.00 = 30.00, at least 50.00.
 		expect(b.quote.deposit).toBe(5000);
 
 		const { body: s } = await control(`/sessions/${b.sessionId}`);
@@ -510,7 +510,7 @@ describe('cancellation', () => {
 		const preview = (await res.json()) as { refund: number; currency: string; noticeHours: number; rule: string; paid: number };
 		expect(preview.currency).toBe('EUR');
 		expect(preview.paid).toBe(b.quote.deposit);
-		expect(preview.noticeHours).toBeGreaterThanOrEqual(7 * 24); // PRODUCT.md: 7 days or more → whole deposit
+		expect(preview.noticeHours).toBeGreaterThanOrEqual(7 * 24); // demo ladder: 7 days or more → whole deposit
 		expect(preview.rule).toMatch(/7 days' notice or more/);
 		expect(preview.refund).toBe(b.quote.deposit);
 
@@ -552,7 +552,7 @@ describe('cancellation', () => {
 		await other.json(`/api/bookings/${((await again.json()) as { id: string }).id}/cancel`, {});
 	});
 
-	it('with 3 days’ notice refunds half the deposit (PRODUCT.md: 48 hours to 7 days)', async () => {
+	it('with 3 days’ notice refunds half the deposit (demo ladder: 48 hours to 7 days)', async () => {
 		const artist = await signedIn(DEMO.artist);
 		const b = await bookSoon(artist, 'vocal-booth', 3 * 24, 7 * 24);
 		await payAndConfirm(db, b);
@@ -629,7 +629,7 @@ describe('closing a session and paying the balance', () => {
 		expect((await bookingRow(b.id)).status).toBe('confirmed');
 
 		const held = await moveIntoPast(db, b.id);
-		// 20 minutes past the booked end: two started 15-minute increments at 40.00/h = 20.00 (PRODUCT.md).
+		// 20 minutes past the booked end: two started 15-minute increments at 40.00/h = 20.00 (demo rates).
 		const end = plusMinutes(held.end, 20);
 		const closed = await engineer.json(`/api/bookings/${b.id}/close`, { actualEnd: end });
 		const body = (await closed.json()) as {
@@ -795,7 +795,7 @@ describe('a refund whose Idempotency-Key Stripe refuses', () => {
 // ---- cancelling while the deposit is on its way ---------------------------------------------------
 
 describe('cancelling a booking whose bank payment is still on its way', () => {
-	// PRODUCT.md: 48 hours to 7 days' notice refunds half the deposit. The notice is the one given
+	// The demo ladder: 48 hours to 7 days' notice refunds half the deposit. The notice is the one given
 	// when cancelling, whenever the delayed payment (Stripe docs, "Fulfill orders":
 	// async_payment_succeeded) arrives.
 	it('says what will happen, and refunds the settled payment by the same ladder', async () => {
@@ -847,7 +847,7 @@ describe('cancelling a booking whose bank payment is still on its way', () => {
 // ---- who may open documents --------------------------------------------------------------------
 
 describe('documents on the booking page', () => {
-	// PRODUCT.md roles: invoices are for the artist, the owner and the accountant; the engineer
+	// Roles: invoices are for the artist, the owner and the accountant; the engineer
 	// may see that a document exists but is not offered a link the PDF route refuses (403).
 	it('an engineer sees the deposit invoice listed without a link; the owner and the artist get the link', async () => {
 		const artist = await signedIn(DEMO.artist);

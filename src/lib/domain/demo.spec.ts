@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { DEMO_POLICY, DEMO_ROOMS, DEMO_STUDIO, demoPolicy, demoRoom } from './demo';
 
-describe('demo values (source: PRODUCT.md, "Demo scenario"; invented studio)', () => {
+describe('demo values (the invented demo studio of src/lib/domain/demo.ts)', () => {
 	it('has the rate card of the brief, in cents', () => {
 		expect(DEMO_STUDIO.name).toBe('Hollow Pine Studio');
 		expect(DEMO_ROOMS.map((r) => [r.slug, r.rates.hourly, r.rates.halfDay, r.rates.fullDay])).toEqual([

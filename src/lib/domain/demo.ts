@@ -1,5 +1,5 @@
 /**
- * Demo values of PRODUCT.md ("Demo scenario"): Hollow Pine Studio, an invented studio in a
+ * The demo studio's values: Hollow Pine Studio, an invented studio in a
  * converted barn outside Tampere, Finland. Shared by the seed script and the tests; not a real
  * business. Amounts are integer cents (EUR, ISO 4217: 2 decimals).
  */

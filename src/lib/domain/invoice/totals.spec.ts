@@ -1,6 +1,6 @@
 /**
  * Invoice totals against EN 16931-1 (business rules as published with the CEN validation
- * artefacts, github.com/ConnectingEurope/eInvoicing-EN16931), on the demo studio of PRODUCT.md
+ * artefacts, github.com/ConnectingEurope/eInvoicing-EN16931), on the invented demo studio (src/lib/domain/demo.ts)
  * (Hollow Pine Studio, EUR, prices include VAT at 25.5 %). Amounts in cents.
  * Calendar: 2027-03-02 is a Tuesday.
  */
@@ -24,7 +24,7 @@ import {
 
 const EUR = { currency: 'EUR', amountsIncludeVat: true } as const;
 
-/** Tuesday 10:00–15:00 in the live room: a half day + 1 h = 205.00 (PRODUCT.md rates). */
+/** Tuesday 10:00–15:00 in the live room: a half day + 1 h = 205.00 at the demo rates. */
 const fiveHours = () =>
 	quoteBooking({
 		start: at('2027-03-02', '10:00'),
@@ -112,7 +112,7 @@ describe('BR-CO rules on a final invoice built from a quote', () => {
 
 	it('adds overtime lines and shows the cent of rounding as BT-114 (BR-CO-16)', () => {
 		const q = fiveHours();
-		// 20 minutes past 15:00: two started 15-minute increments at 45.00/h = 22.50 (PRODUCT.md).
+		// 20 minutes past 15:00: two started 15-minute increments at 45.00/h = 22.50 (overtime.ts).
 		const ot = overtimeCharge({
 			bookedEnd: at('2027-03-02', '15:00'),
 			actualEnd: at('2027-03-02', '15:20'),

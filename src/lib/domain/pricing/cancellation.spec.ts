@@ -8,7 +8,7 @@ const hoursBefore = (h: number) => new Date(start.getTime() - h * 3_600_000);
 const refund = (paid: number, deposit: number, noticeHours: number) =>
 	refundForCancellation({ paid, deposit, bookingStart: start, cancelledAt: hoursBefore(noticeHours), policy: DEMO_POLICY });
 
-describe('refund on cancellation (source: PRODUCT.md ladder: ≥ 7 days all, 48 h–7 days half, < 48 h nothing)', () => {
+describe('refund on cancellation (demo ladder: ≥ 7 days all, 48 h–7 days half, < 48 h nothing)', () => {
 	it('refunds the whole deposit with 7 days or more', () => {
 		expect(refund(6200, 6200, 8 * 24)).toMatchObject({
 			refund: 6200,

@@ -3,7 +3,7 @@ import fc from 'fast-check';
 import { DEMO_POLICY } from '../demo';
 import { depositAndBalance, depositFor } from './deposit';
 
-describe('deposit (source: PRODUCT.md: 30 % of the gross, up to whole euros, at least 50.00, never above the total)', () => {
+describe('deposit (demo policy: 30 % of the gross, up to whole euros, at least 50.00, never above the total)', () => {
 	it('rounds 30 % up to whole euros', () => {
 		expect(depositFor(20500, DEMO_POLICY)).toBe(6200); // 30 % of 205.00 = 61.50 → 62.00
 		expect(depositFor(41400, DEMO_POLICY)).toBe(12500); // 30 % of 414.00 = 124.20 → 125.00

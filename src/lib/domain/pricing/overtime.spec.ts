@@ -10,7 +10,7 @@ const overtime = (overrides: Partial<OvertimeInput> & Pick<OvertimeInput, 'booke
 	return o;
 };
 
-describe('overtime per started increment (source: PRODUCT.md: each started 15 min at the hourly rate and surcharges)', () => {
+describe('overtime per started increment (our rule: each started 15 min at the hourly rate and surcharges)', () => {
 	const bookedEnd = at('2027-03-02', '17:00'); // a Tuesday, before the evening window
 
 	it('bills one increment for the first minute over: 45.00 × 15/60 = 11.25', () => {

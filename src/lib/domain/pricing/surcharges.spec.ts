@@ -38,7 +38,7 @@ function referenceShares(start: Date, end: Date, rules: SurchargeRule[], isHolid
 	return rules.flatMap((r) => (won.has(r.id) ? [[r.id, won.get(r.id)]] : []));
 }
 
-describe('surcharge minutes (source: PRODUCT.md: highest surcharge per minute, in local wall time)', () => {
+describe('surcharge minutes (our rule: highest surcharge per minute, in local wall time)', () => {
 	it('Tuesday 16:00–20:00 has 120 evening minutes', () => {
 		const shares = surchargeShares(at('2027-03-02', '16:00'), at('2027-03-02', '20:00'), DEMO_POLICY, fiHoliday);
 		expect(shares.map((s) => [s.rule.id, s.minutes])).toEqual([['evening', 120]]);
