@@ -22,6 +22,11 @@ describe('deposit (demo policy: 30 % of the gross, up to whole euros, at least 5
 		expect(depositFor(0, DEMO_POLICY)).toBe(0);
 	});
 
+	it('asks no deposit, not even the minimum, when there is nothing to pay or the total is a credit', () => {
+		// Without the rule, the minimum (50.00) capped by a total of −5.00 would ask −5.00.
+		expect(depositAndBalance(-500, DEMO_POLICY)).toEqual({ deposit: 0, balance: -500 });
+	});
+
 	it('rounds up to whole units of other currencies (ISO 4217: JPY 0 digits, KWD 3)', () => {
 		const jpy = { currency: 'JPY', depositBp: 3000, depositMinimum: 0 };
 		expect(depositFor(20501, jpy)).toBe(6151); // 6150.3 → 6151 yen
