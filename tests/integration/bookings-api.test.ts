@@ -7,6 +7,7 @@ import { testDb } from '../support/db';
 import { addDays, nextDstChange, studioInstant, studioIso, studioToday, TZ, weekdayAhead, workdaysAhead } from '../support/dates';
 import { expectRefused, expectRefusedPage } from '../support/refusal';
 import { waitFor } from '../support/wait';
+import type { ApiQuote as Quote } from '../support/booking';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -28,18 +29,6 @@ beforeAll(async () => {
 			)
 		);
 });
-
-interface Quote {
-	lines: { key: string; label: string; amount: number; net: number }[];
-	net: number;
-	vat: { ratePercent: string; base: number; amount: number }[];
-	vatTotal: number;
-	gross: number;
-	rounding: number;
-	total: number;
-	deposit: number;
-	balance: number;
-}
 
 async function quote(body: unknown) {
 	const res = await new Client().json('/api/quote', body);

@@ -8,9 +8,11 @@ import { firstFree, type Slot, type SlotTimes } from './slots';
 import { payOnFake } from './stripe-fake';
 import { waitFor } from './wait';
 
-/** The quote of a new hold, as POST /api/bookings gives it (integer minor units). */
-export interface HeldQuote {
+/** A quote as the API gives it (POST /api/quote, and with a new hold): integer minor units. */
+export interface ApiQuote {
+	lines: { key: string; label: string; amount: number; net: number }[];
 	net: number;
+	vat: { ratePercent: string; base: number; amount: number }[];
 	vatTotal: number;
 	gross: number;
 	rounding: number;
@@ -27,7 +29,7 @@ export interface Held extends Slot {
 	checkoutUrl: string;
 	/** The Checkout Session on the Stripe fake (the end of `checkoutUrl`). */
 	sessionId: string;
-	quote: HeldQuote;
+	quote: ApiQuote;
 }
 
 /** What a spec asks for: the room, the file's own days and the slots on each, and any more fields. */
