@@ -402,18 +402,23 @@ describe('the edges of the totals, the rule checks and the lump-sum lines', () =
 		const t = valid();
 		const wrong = t.vat.map((g) => (g.rateBp === 1000 ? { ...g, rateBp: 2400, ratePercent: '24' } : g));
 		expect(documentViolations({ ...t, vat: wrong })).toContain('BR-S-01/BR-CO-18: one VAT group per rate used');
+		// …and a rate in use that has no group of its own.
+		const missing = t.vat.filter((g) => g.rateBp !== 1000);
+		expect(documentViolations({ ...t, vat: missing })).toContain('BR-S-01/BR-CO-18: one VAT group per rate used');
 	});
 
 	it('makes a priced line without a unit price one unit (UN/ECE Recommendation 20 code C62, "one") of its amount', () => {
 		const lines = linesFromPriceLines([
 			{ key: 'a', kind: 'room', label: 'Surcharge', amount: 1500, vatRateBp: 2550 },
 			{ key: 'b', kind: 'room', label: 'Quantity only', quantity: '2', amount: 9000, vatRateBp: 2550 },
-			{ key: 'c', kind: 'room', label: 'Hours', quantity: '2', unitAmount: 4500, amount: 9000, vatRateBp: 2550 }
+			{ key: 'c', kind: 'room', label: 'Hours', quantity: '2', unitAmount: 4500, amount: 9000, vatRateBp: 2550 },
+			{ key: 'd', kind: 'room', label: 'Unit price only', unitAmount: 4500, amount: 9000, vatRateBp: 2550 }
 		]);
 		expect(lines.map((l) => [l.quantity, l.unitCode, l.unitAmount])).toEqual([
 			['1', 'C62', 1500],
 			['1', 'C62', 9000],
-			['2', 'C62', 4500]
+			['2', 'C62', 4500],
+			['1', 'C62', 9000]
 		]);
 	});
 

@@ -112,6 +112,8 @@ describe('a ladder as the owner sets it (any order, any rungs), and its words', 
 	it('says whole days from 3 days on and hours below, "1 hour" in the singular, and any other share as a percent', () => {
 		expect(rungLabel({ minNoticeHours: 72, refundBp: 2_500 })).toBe("3 days' notice or more: 25 % of the deposit refunded");
 		expect(rungLabel({ minNoticeHours: 48, refundBp: 7_550 })).toBe("48 hours' notice or more: 75.5 % of the deposit refunded");
+		// Days only when the hours are whole days: 100 h stays 100 hours.
+		expect(rungLabel({ minNoticeHours: 100, refundBp: 10_000 })).toBe("100 hours' notice or more: whole deposit refunded");
 		expect(rungLabel({ minNoticeHours: 1, refundBp: 0 }, { minNoticeHours: 96, refundBp: 5_000 })).toBe(
 			"1 hour to 4 days' notice: no refund of the deposit"
 		);
