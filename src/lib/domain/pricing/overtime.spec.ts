@@ -75,3 +75,24 @@ describe('overtime per started increment (our rule: each started 15 min at the h
 		);
 	});
 });
+
+describe('overtime: the increment, and surcharges on the engineer', () => {
+	it('refuses an increment that is not a positive whole number of minutes', () => {
+		for (const overtimeIncrementMinutes of [0, -15, 7.5]) {
+			expect(() =>
+				overtimeCharge({
+					bookedEnd: at('2027-03-02', '17:00'),
+					actualEnd: at('2027-03-02', '17:20'),
+					room: LIVE_ROOM,
+					engineer: true,
+					policy: { ...DEMO_POLICY, overtimeIncrementMinutes }
+				})
+			).toThrow('overtimeIncrementMinutes must be a positive integer');
+		}
+	});
+
+	it('names the engineer’s evening surcharge on overtime as such: 20 min past 18:00 bills 30 min at +25 %', () => {
+		const o = overtime({ bookedEnd: at('2027-03-02', '18:00'), actualEnd: at('2027-03-02', '18:20'), engineer: true });
+		expect(o.lines.map((l) => l.label)).toContain('Evening surcharge on engineer overtime (25 %, 30 min)');
+	});
+});
