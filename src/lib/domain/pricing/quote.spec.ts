@@ -359,3 +359,45 @@ describe('the cover is chosen with surcharges included (our rule)', () => {
 		expect(q.total).toBe(34688);
 	});
 });
+
+describe('the words and units of block, engineer and gear lines', () => {
+	it('names full days, half days and hours with their lengths, in UN/ECE Rec. 20 units (C62 one, HUR hour)', () => {
+		// Tuesday 09:00–22:00 without surcharges: 13 h = a full day (8 h) + a half day (4 h) + 1 h,
+		// 300.00 + 160.00 + 45.00 = 505.00, cheaper than a full day and 5 h (525.00) or two full days.
+		const q = quote({ start: at('2027-03-02', '09:00'), end: at('2027-03-02', '22:00'), policy: policyWith({ surcharges: [] }) });
+		expect(q.total).toBe(50500);
+		expect(q.lines.map((l) => [l.label, l.unitCode])).toEqual([
+			['Live room, full day (8 h)', 'C62'],
+			['Live room, half day (4 h)', 'C62'],
+			['Live room, hourly (1 h)', 'HUR']
+		]);
+	});
+
+	it('names the surcharge on the engineer’s time, and gives gear one unit', () => {
+		const q = quote({
+			start: at('2027-03-02', '18:00'),
+			end: at('2027-03-02', '20:00'),
+			engineer: true,
+			gear: [{ id: 'tube-pre', label: 'Valve preamp', fee: 3500 }]
+		});
+		expect(q.lines.map((l) => l.label)).toContain('Evening surcharge on engineer time (25 %, 2 h)');
+		expect(line(q, 'gear:tube-pre').unitCode).toBe('C62');
+	});
+
+	it('takes whole minutes only, and an end after the start', () => {
+		const start = at('2027-03-02', '10:00');
+		expect(() =>
+			quoteBooking({
+				start,
+				end: new Date(start.getTime() + 2 * 3_600_000 + 30_000),
+				room: LIVE_ROOM,
+				engineer: false,
+				gear: [],
+				policy: DEMO_POLICY
+			})
+		).toThrow('times must fall on whole minutes');
+		expect(() => quoteBooking({ start, end: start, room: LIVE_ROOM, engineer: false, gear: [], policy: DEMO_POLICY })).toThrow(
+			'end must be after start'
+		);
+	});
+});
