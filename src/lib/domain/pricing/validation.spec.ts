@@ -114,3 +114,36 @@ describe('parseLocalOrOffset (ISO 8601; RFC 5545 first occurrence; IANA tz)', ()
 		}
 	});
 });
+
+describe('parseLocalOrOffset at its edges (ISO 8601 offsets, seconds and fractions)', () => {
+	const instantOf = (text: string) => {
+		const r = parseLocalOrOffset(text, HELSINKI);
+		return r.ok ? r.instant.toISOString() : r.code;
+	};
+
+	it('subtracts a positive offset and adds a negative one, hours and minutes, with or without a colon', () => {
+		// By hand: 10:07:30.25 at +05:30 is 04:37:30.250 UTC; at −03:30 it is 13:37:30.250 UTC.
+		expect(instantOf('2027-03-02T10:07:30.25+05:30')).toBe('2027-03-02T04:37:30.250Z');
+		expect(instantOf('2027-03-02T10:07:30.25-03:30')).toBe('2027-03-02T13:37:30.250Z');
+		expect(instantOf('2027-03-02T10:07+0530')).toBe('2027-03-02T04:37:00.000Z');
+		expect(instantOf('2027-03-02T10:00:30.125Z')).toBe('2027-03-02T10:00:30.125Z');
+	});
+
+	it('keeps the seconds of a wall time in the studio’s zone (Helsinki is UTC+3 in July)', () => {
+		expect(instantOf('2027-07-01T10:00:30.5')).toBe('2027-07-01T07:00:30.500Z');
+	});
+
+	it('takes 23:59:59 and offsets up to ±18:00, and nothing beyond', () => {
+		expect(instantOf('2027-03-02T23:59:59Z')).toBe('2027-03-02T23:59:59.000Z');
+		expect(instantOf('2027-03-02T10:00+18:00')).toBe('2027-03-01T16:00:00.000Z');
+		for (const text of ['2027-03-02T24:00Z', '2027-03-02T10:60Z', '2027-03-02T10:00:60Z', '2027-03-02T10:00+18:01']) {
+			expect(instantOf(text), text).toBe('invalid_time');
+		}
+	});
+
+	it('reads the text with spaces around it trimmed, and nothing else around it', () => {
+		expect(instantOf(' 2027-03-02T10:00Z ')).toBe('2027-03-02T10:00:00.000Z');
+		expect(instantOf('x2027-03-02T10:00Z')).toBe('invalid_time');
+		expect(instantOf('2027-03-02T10:00Zx')).toBe('invalid_time');
+	});
+});
