@@ -225,7 +225,7 @@ describe('the edges of a surcharge window (calendar: 2027-03-05 is a Friday, 202
 		toMinute: 2 * 60,
 		...over
 	});
-	const minutesOf = (start: Date, end: Date, rules: SurchargeRule[], isHoliday = noHolidays) =>
+	const minutesOf = (start: Date, end: Date, rules: SurchargeRule[], isHoliday: (ymd: string) => boolean = noHolidays) =>
 		surchargeShares(start, end, { timeZone: HELSINKI, surcharges: rules }, isHoliday).map((s) => [s.rule.id, s.minutes]);
 
 	it('starts a window past midnight at its first minute, on the weekday it is listed for', () => {
