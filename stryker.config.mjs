@@ -7,7 +7,6 @@ export default {
 	mutate: [
 		'src/lib/domain/**/*.ts',
 		'!src/lib/domain/**/*.spec.ts',
-		'!src/lib/domain/**/spec-fixtures.ts',
 		// Type declarations and re-exports only: nothing to mutate.
 		'!src/lib/domain/types.ts',
 		'!src/lib/domain/pricing/index.ts',
@@ -28,7 +27,9 @@ export default {
 		'test-results',
 		'playwright-report',
 		'coverage',
-		'tests',
+		// Of the tests, only the unit specs' fixtures ($fixtures in svelte.config.js).
+		'tests/*',
+		'!tests/unit-fixtures',
 		'static',
 		'drizzle'
 	],

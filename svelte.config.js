@@ -23,6 +23,8 @@ const config = {
 			}
 		},
 		adapter: adapter({ out: 'build' }),
+		// The unit specs' shared fixtures live with the tests, outside the app's code.
+		alias: { $fixtures: 'tests/unit-fixtures' },
 		csp: {
 			mode: 'auto',
 			directives: {

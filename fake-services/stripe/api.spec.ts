@@ -38,7 +38,7 @@ describe('API basics', () => {
 
 	it('requires a test secret key (401 in Stripe error shape)', async () => {
 		const res = await fetch(`${fx.fake.url}/v1/checkout/sessions/cs_test_x`, {
-			signal: AbortSignal.timeout(3000)
+			signal: AbortSignal.timeout(60_000)
 		});
 		expect(res.status).toBe(401);
 		const body = (await res.json()) as { error: { type: string; message: string } };
@@ -53,7 +53,7 @@ describe('API basics', () => {
 	it('answers unknown routes and ids with 404 resource_missing', async () => {
 		const res = await fetch(`${fx.fake.url}/v1/customers`, {
 			headers: { Authorization: 'Bearer sk_test_x' },
-			signal: AbortSignal.timeout(3000)
+			signal: AbortSignal.timeout(60_000)
 		});
 		expect(res.status).toBe(404);
 		expect(await res.json()).toMatchObject({
@@ -93,7 +93,7 @@ describe('API basics', () => {
 				'Content-Type': 'application/x-www-form-urlencoded'
 			},
 			body,
-			signal: AbortSignal.timeout(3000)
+			signal: AbortSignal.timeout(60_000)
 		});
 		expect(res.status).toBe(200);
 		const s = (await res.json()) as Stripe.Checkout.Session;
@@ -109,7 +109,7 @@ describe('API basics', () => {
 			method: 'POST',
 			headers: { Authorization: 'Bearer sk_test_x', 'Content-Type': 'application/json' },
 			body: JSON.stringify({ mode: 'payment' }),
-			signal: AbortSignal.timeout(3000)
+			signal: AbortSignal.timeout(60_000)
 		});
 		expect(json.status).toBe(400);
 	});
@@ -404,7 +404,7 @@ describe('Idempotency-Key', () => {
 				'Idempotency-Key': 'k-refund'
 			},
 			body: `payment_intent=${pi}&amount=999999`,
-			signal: AbortSignal.timeout(3000)
+			signal: AbortSignal.timeout(60_000)
 		});
 		expect(replay.status).toBe(400);
 		expect(replay.headers.get('idempotent-replayed')).toBe('true');

@@ -60,8 +60,12 @@ export async function startReceiver(): Promise<Receiver> {
 	};
 }
 
-/** Polls until `check` returns a value that is not undefined/false, or fails after `timeoutMs`. */
-export async function waitFor<T>(check: () => T | undefined | false, what: string, timeoutMs = 3000): Promise<T> {
+/**
+ * Polls until `check` returns a value that is not undefined/false, or fails after `timeoutMs`. The
+ * limits in these specs only end a wait that never will: a loaded machine can take seconds to
+ * answer on a local socket, and waiting longer never passes a wrong result.
+ */
+export async function waitFor<T>(check: () => T | undefined | false, what: string, timeoutMs = 60_000): Promise<T> {
 	const deadline = Date.now() + timeoutMs;
 	for (;;) {
 		const value = check();
@@ -93,7 +97,7 @@ export function sdk(port: number, key = 'sk_test_slateroom_spec'): Stripe {
 		host: '127.0.0.1',
 		port,
 		protocol: 'http',
-		timeout: 4000,
+		timeout: 60_000,
 		maxNetworkRetries: 2
 	});
 }
@@ -105,7 +109,7 @@ export async function startFixture(options: StripeFakeOptions = {}): Promise<Fix
 		webhookUrl: receiver.url,
 		webhookSecret: WEBHOOK_SECRET,
 		retryDelaysMs: [20, 40, 80],
-		deliveryTimeoutMs: 2000,
+		deliveryTimeoutMs: 60_000,
 		...options
 	});
 	return {
@@ -117,7 +121,7 @@ export async function startFixture(options: StripeFakeOptions = {}): Promise<Fix
 				method,
 				headers: body === undefined ? {} : { 'Content-Type': 'application/json' },
 				body: body === undefined ? undefined : JSON.stringify(body),
-				signal: AbortSignal.timeout(4000)
+				signal: AbortSignal.timeout(60_000)
 			});
 			return { status: res.status, json: (await res.json()) as Record<string, unknown> };
 		},

@@ -31,12 +31,12 @@ function postForm(path: string, body = ''): Promise<Response> {
 		redirect: 'manual',
 		headers: { 'Content-Type': 'application/x-www-form-urlencoded' },
 		body,
-		signal: AbortSignal.timeout(3000)
+		signal: AbortSignal.timeout(60_000)
 	});
 }
 
 async function getText(url: string): Promise<{ status: number; text: string }> {
-	const res = await fetch(url, { signal: AbortSignal.timeout(3000) });
+	const res = await fetch(url, { signal: AbortSignal.timeout(60_000) });
 	return { status: res.status, text: await res.text() };
 }
 
@@ -129,14 +129,14 @@ describe('signed webhook deliveries', () => {
 		});
 		try {
 			const res = await fetch(`${fake.url}/_control/sessions`, {
-				signal: AbortSignal.timeout(3000)
+				signal: AbortSignal.timeout(60_000)
 			});
 			expect(res.status).toBe(200);
 			const stripe = new Stripe('sk_test_x', {
 				host: '127.0.0.1',
 				port: fake.port,
 				protocol: 'http',
-				timeout: 4000
+				timeout: 60_000
 			});
 			const s = await stripe.checkout.sessions.create(depositParams());
 			await stripe.checkout.sessions.expire(s.id);
@@ -194,7 +194,7 @@ describe('signed webhook deliveries', () => {
 		}
 		// All three reach the held queue (the fake counts them there), and none reaches the receiver.
 		let held = 0;
-		for (const deadline = Date.now() + 3000; held < 3 && Date.now() < deadline; await sleep(10)) {
+		for (const deadline = Date.now() + 60_000; held < 3 && Date.now() < deadline; await sleep(10)) {
 			held = (await fx.control('GET', '/deliveries')).json.held as number;
 		}
 		expect(held).toBe(3);

@@ -2,9 +2,9 @@ import { type APIRequestContext, type Page } from '@playwright/test';
 import { DEMO_PASSWORD, expect, newContext, test } from './support';
 import { addDays, isWorkday, isoWeekday, studioInstant, studioToday } from '../support/dates';
 
-// The artist's journey of PRODUCT.md: free time on the public calendar, a half-day block with an
+// The artist's journey: free time on the public calendar, a half-day block with an
 // engineer, the exact price, sign-in without losing the choices, a hold, and the slot then busy
-// for everyone else. Demo rates (PRODUCT.md): live room half day 160.00 + engineer half day
+// for everyone else. Demo rates (src/lib/domain/demo.ts): live room half day 160.00 + engineer half day
 // 120.00 = 280.00 on a weekday morning (no surcharge); deposit 30 % = 84.00 (rounded up to whole
 // euros, at least 50.00).
 
@@ -127,7 +127,6 @@ test('an artist books a half day with an engineer from the calendar, and the slo
 	page,
 	browser
 }) => {
-	test.setTimeout(120_000);
 	// From 20 days ahead, the first week with a free weekday morning (the scan below moves on by
 	// itself when a morning is taken).
 	let target = addDays(studioToday(), 20);
@@ -198,9 +197,7 @@ test('an artist books a half day with an engineer from the calendar, and the slo
 
 	// 5. Confirm: a hold, then Stripe's page (the local fake) or straight to the booking.
 	await page.getByRole('button', { name: 'Confirm and pay the deposit' }).click();
-	await page.waitForURL((url) => /\/bookings\/[0-9a-f-]{36}/.test(url.pathname) || /\/pay\//.test(url.pathname), {
-		timeout: 20_000
-	});
+	await page.waitForURL((url) => /\/bookings\/[0-9a-f-]{36}/.test(url.pathname) || /\/pay\//.test(url.pathname));
 
 	await page.goto('/bookings');
 	// Holds that lapsed on the same morning in earlier runs are marked expired when a hold is made.

@@ -7,7 +7,7 @@ test('the owner opens Rates & policy, sees the demo values, and a bad rate is re
 	await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Rates & policy' }).click();
 	await expect(page.getByRole('heading', { level: 1, name: 'Rates & policy' })).toBeVisible();
 
-	// PRODUCT.md demo: engineer 35.00 per hour, VAT 25.5 % included, deposit 30 %, at least 50.00.
+	// The demo studio: engineer 35.00 per hour, VAT 25.5 % included, deposit 30 %, at least 50.00.
 	const hourly = page.getByLabel('Per hour');
 	await expect(hourly).toHaveValue('35.00');
 	await expect(page.getByLabel('VAT rate (%)')).toHaveValue('25.5');

@@ -1,7 +1,7 @@
 // The artist's money journey in Chromium against the production build: book, pay the deposit on
 // the Stripe fake's own page, come back to the booking confirmed with its deposit invoice, then
 // cancel with eight days' notice or more and see the whole deposit refunded and the credit note.
-// Sources: PRODUCT.md (deposit at least 50.00; 7 days' notice or more refunds the whole
+// Sources: the demo policy (deposit at least 50.00; 7 days' notice or more refunds the whole
 // deposit); Stripe docs, "Fulfill orders" (the booking is confirmed by the webhook, not by the
 // return to the success page); UNTDID 1001 (386 deposit invoice, 381 credit note).
 //
@@ -17,7 +17,7 @@ import { signIn, expect, test } from './support';
 import { addDays, isWorkday, noticeDays, studioInstant, studioToday } from '../support/dates';
 
 const HOUR = 3_600_000;
-/** The studio's turnaround after each booking (PRODUCT.md: 30 minutes). */
+/** The studio's turnaround after each booking (the demo policy's 30 minutes). */
 const TURNAROUND_MS = 30 * 60_000;
 
 interface Slot {
@@ -93,7 +93,7 @@ test('pay the deposit on Stripe’s page, see the booking confirmed, cancel and 
 
 	// Back on the booking; the webhook confirms it (the page looks again by itself).
 	await expect(page).toHaveURL(new RegExp(`/bookings/${id}\\?paid=1`));
-	await expect(panel.getByTestId('payments').locator('li[data-status="paid"]')).toHaveCount(1, { timeout: 20_000 });
+	await expect(panel.getByTestId('payments').locator('li[data-status="paid"]')).toHaveCount(1);
 	await expect(panel.getByTestId('invoices').locator('li[data-type="386"]')).toContainText(/DEP-\d{4}-\d{4}/);
 	const api = await page.request.get(`/api/bookings/${id}`);
 	expect(((await api.json()) as { status: string }).status).toBe('confirmed');

@@ -5,30 +5,17 @@
 //   no control to record it;
 // - the rate cards note what is odd beside the field and refuse what can only be a typo.
 // Screenshots at desk and phone sizes go to the test's output folder.
-// The slot: the control room, 14:00–16:00 on a weekday 20–40 days ahead (nothing else books it).
+// The slot: the control room, 14:00–16:00 on a working weekday from 20 days ahead (nothing else books it).
 import { expect, test, type Page, type TestInfo } from '@playwright/test';
-import { isPublicHoliday } from '../../src/lib/domain/holidays';
-import { signIn } from './support';
+import { workdaysAhead } from '../support/dates';
+import { holdFirstFree, signIn } from './support';
 
-// Both journeys take many steps on a busy machine; no step depends on speed.
-test.describe.configure({ timeout: 180_000 });
-
-const TZ = 'Europe/Helsinki';
 const STRIPE = process.env.STRIPE_API_BASE ?? 'http://127.0.0.1:12112';
 const DESK = { width: 1280, height: 900 };
 const PHONE = { width: 390, height: 844 };
 
-function weekdaysAhead(): string[] {
-	const days: string[] = [];
-	for (let d = 20; d <= 40; d++) {
-		const ymd = new Intl.DateTimeFormat('en-CA', { timeZone: TZ, year: 'numeric', month: '2-digit', day: '2-digit' }).format(
-			new Date(Date.now() + d * 86_400_000)
-		);
-		const dow = new Date(`${ymd}T12:00:00Z`).getUTCDay();
-		if (dow !== 0 && dow !== 6 && !isPublicHoliday('FI', ymd)) days.push(ymd);
-	}
-	return days;
-}
+/** Working weekdays from 20 days ahead, tried in order. */
+const DAYS = workdaysAhead(20, 14);
 
 async function shoot(page: Page, info: TestInfo, name: string) {
 	for (const [size, viewport] of [
@@ -56,18 +43,8 @@ test('back from Checkout: one waiting notice, no second payment, then confirmed;
 	browser
 }, info) => {
 	await signIn(page, 'artist@slateroom.test');
-	let id = '';
-	for (const ymd of weekdaysAhead()) {
-		const res = await page.request.post('/api/bookings', {
-			data: { room: 'control-room', start: `${ymd}T14:00`, end: `${ymd}T16:00` }
-		});
-		if (res.status() === 201) {
-			id = ((await res.json()) as { id: string }).id;
-			break;
-		}
-		expect(res.status()).toBe(409);
-	}
-	expect(id, 'a free afternoon in the control room 20–40 days ahead').not.toBe('');
+	const { id } = await holdFirstFree(page.request, 'control-room', DAYS, [['14:00', '16:00']]);
+	expect(id, 'a free afternoon in the control room from 20 days ahead').not.toBe('');
 
 	await page.goto(`/bookings/${id}`);
 	const panel = page.getByTestId('money-panel');
@@ -83,15 +60,17 @@ test('back from Checkout: one waiting notice, no second payment, then confirmed;
 		await expect(page.locator('[data-testid="money-confirming"], [data-testid="paid-waiting"]')).toHaveCount(1);
 		await expect(page.getByTestId('pay-deposit')).toHaveCount(0);
 		await expect(page.getByTestId('status-line')).toHaveText('Held while your deposit payment is confirmed.');
-		// The page looks again by itself every moment: still one notice and no button after a few looks.
-		await page.waitForTimeout(3500);
+		// The page looks again by itself every moment: still one notice and no button after two looks.
+		for (let look = 0; look < 2; look++) {
+			await page.waitForResponse((r) => r.url().includes(`/bookings/${id}/__data.json`));
+		}
 		await expect(page.locator('[data-testid="money-confirming"], [data-testid="paid-waiting"]')).toHaveCount(1);
 		await expect(page.getByTestId('pay-deposit')).toHaveCount(0);
 		await shoot(page, info, 'booking-paid-waiting');
 	} finally {
 		await fakeControl('release-deliveries');
 	}
-	await expect(page.getByTestId('booking-status')).toHaveAttribute('data-status', 'confirmed', { timeout: 30_000 });
+	await expect(page.getByTestId('booking-status')).toHaveAttribute('data-status', 'confirmed');
 	await expect(page.getByTestId('money-confirming')).toHaveCount(0);
 	await expect(page.getByTestId('pay-deposit')).toHaveCount(0);
 	await expect(page.getByTestId('quote-balance')).toHaveCount(1);

@@ -1,4 +1,5 @@
-import { test as base, expect, type Browser, type BrowserContext, type Page } from '@playwright/test';
+import { test as base, expect, type APIRequestContext, type Browser, type BrowserContext, type Page } from '@playwright/test';
+import { firstFree, type Slot, type SlotTimes } from '../support/slots';
 
 export { expect };
 
@@ -34,4 +35,20 @@ export async function signIn(page: Page, email: string, password = DEMO_PASSWORD
 	await page.getByLabel('Password').fill(password);
 	await page.getByRole('button', { name: 'Sign in' }).click();
 	await expect(page.getByTestId('signed-in-as')).toBeVisible();
+}
+
+/**
+ * Holds the first free slot of `days` × `slots` in `room` with the signed-in page's own cookies
+ * (`page.request`); taken slots are passed over, anything else fails.
+ */
+export async function holdFirstFree(
+	request: APIRequestContext,
+	room: string,
+	days: readonly string[],
+	slots: SlotTimes
+): Promise<{ id: string; checkoutUrl: string } & Slot> {
+	return firstFree(days, slots, async ({ start, end }) => {
+		const res = await request.post('/api/bookings', { data: { room, start, end } });
+		return { status: res.status(), body: () => res.json() };
+	});
 }

@@ -1,24 +1,6 @@
-import { signIn, expect, test } from './support';
+import { holdFirstFree, signIn, expect, test } from './support';
 import { workdaysAhead } from '../support/dates';
-
-/** A mono 16-bit 8 kHz PCM WAV: the 44-byte RIFF/WAVE header and a short 440 Hz tone. */
-function wav(samples = 800): Buffer {
-	const buf = Buffer.alloc(44 + samples * 2);
-	buf.write('RIFF', 0, 'ascii');
-	buf.writeUInt32LE(36 + samples * 2, 4);
-	buf.write('WAVEfmt ', 8, 'ascii');
-	buf.writeUInt32LE(16, 16);
-	buf.writeUInt16LE(1, 20);
-	buf.writeUInt16LE(1, 22);
-	buf.writeUInt32LE(8000, 24);
-	buf.writeUInt32LE(16000, 28);
-	buf.writeUInt16LE(2, 32);
-	buf.writeUInt16LE(16, 34);
-	buf.write('data', 36, 'ascii');
-	buf.writeUInt32LE(samples * 2, 40);
-	for (let i = 0; i < samples; i++) buf.writeInt16LE(Math.round(8000 * Math.sin((2 * Math.PI * 440 * i) / 8000)), 44 + i * 2);
-	return buf;
-}
+import { wav } from '../support/audio';
 
 /** The uploads specs' days (working weekdays from 150 days ahead) and two-hour slots, tried in order. */
 const DAYS = workdaysAhead(150, 15);
@@ -31,19 +13,7 @@ const SLOTS = [
 
 test('the artist uploads a reference track on the booking page and sees it listed', async ({ page }) => {
 	await signIn(page, 'artist@slateroom.test');
-	let bookingId = '';
-	for (const day of DAYS) {
-		for (const [from, to] of SLOTS) {
-			const res = await page.request.post('/api/bookings', {
-				data: { room: 'vocal-booth', start: `${day}T${from}`, end: `${day}T${to}` }
-			});
-			if (res.status() === 409) continue;
-			expect(res.status()).toBe(201);
-			bookingId = ((await res.json()) as { id: string }).id;
-			break;
-		}
-		if (bookingId) break;
-	}
+	const { id: bookingId } = await holdFirstFree(page.request, 'vocal-booth', DAYS, SLOTS);
 	expect(bookingId).not.toBe('');
 
 	await page.goto(`/bookings/${bookingId}`);
@@ -52,7 +22,9 @@ test('the artist uploads a reference track on the booking page and sees it liste
 	await expect(files.getByTestId('files-empty')).toBeVisible();
 	await expect(files).toContainText('up to 4 MB a file');
 
-	await files.getByLabel('Add a file').setInputFiles({ name: 'Reference mix, Kesäyö.wav', mimeType: 'audio/wav', buffer: wav() });
+	await files
+		.getByLabel('Add a file')
+		.setInputFiles({ name: 'Reference mix, Kesäyö.wav', mimeType: 'audio/wav', buffer: Buffer.from(wav(800)) });
 	await files.getByRole('button', { name: 'Upload' }).click();
 
 	await expect(files.getByTestId('files-status')).toHaveText('“Reference mix, Kesäyö.wav” is uploaded.');

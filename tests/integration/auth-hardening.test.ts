@@ -144,7 +144,7 @@ describe('better-auth’s JSON routes are no side door', () => {
 		const replay = await fetch(`${c.base}/api/auth/get-session`, { headers: { cookie } });
 		expect(replay.status).toBe(200);
 		expect(await replay.json()).toBeNull();
-	}, 120_000);
+	});
 });
 
 describe('a made-up X-Forwarded-For resets no limit', () => {

@@ -7,6 +7,7 @@ import { testDb } from '../support/db';
 import { addDays, nextDstChange, studioInstant, studioIso, studioToday, TZ, weekdayAhead, workdaysAhead } from '../support/dates';
 import { expectRefused, expectRefusedPage } from '../support/refusal';
 import { waitFor } from '../support/wait';
+import type { ApiQuote as Quote } from '../support/booking';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -29,18 +30,6 @@ beforeAll(async () => {
 		);
 });
 
-interface Quote {
-	lines: { key: string; label: string; amount: number; net: number }[];
-	net: number;
-	vat: { ratePercent: string; base: number; amount: number }[];
-	vatTotal: number;
-	gross: number;
-	rounding: number;
-	total: number;
-	deposit: number;
-	balance: number;
-}
-
 async function quote(body: unknown) {
 	const res = await new Client().json('/api/quote', body);
 	return { status: res.status, body: (await res.json()) as Quote & { error?: string; fields?: Record<string, string[]> } };
@@ -52,7 +41,7 @@ const helsinki = studioIso;
 describe('POST /api/quote', () => {
 	const day = ownDay(0);
 
-	it('prices 5 h in the live room as a half day plus one hour (PRODUCT.md demo rates)', async () => {
+	it('prices 5 h in the live room as a half day plus one hour (demo rates)', async () => {
 		// 160.00 (half day, 4 h) + 45.00 (1 h) = 205.00, cheaper than 5 × 45.00 = 225.00.
 		const { status, body } = await quote({ room: 'live-room', start: `${day}T10:00`, end: `${day}T15:00` });
 		expect(status).toBe(200);
@@ -216,7 +205,7 @@ describe('GET /api/availability', () => {
 			open: { start: string; end: string }[];
 		};
 		expect(body.timeZone).toBe(TZ);
-		// Busy: the booking and its 30-minute turnaround (PRODUCT.md), 10:00–14:30 local.
+		// Busy: the booking and its 30-minute turnaround (demo policy), 10:00–14:30 local.
 		expect(body.busy.map((b) => [Date.parse(b.start), Date.parse(b.end)])).toEqual([
 			[Date.parse(helsinki(day, '10:00')), Date.parse(helsinki(day, '14:30'))]
 		]);
@@ -367,7 +356,7 @@ describe('POST /api/bookings', () => {
 	it('answers 409 taken: engineer with nearby starts where the engineer is free too', async () => {
 		const day = ownDay(15);
 		const engineers = await db.select().from(t.user).where(eq(t.user.role, 'engineer'));
-		expect(engineers).toHaveLength(1); // the seed's one engineer (PRODUCT.md demo)
+		expect(engineers).toHaveLength(1); // the seed's one engineer
 		const a = await signedIn(DEMO.artist);
 		const b = await signedIn(DEMO.artist2);
 		expect(
@@ -491,20 +480,16 @@ describe('POST /api/bookings', () => {
 			.set({ holdExpiresAt: new Date(Date.now() - 1000) })
 			.where(eq(t.booking.id, id));
 		// The app's background job runs every 15 s.
-		const status = await waitFor(
-			async () => {
-				const [row] = await db.select().from(t.booking).where(eq(t.booking.id, id));
-				return row!.status === 'held' ? undefined : row!.status;
-			},
-			'the hold job',
-			25_000
-		);
+		const status = await waitFor(async () => {
+			const [row] = await db.select().from(t.booking).where(eq(t.booking.id, id));
+			return row!.status === 'held' ? undefined : row!.status;
+		}, 'the hold job');
 		expect(status).toBe('expired');
 		const b = await signedIn(DEMO.artist2);
 		expect((await b.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T12:00` })).status).toBe(
 			201
 		);
-	}, 30_000);
+	});
 });
 
 describe('scoping (OWASP ASVS 8.2.2)', () => {
@@ -540,7 +525,7 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 			expect(c.cookieHeader()).toContain('session_token');
 			artists.push(c);
 		}
-	}, 120_000);
+	});
 
 	async function race(bodies: unknown[]) {
 		const results = await Promise.all(bodies.map((body, i) => artists[i]!.json('/api/bookings', body)));
@@ -565,7 +550,7 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 				)
 			);
 		expect(rows[0]!.n).toBe(1);
-	}, 60_000);
+	});
 
 	it('one engineer across two rooms: exactly one 201', async () => {
 		const day = ownDay(10);
@@ -590,7 +575,7 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 				)
 			);
 		expect(rows[0]!.n).toBe(1);
-	}, 60_000);
+	});
 
 	it('one piece of gear across two rooms: exactly one 201', async () => {
 		const day = ownDay(11);
@@ -628,5 +613,5 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 				)
 			);
 		expect(bookings[0]!.n).toBe(1);
-	}, 60_000);
+	});
 });

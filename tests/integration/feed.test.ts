@@ -11,6 +11,7 @@ import { waitFor } from '../support/wait';
 import { addDays, studioToday } from '../support/dates';
 import { expectRefusedPage } from '../support/refusal';
 import { payOnFake } from '../support/stripe-fake';
+import { holdFirstFree } from '../support/booking';
 import * as t from '../../src/lib/server/db/schema';
 import { DEMO_BOOKING_IDS } from '../../src/lib/domain/demo';
 
@@ -45,18 +46,17 @@ describe('the calendar feed', () => {
 
 		// A session held but not paid is nobody's yet: it stays out of the feed until its deposit arrives.
 		const artist = await signedIn(DEMO.artist);
-		let booked: { id: string; checkoutUrl: string } | undefined;
 		// The first free late evening in the control room from 20 days ahead, on the studio's calendar.
-		for (let i = 20; i < 40 && !booked; i++) {
-			const ymd = addDays(studioToday(), i);
-			const res = await artist.json('/api/bookings', { room: 'control-room', start: `${ymd}T21:00`, end: `${ymd}T23:00` });
-			if (res.status === 201) booked = (await res.json()) as { id: string; checkoutUrl: string };
-		}
+		const booked = await holdFirstFree(artist, {
+			room: 'control-room',
+			days: Array.from({ length: 20 }, (_, i) => addDays(studioToday(), 20 + i)),
+			slots: [['21:00', '23:00']]
+		});
 		expect(booked).toBeDefined();
 		const before = await feed(token!);
 		expect(before.status).toBe(200);
 		expect(before.type).toMatch(/^text\/calendar/);
-		expect(vevents(before.text).map((e) => e.uid)).not.toContain(booked!.id);
+		expect(vevents(before.text).map((e) => e.uid)).not.toContain(booked.id);
 		// The seeded demo sessions of the coming week are in it, at their exact instants.
 		const [demo] = await db.select().from(t.booking).where(eq(t.booking.id, DEMO_BOOKING_IDS[2]));
 		const demoEvent = vevents(before.text).find((e) => e.uid === demo!.id);
@@ -64,10 +64,9 @@ describe('the calendar feed', () => {
 		expect(new Date(demoEvent!.start!).getTime()).toBe(demo!.startsAt.getTime());
 		expect(demoEvent!.summary).toContain('Noa Virta');
 
-		const sessionId = booked!.checkoutUrl.split('/pay/')[1]!;
-		expect(await payOnFake(sessionId)).toBe(200);
+		expect(await payOnFake(booked.sessionId)).toBe(200);
 		const after = await waitFor(
-			async () => vevents((await feed(token!)).text).find((e) => e.uid === booked!.id),
+			async () => vevents((await feed(token!)).text).find((e) => e.uid === booked.id),
 			'the paid session in the feed'
 		);
 		expect(after.status).toBe('CONFIRMED');
@@ -78,10 +77,10 @@ describe('the calendar feed', () => {
 		const old = await feed(token!);
 		expect(old.status).toBe(404);
 		expect(old.text).not.toContain('BEGIN:VEVENT');
-		expect(old.text).not.toContain(booked!.id);
+		expect(old.text).not.toContain(booked.id);
 		const current = await feed(replaced!);
 		expect(current.status).toBe(200);
-		expect(vevents(current.text).map((e) => e.uid)).toContain(booked!.id);
+		expect(vevents(current.text).map((e) => e.uid)).toContain(booked.id);
 	});
 
 	it('has no address for artists or accountants, and an unknown address is a 404', async () => {

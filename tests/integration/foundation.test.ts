@@ -17,12 +17,12 @@ describe('public endpoints', () => {
 		expect(await res.json()).toEqual({ ok: true, db: 'up' });
 	});
 
-	it('GET /api/rooms lists the demo rooms with the brief’s rates in minor units', async () => {
+	it('GET /api/rooms lists the demo rooms with their rates in minor units', async () => {
 		const res = await new Client().fetch('/api/rooms');
 		expect(res.status).toBe(200);
 		const body = (await res.json()) as { currency: string; rooms: { slug: string; rates: Record<string, number> }[] };
 		expect(body.currency).toBe('EUR');
-		// PRODUCT.md demo scenario: live room 45/160/300, vocal booth 30/100/190, control room 40/140/260.
+		// The demo studio (src/lib/domain/demo.ts): live room 45/160/300, vocal booth 30/100/190, control room 40/140/260.
 		expect(Object.fromEntries(body.rooms.map((r) => [r.slug, r.rates]))).toEqual({
 			'live-room': { hourly: 4500, halfDay: 16000, fullDay: 30000 },
 			'vocal-booth': { hourly: 3000, halfDay: 10000, fullDay: 19000 },

@@ -4,7 +4,7 @@
 //   note refers to the invoice it amends), Article 65 (VAT on a payment on account);
 // - EN 16931-1 business rules (CEN validation artefacts, github.com/ConnectingEurope/eInvoicing-EN16931):
 //   BR-CO-10, -13, -14, -15, -16, -17, BR-27; UNTDID 1001 codes 380, 381, 386; BT-25;
-// - PRODUCT.md demo rates: live room 45.00/h, 160.00 the half day; prices include 25.5 % VAT;
+// - the demo rates (src/lib/domain/demo.ts): live room 45.00/h, 160.00 the half day; prices include 25.5 % VAT;
 //   deposit 30 % rounded up to whole euros; overtime per started 15 minutes at the hourly rate.
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, desc, eq, inArray, isNotNull } from 'drizzle-orm';
@@ -12,7 +12,7 @@ import { Client, signedIn } from '../support/http';
 import { DATABASE_URL, DEMO } from '../support/env';
 import { testDb } from '../support/db';
 import { sleep, waitFor } from '../support/wait';
-import { payOnFake } from '../support/stripe-fake';
+import { bookAndPay as bookAndPayOn } from '../support/booking';
 import { moveIntoPast } from '../support/started';
 import { createDb } from '../../src/lib/server/db/client';
 import * as t from '../../src/lib/server/db/schema';
@@ -32,42 +32,12 @@ import type { Quote } from '../../src/lib/domain/pricing';
 const { db, client } = testDb();
 afterAll(() => client.end());
 
-/**
- * Rendering a PDF (fonts embedded as subsets) takes the app seconds on a busy machine: the tests
- * that fetch several get more than the default 30 s (no assertion is on time).
- */
-const PDF_TIMEOUT = 180_000;
-
 /** This file's days: working weekdays from 100 days ahead (no surcharge), tried in order. */
 const DAYS = workdaysAhead(100, 45);
 
-interface Booked {
-	id: string;
-	checkoutUrl: string;
-	start: string;
-	end: string;
-	quote: { total: number; gross: number; deposit: number; rounding: number };
-}
-
-/** Books `room` from 10:00 for `hours` on a free far weekday and pays the deposit on the fake. */
-async function bookAndPay(who: Client, room: string, endHour: string): Promise<Booked> {
-	for (const ymd of DAYS) {
-		const start = `${ymd}T10:00`;
-		const end = `${ymd}T${endHour}`;
-		const res = await who.json('/api/bookings', { room, start, end });
-		if (res.status === 409) continue;
-		expect(res.status).toBe(201);
-		const b = { ...((await res.json()) as Omit<Booked, 'start' | 'end'>), start, end };
-		const sessionId = b.checkoutUrl.split('/pay/')[1]!;
-		await payOnFake(sessionId);
-		await waitFor(
-			async () => (await db.select().from(t.booking).where(eq(t.booking.id, b.id)))[0]?.status === 'confirmed',
-			'confirmed'
-		);
-		return b;
-	}
-	throw new Error(`no free morning in the ${room} from ${DAYS[0]} to ${DAYS.at(-1)}`);
-}
+/** Books `room` from 10:00 to `endHour` on the first free one of this file's days and pays the deposit on the fake. */
+const bookAndPay = (who: Client, room: string, endHour: string) =>
+	bookAndPayOn(db, who, { room, days: DAYS, slots: [['10:00', endHour]] });
 
 const docsOf = (bookingId: string) => db.select().from(t.invoice).where(eq(t.invoice.bookingId, bookingId));
 
@@ -104,7 +74,7 @@ async function expectArticle226(doc: InvoiceRow) {
 describe('documents of a booking', () => {
 	it('deposit invoice, final invoice with overtime, and the worked figures (BR-CO-16 with rounding)', async () => {
 		const artist = await signedIn(DEMO.artist);
-		// PRODUCT.md: live room 10:00–15:00 = half day 160.00 + 1 h 45.00 = 205.00; deposit 62.00.
+		// Demo rates: live room 10:00–15:00 = half day 160.00 + 1 h 45.00 = 205.00; deposit 62.00.
 		const b = await bookAndPay(artist, 'live-room', '15:00');
 		expect(b.quote.total).toBe(20500);
 		expect(b.quote.deposit).toBe(6200);
@@ -298,35 +268,31 @@ describe('issued documents are immutable (corrections only by credit note)', () 
 });
 
 describe('PDFs and the month', () => {
-	it(
-		'serves the PDF to the booking’s artist, the owner and the accountant only',
-		async () => {
-			const artist = await signedIn(DEMO.artist);
-			const b = await bookAndPay(artist, 'vocal-booth', '13:00');
-			const [doc] = await docsOf(b.id);
-			const path = `/invoices/${doc!.id}/pdf`;
-			const res = await artist.fetch(path);
-			expect(res.status).toBe(200);
-			expect(res.headers.get('content-type')).toBe('application/pdf');
-			expect(res.headers.get('content-disposition')).toContain(`${doc!.displayNumber}.pdf`);
-			const bytes = Buffer.from(await res.arrayBuffer());
-			expect(bytes.subarray(0, 5).toString()).toBe('%PDF-');
-			// The fonts the app ships (@fontsource: Inter, IBM Plex Mono), embedded as subsets.
-			const text = bytes.toString('latin1');
-			expect(text).toMatch(/\/BaseFont \/[A-Z]{6}\+Inter/);
-			expect(text).toMatch(/\/BaseFont \/[A-Z]{6}\+IBMPlexMono/);
+	it('serves the PDF to the booking’s artist, the owner and the accountant only', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const b = await bookAndPay(artist, 'vocal-booth', '13:00');
+		const [doc] = await docsOf(b.id);
+		const path = `/invoices/${doc!.id}/pdf`;
+		const res = await artist.fetch(path);
+		expect(res.status).toBe(200);
+		expect(res.headers.get('content-type')).toBe('application/pdf');
+		expect(res.headers.get('content-disposition')).toContain(`${doc!.displayNumber}.pdf`);
+		const bytes = Buffer.from(await res.arrayBuffer());
+		expect(bytes.subarray(0, 5).toString()).toBe('%PDF-');
+		// The fonts the app ships (@fontsource: Inter, IBM Plex Mono), embedded as subsets.
+		const text = bytes.toString('latin1');
+		expect(text).toMatch(/\/BaseFont \/[A-Z]{6}\+Inter/);
+		expect(text).toMatch(/\/BaseFont \/[A-Z]{6}\+IBMPlexMono/);
 
-			expect((await (await signedIn(DEMO.owner)).fetch(path)).status).toBe(200);
-			expect((await (await signedIn(DEMO.accountant)).fetch(path)).status).toBe(200);
-			// The refusals carry no part of the document.
-			const secrets = ['%PDF', doc!.displayNumber];
-			await expectRefused(await (await signedIn(DEMO.artist2)).fetch(path), 404, { secrets });
-			await expectRefused(await (await signedIn(DEMO.engineer)).fetch(path), 403, { secrets });
-			await expectRefused(await new Client().fetch(path), 401, { secrets });
-			await expectRefused(await artist.fetch(`/invoices/${crypto.randomUUID()}/pdf`), 404);
-		},
-		PDF_TIMEOUT
-	);
+		expect((await (await signedIn(DEMO.owner)).fetch(path)).status).toBe(200);
+		expect((await (await signedIn(DEMO.accountant)).fetch(path)).status).toBe(200);
+		// The refusals carry no part of the document.
+		const secrets = ['%PDF', doc!.displayNumber];
+		await expectRefused(await (await signedIn(DEMO.artist2)).fetch(path), 404, { secrets });
+		await expectRefused(await (await signedIn(DEMO.engineer)).fetch(path), 403, { secrets });
+		await expectRefused(await new Client().fetch(path), 401, { secrets });
+		await expectRefused(await artist.fetch(`/invoices/${crypto.randomUUID()}/pdf`), 404);
+	});
 
 	it('GET /api/invoices?month lists the month’s documents, payments and VAT by rate for the accountant', async () => {
 		const ids = await db

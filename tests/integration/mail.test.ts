@@ -11,6 +11,7 @@ import { testDb } from '../support/db';
 import { waitFor } from '../support/wait';
 import { workdaysAhead } from '../support/dates';
 import { payOnFake } from '../support/stripe-fake';
+import { holdFirstFree } from '../support/booking';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -37,23 +38,13 @@ async function mailTo(address: string): Promise<CaughtMail[]> {
 const DAYS = workdaysAhead(140, 20);
 
 /** A two-hour evening in the control room with an engineer, on the first free one of this file's days. */
-async function bookWithEngineer(who: Client) {
-	for (const ymd of DAYS) {
-		const start = `${ymd}T19:00`;
-		const res = await who.json('/api/bookings', {
-			room: 'control-room',
-			start,
-			end: `${ymd}T21:00`,
-			engineer: true,
-			project: 'Night vocals'
-		});
-		if (res.status === 409) continue;
-		const body = (await res.json()) as { id: string; checkoutUrl: string; quote: { total: number; deposit: number } };
-		expect(res.status, JSON.stringify(body)).toBe(201);
-		return { ...body, sessionId: body.checkoutUrl.split('/pay/')[1]! };
-	}
-	throw new Error(`no free evening from ${DAYS[0]} to ${DAYS.at(-1)}`);
-}
+const bookWithEngineer = (who: Client) =>
+	holdFirstFree(who, {
+		room: 'control-room',
+		days: DAYS,
+		slots: [['19:00', '21:00']],
+		extra: { engineer: true, project: 'Night vocals' }
+	});
 
 describe('the confirmation e-mail', () => {
 	it('is sent once, after the deposit is paid, with the times, price, checklist and a calendar file', async () => {
@@ -73,8 +64,7 @@ describe('the confirmation e-mail', () => {
 
 		const mail = await waitFor(
 			async () => (await mailTo(DEMO.artist)).find((m) => m.text.includes(`/bookings/${b.id}`)),
-			'the confirmation in the mail catcher',
-			20_000
+			'the confirmation in the mail catcher'
 		);
 		// The confirmation is the one message about this booking: none went out for the hold.
 		expect((await mailTo(DEMO.artist)).filter((m) => m.text.includes(b.id))).toHaveLength(1);

@@ -81,7 +81,7 @@ afterAll(async () => {
 });
 
 describe('Rates & policy page', () => {
-	it('shows the owner the demo values of PRODUCT.md and says bookings keep their price', async () => {
+	it('shows the owner the demo studio’s values and says bookings keep their price', async () => {
 		const res = await owner.fetch('/studio/settings', { headers: { accept: 'text/html' } });
 		expect(res.status).toBe(200);
 		const html = await res.text();
@@ -119,7 +119,7 @@ describe('Rates & policy page', () => {
 
 			expect((await quote(body)).body.total).toBe(16000 + 12345);
 
-			// The booking made before the change keeps its quote and totals (PRODUCT.md: the price shown is the price).
+			// The booking made before the change keeps its quote and totals (the price shown is the price paid).
 			const [after] = await db.select().from(t.booking).where(eq(t.booking.id, booked.id));
 			expect(after!.quote).toEqual(before!.quote);
 			expect(after!.total).toBe(before!.total);

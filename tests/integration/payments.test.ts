@@ -7,7 +7,7 @@
 //   or on async_payment_succeeded; never on the success page.
 // - Stripe docs, "Idempotent requests" and "Refunds": one session and one refund per click;
 //   a refund can fail after it was created (refund.failed).
-// - PRODUCT.md: deposit 30 % rounded up to whole euros, at least 50.00; cancellation with 7 days'
+// - the demo policy (src/lib/domain/demo.ts): deposit 30 % rounded up to whole euros, at least 50.00; cancellation with 7 days'
 //   notice or more refunds the whole deposit, 48 hours to 7 days half.
 // - Directive 2006/112/EC Article 65 (deposit invoice on receipt), Article 219 and UNTDID 1001
 //   (credit note 381 referring to the invoice it corrects, EN 16931 BT-25).
@@ -22,6 +22,7 @@ import { moveIntoPast } from '../support/started';
 import * as t from '../../src/lib/server/db/schema';
 import { addDays, studioInstant, studioToday, workdaysAhead } from '../support/dates';
 import { expectRefused } from '../support/refusal';
+import { holdFirstFree, payAndConfirm } from '../support/booking';
 
 const { db, client } = testDb();
 afterAll(() => client.end());
@@ -74,19 +75,9 @@ const HALF_DAYS: [string, string][] = [
 
 /** Books a half day as `who` on the first free one of the far weekdays; a taken slot tries the next. */
 async function book(who: Client, room = 'vocal-booth'): Promise<Booked> {
-	for (const ymd of FAR_DAYS) {
-		for (const [from, to] of HALF_DAYS) {
-			const start = `${ymd}T${from}`;
-			const end = `${ymd}T${to}`;
-			const res = await who.json('/api/bookings', { room, start, end });
-			if (res.status === 409) continue;
-			const body = (await res.json()) as Omit<Booked, 'sessionId' | 'start' | 'end'>;
-			expect(res.status, JSON.stringify(body)).toBe(201);
-			expect(body.checkoutUrl).toMatch(/\/pay\/cs_test_/);
-			return { ...body, sessionId: body.checkoutUrl.split('/pay/')[1]!, start, end };
-		}
-	}
-	throw new Error(`no free half day in the ${room} from ${FAR_DAYS[0]} to ${FAR_DAYS.at(-1)}`);
+	const b = await holdFirstFree(who, { room, days: FAR_DAYS, slots: HALF_DAYS });
+	expect(b.checkoutUrl).toMatch(/\/pay\/cs_test_/);
+	return b;
 }
 
 /** A local 'YYYY-MM-DDTHH:mm' plus minutes (same day). */
@@ -102,8 +93,8 @@ async function bookingRow(id: string) {
 	return row!;
 }
 
-const waitStatus = (id: string, status: string, ms = 10_000) =>
-	waitFor(async () => ((await bookingRow(id)).status === status ? true : undefined), `booking ${id} ${status}`, ms);
+const waitStatus = (id: string, status: string) =>
+	waitFor(async () => ((await bookingRow(id)).status === status ? true : undefined), `booking ${id} ${status}`);
 
 async function money(id: string) {
 	const [payments, refunds, invoices, events] = await Promise.all([
@@ -173,12 +164,6 @@ afterEach(async () => {
 /** How many deliveries the fake is holding back now. */
 const heldDeliveries = async () => (await control('/deliveries?event=none')).body.held as number;
 
-async function payAndConfirm(b: Booked) {
-	const paid = await control(`/sessions/${b.sessionId}/pay`, {});
-	expect(paid.status).toBe(200);
-	await waitStatus(b.id, 'confirmed');
-}
-
 // ---- the deposit -------------------------------------------------------------------------------
 
 describe('deposit through Stripe Checkout', () => {
@@ -186,7 +171,7 @@ describe('deposit through Stripe Checkout', () => {
 		const artist = await signedIn(DEMO.artist);
 		const b = await book(artist, 'vocal-booth');
 		expect(b.status).toBe('held');
-		// PRODUCT.md: 30 % of 100.00 = 30.00, at least 50.00.
+		// Demo policy: 30 % of 100.00 = 30.00, at least 50.00.
 		expect(b.quote.deposit).toBe(5000);
 
 		const { body: s } = await control(`/sessions/${b.sessionId}`);
@@ -210,7 +195,7 @@ describe('deposit through Stripe Checkout', () => {
 		expect(again.status).toBe(200);
 		expect(((await again.json()) as { checkoutUrl: string }).checkoutUrl).toBe(b.checkoutUrl);
 
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 		const m = await money(b.id);
 		expect(m.payments).toHaveLength(1);
 		expect(m.payments[0]).toMatchObject({ status: 'paid', amount: 5000, kind: 'deposit' });
@@ -224,20 +209,16 @@ describe('deposit through Stripe Checkout', () => {
 
 	it('one event delivered 51 times (50 resends, many at once) makes one payment, one confirmation, one invoice', async () => {
 		const b = await book(await signedIn(DEMO.artist), 'control-room');
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 		const event = await completedEventOf(b.sessionId);
 		for (let batch = 0; batch < 5; batch++) {
 			const sent = await Promise.all(Array.from({ length: 10 }, () => control(`/events/${event.id}/resend`, {})));
 			expect(sent.every((r) => r.status === 202)).toBe(true);
 		}
-		const all = await waitFor(
-			async () => {
-				const d = await deliveries(event.id);
-				return d.length >= 51 && d.every((x) => x.statusCode !== null) ? d : undefined;
-			},
-			'51 deliveries',
-			20_000
-		);
+		const all = await waitFor(async () => {
+			const d = await deliveries(event.id);
+			return d.length >= 51 && d.every((x) => x.statusCode !== null) ? d : undefined;
+		}, '51 deliveries');
 		expect(all.every((d) => d.statusCode === 200)).toBe(true);
 		const m = await money(b.id);
 		expect(m.payments.filter((p) => p.status === 'paid')).toHaveLength(1);
@@ -249,7 +230,7 @@ describe('deposit through Stripe Checkout', () => {
 
 	it('deduplicates by session as well as by event id: other events carrying the same payment change nothing', async () => {
 		const b = await book(await signedIn(DEMO.artist), 'live-room');
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 		const event = await completedEventOf(b.sessionId);
 
 		// A new event id with the same session (as a second delivery path would carry it).
@@ -339,7 +320,7 @@ describe('deposit through Stripe Checkout', () => {
 describe('webhook signatures (Stripe-Signature, 300 s tolerance)', () => {
 	it('refuses a bad signature and a stale one with 400, in the fake’s delivery log', async () => {
 		const b = await book(await signedIn(DEMO.artist), 'control-room');
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 		const event = await completedEventOf(b.sessionId);
 		await control(`/events/${event.id}/resend`, { signature: 'bad' });
 		await control(`/events/${event.id}/resend`, { timestampOffsetSeconds: -600 });
@@ -354,7 +335,7 @@ describe('webhook signatures (Stripe-Signature, 300 s tolerance)', () => {
 		const b = await book(await signedIn(DEMO.artist), 'vocal-booth');
 		// The fake's own completed event for another, paid session is the template of a "paid" event.
 		const other = await book(await signedIn(DEMO.artist2), 'live-room');
-		await payAndConfirm(other);
+		await payAndConfirm(db, other);
 		const template = await completedEventOf(other.sessionId);
 		const { body: s } = await control(`/sessions/${b.sessionId}`);
 		const forged = crafted(template, {
@@ -392,12 +373,12 @@ describe('a failed delivery is retried and processed once', () => {
 				await tx.execute(sql`select id from booking where id = ${b.id} for update`);
 				await control(`/sessions/${b.sessionId}/pay`, {});
 				const event = await completedEventOf(b.sessionId);
-				await waitFor(async () => (await deliveries(event.id)).some((d) => d.statusCode === 503), 'a 503', 15_000);
+				await waitFor(async () => (await deliveries(event.id)).some((d) => d.statusCode === 503), 'a 503');
 				sawFailure = true;
 				expect((await bookingRow(b.id)).status).toBe('held');
 			});
 			expect(sawFailure).toBe(true);
-			await waitStatus(b.id, 'confirmed', 20_000);
+			await waitStatus(b.id, 'confirmed');
 			const event = await completedEventOf(b.sessionId);
 			const log = await deliveries(event.id);
 			expect(log[0]!.statusCode).toBe(503);
@@ -407,8 +388,7 @@ describe('a failed delivery is retried and processed once', () => {
 			expect(m.payments.map((p) => p.status)).toEqual(['paid']);
 			expect(m.invoices).toHaveLength(1);
 			expect(m.confirmations).toBe(1);
-		},
-		40_000
+		}
 	);
 });
 
@@ -516,7 +496,7 @@ describe('cancellation', () => {
 	it('previews, then cancels with 8 days’ notice: the whole deposit back and a credit note', async () => {
 		const artist = await signedIn(DEMO.artist);
 		const b = await bookSoon(artist, 'control-room', 8 * 24);
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 
 		// Who may look: the booking's artist and the owner; another artist 404, the engineer 403, nobody 401.
 		// A refusal gives nothing of the booking's money away: not the deposit, not the rule.
@@ -530,7 +510,7 @@ describe('cancellation', () => {
 		const preview = (await res.json()) as { refund: number; currency: string; noticeHours: number; rule: string; paid: number };
 		expect(preview.currency).toBe('EUR');
 		expect(preview.paid).toBe(b.quote.deposit);
-		expect(preview.noticeHours).toBeGreaterThanOrEqual(7 * 24); // PRODUCT.md: 7 days or more → whole deposit
+		expect(preview.noticeHours).toBeGreaterThanOrEqual(7 * 24); // demo ladder: 7 days or more → whole deposit
 		expect(preview.rule).toMatch(/7 days' notice or more/);
 		expect(preview.refund).toBe(b.quote.deposit);
 
@@ -572,10 +552,10 @@ describe('cancellation', () => {
 		await other.json(`/api/bookings/${((await again.json()) as { id: string }).id}/cancel`, {});
 	});
 
-	it('with 3 days’ notice refunds half the deposit (PRODUCT.md: 48 hours to 7 days)', async () => {
+	it('with 3 days’ notice refunds half the deposit (demo ladder: 48 hours to 7 days)', async () => {
 		const artist = await signedIn(DEMO.artist);
 		const b = await bookSoon(artist, 'vocal-booth', 3 * 24, 7 * 24);
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 		const res = await artist.json(`/api/bookings/${b.id}/cancel`, {});
 		const body = (await res.json()) as { refund: number; rule: string };
 		expect(body.refund).toBe(b.quote.deposit / 2);
@@ -599,7 +579,7 @@ describe('cancellation', () => {
 	it('records a failed refund as failed, shows it to the owner, and a retry goes through', async () => {
 		const artist = await signedIn(DEMO.artist);
 		const b = await book(artist, 'live-room');
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 		await control('/next-refund-fails', { delayMs: 300, failureReason: 'expired_or_canceled_card' });
 		const res = await artist.json(`/api/bookings/${b.id}/cancel`, {});
 		expect(res.status).toBe(200);
@@ -632,7 +612,7 @@ describe('closing a session and paying the balance', () => {
 	it('prices overtime, issues the final invoice, and takes the balance through Checkout once', async () => {
 		const artist = await signedIn(DEMO.artist);
 		const b = await book(artist, 'control-room');
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 		await expectRefused(await artist.json(`/api/bookings/${b.id}/close`, { actualEnd: b.end }), 403);
 		expect((await bookingRow(b.id)).status).toBe('confirmed');
 
@@ -649,7 +629,7 @@ describe('closing a session and paying the balance', () => {
 		expect((await bookingRow(b.id)).status).toBe('confirmed');
 
 		const held = await moveIntoPast(db, b.id);
-		// 20 minutes past the booked end: two started 15-minute increments at 40.00/h = 20.00 (PRODUCT.md).
+		// 20 minutes past the booked end: two started 15-minute increments at 40.00/h = 20.00 (demo rates).
 		const end = plusMinutes(held.end, 20);
 		const closed = await engineer.json(`/api/bookings/${b.id}/close`, { actualEnd: end });
 		const body = (await closed.json()) as {
@@ -690,7 +670,7 @@ describe('closing a session and paying the balance', () => {
 /** A signed checkout.session.completed for a booking's own session, as Stripe would send it, with changes. */
 async function completedFor(b: Booked, patch: Record<string, unknown>) {
 	const other = await book(await signedIn(DEMO.artist2), 'live-room');
-	await payAndConfirm(other);
+	await payAndConfirm(db, other);
 	const template = await completedEventOf(other.sessionId);
 	const { body: s } = await control(`/sessions/${b.sessionId}`);
 	return crafted(template, {
@@ -783,7 +763,7 @@ describe('a refund whose Idempotency-Key Stripe refuses', () => {
 	it('is marked failed and shown to the owner, not retried on every tick', async () => {
 		const artist = await signedIn(DEMO.artist);
 		const b = await book(artist, 'live-room');
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 		const [paid] = (await money(b.id)).payments;
 		// The key the cancellation will use (state.ts queueRefund), already spent at Stripe on other parameters.
 		const appStripe = new Stripe(process.env.STRIPE_SECRET_KEY ?? 'sk_test_slateroom_test', {
@@ -815,7 +795,7 @@ describe('a refund whose Idempotency-Key Stripe refuses', () => {
 // ---- cancelling while the deposit is on its way ---------------------------------------------------
 
 describe('cancelling a booking whose bank payment is still on its way', () => {
-	// PRODUCT.md: 48 hours to 7 days' notice refunds half the deposit. The notice is the one given
+	// The demo ladder: 48 hours to 7 days' notice refunds half the deposit. The notice is the one given
 	// when cancelling, whenever the delayed payment (Stripe docs, "Fulfill orders":
 	// async_payment_succeeded) arrives.
 	it('says what will happen, and refunds the settled payment by the same ladder', async () => {
@@ -867,12 +847,12 @@ describe('cancelling a booking whose bank payment is still on its way', () => {
 // ---- who may open documents --------------------------------------------------------------------
 
 describe('documents on the booking page', () => {
-	// PRODUCT.md roles: invoices are for the artist, the owner and the accountant; the engineer
+	// Roles: invoices are for the artist, the owner and the accountant; the engineer
 	// may see that a document exists but is not offered a link the PDF route refuses (403).
 	it('an engineer sees the deposit invoice listed without a link; the owner and the artist get the link', async () => {
 		const artist = await signedIn(DEMO.artist);
 		const b = await book(artist, 'control-room');
-		await payAndConfirm(b);
+		await payAndConfirm(db, b);
 		const deposit = (await money(b.id)).invoices.find((i) => i.typeCode === 386)!;
 		const link = `/invoices/${deposit.id}/pdf`;
 
@@ -910,14 +890,14 @@ describe('the payments job', () => {
 			return lost;
 		};
 		const expiredByTheJob = (b: Booked) =>
-			waitFor(async () => (await money(b.id)).payments[0]!.status === 'expired', 'the unknown checkout expired', 40_000);
+			waitFor(async () => (await money(b.id)).payments[0]!.status === 'expired', 'the unknown checkout expired');
 
 		// 1. A lost checkout.
 		const lost = await lostCheckout();
 
 		// 2. A refund recorded but never sent (a crash after commit).
 		const paidBooking = await book(artist, 'control-room');
-		await payAndConfirm(paidBooking);
+		await payAndConfirm(db, paidBooking);
 		const [paid] = (await money(paidBooking.id)).payments;
 		const [unsent] = await db
 			.insert(t.refund)

@@ -7,6 +7,7 @@ import { signedIn, type Client } from '../support/http';
 import { APP_URL, DEMO } from '../support/env';
 import { testDb } from '../support/db';
 import { weekdayAhead } from '../support/dates';
+import { holdAt } from '../support/booking';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -15,11 +16,8 @@ afterAll(() => client.end());
 const appPort = new URL(APP_URL).port;
 const otherPort = String(Number(appPort) + 1);
 
-async function hold(c: Client, day: string, from: string, to: string): Promise<string> {
-	const res = await c.json('/api/bookings', { room: 'vocal-booth', start: `${day}T${from}`, end: `${day}T${to}` });
-	expect(res.status, await res.clone().text()).toBe(201);
-	return ((await res.json()) as { id: string }).id;
-}
+/** Holds the vocal booth on `day` from `from` to `to`; gives the booking's id. */
+const hold = async (c: Client, day: string, from: string, to: string) => (await holdAt(c, 'vocal-booth', day, from, to)).id;
 
 async function statusOf(id: string) {
 	const [row] = await db.select({ status: t.booking.status }).from(t.booking).where(eq(t.booking.id, id));

@@ -4,15 +4,14 @@
 // - every internal link on a role's pages leads somewhere that role may go (no 403, no 404);
 // - a booking shows one balance figure: the quote's before the final invoice, the invoice's
 //   amount due after it, and none once cancelled.
-// This file books the control room 09:00–11:00 on weekdays 60–99 days ahead.
+// This file books the control room 09:00–11:00 on working weekdays from 60 days ahead.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DEMO } from '../support/env';
 import { testDb } from '../support/db';
-import { weekdayAhead } from '../support/dates';
-import { waitFor } from '../support/wait';
-import { payOnFake } from '../support/stripe-fake';
+import { weekdayAhead, workdaysAhead } from '../support/dates';
+import { bookAndPay, holdFirstFree, type Held } from '../support/booking';
 import { moveIntoPast } from '../support/started';
 import * as t from '../../src/lib/server/db/schema';
 import { HOME_FOR_ROLE, type Role } from '../../src/lib/roles';
@@ -21,34 +20,13 @@ import { formatMoney } from '../../src/lib/domain/money';
 const { db, client } = testDb();
 afterAll(() => client.end());
 
-interface Held {
-	id: string;
-	checkoutUrl: string;
-	day: string;
-	quote: { total: number; deposit: number; balance: number };
-}
+/** This file's days: working weekdays from 60 days ahead, tried in order. */
+const DAYS = workdaysAhead(60, 28);
+/** The control room 09:00–11:00 on the first free one of this file's days. */
+const WISH = { room: 'control-room', days: DAYS, slots: [['09:00', '11:00']] } as const;
 
-async function hold(who: Client): Promise<Held> {
-	for (let attempt = 0; attempt < 40; attempt++) {
-		const day = weekdayAhead(60 + Math.floor(Math.random() * 40));
-		const res = await who.json('/api/bookings', { room: 'control-room', start: `${day}T09:00`, end: `${day}T11:00` });
-		if (res.status === 409) continue;
-		const body = (await res.json()) as Omit<Held, 'day'>;
-		expect(res.status, JSON.stringify(body)).toBe(201);
-		return { ...body, day };
-	}
-	throw new Error('no free slot found');
-}
-
-async function confirmed(who: Client): Promise<Held> {
-	const b = await hold(who);
-	expect(await payOnFake(b.checkoutUrl.split('/pay/')[1]!)).toBe(200);
-	await waitFor(
-		async () => (await db.select().from(t.booking).where(eq(t.booking.id, b.id)))[0]?.status === 'confirmed',
-		'deposit confirmed'
-	);
-	return b;
-}
+const hold = (who: Client) => holdFirstFree(who, WISH);
+const confirmed = (who: Client) => bookAndPay(db, who, WISH);
 
 const html = async (who: Client, path: string) => {
 	const res = await who.fetch(path, { headers: { accept: 'text/html' } });

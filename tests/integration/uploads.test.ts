@@ -10,8 +10,9 @@ import { Client, signedIn } from '../support/http';
 import { DEMO } from '../support/env';
 import { testDb } from '../support/db';
 import { waitFor } from '../support/wait';
-import { payOnFake } from '../support/stripe-fake';
 import { workdaysAhead } from '../support/dates';
+import { holdFirstFree, payAndConfirm } from '../support/booking';
+import { behindMp3Header, mp3Frames, wav } from '../support/audio';
 import { expectRefused } from '../support/refusal';
 import * as t from '../../src/lib/server/db/schema';
 
@@ -24,28 +25,6 @@ const MAX_FILE = Number(process.env.UPLOAD_MAX_BYTES ?? 4 * 1024 * 1024);
 const BODY_LIMIT = Number(process.env.BODY_SIZE_LIMIT ?? MAX_FILE + 1024 * 1024);
 
 const sha256 = (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
-
-/** A mono 16-bit 8 kHz PCM WAV: the 44-byte RIFF/WAVE header, then `samples` of a 440 Hz sine. */
-function wav(samples = 400, padTo?: number): Uint8Array<ArrayBuffer> {
-	const dataBytes = padTo ? padTo - 44 : samples * 2;
-	const buf = Buffer.alloc(44 + dataBytes);
-	buf.write('RIFF', 0, 'ascii');
-	buf.writeUInt32LE(36 + dataBytes, 4);
-	buf.write('WAVE', 8, 'ascii');
-	buf.write('fmt ', 12, 'ascii');
-	buf.writeUInt32LE(16, 16); // fmt chunk size
-	buf.writeUInt16LE(1, 20); // PCM
-	buf.writeUInt16LE(1, 22); // channels
-	buf.writeUInt32LE(8000, 24); // sample rate
-	buf.writeUInt32LE(8000 * 2, 28); // byte rate
-	buf.writeUInt16LE(2, 32); // block align
-	buf.writeUInt16LE(16, 34); // bits per sample
-	buf.write('data', 36, 'ascii');
-	buf.writeUInt32LE(dataBytes, 40);
-	for (let i = 0; i < Math.min(samples, dataBytes / 2); i++)
-		buf.writeInt16LE(Math.round(8000 * Math.sin((2 * Math.PI * 440 * i) / 8000)), 44 + i * 2);
-	return new Uint8Array(buf);
-}
 
 function upload(who: Client, bookingId: string, bytes: Uint8Array<ArrayBuffer>, name: string, type = 'audio/wav') {
 	const form = new FormData();
@@ -62,27 +41,7 @@ const SLOTS: [string, string][] = [
 ];
 
 /** Two hours in the vocal booth on the first free slot of this file's days. */
-async function book(who: Client): Promise<{ id: string; checkoutUrl: string; day: string }> {
-	for (const day of DAYS) {
-		for (const [from, to] of SLOTS) {
-			const res = await who.json('/api/bookings', { room: 'vocal-booth', start: `${day}T${from}`, end: `${day}T${to}` });
-			if (res.status === 409) continue;
-			const body = (await res.json()) as { id: string; checkoutUrl: string };
-			expect(res.status, JSON.stringify(body)).toBe(201);
-			return { ...body, day };
-		}
-	}
-	throw new Error(`no free slot in the vocal booth from ${DAYS[0]} to ${DAYS.at(-1)}`);
-}
-
-async function payDeposit(bookingId: string, checkoutUrl: string) {
-	const session = checkoutUrl.split('/pay/')[1]!;
-	expect(await payOnFake(session)).toBe(200);
-	await waitFor(async () => {
-		const [row] = await db.select({ status: t.booking.status }).from(t.booking).where(eq(t.booking.id, bookingId));
-		return row?.status === 'confirmed';
-	}, 'the booking confirmed');
-}
+const book = (who: Client) => holdFirstFree(who, { room: 'vocal-booth', days: DAYS, slots: SLOTS });
 
 /** Every file in the booking's folder, and the storage keys its rows name: the two must agree. */
 async function onDisk(bookingId: string) {
@@ -177,7 +136,7 @@ describe('uploading to a booking', () => {
 
 	it('shows the files in the engineer’s day plan once the booking is confirmed', async () => {
 		const { booking, stored } = await bookingWithTrack();
-		await payDeposit(booking.id, booking.checkoutUrl);
+		await payAndConfirm(db, booking);
 		const res = await engineer.fetch(`/api/plan?date=${booking.day}`);
 		const plan = (await res.json()) as {
 			rooms: { sessions: { id: string; uploads: { id: string; name: string; href: string }[] }[] }[];
@@ -258,9 +217,7 @@ describe('uploading to a booking', () => {
 			)
 		);
 		// One MPEG-1 Layer III frame header (128 kbit/s, 44.1 kHz), then the page.
-		const disguised = new Uint8Array(4 + page.length);
-		disguised.set([0xff, 0xfb, 0x90, 0x64]);
-		disguised.set(page, 4);
+		const disguised = behindMp3Header(page);
 		const lyrics = (text: string) => new TextEncoder().encode(text);
 		for (const [bytes, name] of [
 			[disguised, 'take.mp3'],
@@ -274,8 +231,7 @@ describe('uploading to a booking', () => {
 			expect(body.error).toBe('unsupported_type');
 		}
 		// Real MP3 audio, frame after frame, is still taken.
-		const frames = new Uint8Array(417 * 8);
-		for (let i = 0; i < 8; i++) frames.set([0xff, 0xfb, 0x90, 0x64], i * 417);
+		const frames = mp3Frames(8);
 		const other = await book(artist);
 		const ok = await upload(artist, other.id, frames, 'take.mp3', 'audio/mpeg');
 		expect(ok.status, await ok.clone().text()).toBe(201);

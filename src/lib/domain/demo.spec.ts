@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { DEMO_POLICY, DEMO_ROOMS, DEMO_STUDIO, demoPolicy, demoRoom } from './demo';
 
-describe('demo values (source: PRODUCT.md, "Demo scenario"; invented studio)', () => {
-	it('has the rate card of the brief, in cents', () => {
+describe('demo values (the invented demo studio of src/lib/domain/demo.ts)', () => {
+	it('has the demo rate card, in cents', () => {
 		expect(DEMO_STUDIO.name).toBe('Hollow Pine Studio');
 		expect(DEMO_ROOMS.map((r) => [r.slug, r.rates.hourly, r.rates.halfDay, r.rates.fullDay])).toEqual([
 			['live-room', 4500, 16000, 30000],
@@ -12,7 +12,7 @@ describe('demo values (source: PRODUCT.md, "Demo scenario"; invented studio)', (
 		expect(DEMO_POLICY.engineerRates).toEqual({ hourly: 3500, halfDay: 12000, fullDay: 23000 });
 	});
 
-	it('has the policy of the brief', () => {
+	it('has the demo policy', () => {
 		expect(DEMO_POLICY).toMatchObject({
 			timeZone: 'Europe/Helsinki',
 			currency: 'EUR',

@@ -3,6 +3,9 @@ import fc from 'fast-check';
 import Decimal from 'decimal.js';
 import {
 	applyBasisPoints,
+	assertInteger,
+	parseScaledDecimal,
+	stripeCurrencyRule,
 	basisPointsToPercent,
 	ceilToMultiple,
 	divRoundHalfUp,
@@ -211,5 +214,73 @@ describe('parsing typed amounts and percents (exact, no floats)', () => {
 				}
 			)
 		);
+	});
+});
+
+describe('the edges of the money helpers', () => {
+	it('knows every currency Stripe lists as zero-decimal and as three-decimal, and its special case ISK', () => {
+		// Stripe docs, "Supported currencies": the zero-decimal list, the three-decimal list (amounts
+		// rounded to the nearest ten) and ISK, two-decimal in the API in steps of 100.
+		for (const code of [
+			'BIF',
+			'CLP',
+			'DJF',
+			'GNF',
+			'JPY',
+			'KMF',
+			'KRW',
+			'MGA',
+			'PYG',
+			'RWF',
+			'UGX',
+			'VND',
+			'VUV',
+			'XAF',
+			'XOF',
+			'XPF'
+		]) {
+			expect(stripeCurrencyRule(code), code).toEqual({ digits: 0, step: 1 });
+		}
+		for (const code of ['BHD', 'JOD', 'KWD', 'OMR', 'TND'])
+			expect(stripeCurrencyRule(code), code).toEqual({ digits: 3, step: 10 });
+		expect(stripeCurrencyRule('isk')).toEqual({ digits: 2, step: 100 });
+		expect(stripeCurrencyRule('EUR')).toEqual({ digits: 2, step: 1 });
+	});
+
+	it('writes zero without a sign, and refuses a fraction of a minor unit or an unknown code', () => {
+		expect(toDecimalString(0, 'EUR')).toBe('0.00');
+		expect(toDecimalString(-1, 'EUR')).toBe('-0.01');
+		expect(() => toDecimalString(1.5, 'EUR')).toThrow('amount must be a safe integer, got 1.5');
+		expect(() => assertInteger(0.5)).toThrow(RangeError);
+		expect(() => assertInteger(2 ** 53)).toThrow(RangeError);
+		expect(() => minorUnits('XYZ')).toThrow('Unknown ISO 4217 currency code: XYZ');
+	});
+
+	it('refuses a division by zero and a step that is not positive', () => {
+		expect(() => mulDivRoundHalfUp(1, 1, 0)).toThrow('division by zero');
+		for (const step of [0, -10]) {
+			expect(() => roundHalfUpToMultiple(5124, step)).toThrow('step must be positive');
+			expect(() => ceilToMultiple(6150, step)).toThrow('step must be positive');
+		}
+	});
+
+	it('writes negative and small basis points as percent text', () => {
+		expect(basisPointsToPercent(-2550)).toBe('-25.5');
+		expect(basisPointsToPercent(5)).toBe('0.05');
+		expect(basisPointsToPercent(-5)).toBe('-0.05');
+	});
+
+	it('reads a leading point, trailing zeros beyond the digits, and the largest safe integer exactly', () => {
+		expect(parseScaledDecimal('.25', 2)).toEqual({ ok: true, value: 25 });
+		expect(parseScaledDecimal('.5x', 2)).toEqual({ ok: false, reason: 'format' });
+		expect(parseScaledDecimal('1.5000', 2)).toEqual({ ok: true, value: 150 });
+		expect(parseScaledDecimal('9007199254740991', 0)).toEqual({ ok: true, value: Number.MAX_SAFE_INTEGER });
+		expect(parseScaledDecimal('9007199254740992', 0)).toEqual({ ok: false, reason: 'too-large' });
+	});
+
+	it('takes a percent sign only at the end, with or without a space before it', () => {
+		expect(parsePercentToBasisPoints('25.5%')).toEqual({ ok: true, value: 2550 });
+		expect(parsePercentToBasisPoints('25.5 %')).toEqual({ ok: true, value: 2550 });
+		expect(parsePercentToBasisPoints('2%5')).toEqual({ ok: false, reason: 'format' });
 	});
 });

@@ -1,7 +1,7 @@
-// What an artist prepares before a session: common studio practice, in our own words (see
-// ../shared/REFERENCES.md, "The trade"). The hearing figures are the daily exposure action values
-// of EU Directive 2003/10/EC, Article 3 (lower 80, upper 85 dB(A)); local rules may be stricter
-// and come first. Shown on the booking page and sent with the confirmation e-mail.
+// What an artist prepares before a session: common studio practice, in our own words. The hearing
+// figures are the daily exposure action values of EU Directive 2003/10/EC, Article 3 (lower 80,
+// upper 85 dB(A)); local rules may be stricter and come first. Shown on the booking page and sent
+// with the confirmation e-mail.
 
 export interface ChecklistGroup {
 	title: string;

@@ -23,7 +23,7 @@ import {
 	type Interval
 } from './index';
 import { localDayBounds } from '../time';
-import { demoPolicy } from './spec-fixtures';
+import { demoPolicy } from '$fixtures/availability';
 
 const MIN = 60_000;
 const DAY = 86_400_000;

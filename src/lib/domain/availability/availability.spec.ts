@@ -11,7 +11,7 @@ import {
 	type AvailabilityInput
 } from './index';
 import { localDayBounds } from '../time';
-import { at, demoPolicy, everyDay, HELSINKI, iso } from './spec-fixtures';
+import { at, demoPolicy, everyDay, HELSINKI, iso } from '$fixtures/availability';
 
 const HOUR = 3_600_000;
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { overlaps } from './index';
 import { clipSpans, mergeSpans, subtractSpans } from './intervals';
-import { at } from './spec-fixtures';
+import { at } from '$fixtures/availability';
 
 const iv = (a: string, b: string) => ({
 	start: at(`2027-01-15T${a}:00+02:00`),

@@ -28,3 +28,21 @@ describe('VAT by rate for a month', () => {
 		expect(vatLedger([])).toEqual([]);
 	});
 });
+
+describe('VAT by rate: which documents deduct a deposit, and the order of the rates', () => {
+	it('deducts prepaid VAT on a final invoice only, and a final invoice with no deposit counts in full', () => {
+		const prepaidVat = [{ rateBp: 2550, base: 4940, amount: 1260 }];
+		// A credit note or a deposit invoice that carried a deposit's breakdown by mistake deducts nothing.
+		const credit = { typeCode: 381, vat: [{ rateBp: 2550, base: 2470, amount: 630 }], prepaidVat };
+		const deposit = { typeCode: 386, vat: [{ rateBp: 2550, base: 4940, amount: 1260 }], prepaidVat };
+		expect(vatLedger([credit])).toEqual([{ rateBp: 2550, ratePercent: '25.5', base: -2470, vat: -630 }]);
+		expect(vatLedger([deposit])).toEqual([{ rateBp: 2550, ratePercent: '25.5', base: 4940, vat: 1260 }]);
+		const noDeposit = { typeCode: 380, vat: [{ rateBp: 2550, base: 18128, amount: 4623 }] };
+		expect(vatLedger([noDeposit])).toEqual([{ rateBp: 2550, ratePercent: '25.5', base: 18128, vat: 4623 }]);
+	});
+
+	it('lists the rates from the highest down, whatever order the documents bring them in', () => {
+		const docs = [1000, 2550, 1400].map((rateBp) => ({ typeCode: 386, vat: [{ rateBp, base: 1000, amount: 100 }] }));
+		expect(vatLedger(docs).map((r) => r.ratePercent)).toEqual(['25.5', '14', '10']);
+	});
+});

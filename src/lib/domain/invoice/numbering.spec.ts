@@ -7,6 +7,7 @@ import {
 	documentKindLabel,
 	documentYear,
 	formatDocumentNumber,
+	isDocumentTypeCode,
 	missingNumbers,
 	parseDocumentNumber
 } from './numbering';
@@ -61,5 +62,33 @@ describe('document numbers', () => {
 		expect(missingNumbers([1, 2, 3])).toEqual([]);
 		expect(missingNumbers([3, 1])).toEqual([2]);
 		expect(missingNumbers([])).toEqual([]);
+	});
+});
+
+describe('the edges of a document number', () => {
+	it('takes a series of 2 to 5 capital letters and nothing around them', () => {
+		expect(formatDocumentNumber('ABCDE', 2027, 7)).toBe('ABCDE-2027-0007');
+		for (const series of ['A', 'ABCDEF', 'INV1', '1INV', 'IN V']) {
+			expect(() => formatDocumentNumber(series, 2027, 1), series).toThrow('series must be 2–5 capital letters');
+		}
+	});
+
+	it('takes a year of four digits, 1000 to 9999', () => {
+		expect(formatDocumentNumber('INV', 1000, 1)).toBe('INV-1000-0001');
+		expect(formatDocumentNumber('INV', 9999, 1)).toBe('INV-9999-0001');
+		expect(() => formatDocumentNumber('INV', 999, 1)).toThrow('year must have four digits');
+		expect(() => formatDocumentNumber('INV', 10_000, 1)).toThrow('year must have four digits');
+		expect(() => formatDocumentNumber('INV', 2027, -3)).toThrow('number must be a positive integer');
+	});
+
+	it('parses only a whole number, with nothing before or after it', () => {
+		expect(parseDocumentNumber('xINV-2027-0001')).toBeNull();
+		expect(parseDocumentNumber('INV-2027-0001x')).toBeNull();
+		expect(parseDocumentNumber('INV-2027-0001 ')).toBeNull();
+	});
+
+	it('knows the three UNTDID 1001 codes it issues, and no other (384, a corrected invoice, is not one)', () => {
+		expect([380, 381, 386].map(isDocumentTypeCode)).toEqual([true, true, true]);
+		expect([0, 379, 382, 383, 384, 385, 387].map(isDocumentTypeCode)).toEqual(Array(7).fill(false));
 	});
 });

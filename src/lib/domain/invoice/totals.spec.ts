@@ -1,6 +1,6 @@
 /**
  * Invoice totals against EN 16931-1 (business rules as published with the CEN validation
- * artefacts, github.com/ConnectingEurope/eInvoicing-EN16931), on the demo studio of PRODUCT.md
+ * artefacts, github.com/ConnectingEurope/eInvoicing-EN16931), on the invented demo studio (src/lib/domain/demo.ts)
  * (Hollow Pine Studio, EUR, prices include VAT at 25.5 %). Amounts in cents.
  * Calendar: 2027-03-02 is a Tuesday.
  */
@@ -9,7 +9,7 @@ import fc from 'fast-check';
 import Decimal from 'decimal.js';
 import { DEMO_POLICY } from '../demo';
 import { overtimeCharge, quoteBooking } from '../pricing';
-import { at, CONTROL_ROOM, LIVE_ROOM, noHolidays, VOCAL_BOOTH } from '../pricing/spec-fixtures';
+import { at, CONTROL_ROOM, LIVE_ROOM, noHolidays, VOCAL_BOOTH } from '$fixtures/pricing';
 import {
 	documentTotals,
 	documentViolations,
@@ -24,7 +24,7 @@ import {
 
 const EUR = { currency: 'EUR', amountsIncludeVat: true } as const;
 
-/** Tuesday 10:00–15:00 in the live room: a half day + 1 h = 205.00 (PRODUCT.md rates). */
+/** Tuesday 10:00–15:00 in the live room: a half day + 1 h = 205.00 at the demo rates. */
 const fiveHours = () =>
 	quoteBooking({
 		start: at('2027-03-02', '10:00'),
@@ -112,7 +112,7 @@ describe('BR-CO rules on a final invoice built from a quote', () => {
 
 	it('adds overtime lines and shows the cent of rounding as BT-114 (BR-CO-16)', () => {
 		const q = fiveHours();
-		// 20 minutes past 15:00: two started 15-minute increments at 45.00/h = 22.50 (PRODUCT.md).
+		// 20 minutes past 15:00: two started 15-minute increments at 45.00/h = 22.50 (overtime.ts).
 		const ot = overtimeCharge({
 			bookedEnd: at('2027-03-02', '15:00'),
 			actualEnd: at('2027-03-02', '15:20'),
@@ -371,5 +371,82 @@ describe('deposit invoices and credit notes (one amount incl. VAT, split by the 
 			)
 		);
 		expect(() => lumpSumLines(0, 'refund', 'nothing', [{ rateBp: 2550, weight: 1 }])).toThrow(RangeError);
+	});
+});
+
+describe('the edges of the totals, the rule checks and the lump-sum lines', () => {
+	const valid = () =>
+		documentTotals([line(20500), line(4000, 1000, { quantity: '12' }), line(2250, 1400, { quantity: '1.25' })], EUR);
+
+	it('gives the VAT groups highest rate first (BG-23), whatever order the lines come in', () => {
+		expect(valid().vat.map((g) => g.rateBp)).toEqual([2550, 1400, 1000]);
+	});
+
+	it('holds BR-CO-13 with allowances and charges at document level: taxable = Σ line nets − allowances + charges', () => {
+		const t = valid();
+		expect(documentViolations(t)).toEqual([]);
+		// 1.00 allowed and 1.00 charged leave the taxable amount as it is.
+		expect(documentViolations({ ...t, allowances: 100, charges: 100 })).toEqual([]);
+		expect(documentViolations({ ...t, charges: 100 })).toContain('BR-CO-13');
+	});
+
+	it('finds a line amount that is not whole minor units (BR-DEC)', () => {
+		const t = valid();
+		const [first, ...rest] = t.lines;
+		expect(documentViolations({ ...t, lines: [{ ...first!, unitAmount: 20500.5 }, ...rest] })).toEqual([
+			'BR-DEC: amounts in whole minor units'
+		]);
+	});
+
+	it('finds a VAT group for a rate no line uses, also when the number of groups is right', () => {
+		const t = valid();
+		const wrong = t.vat.map((g) => (g.rateBp === 1000 ? { ...g, rateBp: 2400, ratePercent: '24' } : g));
+		expect(documentViolations({ ...t, vat: wrong })).toContain('BR-S-01/BR-CO-18: one VAT group per rate used');
+		// …and a rate in use that has no group of its own.
+		const missing = t.vat.filter((g) => g.rateBp !== 1000);
+		expect(documentViolations({ ...t, vat: missing })).toContain('BR-S-01/BR-CO-18: one VAT group per rate used');
+	});
+
+	it('makes a priced line without a unit price one unit (UN/ECE Recommendation 20 code C62, "one") of its amount', () => {
+		const lines = linesFromPriceLines([
+			{ key: 'a', kind: 'room', label: 'Surcharge', amount: 1500, vatRateBp: 2550 },
+			{ key: 'b', kind: 'room', label: 'Quantity only', quantity: '2', amount: 9000, vatRateBp: 2550 },
+			{ key: 'c', kind: 'room', label: 'Hours', quantity: '2', unitAmount: 4500, amount: 9000, vatRateBp: 2550 },
+			{ key: 'd', kind: 'room', label: 'Unit price only', unitAmount: 4500, amount: 9000, vatRateBp: 2550 }
+		]);
+		expect(lines.map((l) => [l.quantity, l.unitCode, l.unitAmount])).toEqual([
+			['1', 'C62', 1500],
+			['1', 'C62', 9000],
+			['2', 'C62', 4500],
+			['1', 'C62', 9000]
+		]);
+	});
+
+	it('splits nothing against weights of zero or less, and says so', () => {
+		expect(
+			splitByWeights(10_000, [
+				{ rateBp: 2550, weight: 300 },
+				{ rateBp: 1000, weight: -100 }
+			])
+		).toEqual([{ rateBp: 2550, amount: 10_000 }]);
+		expect(() => splitByWeights(100, [{ rateBp: 2550, weight: 0 }])).toThrow('nothing to split against');
+		expect(() => lumpSumLines(0, 'deposit', 'Deposit', [{ rateBp: 2550, weight: 100 }])).toThrow(
+			'the amount must be a positive integer'
+		);
+	});
+
+	it('names a lump sum plainly when it has one rate, as one unit', () => {
+		expect(lumpSumLines(6200, 'deposit', 'Deposit received', [{ rateBp: 2550, weight: 20500 }])).toEqual([
+			{
+				key: 'deposit:2550',
+				kind: 'deposit',
+				description: 'Deposit received',
+				quantity: '1',
+				unitCode: 'C62',
+				unitAmount: 6200,
+				amount: 6200,
+				vatRateBp: 2550
+			}
+		]);
 	});
 });

@@ -4,15 +4,15 @@ import { DEMO_POLICY } from '../demo';
 import { divRoundHalfUp, mulDivRoundHalfUp } from '../money';
 import type { BlockLengths, BlockRates } from '../types';
 import { cheapestCover, hourlyAmount } from './blocks';
-import { LIVE_ROOM } from './spec-fixtures';
+import { LIVE_ROOM } from '$fixtures/pricing';
 
-const blocks = DEMO_POLICY.blocks; // half day 240 min, full day 480 min (PRODUCT.md)
-const live = LIVE_ROOM.rates; // 45.00 / 160.00 / 300.00 (PRODUCT.md)
-const engineer = DEMO_POLICY.engineerRates; // 35.00 / 120.00 / 230.00 (PRODUCT.md)
+const blocks = DEMO_POLICY.blocks; // half day 240 min, full day 480 min (demo policy)
+const live = LIVE_ROOM.rates; // 45.00 / 160.00 / 300.00 (demo rates)
+const engineer = DEMO_POLICY.engineerRates; // 35.00 / 120.00 / 230.00 (demo rates)
 const cover = (minutes: number, rates: BlockRates = live, surchargeBpMinutes = 0) =>
 	cheapestCover(minutes, rates, blocks, 30, surchargeBpMinutes);
 
-describe('cheapest cover of the booked time (source: PRODUCT.md rate card and worked examples)', () => {
+describe('cheapest cover of the booked time (demo rate card, examples worked by hand)', () => {
 	it('5 h in the live room = half day + 1 h = 205.00, not 5 × 45 = 225.00', () => {
 		// 160.00 + 45.00 = 205.00 < 225.00; full day 300.00 is dearer still.
 		const c = cover(300);

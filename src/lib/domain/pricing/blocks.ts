@@ -1,7 +1,7 @@
 /**
  * Block pricing: which mix of full-day blocks, half-day blocks and hourly increments a booking buys
- * (PRODUCT.md: "the cheapest mix of full-day blocks, half-day blocks and hours that covers the
- * booked time"; selling hourly time, half days and full days is common practice in studios).
+ * (our rule: the artist pays for the cheapest mix of full days, half days and hours that covers
+ * the booked time; selling hourly time, half days and full days is common practice in studios).
  *
  * Hourly time is billed per booking increment, pro rata of the hourly rate: with a 30-minute
  * increment, 2 h 10 min of hourly time bills as 2 h 30 min, and 30 min costs half the hourly rate.

@@ -1,6 +1,6 @@
 /**
- * Refund on cancellation, by the notice given (PRODUCT.md; a ladder by notice — 7 days, 48 h,
- * 24 h — is common practice in studios).
+ * Refund on cancellation, by the notice given: the studio's own ladder of rungs (a ladder by
+ * notice — 7 days, 48 h, 24 h — is common practice in studios).
  *
  * The ladder decides how much of the DEPOSIT comes back: the rung with the largest
  * minNoticeHours that the notice reaches. Anything paid beyond the deposit (a balance paid in

@@ -3,7 +3,7 @@ import fc from 'fast-check';
 import { DEMO_POLICY } from '../demo';
 import { depositAndBalance, depositFor } from './deposit';
 
-describe('deposit (source: PRODUCT.md: 30 % of the gross, up to whole euros, at least 50.00, never above the total)', () => {
+describe('deposit (demo policy: 30 % of the gross, up to whole euros, at least 50.00, never above the total)', () => {
 	it('rounds 30 % up to whole euros', () => {
 		expect(depositFor(20500, DEMO_POLICY)).toBe(6200); // 30 % of 205.00 = 61.50 → 62.00
 		expect(depositFor(41400, DEMO_POLICY)).toBe(12500); // 30 % of 414.00 = 124.20 → 125.00
@@ -20,6 +20,11 @@ describe('deposit (source: PRODUCT.md: 30 % of the gross, up to whole euros, at 
 		expect(depositAndBalance(4000, DEMO_POLICY)).toEqual({ deposit: 4000, balance: 0 });
 		expect(depositAndBalance(4050, DEMO_POLICY)).toEqual({ deposit: 4050, balance: 0 });
 		expect(depositFor(0, DEMO_POLICY)).toBe(0);
+	});
+
+	it('asks no deposit, not even the minimum, when there is nothing to pay or the total is a credit', () => {
+		// Without the rule, the minimum (50.00) capped by a total of −5.00 would ask −5.00.
+		expect(depositAndBalance(-500, DEMO_POLICY)).toEqual({ deposit: 0, balance: -500 });
 	});
 
 	it('rounds up to whole units of other currencies (ISO 4217: JPY 0 digits, KWD 3)', () => {

@@ -1,5 +1,5 @@
 /**
- * Deposit and balance (PRODUCT.md; taking a deposit of 25–100 % is common practice in studios).
+ * Deposit and balance (our rule; taking a deposit of 25–100 % is common practice in studios).
  *
  * deposit = depositBp of the total, rounded UP to whole currency units (ISO 4217 minor units:
  * whole euros for EUR, whole yen for JPY), then at least depositMinimum, and never more than the

@@ -2,10 +2,10 @@
  * Slateroom's pricing engine: quotes, overtime, refunds on cancellation and booking-time checks.
  * Pure TypeScript; every amount is an integer of the currency's minor units.
  *
- * Sources by rule: block cover and surcharges — PRODUCT.md, common practice / our rule: the
+ * Sources by rule: block cover and surcharges — common practice / our rule: the
  * cover with the lowest price + surcharge, each surcharged minute paying its percent of its share
  * of the block time bought (blocks.ts, surcharges.ts); VAT and totals — EN 16931-1 BR-CO-10/13/14/15/16/17 (vat.ts); deposit —
- * PRODUCT.md, whole units per ISO 4217 (deposit.ts); wall-clock time — the time engine
+ * our rule, whole units per ISO 4217 (deposit.ts); wall-clock time — the time engine
  * (../time: IANA tz via @date-fns/tz, Directive 2000/84/EC); overtime and the cancellation ladder — common practice
  * (overtime.ts, cancellation.ts).
  */

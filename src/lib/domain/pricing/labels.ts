@@ -11,7 +11,7 @@ export function decimalHours(minutes: number): string {
 	return fraction ? `${whole}.${fraction}` : String(whole);
 }
 
-/** 2500 → "25 %", 2550 → "25.5 %" (a space before the sign, as in the brief's examples). */
+/** 2500 → "25 %", 2550 → "25.5 %": a space before the sign, as the SI Brochure (9th edition, 5.4.7) writes it. */
 export function formatPercent(bp: number): string {
 	return `${basisPointsToPercent(bp)} %`;
 }

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { DEMO_POLICY } from '../demo';
 import { overtimeCharge, type OvertimeInput } from './overtime';
-import { at, expectEn16931, LIVE_ROOM, line } from './spec-fixtures';
+import { at, expectEn16931, LIVE_ROOM, line } from '$fixtures/pricing';
 
 const overtime = (overrides: Partial<OvertimeInput> & Pick<OvertimeInput, 'bookedEnd' | 'actualEnd'>) => {
 	const o = overtimeCharge({ room: LIVE_ROOM, engineer: false, policy: DEMO_POLICY, ...overrides });
@@ -10,7 +10,7 @@ const overtime = (overrides: Partial<OvertimeInput> & Pick<OvertimeInput, 'booke
 	return o;
 };
 
-describe('overtime per started increment (source: PRODUCT.md: each started 15 min at the hourly rate and surcharges)', () => {
+describe('overtime per started increment (our rule: each started 15 min at the hourly rate and surcharges)', () => {
 	const bookedEnd = at('2027-03-02', '17:00'); // a Tuesday, before the evening window
 
 	it('bills one increment for the first minute over: 45.00 × 15/60 = 11.25', () => {
@@ -73,5 +73,26 @@ describe('overtime per started increment (source: PRODUCT.md: each started 15 mi
 			}),
 			{ numRuns: 150 }
 		);
+	});
+});
+
+describe('overtime: the increment, and surcharges on the engineer', () => {
+	it('refuses an increment that is not a positive whole number of minutes', () => {
+		for (const overtimeIncrementMinutes of [0, -15, 7.5]) {
+			expect(() =>
+				overtimeCharge({
+					bookedEnd: at('2027-03-02', '17:00'),
+					actualEnd: at('2027-03-02', '17:20'),
+					room: LIVE_ROOM,
+					engineer: true,
+					policy: { ...DEMO_POLICY, overtimeIncrementMinutes }
+				})
+			).toThrow('overtimeIncrementMinutes must be a positive integer');
+		}
+	});
+
+	it('names the engineer’s evening surcharge on overtime as such: 20 min past 18:00 bills 30 min at +25 %', () => {
+		const o = overtime({ bookedEnd: at('2027-03-02', '18:00'), actualEnd: at('2027-03-02', '18:20'), engineer: true });
+		expect(o.lines.map((l) => l.label)).toContain('Evening surcharge on engineer overtime (25 %, 30 min)');
 	});
 });

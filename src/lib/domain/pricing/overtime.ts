@@ -1,5 +1,5 @@
 /**
- * Overtime (PRODUCT.md; billing overtime in 15- or 30-minute increments is common practice).
+ * Overtime (our rule; billing overtime in 15- or 30-minute increments is common practice).
  *
  * Each STARTED overtime increment past the booked end is billed at the hourly rate pro rata
  * (15 min = a quarter of the hourly rate): the room's hourly rate, plus the engineer's when an

@@ -10,7 +10,7 @@ import type { GearHire, RoomRates, StudioPolicy, SurchargeRule } from '../types'
 import { quoteBooking } from './quote';
 import { validateBookingTimes } from './validation';
 import { addDays, localToInstant } from '../time';
-import { expectEn16931, openAllHours } from './spec-fixtures';
+import { expectEn16931, openAllHours } from '$fixtures/pricing';
 
 const SLOT = 30;
 const OPEN = 9 * 60;

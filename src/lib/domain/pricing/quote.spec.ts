@@ -1,5 +1,5 @@
 /**
- * Quotes for the demo studio (PRODUCT.md, "Demo scenario"): Hollow Pine Studio, Europe/Helsinki,
+ * Quotes for the invented demo studio (src/lib/domain/demo.ts): Hollow Pine Studio, Europe/Helsinki,
  * EUR, prices include VAT at 25.5 %. Amounts in cents. Every quote is also checked against
  * EN 16931 BR-CO-10/13/14/15/16/17 (expectEn16931).
  * Calendar: 2027-03-02 is a Tuesday, 2027-03-06 a Saturday, 2027-12-06 (Finnish Independence
@@ -18,7 +18,7 @@ import {
 	openAllHours,
 	policyWith,
 	VOCAL_BOOTH
-} from './spec-fixtures';
+} from '$fixtures/pricing';
 
 const quote = (overrides: Partial<QuoteInput> & Pick<QuoteInput, 'start' | 'end'>) => {
 	const q = quoteBooking({ room: LIVE_ROOM, engineer: false, gear: [], policy: DEMO_POLICY, ...overrides });
@@ -26,7 +26,7 @@ const quote = (overrides: Partial<QuoteInput> & Pick<QuoteInput, 'start' | 'end'
 	return q;
 };
 
-describe('room time (source: PRODUCT.md worked examples)', () => {
+describe('room time (demo rates, worked by hand)', () => {
 	it('live room Tuesday 10:00–15:00 (5 h) = half day + 1 h = 205.00', () => {
 		const q = quote({ start: at('2027-03-02', '10:00'), end: at('2027-03-02', '15:00') });
 		expect(q.durationMinutes).toBe(300);
@@ -44,7 +44,7 @@ describe('room time (source: PRODUCT.md worked examples)', () => {
 		expect(q.vat).toEqual([{ ratePercent: '25.5', rateBp: 2550, base: 16335, amount: 4165 }]);
 		expect(q.gross).toBe(20500);
 		expect(q.rounding).toBe(0);
-		// Deposit: 30 % of 205.00 = 61.50, rounded up to whole euros = 62.00 (PRODUCT.md).
+		// Deposit: 30 % of 205.00 = 61.50, rounded up to whole euros = 62.00 (deposit.ts).
 		expect(q.deposit).toBe(6200);
 		expect(q.balance).toBe(14300);
 		expect(q.roomBlocks).toMatchObject({ fullDays: 0, halfDays: 1, hourlyMinutes: 60, increments: 2 });
@@ -82,7 +82,7 @@ describe('room time (source: PRODUCT.md worked examples)', () => {
 	});
 });
 
-describe('surcharges: each surcharged minute pays its % of its share of the block time bought (PRODUCT.md; our rule)', () => {
+describe('surcharges: each surcharged minute pays its % of its share of the block time bought (our rule)', () => {
 	// surcharge = cover price × Σ(% of each booked minute) ÷ capacity (the minutes of block time bought).
 	it('Tuesday 16:00–20:00: 120 of the 240 min bought are evening → 160.00 × 25 % × 120/240 = 20.00', () => {
 		const q = quote({ start: at('2027-03-02', '16:00'), end: at('2027-03-02', '20:00') });
@@ -212,7 +212,7 @@ describe('surcharges: each surcharged minute pays its % of its share of the bloc
 	});
 });
 
-describe('gear hire (source: PRODUCT.md)', () => {
+describe('gear hire (a flat price per booking, demo gear)', () => {
 	it('adds a line per item at its fee per booking, never surcharged', () => {
 		const gear = [
 			{ id: 'sdc-pair', label: 'Small-diaphragm condenser pair, cardioid', fee: 2000 },
@@ -357,5 +357,47 @@ describe('the cover is chosen with surcharges included (our rule)', () => {
 			label: 'Evening surcharge on Live room (25 %, 5 h)'
 		});
 		expect(q.total).toBe(34688);
+	});
+});
+
+describe('the words and units of block, engineer and gear lines', () => {
+	it('names full days, half days and hours with their lengths, in UN/ECE Rec. 20 units (C62 one, HUR hour)', () => {
+		// Tuesday 09:00–22:00 without surcharges: 13 h = a full day (8 h) + a half day (4 h) + 1 h,
+		// 300.00 + 160.00 + 45.00 = 505.00, cheaper than a full day and 5 h (525.00) or two full days.
+		const q = quote({ start: at('2027-03-02', '09:00'), end: at('2027-03-02', '22:00'), policy: policyWith({ surcharges: [] }) });
+		expect(q.total).toBe(50500);
+		expect(q.lines.map((l) => [l.label, l.unitCode])).toEqual([
+			['Live room, full day (8 h)', 'C62'],
+			['Live room, half day (4 h)', 'C62'],
+			['Live room, hourly (1 h)', 'HUR']
+		]);
+	});
+
+	it('names the surcharge on the engineer’s time, and gives gear one unit', () => {
+		const q = quote({
+			start: at('2027-03-02', '18:00'),
+			end: at('2027-03-02', '20:00'),
+			engineer: true,
+			gear: [{ id: 'tube-pre', label: 'Valve preamp', fee: 3500 }]
+		});
+		expect(q.lines.map((l) => l.label)).toContain('Evening surcharge on engineer time (25 %, 2 h)');
+		expect(line(q, 'gear:tube-pre').unitCode).toBe('C62');
+	});
+
+	it('takes whole minutes only, and an end after the start', () => {
+		const start = at('2027-03-02', '10:00');
+		expect(() =>
+			quoteBooking({
+				start,
+				end: new Date(start.getTime() + 2 * 3_600_000 + 30_000),
+				room: LIVE_ROOM,
+				engineer: false,
+				gear: [],
+				policy: DEMO_POLICY
+			})
+		).toThrow('times must fall on whole minutes');
+		expect(() => quoteBooking({ start, end: start, room: LIVE_ROOM, engineer: false, gear: [], policy: DEMO_POLICY })).toThrow(
+			'end must be after start'
+		);
 	});
 });

@@ -1,5 +1,5 @@
 /**
- * The price of a booking, as the artist sees it before paying (PRODUCT.md, "What it computes").
+ * The price of a booking, as the artist sees it before paying: what they pay is what was shown.
  *
  * 1. Surcharge minutes (surcharges.ts): every real minute of the booking carries its highest
  *    surcharge (evening, weekend, holiday); W = Σ of those percents over the booked minutes.

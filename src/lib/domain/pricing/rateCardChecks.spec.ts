@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { BLOCK_TYPO_FACTOR, checkBlockRates, checkSurcharge, ofLevel, windowSpan } from './rateCardChecks';
 
-// PRODUCT.md's live room: 45.00 per hour, 160.00 the half day (4 h), 300.00 the full day (8 h).
+// The demo studio's live room: 45.00 per hour, 160.00 the half day (4 h), 300.00 the full day (8 h).
 const lengths = { halfDayMinutes: 240, fullDayMinutes: 480 };
 const live = { hourly: 4500, halfDay: 16000, fullDay: 30000 };
 const levels = (found: { field: string; level: string }[]) => found.map((f) => `${f.field}:${f.level}`);

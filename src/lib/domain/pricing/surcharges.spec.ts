@@ -5,7 +5,7 @@ import { DEMO_POLICY } from '../demo';
 import { isPublicHoliday } from '../holidays';
 import type { SurchargeRule } from '../types';
 import { surchargeAmount, surchargeShares, surchargeSplit, surchargeWeight, type SurchargeShare } from './surcharges';
-import { at, HELSINKI, noHolidays } from './spec-fixtures';
+import { at, HELSINKI, noHolidays } from '$fixtures/pricing';
 
 const fiHoliday = (ymd: string) => isPublicHoliday('FI', ymd);
 
@@ -38,7 +38,7 @@ function referenceShares(start: Date, end: Date, rules: SurchargeRule[], isHolid
 	return rules.flatMap((r) => (won.has(r.id) ? [[r.id, won.get(r.id)]] : []));
 }
 
-describe('surcharge minutes (source: PRODUCT.md: highest surcharge per minute, in local wall time)', () => {
+describe('surcharge minutes (our rule: highest surcharge per minute, in local wall time)', () => {
 	it('Tuesday 16:00–20:00 has 120 evening minutes', () => {
 		const shares = surchargeShares(at('2027-03-02', '16:00'), at('2027-03-02', '20:00'), DEMO_POLICY, fiHoliday);
 		expect(shares.map((s) => [s.rule.id, s.minutes])).toEqual([['evening', 120]]);
@@ -211,5 +211,67 @@ describe("a resource's surcharge: price × Σ(% per minute) ÷ capacity, rounded
 			),
 			{ numRuns: 300 }
 		);
+	});
+});
+
+describe('the edges of a surcharge window (calendar: 2027-03-05 is a Friday, 2027-03-08 a Monday)', () => {
+	const rule = (over: Partial<SurchargeRule>): SurchargeRule => ({
+		id: 'r',
+		label: 'Late surcharge',
+		kind: 'window',
+		percentBp: 3000,
+		weekdays: [5],
+		fromMinute: 22 * 60,
+		toMinute: 2 * 60,
+		...over
+	});
+	const minutesOf = (start: Date, end: Date, rules: SurchargeRule[], isHoliday: (ymd: string) => boolean = noHolidays) =>
+		surchargeShares(start, end, { timeZone: HELSINKI, surcharges: rules }, isHoliday).map((s) => [s.rule.id, s.minutes]);
+
+	it('starts a window past midnight at its first minute, on the weekday it is listed for', () => {
+		// Friday 22:00–02:00: 22:00–22:30 is 30 minutes of it.
+		expect(minutesOf(at('2027-03-05', '22:00'), at('2027-03-05', '22:30'), [rule({})])).toEqual([['r', 30]]);
+	});
+
+	it('carries a Sunday window past midnight into the early hours of Monday', () => {
+		const sunday = rule({ weekdays: [7] });
+		expect(minutesOf(at('2027-03-08', '00:00'), at('2027-03-08', '01:00'), [sunday])).toEqual([['r', 60]]);
+		// …while a window listed for Monday starts at Monday 22:00: Monday's early hours are not in it.
+		expect(minutesOf(at('2027-03-08', '00:00'), at('2027-03-08', '01:00'), [rule({ weekdays: [1] })])).toEqual([]);
+	});
+
+	it('covers no minute with a window that ends where it starts', () => {
+		expect(
+			minutesOf(at('2027-03-05', '00:00'), at('2027-03-06', '00:00'), [rule({ fromMinute: 18 * 60, toMinute: 18 * 60 })])
+		).toEqual([]);
+	});
+
+	it('ignores rules of 0 % or less (a discount is no surcharge)', () => {
+		const start = at('2027-03-05', '22:00');
+		const end = at('2027-03-05', '23:00');
+		expect(minutesOf(start, end, [rule({ id: 'zero', percentBp: 0 })])).toEqual([]);
+		expect(minutesOf(start, end, [rule({ id: 'discount', percentBp: -1000 }), rule({ id: 'late', percentBp: 1000 })])).toEqual([
+			['late', 60]
+		]);
+	});
+
+	it('asks whether a day is a holiday only when the policy has a holiday rule', () => {
+		const asked: string[] = [];
+		const spy = (ymd: string) => {
+			asked.push(ymd);
+			return true;
+		};
+		expect(minutesOf(at('2027-03-05', '22:00'), at('2027-03-05', '23:00'), [rule({})], spy)).toEqual([['r', 60]]);
+		expect(asked).toEqual([]);
+		const holiday = rule({ id: 'h', kind: 'holiday', percentBp: 5000 });
+		expect(minutesOf(at('2027-03-05', '22:00'), at('2027-03-05', '23:00'), [rule({}), holiday], spy)).toEqual([['h', 60]]);
+		expect(asked).toEqual(['2027-03-05']);
+	});
+
+	it('charges nothing against a capacity of zero minutes, and splits nothing into nothing', () => {
+		const share: SurchargeShare = { rule: rule({}), minutes: 60 };
+		expect(surchargeAmount(16_000, share, 0)).toBe(0);
+		expect(surchargeSplit(16_000, [share], 0)).toEqual([0]);
+		expect(surchargeSplit(16_000, [], 240)).toEqual([]);
 	});
 });

@@ -1,7 +1,7 @@
 /**
- * Surcharges by minute (PRODUCT.md: "surcharges pro rata for the minutes that fall in evening,
- * weekend or holiday windows, the highest one per minute"; evening, weekend and holiday premiums
- * are common practice).
+ * Surcharges by minute (our rule: a surcharge is paid pro rata for the minutes that fall in its
+ * evening, weekend or holiday window, and a minute in several windows pays only the highest;
+ * evening, weekend and holiday premiums are common practice).
  *
  * Every real minute of a booking carries the HIGHEST surcharge whose window contains it, read in
  * the studio's local wall time: a 'window' rule by ISO weekday and local minute of the day, a

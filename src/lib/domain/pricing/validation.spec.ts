@@ -2,14 +2,14 @@ import { describe, expect, it } from 'vitest';
 import { startsThatFit } from '../availability';
 import { DEMO_POLICY } from '../demo';
 import { toFieldErrors, validateBookingTimes } from './validation';
-import { at, openAllHours } from './spec-fixtures';
+import { at, openAllHours } from '$fixtures/pricing';
 
-// Demo policy (PRODUCT.md): open 09:00–23:00, min 2 h, 30-min grid, 24 h notice, 180 days ahead.
+// Demo policy (src/lib/domain/demo.ts): open 09:00–23:00, min 2 h, 30-min grid, 24 h notice, 180 days ahead.
 const now = at('2027-03-01', '12:00');
 const codes = (start: Date, end: Date, policy = DEMO_POLICY, when = now) =>
 	validateBookingTimes(start, end, policy, when).map((i) => `${i.field}:${i.code}`);
 
-describe('validateBookingTimes (source: PRODUCT.md demo policy)', () => {
+describe('validateBookingTimes (demo policy)', () => {
 	it('accepts a half day on the grid inside opening hours', () => {
 		expect(codes(at('2027-03-02', '14:00'), at('2027-03-02', '18:00'))).toEqual([]);
 		expect(codes(at('2027-03-02', '19:00'), at('2027-03-02', '23:00'))).toEqual([]); // to closing

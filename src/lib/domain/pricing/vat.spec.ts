@@ -92,3 +92,44 @@ describe('VAT and totals (source: EN 16931-1 business rules, CEN validation arte
 		);
 	});
 });
+
+describe('each EN 16931 rule the totals check names, found on its own', () => {
+	const incl = () => summariseCharges([item('a', 20500, 1000), item('b', 4500, 2550), item('c', 2250, 1400)], 'EUR', true);
+	const excl = () => summariseCharges([item('a', 18323, 600)], 'EUR', false);
+
+	it('gives the VAT groups highest rate first, whatever order the lines come in', () => {
+		expect(incl().vat.map((g) => g.rateBp)).toEqual([2550, 1400, 1000]);
+		expect(en16931Violations(incl())).toEqual([]);
+	});
+
+	it('BR-DEC: a line amount that is not whole minor units', () => {
+		const t = excl();
+		expect(en16931Violations({ ...t, lines: [{ ...t.lines[0]!, amount: 18323.5 }] })).toEqual([
+			'BR-DEC: amounts in whole minor units'
+		]);
+	});
+
+	it('BR-27: a negative item price, as the amount or as the unit price', () => {
+		const t = excl();
+		expect(en16931Violations({ ...t, lines: [{ ...t.lines[0]!, unitAmount: -1 }] })).toEqual(['BR-27: no negative item price']);
+		expect(en16931Violations({ ...t, lines: [{ ...t.lines[0]!, amount: -18323 }] })).toEqual(['BR-27: no negative item price']);
+	});
+
+	it('BR-CO-13 and BR-S-08: VAT bases that do not cover the lines', () => {
+		const t = incl();
+		const [first, ...rest] = t.vat;
+		const broken = en16931Violations({ ...t, vat: [{ ...first!, base: first!.base + 1 }, ...rest] });
+		expect(broken).toContain('BR-CO-13');
+		expect(broken).toContain('BR-S-08 (25.5 %)');
+	});
+
+	it('the advertised total with VAT included, and no rounding without it', () => {
+		const t = incl();
+		// Total and rounding moved together keep BR-CO-16; only the advertised sum breaks.
+		expect(en16931Violations({ ...t, total: t.total + 1, rounding: t.rounding + 1 })).toEqual([
+			'advertised gross: total = sum of the gross line amounts'
+		]);
+		const e = excl();
+		expect(en16931Violations({ ...e, total: e.total + 1, rounding: 1 })).toEqual(['no rounding when prices exclude VAT']);
+	});
+});

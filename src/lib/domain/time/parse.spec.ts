@@ -63,3 +63,33 @@ describe('parseBookingInstant, as the recorded end of a session reads it (ISO 86
 		}
 	});
 });
+
+describe('parseBookingInstant at its edges (RFC 3339 offsets, seconds and fractions)', () => {
+	const instantOf = (text: string) => {
+		try {
+			return parseBookingInstant(text, 'Europe/Helsinki').toISOString();
+		} catch (e) {
+			if (e instanceof TimeInputError) return 'invalid_time';
+			throw e;
+		}
+	};
+
+	it('subtracts a positive offset and adds a negative one, in hours and minutes', () => {
+		// By hand: 10:07:30.25 at +05:30 is 04:37:30.250 UTC; at −03:30 it is 13:37:30.250 UTC.
+		expect(instantOf('2027-03-02T10:07:30.25+05:30')).toBe('2027-03-02T04:37:30.250Z');
+		expect(instantOf('2027-03-02T10:07:30.25-03:30')).toBe('2027-03-02T13:37:30.250Z');
+		expect(instantOf('2027-03-02T10:00:30.125Z')).toBe('2027-03-02T10:00:30.125Z');
+	});
+
+	it('takes 23:59:59 and refuses an hour of 24, a minute or second of 60, and an offset without its colon', () => {
+		expect(instantOf('2027-03-02T23:59:59Z')).toBe('2027-03-02T23:59:59.000Z');
+		for (const text of ['2027-03-02T24:00Z', '2027-03-02T10:60Z', '2027-03-02T10:00:60Z', '2027-03-02T10:07+0530']) {
+			expect(instantOf(text), text).toBe('invalid_time');
+		}
+	});
+
+	it('reads nothing around the text', () => {
+		expect(instantOf('x2027-03-02T10:00Z')).toBe('invalid_time');
+		expect(instantOf('2027-03-02T10:00Zx')).toBe('invalid_time');
+	});
+});

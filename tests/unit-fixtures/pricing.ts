@@ -1,13 +1,12 @@
 /**
- * Test fixtures only (imported by the *.spec.ts files of this folder, never by app code).
- * Demo values come from src/lib/domain/demo.ts (PRODUCT.md, "Demo scenario").
+ * Fixtures of the pricing and invoice unit specs (`$fixtures/pricing`), never imported by app code.
+ * The demo studio's values come from src/lib/domain/demo.ts, the same invented studio the seed uses.
  */
 import { expect } from 'vitest';
-import { DEMO_POLICY, demoPolicy, demoRoom } from '../demo';
-import type { StudioPolicy } from '../types';
-import type { ChargeTotals, PriceLine } from './types';
-import { en16931Violations } from './vat';
-import { localToInstant } from '../time';
+import { DEMO_POLICY, demoPolicy, demoRoom } from '../../src/lib/domain/demo';
+import type { StudioPolicy } from '../../src/lib/domain/types';
+import { en16931Violations, type ChargeTotals, type PriceLine } from '../../src/lib/domain/pricing';
+import { localToInstant } from '../../src/lib/domain/time';
 
 export const HELSINKI = DEMO_POLICY.timeZone;
 export const LIVE_ROOM = demoRoom('live-room');
