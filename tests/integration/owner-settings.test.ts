@@ -10,7 +10,7 @@ import { testDb } from '../support/db';
 import { workdaysAhead } from '../support/dates';
 import { expectRefusedPage } from '../support/refusal';
 import * as t from '../../src/lib/server/db/schema';
-import { settingsFormFrom, type SettingsForm } from '../../src/routes/studio/settings/schema';
+import { settingsFormFrom, type SettingsForm } from '../../src/routes/(studio)/studio/settings/schema';
 import { DEMO_POLICY } from '../../src/lib/domain/demo';
 
 const { db, client } = testDb();

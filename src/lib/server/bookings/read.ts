@@ -1,7 +1,6 @@
 // Reading bookings, scoped by the acting user (OWASP ASVS 8.2.2): an artist sees their own only,
 // the owner and engineers see all, the accountant those in the accounts.
 import { and, asc, desc, eq, gte, inArray, lt, sql } from 'drizzle-orm';
-import { z } from 'zod';
 import { db } from '../db';
 import { booking, bookingGear, gearItem, invoice, payment, room, user } from '../db/schema';
 import type { SessionUser } from '../auth';
@@ -144,7 +143,6 @@ async function inTheAccounts(bookingId: string): Promise<boolean> {
  * way): the artist's own, any for the owner and engineers, and for the accountant those in the accounts.
  */
 export async function getForViewer(actor: SessionUser, id: string) {
-	if (!z.uuid().safeParse(id).success) return undefined;
 	const [row] = await db
 		.select({
 			...summaryColumns,

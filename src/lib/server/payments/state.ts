@@ -31,8 +31,7 @@ import { expireAndReconcile } from './jobs';
 import type Stripe from 'stripe';
 import { formatMoney, fromStripeAmount, toStripeAmount } from '$lib/domain/money';
 import { awaitsDeposit } from '$lib/domain/lifecycle';
-
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+import { isUuid } from '$lib/uuid';
 
 export async function auditTx(tx: Tx, action: string, bookingId: string, data: unknown, actorId: string | null = null) {
 	await tx.insert(auditLog).values({ actorId, action, entity: 'booking', entityId: bookingId, data: data ?? null });
@@ -50,7 +49,7 @@ async function paymentForSession(tx: Tx, session: Stripe.Checkout.Session): Prom
 	if (bySession) return bySession;
 	const paymentId = session.metadata?.paymentId;
 	const bookingId = session.metadata?.bookingId;
-	if (!paymentId || !UUID.test(paymentId) || !bookingId || !UUID.test(bookingId)) return undefined;
+	if (!paymentId || !isUuid(paymentId) || !bookingId || !isUuid(bookingId)) return undefined;
 	const [byMeta] = await tx
 		.select()
 		.from(payment)
@@ -343,7 +342,7 @@ export async function applyRefundObject(
 	let [row] = await tx.select().from(refund).where(eq(refund.stripeRefundId, r.id));
 	if (!row) {
 		const refundId = r.metadata?.refundId;
-		if (!refundId || !UUID.test(refundId)) return 'unknown_refund';
+		if (!refundId || !isUuid(refundId)) return 'unknown_refund';
 		[row] = await tx
 			.select()
 			.from(refund)
