@@ -117,3 +117,51 @@ describe('storage helpers', () => {
 		expect(addressKey('fe80::1%eth0')).toBe('fe80:0:0:0::/64');
 	});
 });
+
+describe('edges of the limits', () => {
+	it('slows an address from its 30th failure on: the first pause is 2 s', () => {
+		const state: SignInState = { pair: null, address: { failures: 30, lastFailureAt: T0 } };
+		expect(judgeSignIn(state, config, T0 + 500)).toEqual({ allowed: false, reason: 'address', retryAfterSeconds: 2 });
+		expect(judgeSignIn(state, config, T0 + 1_000)).toEqual({ allowed: false, reason: 'address', retryAfterSeconds: 1 });
+		expect(judgeSignIn(state, config, T0 + 2_000)).toEqual({ allowed: true });
+	});
+
+	it('tells a refused sign-up to come back when its window ends', () => {
+		// 30 sign-ups from T0 on; the window ends at T0 + 15 min, 10 minutes after T0 + 5 min.
+		expect(judgeSignUp(failures(30), config, T0 + 5 * MINUTE_MS)).toEqual({
+			allowed: false,
+			reason: 'sign-up',
+			retryAfterSeconds: 600
+		});
+	});
+});
+
+describe('client addresses as counted', () => {
+	it('reads an address with spaces, brackets or a zone the same as without', () => {
+		expect(addressKey(' 203.0.113.7\n')).toBe('203.0.113.7');
+		expect(addressKey('[2001:db8:1:2::99]')).toBe('2001:db8:1:2::/64');
+		expect(addressKey('[::1]')).toBe('0:0:0:0::/64');
+	});
+
+	it('fills “::” with the zero groups it stands for, wherever it sits (RFC 4291 §2.2)', () => {
+		expect(addressKey('1::2:3:4:5:6')).toBe('1:0:0:2::/64');
+		expect(addressKey('2001:db8::')).toBe('2001:db8:0:0::/64');
+		expect(addressKey('2001:db8:1:2::a:b')).toBe('2001:db8:1:2::/64');
+	});
+
+	it('keeps what is not an address as it came, so it still counts alone', () => {
+		for (const odd of [
+			'1::2::3', // two “::”
+			'1:2:3:4:5:6:7', // seven groups
+			'1:2:3:4:5:6:7:8:9', // nine
+			'1:2:3:4::5:6:7:8:9', // nine around a “::”
+			'2001:db8:zz::1', // not hexadecimal
+			'2001:db8:x1::1',
+			'2001:db8:12345::1', // five digits
+			'1::ffff:192.0.2.1', // not the IPv4-mapped prefix
+			'::ffff:192.0.2.1234'
+		]) {
+			expect(addressKey(odd), odd).toBe(odd);
+		}
+	});
+});

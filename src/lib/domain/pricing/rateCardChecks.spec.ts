@@ -115,3 +115,54 @@ describe('surcharges', () => {
 		expect(windowSpan(0, 1440)).toEqual({ overnight: false, minutes: 1440 });
 	});
 });
+
+describe('the edges of each rule', () => {
+	it('say nothing of blocks not offered (0) or priced exactly at their hours', () => {
+		expect(checkBlockRates({ hourly: 4500, halfDay: 0, fullDay: 0 }, lengths, 'EUR')).toEqual([]);
+		expect(checkBlockRates({ hourly: 0, halfDay: 0, fullDay: 30000 }, lengths, 'EUR')).toEqual([]);
+		// 4 h and 8 h at 45.00 are 180.00 and 360.00: a block at that price is a tie, not dearer.
+		expect(checkBlockRates({ hourly: 4500, halfDay: 18000, fullDay: 36000 }, lengths, 'EUR')).toEqual([]);
+	});
+
+	it('say why a half day at the full day’s price saves nobody anything', () => {
+		expect(checkBlockRates({ hourly: 4500, halfDay: 17000, fullDay: 17000 }, lengths, 'EUR')).toEqual([
+			{
+				field: 'halfDay',
+				level: 'warning',
+				message: 'The half day costs as much as the full day (€170.00), so nobody is offered a half day’s saving.'.replace(
+					'’',
+					"'"
+				)
+			}
+		]);
+	});
+
+	it('warn when two half days cost less than the full day, but not at exactly twice, nor when the full day is longer', () => {
+		expect(checkBlockRates({ ...live, fullDay: 35000 }, lengths, 'EUR')).toEqual([
+			{
+				field: 'fullDay',
+				level: 'warning',
+				message: 'Two half days (€320.00) cost less than the full day (€350.00), so the full day is never chosen.'
+			}
+		]);
+		expect(checkBlockRates({ ...live, halfDay: 15000, fullDay: 30000 }, lengths, 'EUR')).toEqual([]);
+		// A 10-hour full day covers more than two 4-hour half days: it may cost more than both.
+		const long = { halfDayMinutes: 240, fullDayMinutes: 600 };
+		expect(checkBlockRates({ hourly: 4500, halfDay: 10000, fullDay: 25000 }, long, 'EUR')).toEqual([]);
+	});
+
+	it('give the full day one finding only, the one about its hours', () => {
+		// 400.00 is over its 8 hours (360.00) and over two half days (320.00).
+		expect(levels(checkBlockRates({ ...live, fullDay: 40000 }, lengths, 'EUR'))).toEqual(['fullDay:warning']);
+	});
+});
+
+describe('window edges', () => {
+	it('take equal ends as a whole day round', () => {
+		expect(windowSpan(600, 600)).toEqual({ overnight: true, minutes: 1440 });
+	});
+
+	it('leave equal ends to the form’s own error', () => {
+		expect(checkSurcharge({ percentBp: 5000, kind: 'window', fromMinute: 600, toMinute: 600 })).toEqual([]);
+	});
+});
