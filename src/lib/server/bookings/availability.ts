@@ -17,14 +17,14 @@ import { pricingContext, type PricingContext } from './context';
 import { occupying } from './occupancy';
 import type { BookingDetail } from './read';
 import {
+	addDays,
 	busyUntil as busyUntilOf,
-	daysInclusive,
+	daysFrom,
 	instantsAround,
 	isoInZone,
 	localDateOf,
 	localDays,
 	minutesBetween,
-	nextYmd,
 	shiftDays,
 	type FieldErrors
 } from './request';
@@ -41,7 +41,7 @@ export async function closedDays(ctx: PricingContext, from: string, to: string):
 		.where(and(lte(blackout.startsOn, to), gte(blackout.endsOn, from)));
 	const out: Blackout[] = [];
 	for (const r of rows) {
-		for (let d = r.startsOn > from ? r.startsOn : from; d <= r.endsOn && d <= to; d = nextYmd(d)) {
+		for (let d = r.startsOn > from ? r.startsOn : from; d <= r.endsOn && d <= to; d = addDays(d, 1)) {
 			out.push({ date: d, reason: r.reason || 'Closed' });
 		}
 	}
@@ -92,7 +92,7 @@ export async function availability(
 	if (toProblem) fields.to = [toProblem];
 	if (Object.keys(fields).length || !params.room || !params.from || !params.to) return { ok: false, fields };
 	const { from, to } = params;
-	const days = daysInclusive(from, to);
+	const days = daysFrom(from, to) + 1;
 	if (days < 1) return { ok: false, fields: { to: ['The end date is before the start date.'] } };
 	if (days > AVAILABILITY_MAX_DAYS)
 		return { ok: false, fields: { to: [`Ask for at most ${AVAILABILITY_MAX_DAYS} days at a time.`] } };

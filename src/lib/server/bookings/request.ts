@@ -80,16 +80,6 @@ export function localDays(start: Date, end: Date, timeZone: string): { first: st
 	return { first: localDateOf(start, timeZone), last: localDateOf(new Date(end.getTime() - 1), timeZone) };
 }
 
-/** 'YYYY-MM-DD' and the day after, by the calendar. */
-export function nextYmd(ymd: string): string {
-	return addDays(ymd, 1);
-}
-
-/** Days from one 'YYYY-MM-DD' to another, both counted. */
-export function daysInclusive(from: string, to: string): number {
-	return daysFrom(from, to) + 1;
-}
-
 /**
  * A generous window of instants around local dates: a local day starts at most 14 hours before
  * and ends at most 26 hours after its UTC midnight, so 36 h before and 60 h after cover any zone.
@@ -98,4 +88,4 @@ export function instantsAround(from: string, to: string): { start: Date; end: Da
 	return { start: new Date(Date.parse(from) - 36 * 3600_000), end: new Date(Date.parse(to) + 60 * 3600_000) };
 }
 
-export { isoInZone, localDateOf };
+export { addDays, daysFrom, isoInZone, localDateOf };
