@@ -12,7 +12,6 @@ const ZONES: Zone[] = [
 	{ prefix: '/plan', roles: ['owner', 'engineer'] },
 	{ prefix: '/accounts', roles: ['owner', 'accountant'] },
 	{ prefix: '/bookings', roles: 'signed-in' },
-	{ prefix: '/account', roles: 'signed-in' },
 	{ prefix: '/uploads', roles: 'signed-in' }
 ];
 
