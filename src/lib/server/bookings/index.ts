@@ -2,7 +2,7 @@
 // Routes import this module as a namespace (`import * as bookings from '$lib/server/bookings'`).
 export {
 	parseBookingRequest,
-	requestFromForm,
+	requestFromChoices,
 	zodFieldErrors,
 	type BookingRequest,
 	type FieldErrors,

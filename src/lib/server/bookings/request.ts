@@ -1,13 +1,13 @@
 // A booking request, read once: the JSON API's body is parsed here, the /book form's choices
-// (already checked by superforms against the same field rules, src/lib/schemas/booking.ts) are
-// mapped here, and the times they name become instants here, through the time engine
+// (already checked by superforms against the same field rules, src/lib/schemas/booking.ts) become
+// the same request through requestFromChoices (passed on from the schemas, where the page asks
+// for its live quote with it too), and the times they name become instants here, through the time engine
 // ($lib/domain/time), which the rest of src/lib/server/bookings reaches only through this file.
 import type { z } from 'zod';
-import { bookingRequestSchema, requestFromChoices, type BookForm, type BookingRequest } from '$lib/schemas/booking';
+import { bookingRequestSchema, requestFromChoices, type BookingRequest } from '$lib/schemas/booking';
 import { addDays, daysFrom, isoInZone, localDateOf, parseBookingInstant, TimeInputError } from '$lib/domain/time';
-import type { StudioRow } from '../studio';
 
-export { bookingRequestSchema, type BookingRequest };
+export { bookingRequestSchema, requestFromChoices, type BookingRequest };
 
 export type FieldErrors = Record<string, string[]>;
 
@@ -32,11 +32,6 @@ export function invalidRequest(fields: FieldErrors, message = 'Some details need
 export function parseBookingRequest(input: unknown): { ok: true; request: BookingRequest } | InvalidRequest {
 	const parsed = bookingRequestSchema.safeParse(input);
 	return parsed.success ? { ok: true, request: parsed.data } : invalidRequest(zodFieldErrors(parsed.error));
-}
-
-/** The /book form's checked choices as the request the API would take for them. */
-export function requestFromForm(form: BookForm, studio: Pick<StudioRow, 'halfDayMinutes' | 'fullDayMinutes'>): BookingRequest {
-	return requestFromChoices(form, studio);
 }
 
 // ---------------------------------------------------------------------------------------------

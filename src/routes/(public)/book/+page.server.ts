@@ -4,7 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { listHireableGear } from '$lib/server/inventory';
 import * as bookings from '$lib/server/bookings';
 import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
-import { bookPath, choicesFromQuery, YMD_RE, type BookingChoices } from '$lib/components/booking/choices';
+import { bookPath, choicesFromQuery, YMD_RE } from '$lib/components/booking/choices';
 import { addDays, wallClock } from '$lib/domain/time';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import { mayBook } from '$lib/roles';
@@ -108,7 +108,7 @@ export const actions: Actions = {
 		// Signed out (a session that ended while choosing): keep every choice through sign-in.
 		if (!locals.user) {
 			// The choices ride along only when sign-in can follow them back (at most 500 characters).
-			const back = bookPath(form.data as BookingChoices);
+			const back = bookPath(form.data);
 			redirect(303, `/sign-in?next=${encodeURIComponent(back.length <= 500 ? back : '/book')}`);
 		}
 		refuseNonBookers(locals);
@@ -116,7 +116,7 @@ export const actions: Actions = {
 
 		const ctx = await bookings.pricingContext();
 		const { studio } = ctx;
-		const outcome = await bookings.holdAndCheckout(locals.user, bookings.requestFromForm(form.data, studio), {
+		const outcome = await bookings.holdAndCheckout(locals.user, bookings.requestFromChoices(form.data, studio), {
 			origin: url.origin,
 			ip: getClientAddress(),
 			ctx
