@@ -1,6 +1,6 @@
 // The public calendar's data: GET /api/availability per room, and the shapes the calendar and
 // the list of free times read. No names ever: the API sends only times.
-import { eachDay, wallClock } from '$lib/domain/time';
+import { clockLabel, eachDay, wallClock } from '$lib/domain/time';
 
 export interface AvailabilityBody {
 	timeZone: string;
@@ -53,8 +53,8 @@ function span(room: string, start: string, end: string, timeZone: string, day: s
 		start,
 		end,
 		// A span that runs past midnight is shown up to 24:00 on its first day.
-		startTime: s.date < day ? '00:00' : s.time,
-		endTime: e.date > day ? '24:00' : e.time,
+		startTime: s.date < day ? clockLabel(0) : s.time,
+		endTime: e.date > day ? clockLabel(1440) : e.time,
 		minutes: Math.round((Date.parse(end) - Date.parse(start)) / 60_000)
 	};
 }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { TZDate } from '@date-fns/tz';
 import { formatISO } from 'date-fns';
-import { formatDuration, isoInZone, wallClock, wallDateTime } from './format';
+import { formatDuration, formatEndTime, formatRange, formatTimes, isoInZone, wallClock, wallDateTime } from './format';
 
 // Cross-checked against date-fns formatISO on @date-fns/tz's TZDate (the IANA database through
 // ICU), around the 2027 EU changes (Directive 2000/84/EC: 01:00 UTC on 28 March and 31 October)
@@ -65,6 +65,24 @@ describe('wallClock and wallDateTime', () => {
 		expect(wallClock('2027-10-31T00:30:00Z', 'Europe/Helsinki')).toEqual({ date: '2027-10-31', time: '03:30' });
 		expect(wallClock(new Date('2027-10-31T01:30:00Z'), 'Europe/Helsinki')).toEqual({ date: '2027-10-31', time: '03:30' });
 		expect(wallDateTime(new Date('2027-03-01T22:30:00Z'), 'Europe/Helsinki')).toBe('2027-03-02T00:30');
+	});
+});
+
+describe('the end of a span of time', () => {
+	// Helsinki is UTC+2 in winter: 22:00Z on 2 March 2027 is midnight between the 2nd and the 3rd.
+	const zone = 'Europe/Helsinki';
+	it('reads 24:00 when a span ends at the midnight after the day it began (ISO 8601 end of day)', () => {
+		expect(formatEndTime('2027-03-02T18:00:00Z', '2027-03-02T22:00:00Z', zone)).toBe('24:00');
+		expect(formatTimes('2027-03-02T18:00:00Z', '2027-03-02T22:00:00Z', zone)).toBe('20:00–24:00');
+		expect(formatRange('2027-03-02T18:00:00Z', '2027-03-02T22:00:00Z', zone)).toBe('Tue, 2 Mar 2027, 20:00 – 24:00');
+		expect(formatEndTime('2027-03-02T18:00:00Z', '2027-03-02T22:00:00Z', zone, 'fi-FI')).toBe('24.00');
+	});
+
+	it('keeps 00:00 for a start at midnight, an end a day later, and on a 12-hour clock', () => {
+		expect(formatTimes('2027-03-02T22:00:00Z', '2027-03-03T02:00:00Z', zone)).toBe('00:00–04:00');
+		expect(formatEndTime('2027-03-01T22:00:00Z', '2027-03-03T22:00:00Z', zone)).toBe('00:00');
+		expect(formatEndTime('2027-03-02T18:00:00Z', '2027-03-02T22:00:00Z', zone, 'en-US')).toBe('12:00 AM');
+		expect(formatEndTime('2027-03-02T18:00:00Z', '2027-03-02T21:30:00Z', zone)).toBe('23:30');
 	});
 });
 

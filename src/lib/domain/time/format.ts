@@ -2,7 +2,7 @@
  * Instants and lengths of time as people and other programs read them: in the studio's zone,
  * only at the edges (pages, e-mails, documents, the JSON API).
  */
-import { clockLabel } from './dates';
+import { addDays, clockLabel } from './dates';
 import { localParts, offsetMsAt } from './zoned';
 
 const pad = (n: number, width = 2) => String(n).padStart(width, '0');
@@ -62,8 +62,29 @@ export function formatDate(iso: string | Date, timeZone: string, locale = 'en-GB
 	);
 }
 
+/**
+ * The end of a span of time as a time of day. A span that ends at the midnight after the day it
+ * began ends at 24:00 on a 24-hour clock (ISO 8601's end of the day, as clockLabel writes it), not
+ * at 00:00 of the next day; a 12-hour clock has no 24:00 and keeps its own midnight.
+ */
+export function formatEndTime(start: string | Date, end: string | Date, timeZone: string, locale = 'en-GB'): string {
+	const options: Intl.DateTimeFormatOptions = { timeZone, hour: '2-digit', minute: '2-digit' };
+	const plain = new Intl.DateTimeFormat(locale, options);
+	const last = localParts(new Date(end), timeZone);
+	const endsTheDay = last.minuteOfDay === 0 && last.ymd === addDays(localParts(new Date(start), timeZone).ymd, 1);
+	if (endsTheDay && plain.resolvedOptions().hourCycle === 'h23') {
+		return new Intl.DateTimeFormat(locale, { ...options, hourCycle: 'h24' }).format(new Date(end));
+	}
+	return plain.format(new Date(end));
+}
+
+/** A span's times of day, 'HH:MM–HH:MM' (the end as formatEndTime gives it). */
+export function formatTimes(start: string | Date, end: string | Date, timeZone: string, locale = 'en-GB'): string {
+	return `${formatTime(start, timeZone, locale)}–${formatEndTime(start, end, timeZone, locale)}`;
+}
+
 export function formatRange(start: string | Date, end: string | Date, timeZone: string, locale = 'en-GB'): string {
-	return `${formatDateTime(start, timeZone, locale)} – ${formatTime(end, timeZone, locale)}`;
+	return `${formatDateTime(start, timeZone, locale)} – ${formatEndTime(start, end, timeZone, locale)}`;
 }
 
 /**

@@ -45,8 +45,10 @@ export {
 	formatDate,
 	formatDateTime,
 	formatDuration,
+	formatEndTime,
 	formatRange,
 	formatTime,
+	formatTimes,
 	isoInZone,
 	wallClock,
 	wallDateTime

@@ -25,7 +25,7 @@ import {
 	type VatRow
 } from '$lib/domain/invoice';
 import type { PriceLine, Quote } from '$lib/domain/pricing';
-import { formatDate, formatTime, localDateOf } from '$lib/domain/time';
+import { formatDate, formatTimes, localDateOf } from '$lib/domain/time';
 import { formatMoney } from '$lib/domain/money';
 
 type StudioRow = typeof studio.$inferSelect;
@@ -82,7 +82,7 @@ export function sessionWords(
 	b: Pick<BookingForDocuments, 'roomName' | 'startsAt' | 'endsAt' | 'reference'>,
 	timeZone: string
 ): string {
-	return `${b.roomName}, ${formatDate(b.startsAt, timeZone)}, ${formatTime(b.startsAt, timeZone)}–${formatTime(b.endsAt, timeZone)} (booking ${b.reference})`;
+	return `${b.roomName}, ${formatDate(b.startsAt, timeZone)}, ${formatTimes(b.startsAt, b.endsAt, timeZone)} (booking ${b.reference})`;
 }
 
 /** The deposit invoice (386) for a paid deposit payment; the existing one if already issued. */

@@ -9,7 +9,7 @@
 import ical, { ICalCalendarMethod, ICalEventStatus } from 'ical-generator';
 import { formatMoney } from '$lib/domain/money';
 import { preparationChecklist } from '$lib/domain/preparation';
-import { formatDate, formatTime } from '$lib/domain/time';
+import { formatDate, formatEndTime, formatTime } from '$lib/domain/time';
 
 export interface ConfirmationFacts {
 	bookingId: string;
@@ -80,7 +80,7 @@ export function composeConfirmation(f: ConfirmationFacts, now = new Date()): Com
 	const money = (minor: number) => formatMoney(minor, f.currency, locale);
 	const day = formatDate(f.startsAt, timeZone, locale);
 	const from = formatTime(f.startsAt, timeZone, locale);
-	const to = formatTime(f.endsAt, timeZone, locale);
+	const to = formatEndTime(f.startsAt, f.endsAt, timeZone, locale);
 	const balance = f.total - f.deposit;
 	const checklist = preparationChecklist(f.engineerName !== null)
 		.map((g) => [`${g.title}:`, ...g.items.map((i) => `  - ${i}`)].join('\n'))
@@ -156,7 +156,7 @@ export function composeCancellation(f: CancellationFacts, now = new Date()): Com
 	const money = (minor: number) => formatMoney(minor, f.currency, locale);
 	const day = formatDate(f.startsAt, timeZone, locale);
 	const from = formatTime(f.startsAt, timeZone, locale);
-	const to = formatTime(f.endsAt, timeZone, locale);
+	const to = formatEndTime(f.startsAt, f.endsAt, timeZone, locale);
 	const text = [
 		`Hello ${f.artistName},`,
 		'',

@@ -17,7 +17,7 @@ import { booking, invoice, payment, room, studio, user } from '../db/schema';
 import { inTransaction, lockBooking, paymentsOf, type PaymentRow } from './core';
 import { stripe } from './stripe';
 import { isExactStripeAmount, toStripeAmount } from '$lib/domain/money';
-import { formatDate, formatTime } from '$lib/domain/time';
+import { formatDate, formatTimes } from '$lib/domain/time';
 import { formatMoney } from '$lib/domain/money';
 import { holdLive } from '$lib/domain/lifecycle';
 
@@ -124,7 +124,7 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 			.innerJoin(studio, eq(studio.id, 1))
 			.where(eq(booking.id, b.id));
 		const tz = details!.timeZone;
-		const when = `${formatDate(b.startsAt, tz)}, ${formatTime(b.startsAt, tz)}–${formatTime(b.endsAt, tz)}`;
+		const when = `${formatDate(b.startsAt, tz)}, ${formatTimes(b.startsAt, b.endsAt, tz)}`;
 		const metadata = { bookingId: b.id, kind, paymentId: row!.id, reference: b.reference };
 		const label = kind === 'deposit' ? 'Deposit' : 'Balance';
 		const params: Stripe.Checkout.SessionCreateParams = {
