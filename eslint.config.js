@@ -25,21 +25,18 @@ const outsideComponents = [
 export default ts.config(
 	{ ignores: ['build/', '.svelte-kit/', 'node_modules/', '.data/', 'drizzle/meta/', 'test-results/', 'playwright-report/'] },
 	js.configs.recommended,
-	...ts.configs.recommended,
+	...ts.configs.recommendedTypeChecked,
 	...svelte.configs.recommended,
 	{
-		languageOptions: { globals: { ...globals.browser, ...globals.node } },
+		languageOptions: {
+			globals: { ...globals.browser, ...globals.node },
+			parserOptions: { projectService: true, tsconfigRootDir: import.meta.dirname }
+		},
 		rules: {
 			'no-undef': 'off',
 			// The app is served from the root with no base path, so plain hrefs are right.
 			'svelte/no-navigation-without-resolve': 'off',
-			'@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }]
-		}
-	},
-	{
-		files: ['**/*.ts'],
-		languageOptions: { parserOptions: { projectService: true, tsconfigRootDir: import.meta.dirname } },
-		rules: {
+			'@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
 			'@typescript-eslint/no-floating-promises': 'error',
 			'@typescript-eslint/no-misused-promises': 'error',
 			'@typescript-eslint/require-await': 'error'
@@ -50,6 +47,11 @@ export default ts.config(
 		languageOptions: {
 			parserOptions: { projectService: true, extraFileExtensions: ['.svelte'], parser: ts.parser, svelteConfig }
 		}
+	},
+	{
+		// Plain JavaScript (the configuration files) is outside the TypeScript project.
+		files: ['**/*.js', '**/*.mjs', '**/*.cjs'],
+		...ts.configs.disableTypeChecked
 	},
 	{
 		files: ['src/lib/domain/**/*.ts'],

@@ -18,6 +18,10 @@ declare global {
 			/** Set by handleError when the database refused a value of the request as data (see hooks.server.ts). */
 			badInput?: boolean;
 		}
+		/** What the root layout gives every page (absent on an error page the layout could not load). */
+		interface PageData {
+			user?: { name: string; email: string; role: Role } | null;
+		}
 	}
 }
 

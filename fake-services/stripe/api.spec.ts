@@ -243,7 +243,7 @@ describe('Checkout Sessions', () => {
 		const events = await fx.stripe.events.list({ type: 'checkout.session.expired' });
 		expect(events.data).toHaveLength(1);
 		expect(events.data[0]?.request).toEqual({
-			id: expect.stringMatching(/^req_/),
+			id: expect.stringMatching(/^req_/) as string,
 			idempotency_key: 'expire-bk_1001'
 		});
 		const paying = await fx.control('POST', `/sessions/${s.id}/pay`);

@@ -64,7 +64,8 @@ test('pay the deposit on Stripe’s page, see the booking confirmed, cancel and 
 }) => {
 	await signIn(page, 'artist@slateroom.test');
 
-	let booking: { id: string; checkoutUrl: string; quote: { deposit: number } } | null = null;
+	type Held = { id: string; checkoutUrl: string; quote: { deposit: number } };
+	let booking: Held | null = null;
 	let slot: Slot | undefined;
 	for (const candidate of candidateSlots()) {
 		if (!(await isFree(page.request, candidate))) continue;
@@ -72,7 +73,7 @@ test('pay the deposit on Stripe’s page, see the booking confirmed, cancel and 
 			data: { room: 'vocal-booth', start: `${candidate.day}T${candidate.from}`, end: `${candidate.day}T${candidate.to}` }
 		});
 		if (res.status() === 201) {
-			booking = await res.json();
+			booking = (await res.json()) as Held;
 			slot = candidate;
 			break;
 		}

@@ -258,7 +258,7 @@ describe('a lock pile-up', () => {
 				const answers = await Promise.all(cancels);
 				for (const a of answers) {
 					expect(a.status, JSON.stringify(a.body)).toBe(503);
-					expect(a.body).toEqual({ error: 'busy', message: expect.stringContaining('busy') });
+					expect(a.body).toEqual({ error: 'busy', message: expect.stringContaining('busy') as string });
 					expect(Number(a.retryAfter)).toBeGreaterThan(0);
 				}
 			} finally {

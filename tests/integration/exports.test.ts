@@ -82,7 +82,7 @@ describe('the month export', () => {
 		const text = await res.text();
 		// RFC 4180 §2.1: every record ends in CRLF (line breaks inside quoted fields aside).
 		expect(text.endsWith('\r\n')).toBe(true);
-		const rows = parse(text, { columns: true }) as Record<string, string>[];
+		const rows = parse<Record<string, string>>(text, { columns: true });
 		expect(rows.map((r) => r.Number)).toEqual(report.documents.map((d) => d.number));
 
 		const mine = rows.find((r) => r.Customer!.includes('HYPERLINK'));
@@ -95,26 +95,29 @@ describe('the month export', () => {
 		expect(sum(rows.map((r) => r['VAT declared this month']!))).toBe(euros(report.totals.vat));
 		for (const r of rows) expect(r.Net).toMatch(/^-?\d+\.\d{2}$/);
 
-		const payments = parse(
+		const payments = parse<Record<string, string>>(
 			await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=payments`)).text(),
 			{
 				columns: true
 			}
-		) as Record<string, string>[];
+		);
 		expect(sum(payments.map((p) => p.Amount!))).toBe(euros(report.totals.received));
 
-		const refunds = parse(
+		const refunds = parse<Record<string, string>>(
 			await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=refunds`)).text(),
 			{
 				columns: true
 			}
-		) as Record<string, string>[];
+		);
 		expect(refunds).toHaveLength(report.refunds.length);
 		expect(sum(refunds.filter((r) => r.Status === 'succeeded').map((r) => r.Amount!))).toBe(euros(-report.totals.refunded));
 
-		const vat = parse(await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=vat`)).text(), {
-			columns: true
-		}) as Record<string, string>[];
+		const vat = parse<Record<string, string>>(
+			await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=vat`)).text(),
+			{
+				columns: true
+			}
+		);
 		expect(vat.map((v) => [v['VAT rate %'], v.VAT])).toEqual(report.vatByRate.map((v) => [v.ratePercent, euros(v.vat)]));
 	});
 

@@ -33,7 +33,7 @@ async function feed(token: string) {
 }
 
 function vevents(text: string): ical.VEvent[] {
-	return Object.values(ical.sync.parseICS(text)).filter((c) => c?.type === 'VEVENT') as ical.VEvent[];
+	return Object.values(ical.sync.parseICS(text)).filter((c): c is ical.VEvent => c?.type === 'VEVENT');
 }
 
 describe('the calendar feed', () => {
@@ -61,7 +61,7 @@ describe('the calendar feed', () => {
 		const [demo] = await db.select().from(t.booking).where(eq(t.booking.id, DEMO_BOOKING_IDS[2]));
 		const demoEvent = vevents(before.text).find((e) => e.uid === demo!.id);
 		expect(demoEvent?.status).toBe('CONFIRMED');
-		expect(new Date(demoEvent!.start!).getTime()).toBe(demo!.startsAt.getTime());
+		expect(new Date(demoEvent!.start).getTime()).toBe(demo!.startsAt.getTime());
 		expect(demoEvent!.summary).toContain('Noa Virta');
 
 		expect(await payOnFake(booked.sessionId)).toBe(200);

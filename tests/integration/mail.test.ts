@@ -84,10 +84,10 @@ describe('the confirmation e-mail', () => {
 		const file = mail.attachments?.find((a) => a.filename.endsWith('.ics'));
 		expect(file?.contentType).toMatch(/^text\/calendar/);
 		const ics = await (await fetch(`${MAIL_API}/api/email/${mail.id}/attachment/${file!.generatedFileName}`)).text();
-		const vevents = Object.values(ical.sync.parseICS(ics)).filter((c) => c?.type === 'VEVENT') as ical.VEvent[];
+		const vevents = Object.values(ical.sync.parseICS(ics)).filter((c): c is ical.VEvent => c?.type === 'VEVENT');
 		expect(vevents).toHaveLength(1);
 		expect(vevents[0]!.uid).toBe(b.id);
-		expect(new Date(vevents[0]!.start!).getTime()).toBe(row!.startsAt.getTime());
+		expect(new Date(vevents[0]!.start).getTime()).toBe(row!.startsAt.getTime());
 		expect(new Date(vevents[0]!.end!).getTime()).toBe(row!.endsAt.getTime());
 		expect(ics).toMatch(/^DTSTAMP:\d{8}T\d{6}Z\r$/m);
 

@@ -14,7 +14,7 @@ import { weekdayAhead, workdaysAhead } from '../support/dates';
 import { bookAndPay, holdFirstFree, type Held } from '../support/booking';
 import { moveIntoPast } from '../support/started';
 import * as t from '../../src/lib/server/db/schema';
-import { HOME_FOR_ROLE, type Role } from '../../src/lib/roles';
+import { HOME_FOR_ROLE } from '../../src/lib/roles';
 import { formatMoney } from '../../src/lib/domain/money';
 
 const { db, client } = testDb();
@@ -220,7 +220,7 @@ describe('every link leads somewhere its viewer may go', () => {
 		async (role, email) => {
 			const who = email ? await signedIn(email) : new Client();
 			const starts = ['/'];
-			if (role !== 'visitor') starts.push(HOME_FOR_ROLE[role as Role]);
+			if (role !== 'visitor') starts.push(HOME_FOR_ROLE[role]);
 			// A booking page of each kind the role can open: the engineer's and owner's lists start from
 			// the plan and the desk; the artist's own and the accountant's through the accounts.
 			if (role !== 'visitor') starts.push(`/bookings/${paid.id}`);

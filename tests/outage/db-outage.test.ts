@@ -4,6 +4,7 @@
 // while the database is down, and the time from the database being ready to the app's first
 // success.
 import { execFile, execFileSync } from 'node:child_process';
+import { promisify } from 'node:util';
 import { describe, expect, it } from 'vitest';
 import postgres from 'postgres';
 import Stripe from 'stripe';
@@ -14,10 +15,7 @@ import { sleep } from '../support/wait';
 
 const port = process.env.PG_PORT ?? '5434';
 const pgSync = (cmd: 'start' | 'stop') => execFileSync('bash', ['scripts/pg.sh', cmd, 'test', port], { stdio: 'pipe' });
-const pgAsync = (cmd: 'start' | 'stop') =>
-	new Promise<void>((resolve, reject) =>
-		execFile('bash', ['scripts/pg.sh', cmd, 'test', port], (e) => (e ? reject(e) : resolve()))
-	);
+const pgAsync = (cmd: 'start' | 'stop') => promisify(execFile)('bash', ['scripts/pg.sh', cmd, 'test', port]);
 
 // Goals, with room for a busy shared machine: while the database is down every request answers
 // within this time (the server refuses connections at once; nothing should wait on it)…
@@ -111,7 +109,10 @@ describe('database outage', () => {
 			for (const res of [...api, ...burst]) {
 				answers.push(res);
 				expect(res.status, `${res.label}: ${res.text}`).toBe(503);
-				expect(JSON.parse(res.text)).toEqual({ error: 'unavailable', message: expect.stringContaining('not answering') });
+				expect(JSON.parse(res.text)).toEqual({
+					error: 'unavailable',
+					message: expect.stringContaining('not answering') as string
+				});
 				expect(Number(res.retryAfter), `${res.label} Retry-After`).toBeGreaterThan(0);
 			}
 			// The database stays down a while longer; requests keep failing fast, one after another.

@@ -17,7 +17,7 @@ export async function expectRefused(
 	expect(res.status, text.slice(0, 300)).toBe(status);
 	expect(res.headers.get('content-type')).toMatch(/^application\/json/);
 	const body = JSON.parse(text) as Record<string, unknown>;
-	expect(body).toEqual({ error: opts.code ?? CODES[status], message: expect.stringMatching(/\w/) });
+	expect(body).toEqual({ error: opts.code ?? CODES[status], message: expect.stringMatching(/\w/) as string });
 	for (const s of opts.secrets ?? []) expect(text).not.toContain(s);
 }
 

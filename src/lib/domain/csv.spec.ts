@@ -17,13 +17,13 @@ describe('CSV (RFC 4180)', () => {
 		const out = toCsv(columns, [{ name, amount: '-12.50' }]);
 		// RFC 4180 §2.1 and §2.6–2.7: CRLF, fields with specials in quotes, inner quotes doubled.
 		expect(out).toBe('Customer,Amount\r\n"Band ""The Commas"", Ltd\nsecond line",-12.50\r\n');
-		const back = parse(out, { columns: true }) as Record<string, string>[];
+		const back = parse<Record<string, string>>(out, { columns: true });
 		expect(back).toEqual([{ Customer: name, Amount: '-12.50' }]);
 	});
 
 	it('neutralises formula-like text but leaves negative amounts as numbers (OWASP CSV injection)', () => {
 		const rows = ['=SUM(A1:A9)', '+1', '-2', '@cmd', '\tx', '\rx', 'plain'].map((name) => ({ name, amount: '-3.00' }));
-		const back = parse(toCsv(columns, rows), { columns: true }) as Record<string, string>[];
+		const back = parse<Record<string, string>>(toCsv(columns, rows), { columns: true });
 		expect(back.map((r) => r.Customer)).toEqual(["'=SUM(A1:A9)", "'+1", "'-2", "'@cmd", "'\tx", "'\rx", 'plain']);
 		expect(back.every((r) => r.Amount === '-3.00')).toBe(true);
 	});

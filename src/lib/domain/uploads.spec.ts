@@ -18,6 +18,7 @@ import {
 	hasFrameChain,
 	labelFor,
 	mpegFrameLength,
+	type AcceptedType,
 	type TextFinding
 } from './uploads';
 
@@ -262,7 +263,7 @@ describe('every accepted type: its stored content type, label and download exten
 	];
 	it.each(table)('%s', (mime, contentType, label, first, other) => {
 		const verdict = judge({ mime, ext: first }, 'not-utf8', none, 'x');
-		expect(verdict).toEqual({ ok: true, type: expect.objectContaining({ contentType, label }) });
+		expect(verdict).toEqual({ ok: true, type: expect.objectContaining({ contentType, label }) as AcceptedType });
 		expect(labelFor(contentType)).toBe(label);
 		expect(downloadName('take', contentType)).toBe(`take.${first}`);
 		expect(downloadName(`take.${other.toUpperCase()}`, contentType)).toBe(`take.${other.toUpperCase()}`);
@@ -440,7 +441,7 @@ describe('web markup in uploads', () => {
 			const verdict = judge(wav, 'not-utf8', riff(page), 'a.wav');
 			expect(verdict, page).toMatchObject({
 				ok: false,
-				message: expect.stringContaining('a web page behind a WAV audio header')
+				message: expect.stringContaining('a web page behind a WAV audio header') as string
 			});
 		}
 	});
@@ -465,7 +466,7 @@ describe('web markup in uploads', () => {
 	it('refuses a text file that starts as markup of any kind, after a BOM and spaces', () => {
 		for (const start of ['<p>hi', '<?php echo 1;', '</div>', '<!-- x -->', '\uFEFF\n  <a href=x>', '<Z>']) {
 			const verdict = judge(undefined, 'text', bytes(start), 'lyrics.txt');
-			expect(verdict, start).toMatchObject({ ok: false, message: expect.stringContaining('a web page or markup') });
+			expect(verdict, start).toMatchObject({ ok: false, message: expect.stringContaining('a web page or markup') as string });
 		}
 		for (const start of ['< 3 times', '<3', 'x <p>', '\uFEFFVerse']) {
 			expect(judge(undefined, 'text', bytes(start), 'lyrics.txt').ok, start).toBe(true);

@@ -33,6 +33,11 @@ export async function readFormData(request: Request): Promise<FormData | null> {
 	}
 }
 
+/** A form field's text: '' when the field is missing or holds a file instead of text. */
+export function formText(value: FormDataEntryValue | null | undefined): string {
+	return typeof value === 'string' ? value : '';
+}
+
 export const BAD_INPUT_MESSAGE = 'Part of the request is a value that cannot be stored or read: check the text and dates sent.';
 
 /**

@@ -1,7 +1,7 @@
 // Reads one file out of a multipart/form-data request as it arrives, without holding the body in
 // memory (request.formData() would buffer all of it). The handler consumes the file's stream and
 // may stop early (a file that is too large); the rest of the body is then left unread.
-import { Readable, type Writable } from 'node:stream';
+import { Readable } from 'node:stream';
 import Busboy from 'busboy';
 
 export interface IncomingFile {
@@ -15,7 +15,7 @@ export type MultipartOutcome<T> =
 
 /** True for the error adapter-node raises when a body passes BODY_SIZE_LIMIT. */
 export function isBodyTooLarge(e: unknown): boolean {
-	return !!e && typeof e === 'object' && 'status' in e && (e as { status: unknown }).status === 413;
+	return !!e && typeof e === 'object' && 'status' in e && e.status === 413;
 }
 
 /**
@@ -63,7 +63,7 @@ export function readFileField<T>(
 		const stopReading = () => {
 			// Stop reading the body, without cancelling it: adapter-node answers a cancelled body by
 			// closing the connection, and the client would never see our answer.
-			body.unpipe(parser as Writable);
+			body.unpipe(parser);
 			body.pause();
 		};
 		const finish = (outcome: MultipartOutcome<T>) => {
@@ -107,7 +107,7 @@ export function readFileField<T>(
 						: { ok: false, status: 400, error: 'incomplete', message: 'The upload did not arrive whole. Please try again.' }
 				);
 		});
-		body.pipe(parser as Writable);
+		body.pipe(parser);
 	});
 }
 

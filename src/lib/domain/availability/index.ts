@@ -114,12 +114,18 @@ function fail(code: ConstructorParameters<typeof AvailabilityInputError>[0], mes
 	throw new AvailabilityInputError(code, message);
 }
 
-function isInt(n: unknown, min: number, max = Number.MAX_SAFE_INTEGER): n is number {
+// The checks answer yes or no and narrow nothing: a value typed as a number that is out of range
+// is still a number for the message, and Array.isArray would turn a typed readonly list into any[].
+function isInt(n: unknown, min: number, max = Number.MAX_SAFE_INTEGER): boolean {
 	return typeof n === 'number' && Number.isInteger(n) && n >= min && n <= max;
 }
 
-function isValidDate(d: unknown): d is Date {
+function isValidDate(d: unknown): boolean {
 	return d instanceof Date && Number.isFinite(d.getTime());
+}
+
+function isList(v: unknown): boolean {
+	return Array.isArray(v);
 }
 
 function checkPolicy(p: AvailabilityPolicy): void {
@@ -133,7 +139,7 @@ function checkPolicy(p: AvailabilityPolicy): void {
 	if (!isInt(p.turnaroundMinutes, 0)) fail('invalid-policy', 'policy.turnaroundMinutes must be a non-negative integer');
 	if (!isInt(p.minNoticeMinutes, 0)) fail('invalid-policy', 'policy.minNoticeMinutes must be a non-negative integer');
 	if (!isInt(p.horizonDays, 0, 3660)) fail('invalid-policy', 'policy.horizonDays must be an integer 0..3660');
-	if (!Array.isArray(p.openingHours)) fail('invalid-policy', 'policy.openingHours must be an array');
+	if (!isList(p.openingHours)) fail('invalid-policy', 'policy.openingHours must be an array');
 	for (const h of p.openingHours) {
 		if (!isInt(h.weekday, 1, 7)) fail('invalid-policy', `opening hours weekday must be ISO 1..7, got ${h.weekday}`);
 		if (!isInt(h.openMinute, 0, 1439)) fail('invalid-policy', `openMinute must be 0..1439, got ${h.openMinute}`);
@@ -163,13 +169,13 @@ function prepare(input: AvailabilityInput): Prepared {
 	if (!isYmd(from) || !isYmd(to)) fail('invalid-range', `from and to must be YYYY-MM-DD dates, got ${from}..${to}`);
 	if (to < from) fail('invalid-range', `to (${to}) is before from (${from})`);
 	if (!isValidDate(now)) fail('invalid-now', 'now must be a valid Date');
-	if (!Array.isArray(busy)) fail('invalid-busy', 'busy must be an array');
+	if (!isList(busy)) fail('invalid-busy', 'busy must be an array');
 	for (const b of busy) {
 		if (!isValidDate(b.start) || !isValidDate(b.end) || b.end < b.start) {
 			fail('invalid-busy', 'each busy interval needs valid start <= end Dates');
 		}
 	}
-	if (!Array.isArray(blackouts)) fail('invalid-blackout', 'blackouts must be an array');
+	if (!isList(blackouts)) fail('invalid-blackout', 'blackouts must be an array');
 	for (const b of blackouts) {
 		if (!isYmd(b.date)) fail('invalid-blackout', `blackout date must be YYYY-MM-DD, got ${JSON.stringify(b.date)}`);
 	}

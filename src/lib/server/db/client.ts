@@ -108,7 +108,7 @@ function gate(client: postgres.Sql, turns: Gate, onTrouble?: DbOptions['onTroubl
 			if (property === 'unsafe') return (...args: Parameters<postgres.Sql['unsafe']>) => new GatedQuery(args);
 			if (property === 'begin')
 				return (...args: unknown[]) => guarded(() => (target.begin as (...a: unknown[]) => Promise<unknown>)(...args));
-			return Reflect.get(target, property, target);
+			return Reflect.get(target, property, target) as unknown;
 		}
 	});
 }

@@ -30,7 +30,8 @@ interface FontkitSubset {
 	loca: { offsets: number[] };
 	hmtx: { metrics: { advance: number; bearing: number }[] };
 	offset: number;
-	_addGlyph(gid: number): number;
+	// A function property, not a method: the patch below keeps the original and calls it with its subset.
+	_addGlyph: (this: FontkitSubset, gid: number) => number;
 }
 interface FontkitFont {
 	createSubset(): FontkitSubset;
@@ -115,7 +116,7 @@ export interface InvoiceFonts {
 	mono: Buffer;
 	monoBold: Buffer;
 	/** Replaces characters the text font lacks by their base letter, or '?', so nothing prints as a box. */
-	printable(text: string): string;
+	printable: (text: string) => string;
 }
 
 let cached: InvoiceFonts | null = null;

@@ -39,7 +39,7 @@ const invoice: InvoiceRow = {
 	refundId: null,
 	note: 'Session: Live room, Tuesday 2 March 2027 — “tracking”, naïve façade; ł is not in the font.',
 	createdAt: new Date('2027-03-02T16:00:00Z')
-} as unknown as InvoiceRow;
+};
 
 const line = (position: number, description: string, net: number, amount: number): InvoiceLineRow => ({
 	id: position,

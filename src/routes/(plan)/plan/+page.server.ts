@@ -6,7 +6,7 @@ import { audit } from '$lib/server/audit';
 import { feedTokenOf, replaceFeedToken } from '$lib/server/feed';
 import type { RecallChannel } from '$lib/server/db/schema';
 import { CONTROL_CHARS_MESSAGE, DATE_MESSAGE, dateProblem, hasControlChars, lineText, multilineText } from '$lib/schemas/input';
-import { readFormData } from '$lib/server/api';
+import { formText, readFormData } from '$lib/server/api';
 import { addDays } from '$lib/domain/time';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -53,12 +53,12 @@ export const actions: Actions = {
 		const me = requireRole(locals, 'owner', 'engineer');
 		const form = await readFormData(request);
 		if (!form) return fail(400, { bookingId: '', error: 'The form could not be read.' });
-		const bookingId = String(form.get('bookingId') ?? '');
+		const bookingId = formText(form.get('bookingId'));
 		if (!z.uuid().safeParse(bookingId).success) return fail(422, { bookingId, error: 'Unknown session.' });
 		const count = Math.min(Number(form.get('rows') ?? 0) || 0, 40);
 		const channels: RecallChannel[] = [];
 		for (let i = 0; i < count; i++) {
-			const get = (k: string) => String(form.get(`${k}-${i}`) ?? '');
+			const get = (k: string) => formText(form.get(`${k}-${i}`));
 			const parsed = channelSchema.safeParse({
 				source: get('source'),
 				microphone: get('microphone'),
@@ -72,7 +72,7 @@ export const actions: Actions = {
 			if (!parsed.data.source && !parsed.data.microphone) continue;
 			channels.push({ ...parsed.data, phantom: form.get(`phantom-${i}`) === 'on' });
 		}
-		const notes = String(form.get('notes') ?? '').slice(0, 4000);
+		const notes = formText(form.get('notes')).slice(0, 4000);
 		if (hasControlChars(notes, true)) return fail(422, { bookingId, error: `Notes: ${CONTROL_CHARS_MESSAGE}` });
 		if (!(await saveRecall(bookingId, me.id, channels, notes))) return fail(404, { bookingId, error: 'Unknown session.' });
 		await audit({ actorId: me.id, action: 'recall.saved', entity: 'booking', entityId: bookingId, ip: getClientAddress() });

@@ -11,7 +11,7 @@ import * as uploads from '$lib/server/uploads';
 import { audit } from '$lib/server/audit';
 import { localDateOf, wallClock } from '$lib/domain/time';
 import type { Role } from '$lib/roles';
-import { readFormData } from '$lib/server/api';
+import { formText, readFormData } from '$lib/server/api';
 import { holdGone } from '$lib/domain/lifecycle';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -210,7 +210,7 @@ export const actions: Actions = {
 		const me = requireUser(locals);
 		const form = await readFormData(request);
 		if (!form) return fail(400, { remove: { error: 'The form could not be read.' } });
-		const uploadId = String(form.get('uploadId') ?? '');
+		const uploadId = formText(form.get('uploadId'));
 		const removed = await uploads.remove(me, params.id, uploadId);
 		if (!removed.ok) return fail(removed.status, { remove: { error: removed.message } });
 		await audit({

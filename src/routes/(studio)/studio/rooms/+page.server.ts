@@ -21,7 +21,7 @@ import {
 	type RoomForm
 } from './schema';
 import { blockRateFindings } from '$lib/schemas/rate-card';
-import { readFormData } from '$lib/server/api';
+import { formText, readFormData } from '$lib/server/api';
 import type { Actions, PageServerLoad } from './$types';
 
 type Note = { kind: 'saved' | 'error'; text: string };
@@ -138,7 +138,7 @@ export const actions: Actions = {
 	blackout: async ({ request, locals, getClientAddress }) => {
 		const user = requireRole(locals, 'owner');
 		const raw = Object.fromEntries((await readFormData(request)) ?? []);
-		const values = { startsOn: String(raw.startsOn ?? ''), endsOn: String(raw.endsOn ?? ''), reason: String(raw.reason ?? '') };
+		const values = { startsOn: formText(raw.startsOn), endsOn: formText(raw.endsOn), reason: formText(raw.reason) };
 		const parsed = blackoutSchema.safeParse(raw);
 		if (!parsed.success) return fail(422, { blackout: blackoutResult({ values, errors: zodFieldErrors(parsed.error) }) });
 		const { startsOn, reason, confirm } = parsed.data;
