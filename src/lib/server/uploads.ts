@@ -29,6 +29,7 @@ import {
 	type UploadLimits
 } from '$lib/domain/uploads';
 import { db } from './db';
+import { audit } from './audit';
 import { booking, upload } from './db/schema';
 import { holdLapsed, isCancellable, type BookingStatus } from '$lib/domain/lifecycle';
 import { isBodyTooLarge, type IncomingFile } from './multipart';
@@ -322,6 +323,30 @@ export async function remove(
 		console.warn('[uploads] could not delete', row.storageKey, (e as Error).message)
 	);
 	return { ok: true, upload: row };
+}
+
+/** The audit line of a file added to a session, the same from the booking page and the API. */
+export async function auditAdded(actor: SessionUser, bookingId: string, u: UploadRow, ip: string): Promise<void> {
+	await audit({
+		actorId: actor.id,
+		action: 'upload.added',
+		entity: 'booking',
+		entityId: bookingId,
+		data: { upload: u.id, sizeBytes: u.sizeBytes, sha256: u.sha256 },
+		ip
+	});
+}
+
+/** The audit line of a file removed from a session. */
+export async function auditRemoved(actor: SessionUser, bookingId: string, uploadId: string, ip: string): Promise<void> {
+	await audit({
+		actorId: actor.id,
+		action: 'upload.removed',
+		entity: 'booking',
+		entityId: bookingId,
+		data: { upload: uploadId },
+		ip
+	});
 }
 
 const SWEEP_EVERY_MS = 60 * 60_000;

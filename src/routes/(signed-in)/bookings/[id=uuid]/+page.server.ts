@@ -8,7 +8,6 @@ import { formFields } from '$lib/server/payments/http';
 import type { QuoteView } from '$lib/types/quote';
 import { readFileField } from '$lib/server/multipart';
 import * as uploads from '$lib/server/uploads';
-import { audit } from '$lib/server/audit';
 import { localDateOf, wallClock } from '$lib/domain/time';
 import type { Role } from '$lib/roles';
 import { formText, readFormData } from '$lib/server/api';
@@ -195,16 +194,8 @@ export const actions: Actions = {
 		const received = await readFileField(request, 'file', (file) => uploads.save(me, params.id, file));
 		const outcome = received.ok ? received.value : received;
 		if (!outcome.ok) return fail(outcome.status, { upload: { error: outcome.message } });
-		const u = outcome.upload;
-		await audit({
-			actorId: me.id,
-			action: 'upload.added',
-			entity: 'booking',
-			entityId: params.id,
-			data: { upload: u.id, sizeBytes: u.sizeBytes, sha256: u.sha256 },
-			ip: getClientAddress()
-		});
-		return { upload: { added: u.originalName } };
+		await uploads.auditAdded(me, params.id, outcome.upload, getClientAddress());
+		return { upload: { added: outcome.upload.originalName } };
 	},
 	remove: async ({ request, locals, params, getClientAddress }) => {
 		const me = requireUser(locals);
@@ -213,14 +204,7 @@ export const actions: Actions = {
 		const uploadId = formText(form.get('uploadId'));
 		const removed = await uploads.remove(me, params.id, uploadId);
 		if (!removed.ok) return fail(removed.status, { remove: { error: removed.message } });
-		await audit({
-			actorId: me.id,
-			action: 'upload.removed',
-			entity: 'booking',
-			entityId: params.id,
-			data: { upload: uploadId },
-			ip: getClientAddress()
-		});
+		await uploads.auditRemoved(me, params.id, uploadId, getClientAddress());
 		return { remove: { removed: removed.upload.originalName } };
 	}
 };

@@ -2,7 +2,6 @@ import { json } from '@sveltejs/kit';
 import { apiError } from '$lib/server/api';
 import { readFileField } from '$lib/server/multipart';
 import * as uploads from '$lib/server/uploads';
-import { audit } from '$lib/server/audit';
 import { getStudio } from '$lib/server/studio';
 import { isoInZone } from '$lib/domain/time';
 import type { RequestHandler } from './$types';
@@ -29,14 +28,7 @@ export const POST: RequestHandler = async ({ locals, params, request, getClientA
 	const saved = received.value;
 	if (!saved.ok) return apiError(saved.status, saved.error, saved.message);
 	const u = saved.upload;
-	await audit({
-		actorId: me.id,
-		action: 'upload.added',
-		entity: 'booking',
-		entityId: params.id,
-		data: { upload: u.id, sizeBytes: u.sizeBytes, sha256: u.sha256 },
-		ip: getClientAddress()
-	});
+	await uploads.auditAdded(me, params.id, u, getClientAddress());
 	const { timeZone } = await getStudio();
 	return json(
 		uploads.uploadJson(u, (d) => isoInZone(d, timeZone)),
