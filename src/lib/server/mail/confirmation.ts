@@ -9,7 +9,7 @@
 import ical, { ICalCalendarMethod, ICalEventStatus } from 'ical-generator';
 import { formatMoney } from '$lib/domain/money';
 import { preparationChecklist } from '$lib/domain/preparation';
-import { formatDate, formatEndTime, formatTime } from '$lib/domain/time';
+import { formatDate, formatTimes } from '$lib/domain/time';
 
 export interface ConfirmationFacts {
 	bookingId: string;
@@ -75,12 +75,16 @@ export function bookingCalendarFile(f: ConfirmationFacts, now = new Date()): str
 	return cal.toString();
 }
 
+/** The session's day and times as the e-mails write them: 'Tuesday 2 March 2027, 10:00–14:00'. */
+function sessionWhen(f: ConfirmationFacts): string {
+	const { timeZone, locale } = f.studio;
+	return `${formatDate(f.startsAt, timeZone, locale)}, ${formatTimes(f.startsAt, f.endsAt, timeZone, locale)}`;
+}
+
 export function composeConfirmation(f: ConfirmationFacts, now = new Date()): ComposedMail {
 	const { timeZone, locale } = f.studio;
 	const money = (minor: number) => formatMoney(minor, f.currency, locale);
-	const day = formatDate(f.startsAt, timeZone, locale);
-	const from = formatTime(f.startsAt, timeZone, locale);
-	const to = formatEndTime(f.startsAt, f.endsAt, timeZone, locale);
+	const when = sessionWhen(f);
 	const balance = f.total - f.deposit;
 	const checklist = preparationChecklist(f.engineerName !== null)
 		.map((g) => [`${g.title}:`, ...g.items.map((i) => `  - ${i}`)].join('\n'))
@@ -90,7 +94,7 @@ export function composeConfirmation(f: ConfirmationFacts, now = new Date()): Com
 		'',
 		`your deposit has arrived and your session at ${f.studio.name} is booked.`,
 		'',
-		`  When:      ${day}, ${from}–${to} (${timeZone} time)`,
+		`  When:      ${when} (${timeZone} time)`,
 		`  Room:      ${f.roomName}`,
 		`  Engineer:  ${f.engineerName ?? 'none booked'}`,
 		f.gear.length ? `  Gear:      ${f.gear.join('; ')}` : null,
@@ -116,7 +120,7 @@ export function composeConfirmation(f: ConfirmationFacts, now = new Date()): Com
 		.filter((line) => line !== null)
 		.join('\n');
 	return {
-		subject: `Booked: ${f.roomName} on ${day}, ${from}–${to}`,
+		subject: `Booked: ${f.roomName} on ${when}`,
 		text,
 		ics: bookingCalendarFile(f, now)
 	};
@@ -154,15 +158,13 @@ export function cancellationCalendarFile(f: ConfirmationFacts, now = new Date())
 export function composeCancellation(f: CancellationFacts, now = new Date()): ComposedMail {
 	const { timeZone, locale } = f.studio;
 	const money = (minor: number) => formatMoney(minor, f.currency, locale);
-	const day = formatDate(f.startsAt, timeZone, locale);
-	const from = formatTime(f.startsAt, timeZone, locale);
-	const to = formatEndTime(f.startsAt, f.endsAt, timeZone, locale);
+	const when = sessionWhen(f);
 	const text = [
 		`Hello ${f.artistName},`,
 		'',
 		`your session at ${f.studio.name} is cancelled.`,
 		'',
-		`  When:      ${day}, ${from}–${to} (${timeZone} time)`,
+		`  When:      ${when} (${timeZone} time)`,
 		`  Room:      ${f.roomName}`,
 		`  Reference: ${f.reference}`,
 		'',
@@ -180,5 +182,5 @@ export function composeCancellation(f: CancellationFacts, now = new Date()): Com
 	]
 		.filter((line) => line !== null)
 		.join('\n');
-	return { subject: `Cancelled: ${f.roomName} on ${day}, ${from}–${to}`, text, ics: cancellationCalendarFile(f, now) };
+	return { subject: `Cancelled: ${f.roomName} on ${when}`, text, ics: cancellationCalendarFile(f, now) };
 }
