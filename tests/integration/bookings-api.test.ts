@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq, inArray, sql } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DEMO } from '../support/env';
-import { testDb } from '../support/db';
+import { clearDays, testDb } from '../support/db';
 import { addDays, nextDstChange, studioInstant, studioIso, studioToday, TZ, weekdayAhead, workdaysAhead } from '../support/dates';
 import { expectRefused, expectRefusedPage } from '../support/refusal';
 import { waitFor } from '../support/wait';
@@ -17,18 +17,7 @@ afterAll(() => client.end());
 // two tests meet on one day whatever today is; a rerun against the same database starts them clean.
 const DAYS = workdaysAhead(61, 20);
 const ownDay = (n: number) => DAYS[n]!;
-beforeAll(async () => {
-	const days = DAYS;
-	await db
-		.update(t.booking)
-		.set({ status: 'cancelled' })
-		.where(
-			and(
-				inArray(t.booking.status, ['held', 'pending', 'confirmed']),
-				sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date::text in ${days}`
-			)
-		);
-});
+beforeAll(() => clearDays(db, DAYS));
 
 async function quote(body: unknown) {
 	const res = await new Client().json('/api/quote', body);

@@ -3,10 +3,10 @@
 // in time answers 503 with Retry-After and says the studio is busy; a busy pool is never passed
 // off as an outage ("not answering").
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { and, eq, inArray, sql } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DATABASE_URL, DEMO } from '../support/env';
-import { testDb } from '../support/db';
+import { clearDays, testDb } from '../support/db';
 import { workdaysAhead } from '../support/dates';
 import { waitFor } from '../support/wait';
 import { holdAt, payAndConfirm } from '../support/booking';
@@ -23,17 +23,7 @@ const UNDER_FAKED_CLOCK = process.env.FAKETIME !== undefined;
 const DAYS = workdaysAhead(84, 4);
 
 // A rerun against the same database starts these days clean.
-beforeAll(async () => {
-	await db
-		.update(t.booking)
-		.set({ status: 'cancelled' })
-		.where(
-			and(
-				inArray(t.booking.status, ['held', 'pending', 'confirmed']),
-				sql`(${t.booking.startsAt} at time zone 'Europe/Helsinki')::date::text in ${DAYS}`
-			)
-		);
-});
+beforeAll(() => clearDays(db, DAYS));
 
 /** The app's pool size (scripts/test.sh leaves DATABASE_POOL_SIZE at its default). */
 const APP_POOL = Number(process.env.DATABASE_POOL_SIZE ?? 10);
