@@ -82,6 +82,34 @@ describe('public holidays (source: date-holidays, data CC BY-SA 3.0)', () => {
 	});
 });
 
+describe('public holidays of a subdivision (ISO 3166-2), and the messages of a refusal', () => {
+	it('adds Bavaria’s own holidays to the national ones (Bavarian public holidays act, Art. 1: Epiphany, Corpus Christi, All Saints)', () => {
+		// Corpus Christi is the Thursday 60 days after Easter Sunday (Meeus/Butcher: 1 April 2029).
+		const corpusChristi = shift(meeusButcherEaster(2029), 60);
+		expect(corpusChristi).toBe('2029-05-31');
+		const bavaria = publicHolidays('de-by', 2029);
+		const germany = publicHolidays('DE', 2029);
+		for (const date of ['2029-01-06', corpusChristi, '2029-11-01']) {
+			expect(bavaria).toContain(date);
+			expect(germany).not.toContain(date);
+		}
+		// German Unity Day (3 October) is national.
+		expect(bavaria).toContain('2029-10-03');
+		expect(germany).toContain('2029-10-03');
+		expect(publicHolidayList('DE-BY', 2029).find((h) => h.date === '2029-01-06')?.name).toBe('Epiphany');
+		expect(publicHolidayChecker('de-by')('2029-11-01')).toBe(true);
+		expect(isPublicHoliday('DE', '2029-11-01')).toBe(false);
+	});
+
+	it('says which country or date it cannot read', () => {
+		expect(() => publicHolidays('XX', 2029)).toThrow('date-holidays has no public holidays for country "XX"');
+		expect(() => publicHolidayChecker('QQ-1')).toThrow('date-holidays has no public holidays for country "QQ-1"');
+		expect(() => isPublicHoliday('FI', '2029-1-06')).toThrow('expected a local date YYYY-MM-DD, got "2029-1-06"');
+		expect(() => isPublicHoliday('FI', ' 2029-01-06')).toThrow(RangeError);
+		expect(() => isPublicHoliday('FI', '2029-01-06T00:00')).toThrow(RangeError);
+	});
+});
+
 /** Local dates covered by [start, end), walked hour by hour in `timeZone` (independent of holidays.ts). */
 function datesCovered(start: Date, end: Date, timeZone: string): string[] {
 	const format = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
