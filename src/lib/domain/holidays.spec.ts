@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import Holidays from 'date-holidays';
-import { isPublicHoliday, publicHolidayChecker, publicHolidayList, publicHolidays } from './holidays';
+import { HOLIDAY_DATA_ATTRIBUTION, isPublicHoliday, publicHolidayChecker, publicHolidayList, publicHolidays } from './holidays';
 
 /**
  * Western (Gregorian) Easter Sunday by the anonymous Gregorian algorithm as published by
@@ -99,6 +99,21 @@ describe('public holidays of a subdivision (ISO 3166-2), and the messages of a r
 		expect(publicHolidayList('DE-BY', 2029).find((h) => h.date === '2029-01-06')?.name).toBe('Epiphany');
 		expect(publicHolidayChecker('de-by')('2029-11-01')).toBe(true);
 		expect(isPublicHoliday('DE', '2029-11-01')).toBe(false);
+	});
+
+	it('keeps the list in date order when last year’s holiday spills into January (Eswatini 2029)', () => {
+		// Incwala 2028 runs six days from 28 December, so 2 January 2029 is a holiday carried over
+		// from 2028's data, read after all of 2029's own holidays.
+		const list = publicHolidayList('SZ', 2029);
+		expect(list.slice(0, 3).map((h) => h.date)).toEqual(['2029-01-01', '2029-01-02', '2029-03-30']);
+		const dates = list.map((h) => h.date);
+		expect(dates).toEqual([...dates].sort());
+	});
+
+	it('names the data and its licence for the attribution line (CC BY-SA 3.0 asks for it)', () => {
+		expect(HOLIDAY_DATA_ATTRIBUTION).toBe(
+			'Public holiday data: date-holidays (github.com/commenthol/date-holidays), CC BY-SA 3.0'
+		);
 	});
 
 	it('says which country or date it cannot read', () => {
