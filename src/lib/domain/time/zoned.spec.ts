@@ -8,6 +8,7 @@ import {
 	addLocalDays,
 	assertTimeZone,
 	findTransition,
+	localDateOf,
 	localDayBounds,
 	localParts,
 	localSegments,
@@ -310,6 +311,37 @@ describe('the edges of the wall-clock reader (expected values by hand from the I
 			['2027-04-04', 90, 120]
 		]);
 		expect(localSegments(new Date('2027-03-27T20:00:00Z'), new Date('2027-03-27T20:00:00Z'), HELSINKI)).toEqual([]);
+	});
+
+	it('ends a segment at a change that falls on local midnight (Chile, 5 September 2027), and at midnight from mid-minute', () => {
+		// America/Santiago: 24:00 on the 4th is 01:00 on the 5th (-04:00 → -03:00 at 04:00Z).
+		const chile = localSegments(new Date('2027-09-05T02:00:00Z'), new Date('2027-09-05T05:00:00Z'), 'America/Santiago');
+		expect(chile.map((s) => [s.ymd, s.startMinuteOfDay, s.minutes, new Date(s.startMs).toISOString()])).toEqual([
+			['2027-09-04', 22 * 60, 120, '2027-09-05T02:00:00.000Z'],
+			['2027-09-05', 60, 60, '2027-09-05T04:00:00.000Z']
+		]);
+		// From 23:59:30 Helsinki time the first segment lasts 30 s, to local midnight (22:00Z).
+		const late = localSegments(new Date('2027-01-15T21:59:30Z'), new Date('2027-01-15T22:01:30Z'), HELSINKI);
+		expect(late.map((s) => [s.ymd, new Date(s.startMs).toISOString()])).toEqual([
+			['2027-01-15', '2027-01-15T21:59:30.000Z'],
+			['2027-01-16', '2027-01-15T22:00:00.000Z']
+		]);
+	});
+
+	it('finds both occurrences of a repeated time west of Greenwich (New York, 7 November 2027, 15 U.S.C. §260a)', () => {
+		// 02:00 EDT falls back to 01:00 EST: 01:30 is 05:30Z (-04:00) and again 06:30Z (-05:00).
+		expect(resolveWallTime('2027-11-07', '01:30', 'America/New_York')).toEqual({
+			kind: 'repeated',
+			first: new Date('2027-11-07T05:30:00Z'),
+			second: new Date('2027-11-07T06:30:00Z')
+		});
+		expect(temporalInstant('2027-11-07T01:30', 'America/New_York', 'earlier').toISOString()).toBe('2027-11-07T05:30:00.000Z');
+	});
+
+	it('says a plain wall time is unique, and reads an ISO string as an instant', () => {
+		expect(localToInstant('2027-01-15', 600, HELSINKI)).toEqual({ kind: 'unique', instant: new Date('2027-01-15T08:00:00Z') });
+		// 22:30Z on 30 October is 01:30+03:00 (summer time) on the 31st in Helsinki.
+		expect(localDateOf('2027-10-30T22:30:00Z', HELSINKI)).toBe('2027-10-31');
 	});
 
 	it('refuses an empty or missing zone name with its code', () => {
