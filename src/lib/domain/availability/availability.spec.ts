@@ -416,9 +416,8 @@ describe('input checks, one rule at a time', () => {
 
 	it('explains a duration or a nearest-starts request it refuses', () => {
 		const fit = { ...input(), durationMinutes: 120 };
-		expect(refusal(() => startsThatFit({ ...fit, durationMinutes: 1.5 })).message).toBe(
-			'durationMinutes must be a positive integer'
-		);
+		const part = refusal(() => startsThatFit({ ...fit, durationMinutes: 1.5 }));
+		expect([part.code, part.message]).toEqual(['invalid-duration', 'durationMinutes must be a positive integer']);
 		// The demo policy: minimum booking 2 h, increment 30 min.
 		const short = refusal(() => startsThatFit({ ...fit, durationMinutes: 90 }));
 		expect([short.code, short.message]).toEqual([
