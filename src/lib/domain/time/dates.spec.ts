@@ -97,7 +97,7 @@ describe('the edges of the calendar readers (ISO 8601 extended format, worked by
 	}
 
 	it('reads a date, a month and a clock only whole', () => {
-		for (const text of ['x2027-01-15', '2027-01-15x', ' 2027-01-15', '2027-00-10', '2027-13-01']) {
+		for (const text of ['x2027-01-15', '2027-01-15x', ' 2027-01-15', '2027-00-10', '2027-13-01', '2027-01-00']) {
 			expect(parseYmd(text), text).toBeNull();
 		}
 		expect(message(() => mustParseYmd('2027-1-15'))).toBe('Not a calendar date (YYYY-MM-DD): "2027-1-15"');
@@ -115,6 +115,19 @@ describe('the edges of the calendar readers (ISO 8601 extended format, worked by
 			).toBe(`Not a time of day (HH:MM): ${JSON.stringify(text)}`);
 		}
 		expect(message(() => parseClock('10:00:60'))).toBe('Not a time of day: "10:00:60"');
+		const codeOf = (run: () => unknown) => {
+			try {
+				run();
+			} catch (e) {
+				if (e instanceof TimeInputError) return e.code;
+			}
+			return 'none';
+		};
+		expect([
+			codeOf(() => mustParseYmd('2027-02-29')),
+			codeOf(() => parseClock('10.00')),
+			codeOf(() => parseClock('25:00'))
+		]).toEqual(['invalid-date', 'invalid-format', 'invalid-time']);
 	});
 
 	it('picks the earlier and the later of two dates', () => {
