@@ -31,7 +31,7 @@ function shift(ymd: string, days: number): string {
 }
 
 describe('public holidays (source: date-holidays, data CC BY-SA 3.0)', () => {
-	// Published Meeus/Butcher Easter dates (REFERENCES.md).
+	// Published Meeus/Butcher Easter dates (Meeus, "Astronomical Algorithms", ch. 8).
 	const easter: [number, string][] = [
 		[2026, '2026-04-05'],
 		[2027, '2027-03-28'],

@@ -175,7 +175,7 @@ describe('computeAvailability — DST (Directive 2000/84/EC; IANA tz Europe/Hels
 	});
 
 	it('bills real elapsed time: a 10 h booking does not fit the 9 h spring night, an 11 h one fits the autumn night', () => {
-		// REFERENCES.md "Time": "A room open through the night bills real elapsed time."
+		// Our rule (index.ts: a duration is real elapsed minutes): a night across a change bills real time.
 		const spring = input({
 			from: '2027-03-27',
 			to: '2027-03-27',
