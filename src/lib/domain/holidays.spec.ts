@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import Holidays from 'date-holidays';
-import { isPublicHoliday, publicHolidayChecker, publicHolidayList, publicHolidays } from './holidays';
+import { HOLIDAY_DATA_ATTRIBUTION, isPublicHoliday, publicHolidayChecker, publicHolidayList, publicHolidays } from './holidays';
 
 /**
  * Western (Gregorian) Easter Sunday by the anonymous Gregorian algorithm as published by
@@ -31,7 +31,7 @@ function shift(ymd: string, days: number): string {
 }
 
 describe('public holidays (source: date-holidays, data CC BY-SA 3.0)', () => {
-	// Published Meeus/Butcher Easter dates (REFERENCES.md).
+	// Published Meeus/Butcher Easter dates (Meeus, "Astronomical Algorithms", ch. 8).
 	const easter: [number, string][] = [
 		[2026, '2026-04-05'],
 		[2027, '2027-03-28'],
@@ -79,6 +79,49 @@ describe('public holidays (source: date-holidays, data CC BY-SA 3.0)', () => {
 		expect(() => publicHolidayChecker('XX')).toThrow(RangeError);
 		expect(() => isPublicHoliday('FI', '6.12.2027')).toThrow(RangeError);
 		expect(publicHolidayChecker('FI')('2027-12-06')).toBe(true);
+	});
+});
+
+describe('public holidays of a subdivision (ISO 3166-2), and the messages of a refusal', () => {
+	it('adds Bavaria’s own holidays to the national ones (Bavarian public holidays act, Art. 1: Epiphany, Corpus Christi, All Saints)', () => {
+		// Corpus Christi is the Thursday 60 days after Easter Sunday (Meeus/Butcher: 1 April 2029).
+		const corpusChristi = shift(meeusButcherEaster(2029), 60);
+		expect(corpusChristi).toBe('2029-05-31');
+		const bavaria = publicHolidays('de-by', 2029);
+		const germany = publicHolidays('DE', 2029);
+		for (const date of ['2029-01-06', corpusChristi, '2029-11-01']) {
+			expect(bavaria).toContain(date);
+			expect(germany).not.toContain(date);
+		}
+		// German Unity Day (3 October) is national.
+		expect(bavaria).toContain('2029-10-03');
+		expect(germany).toContain('2029-10-03');
+		expect(publicHolidayList('DE-BY', 2029).find((h) => h.date === '2029-01-06')?.name).toBe('Epiphany');
+		expect(publicHolidayChecker('de-by')('2029-11-01')).toBe(true);
+		expect(isPublicHoliday('DE', '2029-11-01')).toBe(false);
+	});
+
+	it('keeps the list in date order when last year’s holiday spills into January (Eswatini 2029)', () => {
+		// Incwala 2028 runs six days from 28 December, so 2 January 2029 is a holiday carried over
+		// from 2028's data, read after all of 2029's own holidays.
+		const list = publicHolidayList('SZ', 2029);
+		expect(list.slice(0, 3).map((h) => h.date)).toEqual(['2029-01-01', '2029-01-02', '2029-03-30']);
+		const dates = list.map((h) => h.date);
+		expect(dates).toEqual([...dates].sort());
+	});
+
+	it('names the data and its licence for the attribution line (CC BY-SA 3.0 asks for it)', () => {
+		expect(HOLIDAY_DATA_ATTRIBUTION).toBe(
+			'Public holiday data: date-holidays (github.com/commenthol/date-holidays), CC BY-SA 3.0'
+		);
+	});
+
+	it('says which country or date it cannot read', () => {
+		expect(() => publicHolidays('XX', 2029)).toThrow('date-holidays has no public holidays for country "XX"');
+		expect(() => publicHolidayChecker('QQ-1')).toThrow('date-holidays has no public holidays for country "QQ-1"');
+		expect(() => isPublicHoliday('FI', '2029-1-06')).toThrow('expected a local date YYYY-MM-DD, got "2029-1-06"');
+		expect(() => isPublicHoliday('FI', ' 2029-01-06')).toThrow(RangeError);
+		expect(() => isPublicHoliday('FI', '2029-01-06T00:00')).toThrow(RangeError);
 	});
 });
 

@@ -1,6 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import {
+	AWAITING_DEPOSIT_STATUSES,
+	awaitsDeposit,
+	BOOKING_MOVES,
 	BOOKING_STATUSES,
+	OCCUPYING_STATUSES,
 	canMove,
 	closeRefusal,
 	hasEnded,
@@ -90,5 +94,63 @@ describe('a hold running out', () => {
 
 	it('ends the studio’s hold time after it was made', () => {
 		expect(holdExpiry(new Date('2027-03-02T08:00:00Z'), 30).toISOString()).toBe('2027-03-02T08:30:00.000Z');
+	});
+});
+
+describe('the rules written out whole', () => {
+	it('lists every move of the life of a booking, and nothing else', () => {
+		// The moves as the header rule states them: a hold is paid, waits for a delayed payment,
+		// lapses or is cancelled; a pending payment lands, fails or is cancelled; a confirmed
+		// booking is completed or cancelled; an expired hold comes back only through a payment.
+		expect(BOOKING_MOVES).toEqual({
+			held: ['pending', 'confirmed', 'cancelled', 'expired'],
+			pending: ['confirmed', 'cancelled', 'expired'],
+			confirmed: ['completed', 'cancelled'],
+			expired: ['pending', 'confirmed'],
+			completed: [],
+			cancelled: []
+		});
+		expect(canMove('pending', 'confirmed')).toBe(true);
+		expect(canMove('pending', 'expired')).toBe(true);
+		expect(canMove('pending', 'held')).toBe(false);
+	});
+
+	it('counts as occupying the room what is held, pending, confirmed or completed; as awaiting a deposit what is held or pending', () => {
+		expect(OCCUPYING_STATUSES).toEqual(['held', 'pending', 'confirmed', 'completed']);
+		expect(AWAITING_DEPOSIT_STATUSES).toEqual(['held', 'pending']);
+		expect(BOOKING_STATUSES.filter(awaitsDeposit)).toEqual(['held', 'pending']);
+	});
+
+	it('reads hold times given as epoch milliseconds', () => {
+		const expiry = Date.parse('2027-03-02T08:30:00Z');
+		const held = { status: 'held', holdExpiresAt: expiry };
+		expect(holdLapsed(held, expiry - 1)).toBe(false);
+		expect(holdLapsed(held, expiry)).toBe(true);
+		expect(holdLapsed({ status: 'held', holdExpiresAt: new Date(expiry).toISOString() }, expiry)).toBe(true);
+	});
+
+	it('calls a hold live or gone only for a held booking (or, gone, an expired one)', () => {
+		const expiry = new Date('2027-03-02T08:30:00Z');
+		const before = new Date(expiry.getTime() - 60_000);
+		for (const status of ['pending', 'confirmed', 'completed', 'cancelled', 'expired']) {
+			expect(holdLive({ status, holdExpiresAt: expiry }, before), status).toBe(false);
+		}
+		for (const status of ['held', 'pending', 'confirmed', 'completed', 'cancelled']) {
+			expect(holdGone({ status, holdExpiresAt: expiry }, before), status).toBe(false);
+		}
+		expect(holdGone({ status: 'held', holdExpiresAt: expiry }, expiry)).toBe(true);
+	});
+
+	it('says why a session cannot be closed', () => {
+		const startsAt = new Date('2027-03-02T08:00:00Z');
+		expect(closeRefusal({ status: 'held', startsAt }, startsAt)).toEqual({
+			code: 'not_confirmed',
+			message: 'Only a confirmed booking (deposit paid) can be closed.'
+		});
+		expect(closeRefusal({ status: 'confirmed', startsAt }, new Date(startsAt.getTime() - 1))).toEqual({
+			code: 'not_started',
+			message: 'The session has not started yet: its end can be recorded once it has begun.',
+			opensAt: startsAt
+		});
 	});
 });

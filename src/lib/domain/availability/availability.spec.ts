@@ -175,7 +175,7 @@ describe('computeAvailability — DST (Directive 2000/84/EC; IANA tz Europe/Hels
 	});
 
 	it('bills real elapsed time: a 10 h booking does not fit the 9 h spring night, an 11 h one fits the autumn night', () => {
-		// REFERENCES.md "Time": "A room open through the night bills real elapsed time."
+		// Our rule (index.ts: a duration is real elapsed minutes): a night across a change bills real time.
 		const spring = input({
 			from: '2027-03-27',
 			to: '2027-03-27',
@@ -328,5 +328,188 @@ describe('input checks', () => {
 			computeAvailability(input({ busy: [{ start: at('2027-01-15T12:00:00Z'), end: at('2027-01-15T11:00:00Z') }] }))
 		).toThrow(/busy/);
 		expect(() => computeAvailability(input({ blackouts: [{ date: '2027-13-01' }] }))).toThrow(/blackout/);
+	});
+});
+
+describe('input checks, one rule at a time', () => {
+	/** The error thrown by `run`, for its code and message. */
+	function refusal(run: () => unknown): AvailabilityInputError {
+		try {
+			run();
+		} catch (e) {
+			if (e instanceof AvailabilityInputError) return e;
+			throw new Error(`expected an AvailabilityInputError, got ${String(e)}`);
+		}
+		throw new Error('expected an AvailabilityInputError, nothing was thrown');
+	}
+	const withPolicy = (over: Record<string, unknown>) => () =>
+		computeAvailability(input({ policy: { ...demoPolicy(), ...over } as AvailabilityInput['policy'] }));
+	const withHours = (hours: unknown[]) => withPolicy({ openingHours: hours });
+
+	it('names the policy field that is wrong', () => {
+		const cases: [Record<string, unknown>, RegExp][] = [
+			[{ timeZone: 'Nowhere/Else' }, /^policy\.timeZone is not a known IANA zone: "Nowhere\/Else"$/],
+			[{ incrementMinutes: 1441 }, /^policy\.incrementMinutes must be an integer 1\.\.1440$/],
+			[{ incrementMinutes: 7.5 }, /^policy\.incrementMinutes/],
+			[{ incrementMinutes: '30' }, /^policy\.incrementMinutes/],
+			[{ minBookingMinutes: -30 }, /^policy\.minBookingMinutes must be a non-negative integer$/],
+			[{ turnaroundMinutes: -1 }, /^policy\.turnaroundMinutes must be a non-negative integer$/],
+			[{ minNoticeMinutes: 0.5 }, /^policy\.minNoticeMinutes must be a non-negative integer$/],
+			[{ horizonDays: 3661 }, /^policy\.horizonDays must be an integer 0\.\.3660$/],
+			[{ openingHours: null }, /^policy\.openingHours must be an array$/]
+		];
+		for (const [over, message] of cases) {
+			const e = refusal(withPolicy(over));
+			expect(e.code, JSON.stringify(over)).toBe('invalid-policy');
+			expect(e.message, JSON.stringify(over)).toMatch(message);
+		}
+		// The largest values allowed are accepted: a one-day grid, ten years ahead.
+		expect(() => withPolicy({ incrementMinutes: 1440, minBookingMinutes: 1440 })()).not.toThrow();
+		expect(() => withPolicy({ horizonDays: 3660 })()).not.toThrow();
+	});
+
+	it('checks each opening: ISO weekday 1..7, opening 00:00..23:59, at most a whole day long', () => {
+		const day = (weekday: number, openMinute: number, closeMinute: number) => ({ weekday, openMinute, closeMinute });
+		const cases: [unknown, RegExp][] = [
+			[day(0, 540, 1380), /^opening hours weekday must be ISO 1\.\.7, got 0$/],
+			[day(8, 540, 1380), /^opening hours weekday must be ISO 1\.\.7, got 8$/],
+			[day(1, 1440, 1500), /^openMinute must be 0\.\.1439, got 1440$/],
+			[day(1, -30, 600), /^openMinute must be 0\.\.1439, got -30$/],
+			[day(1, 540, 480), /^closeMinute must be openMinute\.\.openMinute\+1440, got 480$/],
+			[day(1, 540, 540 + 1441), /^closeMinute must be openMinute\.\.openMinute\+1440, got 1981$/]
+		];
+		for (const [hours, message] of cases) {
+			const e = refusal(withHours([day(2, 540, 1380), hours]));
+			expect(e.code).toBe('invalid-policy');
+			expect(e.message).toMatch(message);
+		}
+		// The edges are allowed: Sunday (7), a 23:59 opening, a whole day from 23:59.
+		expect(() => withHours([day(7, 1439, 1439 + 1440), day(1, 0, 0)])()).not.toThrow();
+	});
+
+	it('refuses a malformed range, now, busy list or blackout with its own code', () => {
+		const cases: [Partial<AvailabilityInput>, string, RegExp][] = [
+			[{ to: '16.01.2027' }, 'invalid-range', /^from and to must be YYYY-MM-DD dates, got 2027-01-15\.\.16\.01\.2027$/],
+			[{ from: '2027-01-16', to: '2027-01-15' }, 'invalid-range', /^to \(2027-01-15\) is before from \(2027-01-16\)$/],
+			[{ now: new Date(Number.NaN) }, 'invalid-now', /^now must be a valid Date$/],
+			[{ now: Date.parse('2027-01-10T12:00:00Z') as unknown as Date }, 'invalid-now', /^now must be a valid Date$/],
+			[{ busy: null as unknown as [] }, 'invalid-busy', /^busy must be an array$/],
+			[
+				{ busy: [{ start: at('2027-01-15T12:00:00Z'), end: new Date(Number.NaN) }] },
+				'invalid-busy',
+				/^each busy interval needs valid start <= end Dates$/
+			],
+			[
+				{ busy: [{ start: new Date(Number.NaN), end: at('2027-01-15T12:00:00Z') }] },
+				'invalid-busy',
+				/^each busy interval needs valid start <= end Dates$/
+			],
+			[{ blackouts: null as unknown as [] }, 'invalid-blackout', /^blackouts must be an array$/],
+			[{ blackouts: [{ date: '2027-13-01' }] }, 'invalid-blackout', /^blackout date must be YYYY-MM-DD, got "2027-13-01"$/]
+		];
+		for (const [over, code, message] of cases) {
+			const e = refusal(() => computeAvailability(input(over)));
+			expect(e.code, JSON.stringify(over)).toBe(code);
+			expect(e.message, JSON.stringify(over)).toMatch(message);
+		}
+	});
+
+	it('explains a duration or a nearest-starts request it refuses', () => {
+		const fit = { ...input(), durationMinutes: 120 };
+		const part = refusal(() => startsThatFit({ ...fit, durationMinutes: 1.5 }));
+		expect([part.code, part.message]).toEqual(['invalid-duration', 'durationMinutes must be a positive integer']);
+		// The demo policy: minimum booking 2 h, increment 30 min.
+		const short = refusal(() => startsThatFit({ ...fit, durationMinutes: 90 }));
+		expect([short.code, short.message]).toEqual([
+			'invalid-duration',
+			'a booking lasts at least 120 minutes (policy.minBookingMinutes)'
+		]);
+		const odd = refusal(() => startsThatFit({ ...fit, durationMinutes: 135 }));
+		expect([odd.code, odd.message]).toEqual(['invalid-duration', 'a booking lasts a whole number of 30-minute increments']);
+		const when = refusal(() => nearestFreeStarts(fit, new Date(Number.NaN)));
+		expect([when.code, when.message]).toEqual(['invalid-now', 'desiredStart must be a valid Date']);
+		for (const count of [-1, 1.5]) {
+			const e = refusal(() => nearestFreeStarts(fit, at('2027-01-15T12:00:00Z'), count));
+			expect([e.code, e.message]).toEqual(['invalid-count', 'count must be a non-negative integer']);
+		}
+	});
+
+	it('answers false, without throwing, for an invalid instant', () => {
+		const policy = demoPolicy();
+		const noon = at('2027-01-15T12:00:00+02:00');
+		expect(isWithinOpeningHours(new Date(Number.NaN), noon, policy)).toBe(false);
+		expect(isWithinOpeningHours(at('2027-01-15T10:00:00+02:00'), new Date(Number.NaN), policy)).toBe(false);
+		expect(isOnGrid(new Date(Number.NaN), policy)).toBe(false);
+	});
+});
+
+describe('computeAvailability — edges of the rules', () => {
+	const local = (d: number, h: number, min = 0) => helsinki(2027, 1, d, h, min);
+
+	it('lets a zero-length busy interval block nothing, not even a turnaround', () => {
+		const noon = at('2027-01-15T12:00:00+02:00');
+		const a = computeAvailability(input({ busy: [{ start: noon, end: noon }] }));
+		expect(iso(a.open)).toEqual([[local(15, 9), local(15, 23)]]);
+		expect(a.busy).toEqual([]);
+	});
+
+	it('drops the whole overnight opening of a closed day, also its hours after midnight', () => {
+		// Open 20:00–06:00; the 15th is closed, so its night (20:00 on the 15th to 06:00 on the
+		// 16th) does not happen, and the 16th opens only at its own 20:00.
+		const a = computeAvailability(
+			input({
+				from: '2027-01-16',
+				to: '2027-01-16',
+				policy: demoPolicy({ openingHours: everyDay(20 * 60, 30 * 60) }),
+				blackouts: [{ date: '2027-01-15' }]
+			})
+		);
+		expect(iso(a.open)).toEqual([[local(16, 20), local(17, 0)]]);
+		expect(a.closed).toEqual([]);
+	});
+
+	it('lists the closed days of the range in date order, the first day included, reasons trimmed and joined once', () => {
+		const a = computeAvailability(
+			input({
+				from: '2027-12-24',
+				to: '2027-12-26',
+				now: at('2027-12-01T12:00:00Z'),
+				blackouts: [
+					{ date: '2027-12-26', reason: '  Boxing Day ' },
+					{ date: '2027-12-24', reason: 'Christmas Eve' },
+					{ date: '2027-12-23', reason: 'Before the range' },
+					{ date: '2027-12-24', reason: 'Christmas Eve' },
+					{ date: '2027-12-24', reason: 'Staff party' },
+					{ date: '2027-12-25', reason: '   ' },
+					{ date: '2027-12-27', reason: 'After the range' }
+				]
+			})
+		);
+		expect(a.closed).toEqual([
+			{ date: '2027-12-24', reason: 'Christmas Eve; Staff party' },
+			{ date: '2027-12-25', reason: 'Closed' },
+			{ date: '2027-12-26', reason: 'Boxing Day' }
+		]);
+		expect(a.open).toEqual([]);
+	});
+});
+
+describe('startsThatFit — a studio open round the clock', () => {
+	// Open 00:00–24:00 every day: the days join into one window (header comment, step 1), so a
+	// booking that starts late on the last requested day runs on into the next morning.
+	const allDay = { ...input({ policy: demoPolicy({ openingHours: everyDay(0, 1440) }) }), durationMinutes: 240 };
+
+	it('offers every half hour of the day, the last ones running past midnight, and none on the next day', () => {
+		const starts = startsThatFit(allDay).map((d) => d.toISOString());
+		// 48 half-hour starts from 00:00 to 23:30 on 15 January (EET, +02:00).
+		expect(starts.length).toBe(48);
+		expect(starts[0]).toBe(helsinki(2027, 1, 15, 0));
+		expect(starts.slice(-2)).toEqual([helsinki(2027, 1, 15, 23), helsinki(2027, 1, 15, 23, 30)]);
+	});
+
+	it('lets a start on the last day run a whole day and more into the next', () => {
+		const starts = startsThatFit({ ...allDay, durationMinutes: 1800 }).map((d) => d.toISOString());
+		expect(starts.length).toBe(48);
+		expect(starts.at(-1)).toBe(helsinki(2027, 1, 15, 23, 30));
 	});
 });

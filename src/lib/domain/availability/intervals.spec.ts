@@ -66,3 +66,32 @@ describe('span helpers', () => {
 		).toEqual([{ start: 5, end: 10 }]);
 	});
 });
+
+describe('span helpers — empty pieces (an empty set is no span)', () => {
+	it('never counts an empty interval on either side', () => {
+		expect(overlaps(iv('10:00', '12:00'), iv('11:00', '11:00'))).toBe(false);
+		expect(overlaps(iv('10:00', '12:00'), iv('11:00', '11:30'))).toBe(true);
+	});
+
+	it('drops empty spans when merging, and leaves no empty piece when a cut meets an edge', () => {
+		expect(mergeSpans([{ start: 5, end: 5 }])).toEqual([]);
+		expect(
+			mergeSpans([
+				{ start: 4, end: 4 },
+				{ start: 0, end: 2 }
+			])
+		).toEqual([{ start: 0, end: 2 }]);
+		// Set difference: [0, 10) minus [0, 5) is [5, 10); minus [5, 10) is [0, 5); minus both, nothing.
+		expect(subtractSpans([{ start: 0, end: 10 }], [{ start: 0, end: 5 }])).toEqual([{ start: 5, end: 10 }]);
+		expect(subtractSpans([{ start: 0, end: 10 }], [{ start: 5, end: 10 }])).toEqual([{ start: 0, end: 5 }]);
+		expect(
+			subtractSpans(
+				[{ start: 0, end: 10 }],
+				[
+					{ start: 5, end: 10 },
+					{ start: 0, end: 5 }
+				]
+			)
+		).toEqual([]);
+	});
+});

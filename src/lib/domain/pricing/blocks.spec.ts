@@ -242,3 +242,81 @@ describe('cover with surcharges, property (fast-check) against brute force', () 
 		);
 	});
 });
+
+describe('cheapest cover: edges of the input (worked by hand)', () => {
+	it('prices nothing booked at nothing', () => {
+		expect(cover(0)).toEqual({
+			fullDays: 0,
+			halfDays: 0,
+			hourlyMinutes: 0,
+			increments: 0,
+			coveredMinutes: 0,
+			fullDayAmount: 0,
+			halfDayAmount: 0,
+			hourlyAmount: 0,
+			price: 0
+		});
+	});
+
+	it('prices up to a year (366 days of 24 h = 1,098 full days of 8 h) and refuses a minute more, saying why', () => {
+		expect(cover(366 * 24 * 60)).toMatchObject({ fullDays: 1098, halfDays: 0, hourlyMinutes: 0, price: 1098 * 30000 });
+		expect(() => cover(366 * 24 * 60 + 1)).toThrow('cannot price 527041 minutes');
+		expect(() => cover(-30)).toThrow('cannot price -30 minutes');
+		expect(() => cheapestCover(60, live, blocks, 0)).toThrow('incrementMinutes must be a positive integer');
+		expect(() => cheapestCover(60, live, blocks, 7.5)).toThrow('incrementMinutes must be a positive integer');
+		expect(() => cover(60, live, 0.5)).toThrow('surchargeBpMinutes must be a non-negative integer');
+	});
+
+	it('bills free time as hourly time in whole increments when nothing is sold', () => {
+		// 5 h 10 min on a 30-minute grid: 11 increments, 5 h 30 min, at no charge.
+		expect(cover(310, { hourly: 0, halfDay: 0, fullDay: 0 })).toMatchObject({
+			increments: 11,
+			hourlyMinutes: 330,
+			coveredMinutes: 330,
+			price: 0
+		});
+	});
+
+	it('does not sell a block of no length, and refuses a block of part of a minute', () => {
+		// With the demo 4 h half day, 5 h = half day + 1 h = 205.00; a half day of 0 minutes is
+		// an empty cell, so 5 h = 10 × 22.50 = 225.00.
+		expect(cover(300, live)).toMatchObject({ halfDays: 1, price: 20500 });
+		const noHalf = cheapestCover(300, live, { ...blocks, halfDayMinutes: 0 }, 30);
+		expect(noHalf).toMatchObject({ halfDays: 0, increments: 10, price: 22500 });
+		expect(() => cheapestCover(300, live, { ...blocks, halfDayMinutes: 240.5 }, 30)).toThrow(
+			'halfDay length must be whole minutes'
+		);
+	});
+});
+
+describe('cheapest cover: equal prices (our tie rule: fewer hourly minutes, then less block time, then more full days)', () => {
+	it('buys two half days rather than a 6 h day plus 2 h of hourly time at the same 140.00', () => {
+		// Invented card: 20.00/h (10.00 per 30 min), half day 4 h 70.00, full day 6 h 100.00.
+		// 8 h: full day + 4 increments = 100.00 + 40.00 = 140.00 = two half days 2 × 70.00.
+		const card = { hourly: 2000, halfDay: 7000, fullDay: 10000 };
+		const sixHourDay = { halfDayMinutes: 240, fullDayMinutes: 360 };
+		expect(cheapestCover(480, card, sixHourDay, 30)).toMatchObject({ fullDays: 0, halfDays: 2, hourlyMinutes: 0, price: 14000 });
+	});
+
+	it('buys one full day rather than two half days at the same price', () => {
+		// Half day 150.00, full day 300.00, no hourly time: 8 h is 300.00 either way.
+		expect(cover(480, { hourly: 0, halfDay: 15000, fullDay: 30000 })).toMatchObject({ fullDays: 1, halfDays: 0, price: 30000 });
+	});
+
+	it('buys a half day rather than 3 h 30 of hourly time at the same 140.00', () => {
+		// 40.00/h: 7 × 20.00 = 140.00 for 3 h 30, the same as a 4 h half day of 140.00.
+		expect(cover(210, { hourly: 4000, halfDay: 14000, fullDay: 30000 })).toMatchObject({
+			halfDays: 1,
+			hourlyMinutes: 0,
+			coveredMinutes: 240
+		});
+	});
+
+	it('buys the shorter block when a half day and a full day cost the same', () => {
+		expect(cover(240, { hourly: 4500, halfDay: 14000, fullDay: 14000 })).toMatchObject({
+			fullDays: 0,
+			halfDays: 1,
+			coveredMinutes: 240
+		});
+	});
+});

@@ -91,3 +91,65 @@ describe('validateBookingTimes (demo policy)', () => {
 		expect(codes(new Date('nonsense'), at('2027-03-02', '09:00'))).toEqual(['start:invalid_time']);
 	});
 });
+
+describe('validateBookingTimes — bounds and messages (demo policy, worked by hand)', () => {
+	const DAY = 86_400_000;
+	const HOUR = 3_600_000;
+	const issues = (start: Date, end: Date, policy = DEMO_POLICY, when = now) =>
+		validateBookingTimes(start, end, policy, when).map((i) => [i.field, i.code, i.message]);
+	const plus = (d: Date, ms: number) => new Date(d.getTime() + ms);
+
+	it('names each invalid time and stops there', () => {
+		expect(issues(new Date(Number.NaN), new Date('nonsense'))).toEqual([
+			['start', 'invalid_time', 'The start is not a valid time.'],
+			['end', 'invalid_time', 'The end is not a valid time.']
+		]);
+		expect(issues(at('2027-03-02', '14:00'), new Date(Number.NaN))).toEqual([
+			['end', 'invalid_time', 'The end is not a valid time.']
+		]);
+	});
+
+	it('answers from arithmetic alone from 182 days ahead (the 180-day horizon and 2 days to spare), and a year back', () => {
+		// now = 2027-03-01 12:00+02:00; 182 × 24 h on is 2027-08-30 13:00+03:00, a grid time in opening hours.
+		const edge = plus(now, 182 * DAY);
+		expect(edge.toISOString()).toBe('2027-08-30T10:00:00.000Z');
+		expect(issues(edge, plus(edge, 2 * HOUR))).toEqual([['start', 'past_horizon', 'Bookings open up to 180 days ahead.']]);
+		const beyond = plus(edge, 30 * 60_000);
+		expect(issues(beyond, plus(beyond, 2 * HOUR))).toEqual([['start', 'out_of_range', 'Bookings open up to 180 days ahead.']]);
+		// 366 × 24 h back is 2026-02-28 12:00+02:00 (the year before has 365 days): in the past (no
+		// notice), but not yet "long ago".
+		const yearBack = plus(now, -366 * DAY);
+		expect(yearBack.toISOString()).toBe('2026-02-28T10:00:00.000Z');
+		expect(issues(yearBack, plus(yearBack, 2 * HOUR)).map(([, code]) => code)).toEqual(['under_minimum_notice']);
+		const longAgo = plus(yearBack, -30 * 60_000);
+		expect(issues(longAgo, plus(longAgo, 2 * HOUR))).toEqual([['start', 'out_of_range', 'That date passed long ago.']]);
+	});
+
+	it('explains each refusal in words', () => {
+		const start = at('2027-03-02', '14:00');
+		expect(issues(start, start)).toEqual([['end', 'end_not_after_start', 'The end must be after the start.']]);
+		expect(issues(start, at('2027-03-02', '15:30'))).toEqual([['end', 'under_minimum', 'A booking lasts at least 2 h.']]);
+		const open = openAllHours({ horizonDays: 800 });
+		expect(issues(start, at('2027-03-05', '14:30'), open)).toEqual([['end', 'too_long', 'A booking lasts at most 72 h.']]);
+		expect(issues(at('2027-03-03', '08:00'), at('2027-03-03', '10:00'))).toEqual([
+			['start', 'outside_opening_hours', 'The studio is not open for the whole of this time.']
+		]);
+		expect(issues(at('2027-03-02', '11:30'), at('2027-03-02', '13:30'))).toEqual([
+			['start', 'under_minimum_notice', 'Bookings need at least 24 h notice.']
+		]);
+		expect(issues(at('2027-03-03', '14:10'), at('2027-03-03', '16:10'))).toEqual([
+			['start', 'off_grid', 'Times go in steps of 30 min from midnight.'],
+			['end', 'off_grid', 'Times go in steps of 30 min from midnight.']
+		]);
+	});
+
+	it('counts notice to the millisecond and the horizon by local date', () => {
+		const start = at('2027-03-02', '12:00');
+		expect(issues(start, plus(start, 2 * HOUR), DEMO_POLICY, plus(now, 1)).map(([, code]) => code)).toEqual([
+			'under_minimum_notice'
+		]);
+		// 180 days after 1 March is 28 August (local date): its last half hour is still bookable, 29 August is not.
+		expect(issues(at('2027-08-28', '21:00'), at('2027-08-28', '23:00'))).toEqual([]);
+		expect(issues(at('2027-08-29', '09:00'), at('2027-08-29', '11:00')).map(([, code]) => code)).toEqual(['past_horizon']);
+	});
+});

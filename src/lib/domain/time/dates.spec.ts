@@ -10,7 +10,10 @@ import {
 	eachDay,
 	isoWeekday,
 	isYmd,
+	maxYmd,
+	minYmd,
 	mondayOf,
+	mustParseYmd,
 	parseClock,
 	parseYmd
 } from './dates';
@@ -79,5 +82,64 @@ describe('wall-clock labels', () => {
 		expect(addWallMinutes('2027-03-28', '10:00', 240)).toBe('2027-03-28T14:00');
 		expect(addWallMinutes('2027-12-31', '22:00', 180)).toBe('2028-01-01T01:00');
 		expect(addWallMinutes('2027-03-01', '00:30', -60)).toBe('2027-02-28T23:30');
+	});
+});
+
+describe('the edges of the calendar readers (ISO 8601 extended format, worked by hand)', () => {
+	/** The TimeInputError or RangeError thrown by `run`, as its message. */
+	function message(run: () => unknown): string {
+		try {
+			run();
+		} catch (e) {
+			if (e instanceof Error) return e.message;
+		}
+		throw new Error('expected an error');
+	}
+
+	it('reads a date, a month and a clock only whole', () => {
+		for (const text of ['x2027-01-15', '2027-01-15x', ' 2027-01-15', '2027-00-10', '2027-13-01', '2027-01-00']) {
+			expect(parseYmd(text), text).toBeNull();
+		}
+		expect(message(() => mustParseYmd('2027-1-15'))).toBe('Not a calendar date (YYYY-MM-DD): "2027-1-15"');
+		for (const text of ['x2027-01', '2027-01x', '2027-00', '2027-13']) {
+			expect(
+				message(() => addMonths(text, 1)),
+				text
+			).toBe(`Not a calendar month (YYYY-MM): ${JSON.stringify(text)}`);
+		}
+		expect(addMonths('2027-12', 1)).toBe('2028-01');
+		for (const text of ['x10:00', '10:00x', '10:00:0']) {
+			expect(
+				message(() => parseClock(text)),
+				text
+			).toBe(`Not a time of day (HH:MM): ${JSON.stringify(text)}`);
+		}
+		expect(message(() => parseClock('10:00:60'))).toBe('Not a time of day: "10:00:60"');
+		const codeOf = (run: () => unknown) => {
+			try {
+				run();
+			} catch (e) {
+				if (e instanceof TimeInputError) return e.code;
+			}
+			return 'none';
+		};
+		expect([
+			codeOf(() => mustParseYmd('2027-02-29')),
+			codeOf(() => parseClock('10.00')),
+			codeOf(() => parseClock('25:00'))
+		]).toEqual(['invalid-date', 'invalid-format', 'invalid-time']);
+	});
+
+	it('picks the earlier and the later of two dates', () => {
+		expect(minYmd('2027-01-02', '2027-01-10')).toBe('2027-01-02');
+		expect(minYmd('2027-01-10', '2027-01-02')).toBe('2027-01-02');
+		expect(maxYmd('2027-01-02', '2027-01-10')).toBe('2027-01-10');
+		expect(maxYmd('2027-01-10', '2027-01-02')).toBe('2027-01-10');
+		expect(minYmd('2026-12-31', '2027-01-01')).toBe('2026-12-31');
+	});
+
+	it('carries wall minutes past midnight into the next date', () => {
+		expect(addWallMinutes('2027-01-15', '23:00', 120)).toBe('2027-01-16T01:00');
+		expect(addWallMinutes('2027-12-31', '22:30', 24 * 60 + 90)).toBe('2028-01-02T00:00');
 	});
 });

@@ -1,7 +1,19 @@
 import { describe, expect, it } from 'vitest';
 import { TZDate } from '@date-fns/tz';
 import { formatISO } from 'date-fns';
-import { formatDuration, formatEndTime, formatRange, formatTimes, isoInZone, wallClock, wallDateTime } from './format';
+import {
+	formatCalendarDate,
+	formatDate,
+	formatDateTime,
+	formatDuration,
+	formatEndTime,
+	formatRange,
+	formatTime,
+	formatTimes,
+	isoInZone,
+	wallClock,
+	wallDateTime
+} from './format';
 
 // Cross-checked against date-fns formatISO on @date-fns/tz's TZDate (the IANA database through
 // ICU), around the 2027 EU changes (Directive 2000/84/EC: 01:00 UTC on 28 March and 31 October)
@@ -93,5 +105,45 @@ describe('formatDuration', () => {
 		expect(formatDuration(150)).toBe('2 h 30 min');
 		expect(formatDuration(0)).toBe('0 min');
 		expect(formatDuration(72 * 60)).toBe('72 h');
+	});
+});
+
+// Dates in words for pages and e-mails. Expected values from the Unicode CLDR data for British
+// English (day before month, 24-hour clock; CLDR "en_GB" and "en" (US) gregorian patterns) and
+// the IANA zones' offsets worked by hand: 2027-03-28T01:00Z is the first instant of Helsinki
+// summer time, 04:00+03:00 (Directive 2000/84/EC), and 21:00 the evening before in New York
+// (EDT, -04:00 since 14 March). Only the facts are pinned, not ICU's punctuation between them.
+describe('formatDateTime, formatTime, formatDate and formatRange', () => {
+	const change = '2027-03-28T01:00:00Z';
+
+	it('write the studio’s wall clock in British English by default', () => {
+		expect(formatDateTime(change, 'Europe/Helsinki')).toMatch(/^Sun,? 28 Mar 2027,? 04:00$/);
+		expect(formatDateTime(new Date(change), 'America/New_York')).toMatch(/^Sat,? 27 Mar 2027,? 21:00$/);
+		expect(formatTime(change, 'Europe/Helsinki')).toBe('04:00');
+		expect(formatTime(new Date('2027-03-28T00:59:00Z'), 'Europe/Helsinki')).toBe('02:59');
+		expect(formatDate(change, 'Europe/Helsinki')).toMatch(/^Sunday,? 28 March 2027$/);
+		expect(formatDate(new Date(change), 'America/New_York')).toMatch(/^Saturday,? 27 March 2027$/);
+	});
+
+	it('follow the locale asked for (US English: month first, 12-hour clock)', () => {
+		expect(formatDateTime(change, 'Europe/Helsinki', 'en-US')).toMatch(/^Sun,? Mar 28,? 2027,? 04:00\sAM$/);
+		expect(formatTime(change, 'Asia/Kolkata', 'en-US')).toMatch(/^06:30\sAM$/);
+		expect(formatDate(change, 'Europe/Helsinki', 'en-US')).toMatch(/^Sunday,? March 28,? 2027$/);
+	});
+
+	it('write a range as its start in full and its end as a time', () => {
+		expect(formatRange(change, '2027-03-28T05:30:00Z', 'Europe/Helsinki')).toMatch(/^Sun,? 28 Mar 2027,? 04:00 – 08:30$/);
+		expect(formatRange(change, new Date('2027-03-28T05:30:00Z'), 'America/New_York', 'en-US')).toMatch(
+			/^Sat,? Mar 27,? 2027,? 09:00\sPM – 01:30\sAM$/
+		);
+	});
+});
+
+describe('formatCalendarDate', () => {
+	it('writes the date given, in the locale asked for', () => {
+		// 28 March 2027 is a Sunday (ISO 8601 week date 2027-W12-7).
+		expect(formatCalendarDate('2027-03-28', { weekday: 'long', day: 'numeric', month: 'long' })).toMatch(/^Sunday,? 28 March$/);
+		expect(formatCalendarDate('2027-01-01', { day: 'numeric', month: 'short', year: 'numeric' }, 'en-US')).toBe('Jan 1, 2027');
+		expect(formatCalendarDate('2027-12-31', { day: 'numeric', month: 'long', year: 'numeric' })).toBe('31 December 2027');
 	});
 });

@@ -44,3 +44,17 @@ describe('local grid', () => {
 		);
 	});
 });
+
+describe('a grid that does not divide the day', () => {
+	it('restarts at local midnight: with 100-minute steps the last line of the day is 23:20, the next 00:00', () => {
+		// 14 × 100 min = 23:20; a 15th step would be 01:00 the next day, but the grid starts again at midnight.
+		const at2350 = temporalInstant('2027-01-15T23:50', HELSINKI).getTime();
+		expect(new Date(ceilToLocalGrid(at2350, HELSINKI, 100)).toISOString()).toBe(
+			temporalInstant('2027-01-16T00:00', HELSINKI).toISOString()
+		);
+		expect(new Date(floorToLocalGrid(at2350, HELSINKI, 100)).toISOString()).toBe(
+			temporalInstant('2027-01-15T23:20', HELSINKI).toISOString()
+		);
+		expect(isOnLocalGrid(temporalInstant('2027-01-16T01:40', HELSINKI).getTime(), HELSINKI, 100)).toBe(true);
+	});
+});

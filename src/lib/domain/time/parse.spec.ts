@@ -93,3 +93,38 @@ describe('parseBookingInstant at its edges (RFC 3339 offsets, seconds and fracti
 		expect(instantOf('2027-03-02T10:00Zx')).toBe('invalid_time');
 	});
 });
+
+describe('parseBookingInstant — the edges of the two forms (RFC 3339 §5.6 and the HTML datetime-local value)', () => {
+	/** The TimeInputError thrown for `s`, as [code, message]. */
+	function refusal(s: unknown): [string, string] {
+		try {
+			parseBookingInstant(s as string, HELSINKI);
+		} catch (e) {
+			if (e instanceof TimeInputError) return [e.code, e.message];
+			throw e;
+		}
+		throw new Error(`expected a TimeInputError for ${String(s)}`);
+	}
+
+	it('asks for a date and time when none is given', () => {
+		expect(refusal(undefined)).toEqual(['invalid-format', 'A date and time is required']);
+	});
+
+	it('takes offsets up to ±23:59 (RFC 3339 time-numoffset) and names a larger one', () => {
+		expect(parseBookingInstant('2027-03-02T23:59+23:59', HELSINKI).toISOString()).toBe('2027-03-02T00:00:00.000Z');
+		expect(parseBookingInstant('2027-03-02T00:00-23:59', HELSINKI).toISOString()).toBe('2027-03-02T23:59:00.000Z');
+		expect(refusal('2027-03-02T10:00+24:00')).toEqual(['invalid-offset', 'Not a UTC offset: +24:00 in "2027-03-02T10:00+24:00"']);
+		expect(refusal('2027-03-02T10:00+05:60')).toEqual(['invalid-offset', 'Not a UTC offset: +05:60 in "2027-03-02T10:00+05:60"']);
+	});
+
+	it('reads a local time only whole, with two-digit seconds, and says what it expected', () => {
+		// Helsinki in March 2027 before the change: +02:00.
+		expect(parseBookingInstant('2027-03-02T10:00:30', HELSINKI).toISOString()).toBe('2027-03-02T08:00:30.000Z');
+		for (const text of ['x2027-03-02T10:00', '2027-03-02T10:00x', '2027-03-02T10:00:3', '2027-03-02T10:00:ab']) {
+			expect(refusal(text), text).toEqual([
+				'invalid-format',
+				`Not a date and time: ${JSON.stringify(text)}; expected e.g. 2027-03-28T10:00:00+03:00, 2027-03-28T07:00:00Z or a local 2027-03-28T10:00`
+			]);
+		}
+	});
+});

@@ -4,7 +4,19 @@ import { describe, expect, it } from 'vitest';
 import { NonexistentLocalTimeError, TimeInputError } from './errors';
 import fc from 'fast-check';
 import { addDays, isoWeekday } from './dates';
-import { addLocalDays, localDayBounds, localParts, localSegments, localToInstant, resolveWallTime, zonedWallTime } from './zoned';
+import {
+	addLocalDays,
+	assertTimeZone,
+	findTransition,
+	localDateOf,
+	localDayBounds,
+	localParts,
+	localSegments,
+	localToInstant,
+	offsetMsAt,
+	resolveWallTime,
+	zonedWallTime
+} from './zoned';
 
 const HELSINKI = 'Europe/Helsinki';
 const HOUR = 3_600_000;
@@ -192,5 +204,156 @@ describe('local wall time in Europe/Helsinki (IANA tz via @date-fns/tz; Directiv
 		const r = localToInstant('2027-03-02', 9 * 60, 'Asia/Kolkata');
 		expect(r.instant.toISOString()).toBe('2027-03-02T03:30:00.000Z');
 		expect(() => localParts(new Date(), 'Nowhere/Else')).toThrow(RangeError);
+	});
+});
+
+describe('the edges of the wall-clock reader (expected values by hand from the IANA tz rules, checked with Temporal)', () => {
+	it('reads instants before 1970 and between minutes: 1969-12-31T23:59:30.250Z', () => {
+		const ms = Date.parse('1969-12-31T23:59:30.250Z');
+		// UTC: a Wednesday (1 January 1970 was a Thursday), 23:59, 30.25 s into the minute.
+		expect(localParts(ms, 'UTC')).toEqual({
+			ymd: '1969-12-31',
+			isoWeekday: 3,
+			minuteOfDay: 1439,
+			subMinuteMs: 30_250,
+			offsetMinutes: 0
+		});
+		// Helsinki was on EET (+02:00) all year then: already Thursday 1 January, 01:59.
+		expect(localParts(new Date(ms), HELSINKI)).toEqual({
+			ymd: '1970-01-01',
+			isoWeekday: 4,
+			minuteOfDay: 119,
+			subMinuteMs: 30_250,
+			offsetMinutes: 120
+		});
+		const z = Temporal.Instant.fromEpochMilliseconds(ms).toZonedDateTimeISO(HELSINKI);
+		expect([z.toPlainDate().toString(), z.dayOfWeek, z.hour * 60 + z.minute, z.offset]).toEqual(['1970-01-01', 4, 119, '+02:00']);
+	});
+
+	it('changes the offset on the millisecond of the autumn change, 01:00:00.000Z on 2027-10-31', () => {
+		expect(localParts(new Date('2027-10-31T00:59:59.999Z'), HELSINKI)).toMatchObject({
+			minuteOfDay: 239,
+			subMinuteMs: 59_999,
+			offsetMinutes: 180
+		});
+		expect(localParts(new Date('2027-10-31T01:00:00.000Z'), HELSINKI)).toMatchObject({
+			minuteOfDay: 180,
+			subMinuteMs: 0,
+			offsetMinutes: 120
+		});
+		expect(offsetMsAt(HELSINKI, Date.parse('2027-10-31T00:59:59.999Z'))).toBe(3 * HOUR);
+		expect(offsetMsAt(HELSINKI, Date.parse('2027-10-31T01:00:00.001Z'))).toBe(2 * HOUR);
+	});
+
+	it('finds the instant of a change to the millisecond', () => {
+		const lo = Date.parse('2027-03-28T00:00:00Z');
+		const hi = Date.parse('2027-03-28T02:00:00Z');
+		expect(new Date(findTransition(HELSINKI, lo, hi)).toISOString()).toBe('2027-03-28T01:00:00.000Z');
+		expect(new Date(findTransition(HELSINKI, lo, Date.parse('2027-03-28T01:00:00Z'))).toISOString()).toBe(
+			'2027-03-28T01:00:00.000Z'
+		);
+	});
+
+	it('resolves wall times with seconds either side of both changes', () => {
+		expect(resolveWallTime('2027-03-28', '03:59:59', HELSINKI)).toEqual({
+			kind: 'skipped',
+			transition: new Date('2027-03-28T01:00:00Z')
+		});
+		expect(resolveWallTime('2027-03-28', '02:59:59', HELSINKI)).toEqual({
+			kind: 'unique',
+			instant: new Date('2027-03-28T00:59:59Z')
+		});
+		expect(resolveWallTime('2027-10-31', '03:59:59', HELSINKI)).toEqual({
+			kind: 'repeated',
+			first: new Date('2027-10-31T00:59:59Z'),
+			second: new Date('2027-10-31T01:59:59Z')
+		});
+		expect(resolveWallTime('2027-10-31', '02:59:59', HELSINKI)).toEqual({
+			kind: 'unique',
+			instant: new Date('2027-10-30T23:59:59Z')
+		});
+		expect(temporalInstant('2027-10-31T03:59:59', HELSINKI, 'earlier').toISOString()).toBe('2027-10-31T00:59:59.000Z');
+	});
+
+	it('starts a day whose midnight is skipped when the clocks jump (Chile: 24:00 → 01:00 on 5 September 2027)', () => {
+		// America/Santiago springs forward at local midnight: 2027-09-05 00:00 never happens.
+		const r = localToInstant('2027-09-05', 0, 'America/Santiago');
+		expect(r).toEqual({ kind: 'gap', instant: new Date('2027-09-05T04:00:00Z') });
+		const later = Temporal.PlainDateTime.from('2027-09-05T00:00').toZonedDateTime('America/Santiago', {
+			disambiguation: 'later'
+		});
+		expect(later.toString()).toBe('2027-09-05T01:00:00-03:00[America/Santiago]');
+		expect(r.instant.getTime()).toBe(later.epochMilliseconds);
+	});
+
+	it('adds days onto a repeated wall time (first occurrence) and onto a skipped one (the jump), keeping milliseconds', () => {
+		// 03:30:00.250+03:00 on 30 October, one day on: 03:30 on the 31st happens twice; the first is +03:00.
+		expect(new Date(addLocalDays(Date.parse('2027-10-30T00:30:00.250Z'), 1, HELSINKI)).toISOString()).toBe(
+			'2027-10-31T00:30:00.250Z'
+		);
+		// 03:30+02:00 on 27 March, one day on: 03:30 on the 28th does not exist; the day's clocks jumped at 01:00Z.
+		expect(new Date(addLocalDays(Date.parse('2027-03-27T01:30:00Z'), 1, HELSINKI)).toISOString()).toBe(
+			'2027-03-28T01:00:00.000Z'
+		);
+	});
+
+	it('splits a night across the spring change and a half-hour change (Lord Howe Island, 4 April 2027)', () => {
+		const spring = localSegments(new Date('2027-03-27T20:00:00Z'), new Date('2027-03-28T03:00:00Z'), HELSINKI);
+		expect(spring.map((s) => [s.ymd, s.isoWeekday, s.startMinuteOfDay, s.minutes, new Date(s.startMs).toISOString()])).toEqual([
+			['2027-03-27', 6, 22 * 60, 120, '2027-03-27T20:00:00.000Z'],
+			['2027-03-28', 7, 0, 180, '2027-03-27T22:00:00.000Z'],
+			['2027-03-28', 7, 4 * 60, 120, '2027-03-28T01:00:00.000Z']
+		]);
+		// Australia/Lord_Howe: +11:00 until 02:00 local, then +10:30 (01:30 again).
+		const lordHowe = localSegments(new Date('2027-04-03T13:00:00Z'), new Date('2027-04-03T17:00:00Z'), 'Australia/Lord_Howe');
+		expect(lordHowe.map((s) => [s.ymd, s.startMinuteOfDay, s.minutes])).toEqual([
+			['2027-04-04', 0, 120],
+			['2027-04-04', 90, 120]
+		]);
+		expect(localSegments(new Date('2027-03-27T20:00:00Z'), new Date('2027-03-27T20:00:00Z'), HELSINKI)).toEqual([]);
+	});
+
+	it('ends a segment at a change that falls on local midnight (Chile, 5 September 2027), and at midnight from mid-minute', () => {
+		// America/Santiago: 24:00 on the 4th is 01:00 on the 5th (-04:00 → -03:00 at 04:00Z).
+		const chile = localSegments(new Date('2027-09-05T02:00:00Z'), new Date('2027-09-05T05:00:00Z'), 'America/Santiago');
+		expect(chile.map((s) => [s.ymd, s.startMinuteOfDay, s.minutes, new Date(s.startMs).toISOString()])).toEqual([
+			['2027-09-04', 22 * 60, 120, '2027-09-05T02:00:00.000Z'],
+			['2027-09-05', 60, 60, '2027-09-05T04:00:00.000Z']
+		]);
+		// From 23:59:30 Helsinki time the first segment lasts 30 s, to local midnight (22:00Z).
+		const late = localSegments(new Date('2027-01-15T21:59:30Z'), new Date('2027-01-15T22:01:30Z'), HELSINKI);
+		expect(late.map((s) => [s.ymd, new Date(s.startMs).toISOString()])).toEqual([
+			['2027-01-15', '2027-01-15T21:59:30.000Z'],
+			['2027-01-16', '2027-01-15T22:00:00.000Z']
+		]);
+	});
+
+	it('finds both occurrences of a repeated time west of Greenwich (New York, 7 November 2027, 15 U.S.C. §260a)', () => {
+		// 02:00 EDT falls back to 01:00 EST: 01:30 is 05:30Z (-04:00) and again 06:30Z (-05:00).
+		expect(resolveWallTime('2027-11-07', '01:30', 'America/New_York')).toEqual({
+			kind: 'repeated',
+			first: new Date('2027-11-07T05:30:00Z'),
+			second: new Date('2027-11-07T06:30:00Z')
+		});
+		expect(temporalInstant('2027-11-07T01:30', 'America/New_York', 'earlier').toISOString()).toBe('2027-11-07T05:30:00.000Z');
+	});
+
+	it('says a plain wall time is unique, and reads an ISO string as an instant', () => {
+		expect(localToInstant('2027-01-15', 600, HELSINKI)).toEqual({ kind: 'unique', instant: new Date('2027-01-15T08:00:00Z') });
+		// 22:30Z on 30 October is 01:30+03:00 (summer time) on the 31st in Helsinki.
+		expect(localDateOf('2027-10-30T22:30:00Z', HELSINKI)).toBe('2027-10-31');
+	});
+
+	it('refuses an empty or missing zone name with its code', () => {
+		for (const zone of ['', undefined as unknown as string]) {
+			try {
+				assertTimeZone(zone);
+				expect.unreachable();
+			} catch (e) {
+				expect(e).toBeInstanceOf(TimeInputError);
+				expect((e as TimeInputError).code).toBe('invalid-time-zone');
+				expect((e as TimeInputError).message).toBe(`Unknown time zone: ${JSON.stringify(zone)}`);
+			}
+		}
 	});
 });
