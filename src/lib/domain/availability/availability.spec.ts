@@ -343,7 +343,7 @@ describe('input checks, one rule at a time', () => {
 		throw new Error('expected an AvailabilityInputError, nothing was thrown');
 	}
 	const withPolicy = (over: Record<string, unknown>) => () =>
-		computeAvailability(input({ policy: { ...demoPolicy(), ...over } as AvailabilityInput['policy'] }));
+		computeAvailability(input({ policy: { ...demoPolicy(), ...over } }));
 	const withHours = (hours: unknown[]) => withPolicy({ openingHours: hours });
 
 	it('names the policy field that is wrong', () => {
