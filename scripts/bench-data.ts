@@ -5,8 +5,9 @@ import { createDb } from '../src/lib/server/db/client';
 const { db, client } = createDb(process.env.DATABASE_URL!, { max: 1 });
 try {
 	const rows = await db.execute(sql`
-		insert into booking (reference, room_id, artist_id, starts_at, ends_at, busy_until, status, quote, currency, total, deposit)
-		select 'BENCH-' || r.slug || '-' || d::date || '-' || s.h,
+		insert into booking (studio_id, reference, room_id, artist_id, starts_at, ends_at, busy_until, status, quote, currency, total, deposit)
+		select r.studio_id,
+		       'BENCH-' || r.slug || '-' || d::date || '-' || s.h,
 		       r.id,
 		       (select id from "user" where email = 'artist@slateroom.test'),
 		       (d::date + make_interval(hours => s.h)) at time zone 'Europe/Helsinki',

@@ -1,7 +1,7 @@
 // Demo bookings for the seeded studio, placed relative to today so the demo always has a past
 // and a future: two finished sessions with recall sheets, and upcoming confirmed sessions.
 // Priced by the pricing engine, like every booking. Runs once: it does nothing when any booking exists.
-import { sql } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import type { Database } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
 import { DEMO_BOOKING_IDS, DEMO_POLICY, DEMO_ROOMS } from '../src/lib/domain/demo';
@@ -145,9 +145,12 @@ const demo: DemoBooking[] = [
 
 export async function seedDemoBookings(
 	db: Database,
-	ids: { roomIds: Record<string, string>; userIds: Record<string, string> }
+	ids: { studioId: string; roomIds: Record<string, string>; userIds: Record<string, string> }
 ): Promise<void> {
-	const [{ n } = { n: 0 }] = await db.select({ n: sql<number>`count(*)::int` }).from(t.booking);
+	const [{ n } = { n: 0 }] = await db
+		.select({ n: sql<number>`count(*)::int` })
+		.from(t.booking)
+		.where(eq(t.booking.studioId, ids.studioId));
 	if (n > 0) return;
 	const engineerId = ids.userIds['engineer@slateroom.test'];
 	const holidays = publicHolidayChecker(DEMO_POLICY.country);
@@ -161,6 +164,7 @@ export async function seedDemoBookings(
 			.insert(t.booking)
 			.values({
 				id: DEMO_BOOKING_IDS[i],
+				studioId: ids.studioId,
 				reference: newReference(),
 				roomId: ids.roomIds[d.room]!,
 				engineerId: d.engineer ? engineerId : null,
@@ -179,6 +183,7 @@ export async function seedDemoBookings(
 			.returning();
 		if (d.recall) {
 			await db.insert(t.recallSheet).values({
+				studioId: ids.studioId,
 				bookingId: row!.id,
 				artistId: ids.userIds[d.artist]!,
 				authorId: engineerId,

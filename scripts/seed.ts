@@ -22,11 +22,19 @@ const people = [
 	{ email: 'artist2@slateroom.test', name: 'Iiris Sorsa (Pale Orchard)', role: 'artist' }
 ] as const;
 
-async function seedStudio() {
+/** The demo studio's organization (its name, short name and team), then its settings. */
+async function seedStudio(): Promise<string> {
+	await db
+		.insert(t.organization)
+		.values({ id: crypto.randomUUID(), name: 'Hollow Pine Studio', slug: 'hollow-pine' })
+		.onConflictDoNothing({ target: t.organization.slug });
+	const [org] = await db.select().from(t.organization).where(eq(t.organization.slug, 'hollow-pine'));
+	const studioId = org!.id;
 	await db
 		.insert(t.studio)
 		.values({
-			id: 1,
+			id: studioId,
+			published: true,
 			name: 'Hollow Pine Studio',
 			tagline: 'A converted barn for tracking bands and voices, outside Tampere.',
 			description:
@@ -60,10 +68,14 @@ async function seedStudio() {
 		})
 		.onConflictDoNothing();
 
-	const [{ count } = { count: 0 }] = await db.select({ count: sql<number>`count(*)::int` }).from(t.surchargeRule);
+	const [{ count } = { count: 0 }] = await db
+		.select({ count: sql<number>`count(*)::int` })
+		.from(t.surchargeRule)
+		.where(eq(t.surchargeRule.studioId, studioId));
 	if (count === 0) {
 		await db.insert(t.surchargeRule).values(
 			P.surcharges.map((r, i) => ({
+				studioId,
 				label: r.label,
 				kind: r.kind,
 				percentBp: r.percentBp,
@@ -74,6 +86,7 @@ async function seedStudio() {
 			}))
 		);
 	}
+	return studioId;
 }
 
 const rooms = [
@@ -100,24 +113,28 @@ const rooms = [
 	}
 ];
 
-async function seedRooms() {
+async function seedRooms(studioId: string) {
 	for (const r of rooms) {
 		const rates = DEMO_ROOMS.find((d) => d.slug === r.slug)!.rates;
 		await db
 			.insert(t.room)
-			.values({ ...r, hourly: rates.hourly, halfDay: rates.halfDay, fullDay: rates.fullDay })
-			.onConflictDoNothing({ target: t.room.slug });
+			.values({ ...r, studioId, hourly: rates.hourly, halfDay: rates.halfDay, fullDay: rates.fullDay })
+			.onConflictDoNothing({ target: [t.room.studioId, t.room.slug] });
 	}
-	return Object.fromEntries((await db.select().from(t.room)).map((r) => [r.slug, r.id]));
+	const made = await db.select().from(t.room).where(eq(t.room.studioId, studioId));
+	return Object.fromEntries(made.map((r) => [r.slug, r.id]));
 }
 
 const PHANTOM =
 	'Needs 48 V phantom power (IEC 61938): switch phantom off and mute the channel before patching; keep it away from ribbon microphones.';
 
-async function seedGear(roomIds: Record<string, string>) {
-	const [{ count } = { count: 0 }] = await db.select({ count: sql<number>`count(*)::int` }).from(t.gearItem);
+async function seedGear(studioId: string, roomIds: Record<string, string>) {
+	const [{ count } = { count: 0 }] = await db
+		.select({ count: sql<number>`count(*)::int` })
+		.from(t.gearItem)
+		.where(eq(t.gearItem.studioId, studioId));
 	if (count > 0) return;
-	await db.insert(t.gearItem).values([
+	const items: Omit<typeof t.gearItem.$inferInsert, 'studioId'>[] = [
 		{
 			name: 'Large-diaphragm condenser, multi-pattern',
 			category: 'microphone',
@@ -179,38 +196,45 @@ async function seedGear(roomIds: Record<string, string>) {
 			homeRoomId: roomIds['live-room'],
 			caution: 'Start cue mixes quiet and raise them slowly: long sessions near 85 dB(A) put hearing at risk.'
 		}
-	]);
+	];
+	await db.insert(t.gearItem).values(items.map((g) => ({ ...g, studioId })));
 }
 
-async function seedPeople() {
+/** The demo people; the staff among them join the studio's team with their role. */
+async function seedPeople(studioId: string) {
 	const ids: Record<string, string> = {};
 	for (const p of people) {
 		const [existing] = await db.select().from(t.user).where(eq(t.user.email, p.email));
-		if (existing) {
-			ids[p.email] = existing.id;
-			continue;
-		}
-		const id = crypto.randomUUID();
-		await db.insert(t.user).values({ id, email: p.email, name: p.name, role: p.role, emailVerified: true });
-		await db.insert(t.account).values({
-			id: crypto.randomUUID(),
-			accountId: id,
-			providerId: 'credential',
-			userId: id,
-			password: await hashPassword(DEMO_PASSWORD),
-			updatedAt: new Date()
-		});
+		const id = existing?.id ?? crypto.randomUUID();
 		ids[p.email] = id;
+		if (!existing) await insertPerson(id, p);
+		if (p.role === 'artist') continue;
+		await db
+			.insert(t.member)
+			.values({ id: crypto.randomUUID(), organizationId: studioId, userId: id, role: p.role })
+			.onConflictDoNothing({ target: [t.member.organizationId, t.member.userId] });
 	}
 	return ids;
 }
 
+async function insertPerson(id: string, p: (typeof people)[number]) {
+	await db.insert(t.user).values({ id, email: p.email, name: p.name, role: p.role, emailVerified: true });
+	await db.insert(t.account).values({
+		id: crypto.randomUUID(),
+		accountId: id,
+		providerId: 'credential',
+		userId: id,
+		password: await hashPassword(DEMO_PASSWORD),
+		updatedAt: new Date()
+	});
+}
+
 try {
-	await seedStudio();
-	const roomIds = await seedRooms();
-	await seedGear(roomIds);
-	const userIds = await seedPeople();
-	await seedDemoBookings(db, { roomIds, userIds });
+	const studioId = await seedStudio();
+	const roomIds = await seedRooms(studioId);
+	await seedGear(studioId, roomIds);
+	const userIds = await seedPeople(studioId);
+	await seedDemoBookings(db, { studioId, roomIds, userIds });
 	console.log('demo studio seeded');
 } finally {
 	await client.end();

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq, inArray, sql } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DEMO } from '../support/env';
-import { clearDays, testDb } from '../support/db';
+import { clearDays, studioIdOf, testDb } from '../support/db';
 import { addDays, nextDstChange, studioInstant, studioIso, studioToday, TZ, weekdayAhead, workdaysAhead } from '../support/dates';
 import { expectRefused, expectRefusedPage } from '../support/refusal';
 import { waitFor } from '../support/wait';
@@ -160,7 +160,10 @@ describe('POST /api/quote', () => {
 
 	it('refuses a blackout day', async () => {
 		const closed = ownDay(5);
-		const [row] = await db.insert(t.blackout).values({ startsOn: closed, endsOn: closed, reason: 'Roof repairs' }).returning();
+		const [row] = await db
+			.insert(t.blackout)
+			.values({ studioId: await studioIdOf(db), startsOn: closed, endsOn: closed, reason: 'Roof repairs' })
+			.returning();
 		try {
 			const res = await quote({ room: 'live-room', start: `${closed}T10:00`, end: `${closed}T12:00` });
 			expect(res.status).toBe(422);
@@ -209,7 +212,10 @@ describe('GET /api/availability', () => {
 
 	it('shows a blackout day as closed with no open time', async () => {
 		const closed = ownDay(6);
-		const [row] = await db.insert(t.blackout).values({ startsOn: closed, endsOn: closed, reason: 'Family day' }).returning();
+		const [row] = await db
+			.insert(t.blackout)
+			.values({ studioId: await studioIdOf(db), startsOn: closed, endsOn: closed, reason: 'Family day' })
+			.returning();
 		try {
 			const res = await new Client().fetch(`/api/availability?room=live-room&from=${closed}&to=${closed}`);
 			const body = (await res.json()) as { open: unknown[]; closed: { date: string; reason: string }[] };

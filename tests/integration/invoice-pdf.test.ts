@@ -12,7 +12,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { signedIn, type Client } from '../support/http';
 import { DEMO } from '../support/env';
-import { testDb } from '../support/db';
+import { studioIdOf, testDb } from '../support/db';
 import { waitFor } from '../support/wait';
 import { bookAndPay as bookAndPayOn } from '../support/booking';
 import { TZ, workdaysAhead, ymdInZone } from '../support/dates';
@@ -22,10 +22,11 @@ import * as t from '../../src/lib/server/db/schema';
 import { linesOf, type InvoiceRow, type Party } from '../../src/lib/server/invoices/issue';
 
 const { db, client } = testDb();
-const [studioAtStart] = await db.select().from(t.studio).where(eq(t.studio.id, 1));
+const studioId = await studioIdOf(db);
+const [studioAtStart] = await db.select().from(t.studio).where(eq(t.studio.id, studioId));
 afterAll(async () => {
 	// The two-rate test changes the studio's VAT rate for one booking; never leave it changed.
-	await db.update(t.studio).set({ vatRateBp: studioAtStart!.vatRateBp }).where(eq(t.studio.id, 1));
+	await db.update(t.studio).set({ vatRateBp: studioAtStart!.vatRateBp }).where(eq(t.studio.id, studioId));
 	await client.end();
 });
 
@@ -223,9 +224,9 @@ describe('invoice PDFs say what the documents say', () => {
 		const studio = studioAtStart;
 		const artist = await signedIn(DEMO.artist);
 		const owner = await signedIn(DEMO.owner);
-		await db.update(t.studio).set({ vatRateBp: 2400 }).where(eq(t.studio.id, 1));
+		await db.update(t.studio).set({ vatRateBp: 2400 }).where(eq(t.studio.id, studioId));
 		const b = await bookAndPay(artist, 'live-room', '15:00').finally(() =>
-			db.update(t.studio).set({ vatRateBp: studio!.vatRateBp }).where(eq(t.studio.id, 1))
+			db.update(t.studio).set({ vatRateBp: studio!.vatRateBp }).where(eq(t.studio.id, studioId))
 		);
 		expect(studio!.vatRateBp).toBe(2550);
 		expect([b.quote.total, b.quote.deposit]).toEqual([20500, 6200]);

@@ -152,6 +152,7 @@ describe('numbering (Article 226(2): sequential, unique within its series)', () 
 				Array.from({ length: 20 }, () =>
 					wide.db.transaction(async (tx) => {
 						const { invoice } = await issueDocument(tx, {
+							studioId: studio!.id,
 							typeCode: 386,
 							series,
 							issuedAt,
@@ -176,6 +177,7 @@ describe('numbering (Article 226(2): sequential, unique within its series)', () 
 			await expect(
 				wide.db.transaction(async (tx) => {
 					await issueDocument(tx, {
+						studioId: studio!.id,
 						typeCode: 386,
 						series,
 						issuedAt,
@@ -222,6 +224,7 @@ describe('numbering (Article 226(2): sequential, unique within its series)', () 
 		await expect(
 			db.transaction((tx) =>
 				issueDocument(tx, {
+					studioId: studio!.id,
 					typeCode: 386,
 					series: 'TST',
 					issuedAt: new Date('2099-01-15T12:00:00Z'),

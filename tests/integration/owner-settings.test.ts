@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { desc, eq } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DEMO } from '../support/env';
-import { testDb } from '../support/db';
+import { studioIdOf, testDb } from '../support/db';
 import { workdaysAhead } from '../support/dates';
 import { expectRefusedPage } from '../support/refusal';
 import * as t from '../../src/lib/server/db/schema';
@@ -27,7 +27,10 @@ let originalGearIds: Set<string>;
 let owner: Client;
 
 async function studioRow(): Promise<StudioRow> {
-	const [row] = await db.select().from(t.studio).where(eq(t.studio.id, 1));
+	const [row] = await db
+		.select()
+		.from(t.studio)
+		.where(eq(t.studio.id, await studioIdOf(db)));
 	return row!;
 }
 
@@ -65,7 +68,10 @@ afterAll(async () => {
 	// Put back every setting, whatever the tests did or failed to do.
 	try {
 		const { id: _id, updatedAt: _u, ...values } = original;
-		await db.update(t.studio).set(values).where(eq(t.studio.id, 1));
+		await db
+			.update(t.studio)
+			.set(values)
+			.where(eq(t.studio.id, await studioIdOf(db)));
 		const keep = new Set(originalSurcharges.map((s) => s.id));
 		for (const s of await db.select().from(t.surchargeRule)) {
 			if (!keep.has(s.id)) await db.delete(t.surchargeRule).where(eq(t.surchargeRule.id, s.id));

@@ -16,7 +16,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import Stripe from 'stripe';
 import { Client, signedIn } from '../support/http';
 import { APP_URL, DEMO, STRIPE_API_BASE } from '../support/env';
-import { testDb } from '../support/db';
+import { studioIdOf, testDb } from '../support/db';
 import { waitFor } from '../support/wait';
 import { moveIntoPast } from '../support/started';
 import * as t from '../../src/lib/server/db/schema';
@@ -902,6 +902,7 @@ describe('the payments job', () => {
 		const [unsent] = await db
 			.insert(t.refund)
 			.values({
+				studioId: await studioIdOf(db),
 				bookingId: paidBooking.id,
 				paymentId: paid!.id,
 				amount: 1000,

@@ -3,11 +3,11 @@
 // §5.4.6; violations raise SQLSTATE 23P01 (PostgreSQL manual, Appendix A, "Error Codes").
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq, inArray, sql } from 'drizzle-orm';
-import { testDb } from '../support/db';
+import { studioIdOf, testDb } from '../support/db';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
-let roomA: string, roomB: string, artist: string, engineer: string, gear: string;
+let studioId: string, roomA: string, roomB: string, artist: string, engineer: string, gear: string;
 const made: string[] = [];
 
 // A far-future day no other test books, so this file owns it.
@@ -17,6 +17,7 @@ async function insertBooking(p: { room: string; start: string; end: string; engi
 	const id = crypto.randomUUID();
 	await db.insert(t.booking).values({
 		id,
+		studioId,
 		reference: `T-${id.slice(0, 8)}`,
 		roomId: p.room,
 		artistId: artist,
@@ -45,6 +46,7 @@ async function sqlState(p: Promise<unknown>): Promise<string | undefined> {
 }
 
 beforeAll(async () => {
+	studioId = await studioIdOf(db);
 	const rooms = await db
 		.select()
 		.from(t.room)
@@ -97,6 +99,7 @@ describe('room exclusion', () => {
 		made.push(id);
 		await db.insert(t.booking).values({
 			id,
+			studioId,
 			reference: `T-${id.slice(0, 8)}`,
 			roomId: roomB,
 			artistId: artist,
@@ -126,16 +129,22 @@ describe('gear exclusion', () => {
 	it('refuses one piece of gear in two overlapping bookings and frees it on cancellation', async () => {
 		const first = await insertBooking({ room: roomA, start: '06:00', end: '08:00' });
 		const second = await insertBooking({ room: roomB, start: '07:00', end: '09:00' });
-		await db.insert(t.bookingGear).values({ bookingId: first, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) });
+		await db
+			.insert(t.bookingGear)
+			.values({ studioId, bookingId: first, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) });
 		expect(
 			await sqlState(
-				db.insert(t.bookingGear).values({ bookingId: second, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) })
+				db
+					.insert(t.bookingGear)
+					.values({ studioId, bookingId: second, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) })
 			)
 		).toBe('23P01');
 		await db.update(t.booking).set({ status: 'cancelled' }).where(eq(t.booking.id, first));
 		expect(
 			await sqlState(
-				db.insert(t.bookingGear).values({ bookingId: second, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) })
+				db
+					.insert(t.bookingGear)
+					.values({ studioId, bookingId: second, gearItemId: gear, startsAt: new Date(0), busyUntil: new Date(0) })
 			)
 		).toBeUndefined();
 	});

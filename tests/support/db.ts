@@ -1,6 +1,6 @@
 // Direct database access for integration tests: the same schema and client the app uses.
-import { and, inArray, sql } from 'drizzle-orm';
-import { createDb } from '../../src/lib/server/db/client';
+import { and, eq, inArray, sql } from 'drizzle-orm';
+import { createDb, type Database } from '../../src/lib/server/db/client';
 import * as t from '../../src/lib/server/db/schema';
 import { DATABASE_URL } from './env';
 import { TZ } from './dates';
@@ -23,4 +23,14 @@ export async function clearDays(db: ReturnType<typeof testDb>['db'], days: reado
 				sql`(${t.booking.startsAt} at time zone ${TZ}::text)::date::text in ${days}`
 			)
 		);
+}
+
+/** The short name of the demo studio the seed makes. */
+export const DEMO_STUDIO_SLUG = 'hollow-pine';
+
+/** The id of a studio by its short name (the demo studio's by default). */
+export async function studioIdOf(db: Database, slug = DEMO_STUDIO_SLUG): Promise<string> {
+	const [row] = await db.select({ id: t.organization.id }).from(t.organization).where(eq(t.organization.slug, slug));
+	if (!row) throw new Error(`no studio "${slug}": is the demo seeded?`);
+	return row.id;
 }

@@ -3,6 +3,8 @@ import { db } from './db';
 import { auditLog } from './db/schema';
 
 export async function audit(entry: {
+	/** The studio whose data changed; none for the platform's own events (sign-in, sign-up). */
+	studioId?: string | null;
 	actorId?: string | null;
 	action: string;
 	entity?: string;
@@ -12,6 +14,7 @@ export async function audit(entry: {
 }) {
 	try {
 		await db.insert(auditLog).values({
+			studioId: entry.studioId ?? null,
 			actorId: entry.actorId ?? null,
 			action: entry.action,
 			entity: entry.entity ?? '',

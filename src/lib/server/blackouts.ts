@@ -3,24 +3,23 @@
 // days and deals with each one.
 import { and, asc, eq, gte, inArray, sql } from 'drizzle-orm';
 import { db } from './db';
+import type { Actor } from './actor';
 import { blackout, booking, room, user } from './db/schema';
 import { audit } from './audit';
-import type { SessionUser } from './auth';
 
 export type BlackoutRow = typeof blackout.$inferSelect;
 
-interface Actor {
-	user: Pick<SessionUser, 'id'>;
-	ip?: string | null;
-}
-
 /** Blackouts that end today or later, soonest first. */
-export async function listUpcoming(today: string): Promise<BlackoutRow[]> {
-	return db.select().from(blackout).where(gte(blackout.endsOn, today)).orderBy(asc(blackout.startsOn));
+export async function listUpcoming(studioId: string, today: string): Promise<BlackoutRow[]> {
+	return db
+		.select()
+		.from(blackout)
+		.where(and(eq(blackout.studioId, studioId), gte(blackout.endsOn, today)))
+		.orderBy(asc(blackout.startsOn));
 }
 
 /** Confirmed bookings that start on a local date from `from` to `to` in the studio's zone. */
-export async function confirmedBookingsOn(from: string, to: string, timeZone: string) {
+export async function confirmedBookingsOn(studioId: string, from: string, to: string, timeZone: string) {
 	const localDay = sql`(${booking.startsAt} at time zone ${timeZone})::date`;
 	return db
 		.select({
@@ -34,7 +33,13 @@ export async function confirmedBookingsOn(from: string, to: string, timeZone: st
 		.from(booking)
 		.innerJoin(room, eq(room.id, booking.roomId))
 		.innerJoin(user, eq(user.id, booking.artistId))
-		.where(and(inArray(booking.status, ['confirmed']), sql`${localDay} between ${from}::date and ${to}::date`))
+		.where(
+			and(
+				eq(booking.studioId, studioId),
+				inArray(booking.status, ['confirmed']),
+				sql`${localDay} between ${from}::date and ${to}::date`
+			)
+		)
 		.orderBy(asc(booking.startsAt));
 }
 
@@ -44,9 +49,10 @@ export async function addBlackout(
 ): Promise<BlackoutRow> {
 	const [row] = await db
 		.insert(blackout)
-		.values({ ...values, createdBy: actor.user.id })
+		.values({ ...values, studioId: actor.studioId, createdBy: actor.user.id })
 		.returning();
 	await audit({
+		studioId: actor.studioId,
 		actorId: actor.user.id,
 		action: 'blackout.added',
 		entity: 'blackout',
@@ -58,9 +64,13 @@ export async function addBlackout(
 }
 
 export async function removeBlackout(actor: Actor, id: string): Promise<BlackoutRow | null> {
-	const [row] = await db.delete(blackout).where(eq(blackout.id, id)).returning();
+	const [row] = await db
+		.delete(blackout)
+		.where(and(eq(blackout.studioId, actor.studioId), eq(blackout.id, id)))
+		.returning();
 	if (!row) return null;
 	await audit({
+		studioId: actor.studioId,
 		actorId: actor.user.id,
 		action: 'blackout.removed',
 		entity: 'blackout',

@@ -46,7 +46,15 @@ export async function ensureDemoLedger(now = new Date()): Promise<number> {
 				run: async (t) => {
 					const [p] = await t
 						.insert(payment)
-						.values({ bookingId: b.id, kind: 'deposit', amount: b.deposit, currency: b.currency, status: 'paid', paidAt })
+						.values({
+							studioId: b.studioId,
+							bookingId: b.id,
+							kind: 'deposit',
+							amount: b.deposit,
+							currency: b.currency,
+							status: 'paid',
+							paidAt
+						})
 						.returning({ id: payment.id });
 					await issueDepositInvoice(t, { paymentId: p!.id, issuedAt: paidAt });
 				}
@@ -61,6 +69,7 @@ export async function ensureDemoLedger(now = new Date()): Promise<number> {
 					// The earliest finished session has its balance paid; the later one is still owed.
 					if (i === 0 && final.amountDue > 0) {
 						await t.insert(payment).values({
+							studioId: b.studioId,
 							bookingId: b.id,
 							kind: 'balance',
 							amount: final.amountDue,

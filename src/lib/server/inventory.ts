@@ -2,9 +2,9 @@
 // touches only future quotes: a booking keeps the quote it was made with (booking.quote).
 import { and, asc, eq, isNotNull } from 'drizzle-orm';
 import { db } from './db';
+import type { Actor } from './actor';
 import { gearItem, room } from './db/schema';
 import { audit } from './audit';
-import type { SessionUser } from './auth';
 
 export type GearRow = typeof gearItem.$inferSelect;
 
@@ -28,11 +28,6 @@ export interface GearValues {
 	caution: string;
 }
 
-interface Actor {
-	user: Pick<SessionUser, 'id'>;
-	ip?: string | null;
-}
-
 function changes<T extends object>(before: T, after: Partial<T>): Record<string, { from: unknown; to: unknown }> {
 	const out: Record<string, { from: unknown; to: unknown }> = {};
 	for (const key of Object.keys(after) as (keyof T)[]) {
@@ -43,22 +38,36 @@ function changes<T extends object>(before: T, after: Partial<T>): Record<string,
 
 /** Saves a room's name, description, rate card and whether it is bookable; false when there is no such room. */
 export async function updateRoom(actor: Actor, id: string, values: RoomValues): Promise<boolean> {
-	const [before] = await db.select().from(room).where(eq(room.id, id));
+	const [before] = await db
+		.select()
+		.from(room)
+		.where(and(eq(room.studioId, actor.studioId), eq(room.id, id)));
 	if (!before) return false;
 	const diff = changes(before, values);
 	if (Object.keys(diff).length === 0) return true;
-	await db.update(room).set(values).where(eq(room.id, id));
-	await audit({ actorId: actor.user.id, action: 'room.changed', entity: 'room', entityId: id, data: diff, ip: actor.ip });
+	await db
+		.update(room)
+		.set(values)
+		.where(and(eq(room.studioId, actor.studioId), eq(room.id, id)));
+	await audit({
+		studioId: actor.studioId,
+		actorId: actor.user.id,
+		action: 'room.changed',
+		entity: 'room',
+		entityId: id,
+		data: diff,
+		ip: actor.ip
+	});
 	return true;
 }
 
 /** Every piece of gear, retired ones last. */
-export async function listGear(): Promise<GearRow[]> {
-	return db.select().from(gearItem).orderBy(asc(gearItem.category), asc(gearItem.name));
+export async function listGear(studioId: string): Promise<GearRow[]> {
+	return db.select().from(gearItem).where(eq(gearItem.studioId, studioId)).orderBy(asc(gearItem.category), asc(gearItem.name));
 }
 
 /** The gear an artist may hire with a room (active, hireable, kept in a room), for the booking page. */
-export async function listHireableGear() {
+export async function listHireableGear(studioId: string) {
 	return db
 		.select({
 			id: gearItem.id,
@@ -70,20 +79,29 @@ export async function listHireableGear() {
 			homeRoomId: gearItem.homeRoomId
 		})
 		.from(gearItem)
-		.where(and(eq(gearItem.active, true), eq(gearItem.hireable, true), isNotNull(gearItem.homeRoomId)))
+		.where(
+			and(eq(gearItem.studioId, studioId), eq(gearItem.active, true), eq(gearItem.hireable, true), isNotNull(gearItem.homeRoomId))
+		)
 		.orderBy(asc(gearItem.category), asc(gearItem.name));
 }
 
-async function roomExists(id: string | null): Promise<boolean> {
+async function roomExists(studioId: string, id: string | null): Promise<boolean> {
 	if (!id) return true;
-	const [row] = await db.select({ id: room.id }).from(room).where(eq(room.id, id));
+	const [row] = await db
+		.select({ id: room.id })
+		.from(room)
+		.where(and(eq(room.studioId, studioId), eq(room.id, id)));
 	return !!row;
 }
 
 export async function addGear(actor: Actor, values: GearValues): Promise<GearRow | null> {
-	if (!(await roomExists(values.homeRoomId))) return null;
-	const [row] = await db.insert(gearItem).values(values).returning();
+	if (!(await roomExists(actor.studioId, values.homeRoomId))) return null;
+	const [row] = await db
+		.insert(gearItem)
+		.values({ ...values, studioId: actor.studioId })
+		.returning();
 	await audit({
+		studioId: actor.studioId,
 		actorId: actor.user.id,
 		action: 'gear.added',
 		entity: 'gear_item',
@@ -96,12 +114,26 @@ export async function addGear(actor: Actor, values: GearValues): Promise<GearRow
 
 /** 'missing' when there is no such piece of gear or home room. */
 export async function updateGear(actor: Actor, id: string, values: GearValues): Promise<'saved' | 'missing'> {
-	const [before] = await db.select().from(gearItem).where(eq(gearItem.id, id));
-	if (!before || !(await roomExists(values.homeRoomId))) return 'missing';
+	const [before] = await db
+		.select()
+		.from(gearItem)
+		.where(and(eq(gearItem.studioId, actor.studioId), eq(gearItem.id, id)));
+	if (!before || !(await roomExists(actor.studioId, values.homeRoomId))) return 'missing';
 	const diff = changes(before, values);
 	if (Object.keys(diff).length === 0) return 'saved';
-	await db.update(gearItem).set(values).where(eq(gearItem.id, id));
-	await audit({ actorId: actor.user.id, action: 'gear.changed', entity: 'gear_item', entityId: id, data: diff, ip: actor.ip });
+	await db
+		.update(gearItem)
+		.set(values)
+		.where(and(eq(gearItem.studioId, actor.studioId), eq(gearItem.id, id)));
+	await audit({
+		studioId: actor.studioId,
+		actorId: actor.user.id,
+		action: 'gear.changed',
+		entity: 'gear_item',
+		entityId: id,
+		data: diff,
+		ip: actor.ip
+	});
 	return 'saved';
 }
 
@@ -110,9 +142,14 @@ export async function updateGear(actor: Actor, id: string, values: GearValues): 
  * it stays on the bookings and invoices that already name it, so it is never deleted.
  */
 export async function setGearActive(actor: Actor, id: string, active: boolean): Promise<GearRow | null> {
-	const [row] = await db.update(gearItem).set({ active }).where(eq(gearItem.id, id)).returning();
+	const [row] = await db
+		.update(gearItem)
+		.set({ active })
+		.where(and(eq(gearItem.studioId, actor.studioId), eq(gearItem.id, id)))
+		.returning();
 	if (!row) return null;
 	await audit({
+		studioId: actor.studioId,
 		actorId: actor.user.id,
 		action: active ? 'gear.restored' : 'gear.retired',
 		entity: 'gear_item',

@@ -179,11 +179,14 @@ async function previousRecall(artistId: string, bookingId: string, before: Date)
 
 /** Writes (or rewrites) the recall sheet of a session. Engineers and the owner only. */
 export async function saveRecall(bookingId: string, authorId: string, channels: RecallChannel[], notes: string) {
-	const [b] = await db.select({ artistId: booking.artistId }).from(booking).where(eq(booking.id, bookingId));
+	const [b] = await db
+		.select({ studioId: booking.studioId, artistId: booking.artistId })
+		.from(booking)
+		.where(eq(booking.id, bookingId));
 	if (!b) return false;
 	await db
 		.insert(recallSheet)
-		.values({ bookingId, artistId: b.artistId, authorId, channels, notes })
+		.values({ studioId: b.studioId, bookingId, artistId: b.artistId, authorId, channels, notes })
 		.onConflictDoUpdate({ target: recallSheet.bookingId, set: { channels, notes, authorId, updatedAt: new Date() } });
 	return true;
 }

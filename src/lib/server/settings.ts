@@ -1,11 +1,11 @@
 // The owner's rates and policy: the studio row and its surcharge rules. Changing them touches
 // only future quotes; a booking keeps the quote it was made with (booking.quote).
-import { asc, eq, sql } from 'drizzle-orm';
+import { and, asc, eq, sql } from 'drizzle-orm';
 import { db } from './db';
+import type { Actor } from './actor';
 import { studio, surchargeRule } from './db/schema';
 import { audit } from './audit';
 import { getStudio } from './studio';
-import type { SessionUser } from './auth';
 import type { CancellationRung, OpeningHours } from '$lib/domain/types';
 
 export type SurchargeRow = typeof surchargeRule.$inferSelect;
@@ -41,13 +41,12 @@ export interface SurchargeValues {
 	active: boolean;
 }
 
-interface Actor {
-	user: Pick<SessionUser, 'id'>;
-	ip?: string | null;
-}
-
-export async function listSurcharges(): Promise<SurchargeRow[]> {
-	return db.select().from(surchargeRule).orderBy(asc(surchargeRule.sortOrder), asc(surchargeRule.label));
+export async function listSurcharges(studioId: string): Promise<SurchargeRow[]> {
+	return db
+		.select()
+		.from(surchargeRule)
+		.where(eq(surchargeRule.studioId, studioId))
+		.orderBy(asc(surchargeRule.sortOrder), asc(surchargeRule.label));
 }
 
 function changes<T extends object>(before: T, after: Partial<T>): Record<string, { from: unknown; to: unknown }> {
@@ -62,16 +61,17 @@ function changes<T extends object>(before: T, after: Partial<T>): Record<string,
 
 /** Saves the policy; returns the names of the fields that changed (none: nothing written). */
 export async function updatePolicy(actor: Actor, values: PolicyValues): Promise<string[]> {
-	const before = await getStudio();
+	const before = await getStudio(actor.studioId);
 	const diff = changes(before, values);
 	const changed = Object.keys(diff);
 	if (changed.length === 0) return [];
-	await db.update(studio).set(values).where(eq(studio.id, 1));
+	await db.update(studio).set(values).where(eq(studio.id, actor.studioId));
 	await audit({
+		studioId: actor.studioId,
 		actorId: actor.user.id,
 		action: 'studio.policy_changed',
 		entity: 'studio',
-		entityId: '1',
+		entityId: actor.studioId,
 		data: diff,
 		ip: actor.ip
 	});
@@ -80,12 +80,19 @@ export async function updatePolicy(actor: Actor, values: PolicyValues): Promise<
 
 /** Saves one surcharge rule; false when there is no such rule. */
 export async function updateSurcharge(actor: Actor, id: string, values: SurchargeValues): Promise<boolean> {
-	const [before] = await db.select().from(surchargeRule).where(eq(surchargeRule.id, id));
+	const [before] = await db
+		.select()
+		.from(surchargeRule)
+		.where(and(eq(surchargeRule.studioId, actor.studioId), eq(surchargeRule.id, id)));
 	if (!before) return false;
 	const diff = changes(before, values);
 	if (Object.keys(diff).length === 0) return true;
-	await db.update(surchargeRule).set(values).where(eq(surchargeRule.id, id));
+	await db
+		.update(surchargeRule)
+		.set(values)
+		.where(and(eq(surchargeRule.studioId, actor.studioId), eq(surchargeRule.id, id)));
 	await audit({
+		studioId: actor.studioId,
 		actorId: actor.user.id,
 		action: 'surcharge.changed',
 		entity: 'surcharge_rule',
@@ -99,9 +106,14 @@ export async function updateSurcharge(actor: Actor, id: string, values: Surcharg
 export async function addSurcharge(actor: Actor, values: SurchargeValues): Promise<SurchargeRow> {
 	const [row] = await db
 		.insert(surchargeRule)
-		.values({ ...values, sortOrder: sql`(select coalesce(max(${surchargeRule.sortOrder}), 0) + 1 from ${surchargeRule})` })
+		.values({
+			...values,
+			studioId: actor.studioId,
+			sortOrder: sql`(select coalesce(max(${surchargeRule.sortOrder}), 0) + 1 from ${surchargeRule} where ${surchargeRule.studioId} = ${actor.studioId})`
+		})
 		.returning();
 	await audit({
+		studioId: actor.studioId,
 		actorId: actor.user.id,
 		action: 'surcharge.added',
 		entity: 'surcharge_rule',

@@ -1,16 +1,26 @@
 // The studio's settings as the domain rules want them (StudioPolicy), and its rooms.
-import { asc, eq } from 'drizzle-orm';
+import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
-import { room, studio, surchargeRule } from './db/schema';
+import { organization, room, studio, surchargeRule } from './db/schema';
 import type { RoomRates, StudioPolicy } from '$lib/domain/types';
 
 export type StudioRow = typeof studio.$inferSelect;
 export type RoomRow = typeof room.$inferSelect;
 
-export async function getStudio(): Promise<StudioRow> {
-	const [row] = await db.select().from(studio).where(eq(studio.id, 1));
+/**
+ * A studio by its id; without one, the studio the app serves today (the first one made) until the
+ * pages are routed by studio.
+ */
+export async function getStudio(id?: string): Promise<StudioRow> {
+	const [row] = await db
+		.select({ studio })
+		.from(studio)
+		.innerJoin(organization, eq(organization.id, studio.id))
+		.where(id === undefined ? undefined : eq(studio.id, id))
+		.orderBy(asc(organization.createdAt), asc(organization.id))
+		.limit(1);
 	if (!row) throw new Error('The studio is not set up yet: run the seed (npm start does).');
-	return row;
+	return row.studio;
 }
 
 export function policyFrom(row: StudioRow, surcharges: (typeof surchargeRule.$inferSelect)[]): StudioPolicy {
@@ -47,21 +57,26 @@ export function policyFrom(row: StudioRow, surcharges: (typeof surchargeRule.$in
 	};
 }
 
-export async function getPolicy(): Promise<{ studio: StudioRow; policy: StudioPolicy }> {
-	const [row, surcharges] = await Promise.all([
-		getStudio(),
-		db.select().from(surchargeRule).orderBy(asc(surchargeRule.sortOrder))
-	]);
+export async function getPolicy(id?: string): Promise<{ studio: StudioRow; policy: StudioPolicy }> {
+	const row = await getStudio(id);
+	const surcharges = await db
+		.select()
+		.from(surchargeRule)
+		.where(eq(surchargeRule.studioId, row.id))
+		.orderBy(asc(surchargeRule.sortOrder));
 	return { studio: row, policy: policyFrom(row, surcharges) };
 }
 
-export async function listRooms(options: { includeInactive?: boolean } = {}): Promise<RoomRow[]> {
-	const rows = await db.select().from(room).orderBy(asc(room.sortOrder), asc(room.name));
+export async function listRooms(studioId: string, options: { includeInactive?: boolean } = {}): Promise<RoomRow[]> {
+	const rows = await db.select().from(room).where(eq(room.studioId, studioId)).orderBy(asc(room.sortOrder), asc(room.name));
 	return options.includeInactive ? rows : rows.filter((r) => r.active);
 }
 
-export async function getRoomBySlug(slug: string): Promise<RoomRow | undefined> {
-	const [row] = await db.select().from(room).where(eq(room.slug, slug));
+export async function getRoomBySlug(studioId: string, slug: string): Promise<RoomRow | undefined> {
+	const [row] = await db
+		.select()
+		.from(room)
+		.where(and(eq(room.studioId, studioId), eq(room.slug, slug)));
 	return row?.active ? row : undefined;
 }
 

@@ -251,7 +251,7 @@ export async function save(
 		const outcome = await db.transaction(async (tx) => {
 			// One upload at a time per booking, so two at once cannot both squeeze under the limits.
 			const [b] = await tx
-				.select({ status: booking.status, holdExpiresAt: booking.holdExpiresAt })
+				.select({ studioId: booking.studioId, status: booking.status, holdExpiresAt: booking.holdExpiresAt })
 				.from(booking)
 				.where(eq(booking.id, bookingId))
 				.for('update');
@@ -262,6 +262,7 @@ export async function save(
 			const [row] = await tx
 				.insert(upload)
 				.values({
+					studioId: b.studioId,
 					bookingId,
 					uploaderId: actor.id,
 					originalName: name,

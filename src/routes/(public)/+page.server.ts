@@ -2,7 +2,8 @@ import { getStudio, listRooms, publicRoom } from '$lib/server/studio';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
-	const [studio, rooms] = await Promise.all([getStudio(), listRooms()]);
+	const studio = await getStudio();
+	const rooms = await listRooms(studio.id);
 	return {
 		about: {
 			tagline: studio.tagline,

@@ -38,7 +38,7 @@ export async function closedDays(ctx: PricingContext, from: string, to: string):
 	const rows = await db
 		.select()
 		.from(blackout)
-		.where(and(lte(blackout.startsOn, to), gte(blackout.endsOn, from)));
+		.where(and(eq(blackout.studioId, ctx.studio.id), lte(blackout.startsOn, to), gte(blackout.endsOn, from)));
 	const out: Blackout[] = [];
 	for (const r of rows) {
 		for (let d = r.startsOn > from ? r.startsOn : from; d <= r.endsOn && d <= to; d = addDays(d, 1)) {
@@ -97,9 +97,9 @@ export async function availability(
 	if (days > AVAILABILITY_MAX_DAYS)
 		return { ok: false, fields: { to: [`Ask for at most ${AVAILABILITY_MAX_DAYS} days at a time.`] } };
 
-	const roomRow = await getRoomBySlug(params.room);
-	if (!roomRow) return { ok: false, fields: { room: ['There is no room by that name.'] } };
 	const ctx = await pricingContext();
+	const roomRow = await getRoomBySlug(ctx.studio.id, params.room);
+	if (!roomRow) return { ok: false, fields: { room: ['There is no room by that name.'] } };
 	const tz = ctx.policy.timeZone;
 	const window = instantsAround(from, to);
 	const [busy, blackouts] = await Promise.all([
@@ -139,7 +139,7 @@ export async function nearestStarts(
 	const [busy, blackouts, resources] = await Promise.all([
 		busyIntervals(roomRow.id, windowStart, windowEnd, now),
 		closedDays(ctx, from, to),
-		resourceCalendar(needs, windowStart, windowEnd, now)
+		resourceCalendar(ctx.studio.id, needs, windowStart, windowEnd, now)
 	]);
 	// Closest first, an earlier start winning a tie, and only where the engineer and gear are free too.
 	const resourcesFree = (s: Date) =>
@@ -165,7 +165,7 @@ export async function nearestStarts(
 export async function rebookable(b: BookingDetail, now = new Date()): Promise<{ free: true } | { free: false; taken: Taken }> {
 	const ctx = await pricingContext();
 	const tz = ctx.policy.timeZone;
-	const roomRow = await getRoomBySlug(b.roomSlug);
+	const roomRow = await getRoomBySlug(ctx.studio.id, b.roomSlug);
 	if (!roomRow) return { free: false, taken: 'room' };
 	const start = b.startsAt.getTime();
 	const minutes = minutesBetween(b.startsAt, b.endsAt);
@@ -193,12 +193,13 @@ export async function rebookable(b: BookingDetail, now = new Date()): Promise<{ 
 	const gearIds = b.gear.map((g) => g.id);
 	const [resources, hireable] = await Promise.all([
 		resourceCalendar(
+			ctx.studio.id,
 			{ engineer: !!b.engineerId, gearIds, exceptBookingId: b.id },
 			shiftDays(start, -1),
 			shiftDays(until, 1),
 			now
 		),
-		hireableGear(gearIds)
+		hireableGear(ctx.studio.id, gearIds)
 	]);
 	const taken = resources.taken(start, until);
 	if (taken === 'engineer') return { free: false, taken };

@@ -61,7 +61,7 @@ export async function createHold(
 	for (let attempt = 0; attempt < 6; attempt++) {
 		let engineerId: string | null = null;
 		if (req.engineer) {
-			const engineers = await resourceCalendar({ engineer: true }, start, busyUntil, now);
+			const engineers = await resourceCalendar(roomRow.studioId, { engineer: true }, start, busyUntil, now);
 			engineerId = engineers.freeEngineer(start.getTime(), busyUntil.getTime());
 			if (!engineerId) return conflict('engineer');
 		}
@@ -80,6 +80,7 @@ export async function createHold(
 				const [row] = await tx
 					.insert(booking)
 					.values({
+						studioId: roomRow.studioId,
 						reference: newReference(),
 						roomId: roomRow.id,
 						engineerId,
@@ -100,7 +101,16 @@ export async function createHold(
 				if (gear.length) {
 					await tx
 						.insert(bookingGear)
-						.values(gear.map((g) => ({ bookingId: row!.id, gearItemId: g.id, hireFee: g.hireFee, startsAt: start, busyUntil })));
+						.values(
+							gear.map((g) => ({
+								studioId: roomRow.studioId,
+								bookingId: row!.id,
+								gearItemId: g.id,
+								hireFee: g.hireFee,
+								startsAt: start,
+								busyUntil
+							}))
+						);
 				}
 				return row!;
 			});

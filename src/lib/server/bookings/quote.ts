@@ -20,7 +20,7 @@ export type Priced = { ok: true; quote: Quote; room: RoomRow; start: Date; end: 
 /** Checks a parsed request against the room, the policy and the calendar, and prices it. */
 export async function priceRequest(req: BookingRequest, ctx: PricingContext, now = new Date()): Promise<Priced> {
 	const tz = ctx.policy.timeZone;
-	const roomRow = await getRoomBySlug(req.room);
+	const roomRow = await getRoomBySlug(ctx.studio.id, req.room);
 	const fields: FieldErrors = {};
 	if (!roomRow) fields.room = ['There is no room by that name.'];
 	const { start, end, fields: timeFields } = requestInstants(req, tz);
@@ -40,7 +40,7 @@ export async function priceRequest(req: BookingRequest, ctx: PricingContext, now
 		);
 
 	const unique = [...new Set(req.gear)];
-	const gear = await hireableGear(unique);
+	const gear = await hireableGear(ctx.studio.id, unique);
 	if (gear.length !== unique.length) fields.gear = ['Some of the chosen gear cannot be hired.'];
 	if (Object.keys(fields).length) return invalidRequest(fields);
 

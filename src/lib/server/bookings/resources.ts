@@ -4,7 +4,7 @@
 // busy-until > new start.
 import { and, asc, eq, gt, inArray, lt, sql } from 'drizzle-orm';
 import { db } from '../db';
-import { booking, bookingGear, gearItem, user } from '../db/schema';
+import { booking, bookingGear, gearItem, member, user } from '../db/schema';
 import { occupying } from './occupancy';
 
 /** What a booking needs besides its room. */
@@ -18,13 +18,15 @@ export interface BookingNeeds {
 export type Taken = 'room' | 'engineer' | 'gear';
 export type GearRow = typeof gearItem.$inferSelect;
 
-/** The pieces of gear among `ids` that can be hired now. */
-export async function hireableGear(ids: readonly string[]): Promise<GearRow[]> {
+/** The pieces of a studio's gear among `ids` that can be hired now. */
+export async function hireableGear(studioId: string, ids: readonly string[]): Promise<GearRow[]> {
 	if (!ids.length) return [];
 	return db
 		.select()
 		.from(gearItem)
-		.where(and(inArray(gearItem.id, [...ids]), eq(gearItem.active, true), eq(gearItem.hireable, true)));
+		.where(
+			and(eq(gearItem.studioId, studioId), inArray(gearItem.id, [...ids]), eq(gearItem.active, true), eq(gearItem.hireable, true))
+		);
 }
 
 export interface ResourceCalendar {
@@ -37,11 +39,24 @@ export interface ResourceCalendar {
 const overlaps = (r: { start: Date; end: Date }, start: number, busyUntil: number) =>
 	r.start.getTime() < busyUntil && r.end.getTime() > start;
 
-/** The engineers' and the gear's bookings over [from, to), read once. */
-export async function resourceCalendar(needs: BookingNeeds, from: Date, to: Date, now: Date): Promise<ResourceCalendar> {
+/** A studio's engineers' and gear's bookings over [from, to), read once. */
+export async function resourceCalendar(
+	studioId: string,
+	needs: BookingNeeds,
+	from: Date,
+	to: Date,
+	now: Date
+): Promise<ResourceCalendar> {
 	const except = needs.exceptBookingId ? sql`${booking.id} <> ${needs.exceptBookingId}` : undefined;
+	// The studio's engineers, the longest in its team first. Their sessions at other studios are
+	// not this studio's to see, and do not block it.
 	const engineers = needs.engineer
-		? await db.select({ id: user.id }).from(user).where(eq(user.role, 'engineer')).orderBy(asc(user.createdAt))
+		? await db
+				.select({ id: member.userId })
+				.from(member)
+				.innerJoin(user, eq(user.id, member.userId))
+				.where(and(eq(member.organizationId, studioId), eq(member.role, 'engineer')))
+				.orderBy(asc(member.createdAt), asc(user.createdAt))
 		: [];
 	const [engineerRows, gearRows] = await Promise.all([
 		engineers.length
@@ -50,6 +65,7 @@ export async function resourceCalendar(needs: BookingNeeds, from: Date, to: Date
 					.from(booking)
 					.where(
 						and(
+							eq(booking.studioId, studioId),
 							inArray(
 								booking.engineerId,
 								engineers.map((e) => e.id)

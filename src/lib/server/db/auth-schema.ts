@@ -1,6 +1,9 @@
-// Tables that better-auth reads and writes (its core schema: user, session, account, verification),
-// plus the role that Slateroom adds to each user. Column names follow better-auth's field names.
-import { pgTable, text, timestamp, boolean, index } from 'drizzle-orm/pg-core';
+// Tables that better-auth reads and writes (its core schema: user, session, account, verification,
+// and its organization plugin's: organization, member, invitation), plus the role that Slateroom
+// adds to each user. Column names follow better-auth's field names. A studio is an organization;
+// its settings live in the studio table, keyed by the organization's id.
+import { sql } from 'drizzle-orm';
+import { pgTable, text, timestamp, boolean, index, uniqueIndex, check } from 'drizzle-orm/pg-core';
 
 export const user = pgTable('user', {
 	id: text('id').primaryKey(),
@@ -31,7 +34,9 @@ export const session = pgTable(
 		userAgent: text('user_agent'),
 		userId: text('user_id')
 			.notNull()
-			.references(() => user.id, { onDelete: 'cascade' })
+			.references(() => user.id, { onDelete: 'cascade' }),
+		/** The studio a staff member works in now (the organization plugin's active organization). */
+		activeOrganizationId: text('active_organization_id')
 	},
 	(t) => [index('session_user_id_idx').on(t.userId)]
 );
@@ -74,4 +79,61 @@ export const verification = pgTable(
 			.notNull()
 	},
 	(t) => [index('verification_identifier_idx').on(t.identifier)]
+);
+
+/** A studio as better-auth's organization plugin knows it: its name and its short name (slug). */
+export const organization = pgTable('organization', {
+	id: text('id').primaryKey(),
+	name: text('name').notNull(),
+	/** The studio's short name: its storefront's path, e.g. /hollow-pine. */
+	slug: text('slug').notNull().unique(),
+	logo: text('logo'),
+	metadata: text('metadata'),
+	createdAt: timestamp('created_at', { withTimezone: true }).defaultNow().notNull()
+});
+
+/** The roles a person can hold in a studio's team (an artist needs no membership). */
+export const STAFF_ROLES = ['owner', 'engineer', 'accountant'] as const;
+export type StaffRole = (typeof STAFF_ROLES)[number];
+
+/** A person in a studio's team, with their role there. */
+export const member = pgTable(
+	'member',
+	{
+		id: text('id').primaryKey(),
+		organizationId: text('organization_id')
+			.notNull()
+			.references(() => organization.id, { onDelete: 'cascade' }),
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		role: text('role').notNull(),
+		createdAt: timestamp('created_at', { withTimezone: true }).defaultNow().notNull()
+	},
+	(t) => [
+		uniqueIndex('member_organization_user_idx').on(t.organizationId, t.userId),
+		index('member_user_idx').on(t.userId),
+		check('member_role_known', sql`${t.role} in ('owner', 'engineer', 'accountant')`)
+	]
+);
+
+/** An e-mailed invitation to join a studio's team with a role. */
+export const invitation = pgTable(
+	'invitation',
+	{
+		id: text('id').primaryKey(),
+		organizationId: text('organization_id')
+			.notNull()
+			.references(() => organization.id, { onDelete: 'cascade' }),
+		email: text('email').notNull(),
+		role: text('role'),
+		/** pending, accepted, rejected or canceled (better-auth's words). */
+		status: text('status').notNull().default('pending'),
+		expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+		createdAt: timestamp('created_at', { withTimezone: true }).defaultNow().notNull(),
+		inviterId: text('inviter_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' })
+	},
+	(t) => [index('invitation_organization_idx').on(t.organizationId), index('invitation_email_idx').on(t.email)]
 );

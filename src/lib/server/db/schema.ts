@@ -19,9 +19,10 @@ import {
 	primaryKey,
 	check,
 	serial,
-	type AnyPgColumn
+	foreignKey,
+	unique
 } from 'drizzle-orm/pg-core';
-import { user } from './auth-schema';
+import { organization, user } from './auth-schema';
 import type { CancellationRung, OpeningHours } from '$lib/domain/types';
 // A relative import: drizzle-kit and the scripts load this file without SvelteKit's aliases.
 import { BOOKING_STATUSES, type BookingStatus } from '../../domain/lifecycle';
@@ -31,16 +32,28 @@ export * from './auth-schema';
 const ts = (name: string) => timestamp(name, { withTimezone: true });
 const money = (name: string) => bigint(name, { mode: 'number' });
 const created = () => ts('created_at').defaultNow().notNull();
+/** The studio a row belongs to. Every table of a studio's data carries it. */
+const studioId = () =>
+	text('studio_id')
+		.notNull()
+		.references(() => studio.id);
 const updated = () =>
 	ts('updated_at')
 		.defaultNow()
 		.$onUpdate(() => new Date())
 		.notNull();
 
-/** The one studio this installation runs: identity, tax, time and the booking policy. */
+/**
+ * A studio's settings: identity, tax, time and the booking policy. Its id is its organization's
+ * (better-auth's organization plugin keeps the name, short name and team).
+ */
 export const studio = pgTable('studio', {
-	id: integer('id').primaryKey().default(1),
+	id: text('id')
+		.primaryKey()
+		.references(() => organization.id),
 	name: text('name').notNull(),
+	/** Seen by anyone outside the team only once published. */
+	published: boolean('published').notNull().default(false),
 	tagline: text('tagline').notNull().default(''),
 	description: text('description').notNull().default(''),
 	addressLines: text('address_lines')
@@ -75,27 +88,33 @@ export const studio = pgTable('studio', {
 	updatedAt: updated()
 });
 
-export const surchargeRule = pgTable('surcharge_rule', {
-	id: uuid('id').primaryKey().defaultRandom(),
-	label: text('label').notNull(),
-	/** 'window' (weekdays and a local time span) or 'holiday' (the country's public holidays). */
-	kind: text('kind').notNull(),
-	percentBp: integer('percent_bp').notNull(),
-	weekdays: integer('weekdays')
-		.array()
-		.notNull()
-		.default(sql`'{}'::int[]`),
-	fromMinute: integer('from_minute').notNull().default(0),
-	toMinute: integer('to_minute').notNull().default(1440),
-	active: boolean('active').notNull().default(true),
-	sortOrder: integer('sort_order').notNull().default(0)
-});
+export const surchargeRule = pgTable(
+	'surcharge_rule',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		studioId: studioId(),
+		label: text('label').notNull(),
+		/** 'window' (weekdays and a local time span) or 'holiday' (the country's public holidays). */
+		kind: text('kind').notNull(),
+		percentBp: integer('percent_bp').notNull(),
+		weekdays: integer('weekdays')
+			.array()
+			.notNull()
+			.default(sql`'{}'::int[]`),
+		fromMinute: integer('from_minute').notNull().default(0),
+		toMinute: integer('to_minute').notNull().default(1440),
+		active: boolean('active').notNull().default(true),
+		sortOrder: integer('sort_order').notNull().default(0)
+	},
+	(t) => [index('surcharge_rule_studio_idx').on(t.studioId, t.sortOrder)]
+);
 
 export const room = pgTable(
 	'room',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
-		slug: text('slug').notNull().unique(),
+		studioId: studioId(),
+		slug: text('slug').notNull(),
 		name: text('name').notNull(),
 		description: text('description').notNull().default(''),
 		capacity: integer('capacity').notNull().default(1),
@@ -107,7 +126,11 @@ export const room = pgTable(
 		createdAt: created(),
 		updatedAt: updated()
 	},
-	(t) => [check('room_rates_non_negative', sql`${t.hourly} >= 0 and ${t.halfDay} >= 0 and ${t.fullDay} >= 0`)]
+	(t) => [
+		unique('room_studio_id_key').on(t.studioId, t.id),
+		uniqueIndex('room_studio_slug_idx').on(t.studioId, t.slug),
+		check('room_rates_non_negative', sql`${t.hourly} >= 0 and ${t.halfDay} >= 0 and ${t.fullDay} >= 0`)
+	]
 );
 
 /** Days the studio is closed: one day or a range of local dates, both ends included. */
@@ -115,24 +138,26 @@ export const blackout = pgTable(
 	'blackout',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
+		studioId: studioId(),
 		startsOn: date('starts_on').notNull(),
 		endsOn: date('ends_on').notNull(),
 		reason: text('reason').notNull().default(''),
 		createdBy: text('created_by').references(() => user.id, { onDelete: 'set null' }),
 		createdAt: created()
 	},
-	(t) => [check('blackout_range', sql`${t.endsOn} >= ${t.startsOn}`)]
+	(t) => [index('blackout_studio_idx').on(t.studioId, t.startsOn), check('blackout_range', sql`${t.endsOn} >= ${t.startsOn}`)]
 );
 
 export const gearItem = pgTable(
 	'gear_item',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
+		studioId: studioId(),
 		name: text('name').notNull(),
 		/** A category such as 'microphone', 'preamp', 'compressor', 'instrument', 'monitoring'. */
 		category: text('category').notNull(),
 		description: text('description').notNull().default(''),
-		homeRoomId: uuid('home_room_id').references(() => room.id, { onDelete: 'set null' }),
+		homeRoomId: uuid('home_room_id'),
 		hireFee: money('hire_fee').notNull().default(0),
 		hireable: boolean('hireable').notNull().default(false),
 		notes: text('notes').notNull().default(''),
@@ -142,7 +167,14 @@ export const gearItem = pgTable(
 		createdAt: created(),
 		updatedAt: updated()
 	},
-	(t) => [check('gear_fee_non_negative', sql`${t.hireFee} >= 0`)]
+	(t) => [
+		unique('gear_item_studio_id_key').on(t.studioId, t.id),
+		index('gear_item_studio_idx').on(t.studioId, t.category),
+		// A gear item's home is a room of its own studio. Removing the room only clears the home
+		// (PostgreSQL 15's ON DELETE SET NULL with a column list, in the migration).
+		foreignKey({ name: 'gear_item_home_room_fk', columns: [t.studioId, t.homeRoomId], foreignColumns: [room.studioId, room.id] }),
+		check('gear_fee_non_negative', sql`${t.hireFee} >= 0`)
+	]
 );
 
 // A booking's statuses and their moves are the domain's (src/lib/domain/lifecycle.ts). A hold keeps its
@@ -153,11 +185,11 @@ export const booking = pgTable(
 	'booking',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
+		studioId: studioId(),
 		/** Short reference shown to people, e.g. "7K3Q-XM2P". */
-		reference: text('reference').notNull().unique(),
-		roomId: uuid('room_id')
-			.notNull()
-			.references(() => room.id),
+		reference: text('reference').notNull(),
+		roomId: uuid('room_id').notNull(),
+		/** The engineer: a member of the studio's team when booked (a trigger checks), kept after they leave. */
 		engineerId: text('engineer_id').references(() => user.id),
 		artistId: text('artist_id')
 			.notNull()
@@ -185,6 +217,10 @@ export const booking = pgTable(
 		updatedAt: updated()
 	},
 	(t) => [
+		unique('booking_studio_id_key').on(t.studioId, t.id),
+		uniqueIndex('booking_studio_reference_idx').on(t.studioId, t.reference),
+		foreignKey({ name: 'booking_room_fk', columns: [t.studioId, t.roomId], foreignColumns: [room.studioId, room.id] }),
+		index('booking_studio_time_idx').on(t.studioId, t.startsAt),
 		index('booking_room_time_idx').on(t.roomId, t.startsAt),
 		index('booking_artist_idx').on(t.artistId, t.startsAt),
 		index('booking_status_idx').on(t.status, t.holdExpiresAt),
@@ -198,18 +234,27 @@ export const booking = pgTable(
 export const bookingGear = pgTable(
 	'booking_gear',
 	{
-		bookingId: uuid('booking_id')
-			.notNull()
-			.references(() => booking.id, { onDelete: 'cascade' }),
-		gearItemId: uuid('gear_item_id')
-			.notNull()
-			.references(() => gearItem.id),
+		studioId: studioId(),
+		bookingId: uuid('booking_id').notNull(),
+		gearItemId: uuid('gear_item_id').notNull(),
 		hireFee: money('hire_fee').notNull().default(0),
 		startsAt: ts('starts_at').notNull(),
 		busyUntil: ts('busy_until').notNull(),
 		active: boolean('active').notNull().default(true)
 	},
-	(t) => [primaryKey({ columns: [t.bookingId, t.gearItemId] })]
+	(t) => [
+		primaryKey({ columns: [t.bookingId, t.gearItemId] }),
+		foreignKey({
+			name: 'booking_gear_booking_fk',
+			columns: [t.studioId, t.bookingId],
+			foreignColumns: [booking.studioId, booking.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'booking_gear_item_fk',
+			columns: [t.studioId, t.gearItemId],
+			foreignColumns: [gearItem.studioId, gearItem.id]
+		})
+	]
 );
 
 /** One source on a recall sheet: how it was captured, so the sound can be rebuilt. */
@@ -232,9 +277,8 @@ export const recallSheet = pgTable(
 	'recall_sheet',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
-		bookingId: uuid('booking_id')
-			.notNull()
-			.references(() => booking.id, { onDelete: 'cascade' }),
+		studioId: studioId(),
+		bookingId: uuid('booking_id').notNull(),
 		artistId: text('artist_id')
 			.notNull()
 			.references(() => user.id),
@@ -247,16 +291,23 @@ export const recallSheet = pgTable(
 		createdAt: created(),
 		updatedAt: updated()
 	},
-	(t) => [uniqueIndex('recall_sheet_booking_idx').on(t.bookingId), index('recall_sheet_artist_idx').on(t.artistId)]
+	(t) => [
+		uniqueIndex('recall_sheet_booking_idx').on(t.bookingId),
+		foreignKey({
+			name: 'recall_sheet_booking_fk',
+			columns: [t.studioId, t.bookingId],
+			foreignColumns: [booking.studioId, booking.id]
+		}).onDelete('cascade'),
+		index('recall_sheet_artist_idx').on(t.studioId, t.artistId)
+	]
 );
 
 export const payment = pgTable(
 	'payment',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
-		bookingId: uuid('booking_id')
-			.notNull()
-			.references(() => booking.id),
+		studioId: studioId(),
+		bookingId: uuid('booking_id').notNull(),
 		/** 'deposit' or 'balance'. */
 		kind: text('kind').notNull(),
 		amount: money('amount').notNull(),
@@ -283,6 +334,12 @@ export const payment = pgTable(
 		updatedAt: updated()
 	},
 	(t) => [
+		unique('payment_studio_id_key').on(t.studioId, t.id),
+		foreignKey({
+			name: 'payment_booking_fk',
+			columns: [t.studioId, t.bookingId],
+			foreignColumns: [booking.studioId, booking.id]
+		}),
 		index('payment_booking_idx').on(t.bookingId),
 		uniqueIndex('payment_booking_kind_attempt_idx').on(t.bookingId, t.kind, t.attempt),
 		index('payment_status_idx').on(t.status),
@@ -296,10 +353,9 @@ export const refund = pgTable(
 	'refund',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
-		bookingId: uuid('booking_id')
-			.notNull()
-			.references(() => booking.id),
-		paymentId: uuid('payment_id').references(() => payment.id),
+		studioId: studioId(),
+		bookingId: uuid('booking_id').notNull(),
+		paymentId: uuid('payment_id'),
 		amount: money('amount').notNull(),
 		currency: text('currency').notNull(),
 		/** 'pending', 'succeeded', 'failed'. */
@@ -320,6 +376,9 @@ export const refund = pgTable(
 		updatedAt: updated()
 	},
 	(t) => [
+		unique('refund_studio_id_key').on(t.studioId, t.id),
+		foreignKey({ name: 'refund_booking_fk', columns: [t.studioId, t.bookingId], foreignColumns: [booking.studioId, booking.id] }),
+		foreignKey({ name: 'refund_payment_fk', columns: [t.studioId, t.paymentId], foreignColumns: [payment.studioId, payment.id] }),
 		index('refund_booking_idx').on(t.bookingId),
 		index('refund_status_idx').on(t.status),
 		check('refund_amount', sql`${t.amount} >= 0`),
@@ -335,15 +394,16 @@ export const stripeEvent = pgTable('stripe_event', {
 	processedAt: ts('processed_at')
 });
 
-/** Next number per invoice series and year, taken under a row lock so numbers have no gaps. */
+/** Next number per studio, invoice series and year, taken under a row lock so numbers have no gaps. */
 export const invoiceCounter = pgTable(
 	'invoice_counter',
 	{
+		studioId: studioId(),
 		series: text('series').notNull(),
 		year: integer('year').notNull(),
 		lastNumber: integer('last_number').notNull().default(0)
 	},
-	(t) => [primaryKey({ columns: [t.series, t.year] })]
+	(t) => [primaryKey({ columns: [t.studioId, t.series, t.year] })]
 );
 
 export interface VatBreakdownRow {
@@ -356,16 +416,17 @@ export const invoice = pgTable(
 	'invoice',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
+		studioId: studioId(),
 		series: text('series').notNull(),
 		year: integer('year').notNull(),
 		number: integer('number').notNull(),
 		/** e.g. "INV-2027-0001". */
-		displayNumber: text('display_number').notNull().unique(),
+		displayNumber: text('display_number').notNull(),
 		/** UNTDID 1001: 386 prepayment (deposit) invoice, 380 invoice, 381 credit note. */
 		typeCode: integer('type_code').notNull(),
-		bookingId: uuid('booking_id').references(() => booking.id),
+		bookingId: uuid('booking_id'),
 		/** EN 16931 BT-25: the invoice a credit note corrects, or the deposit invoice a final invoice deducts. */
-		precedingInvoiceId: uuid('preceding_invoice_id').references((): AnyPgColumn => invoice.id),
+		precedingInvoiceId: uuid('preceding_invoice_id'),
 		issuedAt: ts('issued_at').notNull(),
 		supplyDate: date('supply_date'),
 		supplier: jsonb('supplier').notNull(),
@@ -389,16 +450,34 @@ export const invoice = pgTable(
 		lineNetTotal: money('line_net_total').notNull().default(0),
 		/** One document per business fact: 'deposit:<payment id>', 'final:<booking id>', 'credit:<refund id>'. */
 		sourceKey: text('source_key').unique(),
-		paymentId: uuid('payment_id').references(() => payment.id),
-		refundId: uuid('refund_id').references(() => refund.id),
+		paymentId: uuid('payment_id'),
+		refundId: uuid('refund_id'),
 		note: text('note').notNull().default(''),
 		createdAt: created()
 	},
 	(t) => [
-		uniqueIndex('invoice_series_number_idx').on(t.series, t.year, t.number),
+		unique('invoice_studio_id_key').on(t.studioId, t.id),
+		uniqueIndex('invoice_series_number_idx').on(t.studioId, t.series, t.year, t.number),
+		uniqueIndex('invoice_display_number_idx').on(t.studioId, t.displayNumber),
+		foreignKey({
+			name: 'invoice_booking_fk',
+			columns: [t.studioId, t.bookingId],
+			foreignColumns: [booking.studioId, booking.id]
+		}),
+		foreignKey({
+			name: 'invoice_preceding_fk',
+			columns: [t.studioId, t.precedingInvoiceId],
+			foreignColumns: [t.studioId, t.id]
+		}),
+		foreignKey({
+			name: 'invoice_payment_fk',
+			columns: [t.studioId, t.paymentId],
+			foreignColumns: [payment.studioId, payment.id]
+		}),
+		foreignKey({ name: 'invoice_refund_fk', columns: [t.studioId, t.refundId], foreignColumns: [refund.studioId, refund.id] }),
 		check('invoice_type_known', sql`${t.typeCode} in (380, 381, 386)`),
 		check('invoice_number_positive', sql`${t.number} > 0`),
-		index('invoice_issued_idx').on(t.issuedAt),
+		index('invoice_issued_idx').on(t.studioId, t.issuedAt),
 		index('invoice_booking_idx').on(t.bookingId)
 	]
 );
@@ -407,9 +486,8 @@ export const invoiceLine = pgTable(
 	'invoice_line',
 	{
 		id: serial('id').primaryKey(),
-		invoiceId: uuid('invoice_id')
-			.notNull()
-			.references(() => invoice.id, { onDelete: 'cascade' }),
+		studioId: studioId(),
+		invoiceId: uuid('invoice_id').notNull(),
 		position: integer('position').notNull(),
 		description: text('description').notNull(),
 		quantity: text('quantity').notNull().default('1'),
@@ -423,30 +501,49 @@ export const invoiceLine = pgTable(
 		unitAmount: money('unit_amount').notNull().default(0),
 		amount: money('amount').notNull().default(0)
 	},
-	(t) => [uniqueIndex('invoice_line_position_idx').on(t.invoiceId, t.position)]
+	(t) => [
+		uniqueIndex('invoice_line_position_idx').on(t.invoiceId, t.position),
+		foreignKey({
+			name: 'invoice_line_invoice_fk',
+			columns: [t.studioId, t.invoiceId],
+			foreignColumns: [invoice.studioId, invoice.id]
+		}).onDelete('cascade')
+	]
 );
 
-export const upload = pgTable('upload', {
-	id: uuid('id').primaryKey().defaultRandom(),
-	bookingId: uuid('booking_id')
-		.notNull()
-		.references(() => booking.id, { onDelete: 'cascade' }),
-	uploaderId: text('uploader_id')
-		.notNull()
-		.references(() => user.id),
-	originalName: text('original_name').notNull(),
-	/** Path chosen by the server under UPLOAD_DIR; never the client's name. */
-	storageKey: text('storage_key').notNull().unique(),
-	contentType: text('content_type').notNull(),
-	sizeBytes: integer('size_bytes').notNull(),
-	sha256: text('sha256').notNull(),
-	createdAt: created()
-});
+export const upload = pgTable(
+	'upload',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		studioId: studioId(),
+		bookingId: uuid('booking_id').notNull(),
+		uploaderId: text('uploader_id')
+			.notNull()
+			.references(() => user.id),
+		originalName: text('original_name').notNull(),
+		/** Path chosen by the server under UPLOAD_DIR; never the client's name. */
+		storageKey: text('storage_key').notNull().unique(),
+		contentType: text('content_type').notNull(),
+		sizeBytes: integer('size_bytes').notNull(),
+		sha256: text('sha256').notNull(),
+		createdAt: created()
+	},
+	(t) => [
+		foreignKey({
+			name: 'upload_booking_fk',
+			columns: [t.studioId, t.bookingId],
+			foreignColumns: [booking.studioId, booking.id]
+		}).onDelete('cascade'),
+		index('upload_booking_idx').on(t.bookingId)
+	]
+);
 
 export const emailOutbox = pgTable(
 	'email_outbox',
 	{
 		id: uuid('id').primaryKey().defaultRandom(),
+		/** The studio a message is from; none for the platform's own (sign-up, password). */
+		studioId: text('studio_id').references(() => studio.id),
 		/** Makes each message once, e.g. "booking-confirmed:<booking id>". */
 		dedupeKey: text('dedupe_key').notNull().unique(),
 		to: text('to').notNull(),
@@ -467,6 +564,8 @@ export const auditLog = pgTable(
 	'audit_log',
 	{
 		id: serial('id').primaryKey(),
+		/** The studio whose data changed; none for the platform's own events. */
+		studioId: text('studio_id'),
 		actorId: text('actor_id'),
 		action: text('action').notNull(),
 		entity: text('entity').notNull().default(''),
@@ -475,7 +574,7 @@ export const auditLog = pgTable(
 		ip: text('ip'),
 		createdAt: created()
 	},
-	(t) => [index('audit_log_created_idx').on(t.createdAt)]
+	(t) => [index('audit_log_created_idx').on(t.createdAt), index('audit_log_studio_idx').on(t.studioId, t.createdAt)]
 );
 
 /** A secret per person for the read-only calendar feed. */

@@ -34,13 +34,9 @@ export function supplierOf(s: StudioRow): Party {
 	return { name: s.name, addressLines: s.addressLines, country: s.country, vatId: s.vatId, email: s.email };
 }
 
-async function studioOf(tx: Tx): Promise<StudioRow> {
-	const [row] = await tx.select().from(studio).where(eq(studio.id, 1));
-	if (!row) throw new Error('The studio is not set up yet: run the seed.');
-	return row;
-}
-
 export interface BookingForDocuments {
+	/** The booking's studio: the seller on its documents. */
+	studio: StudioRow;
 	id: string;
 	reference: string;
 	startsAt: Date;
@@ -54,6 +50,7 @@ export interface BookingForDocuments {
 export async function bookingForDocuments(tx: Tx, bookingId: string): Promise<BookingForDocuments> {
 	const [row] = await tx
 		.select({
+			studio,
 			id: booking.id,
 			reference: booking.reference,
 			startsAt: booking.startsAt,
@@ -65,6 +62,7 @@ export async function bookingForDocuments(tx: Tx, bookingId: string): Promise<Bo
 			artistEmail: user.email
 		})
 		.from(booking)
+		.innerJoin(studio, eq(studio.id, booking.studioId))
 		.innerJoin(room, eq(room.id, booking.roomId))
 		.innerJoin(user, eq(user.id, booking.artistId))
 		.where(eq(booking.id, bookingId));
@@ -92,7 +90,8 @@ export async function issueDepositInvoice(tx: Tx, input: { paymentId: string; is
 	if (existing) return existing;
 	const [pay] = await tx.select().from(payment).where(eq(payment.id, input.paymentId));
 	if (!pay || pay.status !== 'paid') throw new Error(`payment ${input.paymentId} is not paid`);
-	const [s, b] = await Promise.all([studioOf(tx), bookingForDocuments(tx, pay.bookingId)]);
+	const b = await bookingForDocuments(tx, pay.bookingId);
+	const s = b.studio;
 	const tz = s.timeZone;
 	const paidAt = pay.paidAt ?? new Date();
 	const lines = lumpSumLines(pay.amount, 'deposit', `Deposit on account for ${sessionWords(b, tz)}`, grossByRate(b.quote.vat));
@@ -101,6 +100,7 @@ export async function issueDepositInvoice(tx: Tx, input: { paymentId: string; is
 	const { invoice: row } = await issueDocument(tx, {
 		typeCode: DOCUMENT_TYPE.prepayment,
 		issuedAt: input.issuedAt,
+		studioId: s.id,
 		timeZone: tz,
 		supplyDate: localDateOf(paidAt, tz),
 		supplier: supplierOf(s),
@@ -165,7 +165,8 @@ export async function issueFinalInvoice(tx: Tx, input: FinalInvoiceInput): Promi
 	const sourceKey = `final:${input.bookingId}`;
 	const existing = await findBySource(tx, sourceKey);
 	if (existing) return existing;
-	const [s, b] = await Promise.all([studioOf(tx), bookingForDocuments(tx, input.bookingId)]);
+	const b = await bookingForDocuments(tx, input.bookingId);
+	const s = b.studio;
 	const tz = s.timeZone;
 	const prepaid = await prepaidOf(tx, b.id);
 	const lines: DocumentLineInput[] = linesFromPriceLines([
@@ -185,6 +186,7 @@ export async function issueFinalInvoice(tx: Tx, input: FinalInvoiceInput): Promi
 	const { invoice: row } = await issueDocument(tx, {
 		typeCode: DOCUMENT_TYPE.invoice,
 		issuedAt: input.issuedAt,
+		studioId: s.id,
 		timeZone: tz,
 		supplyDate: localDateOf(b.startsAt, tz),
 		supplier: supplierOf(s),
@@ -229,7 +231,8 @@ export async function issueCreditNote(tx: Tx, input: { refundId: string; issuedA
 					.from(invoice)
 					.where(eq(invoice.sourceKey, `final:${pay.bookingId}`));
 	if (!preceding) return null;
-	const [s, b] = await Promise.all([studioOf(tx), bookingForDocuments(tx, pay.bookingId)]);
+	const b = await bookingForDocuments(tx, pay.bookingId);
+	const s = b.studio;
 	const tz = s.timeZone;
 	const issuedAt = input.issuedAt ?? new Date();
 	const what = REFUND_WORDS[r.reason] ?? 'refund';
@@ -244,6 +247,7 @@ export async function issueCreditNote(tx: Tx, input: { refundId: string; issuedA
 	const { invoice: row } = await issueDocument(tx, {
 		typeCode: DOCUMENT_TYPE.creditNote,
 		issuedAt,
+		studioId: s.id,
 		timeZone: tz,
 		supplyDate: localDateOf(issuedAt, tz),
 		supplier: supplierOf(s),

@@ -3,7 +3,7 @@
 // scripts and integration tests can issue with their own database handle.
 //
 // Numbers without gaps, even when many are issued at once (Directive 2006/112/EC, Article
-// 226(2)): the counter row of (series, year) is taken with INSERT … ON CONFLICT DO UPDATE, which
+// 226(2)), in each studio's own series: the counter row of (studio, series, year) is taken with INSERT … ON CONFLICT DO UPDATE, which
 // row-locks it until the issuing transaction ends. A second issuer waits; if the first rolls back,
 // its increment rolls back with it, so no number is ever skipped or used twice.
 import { asc, eq, sql } from 'drizzle-orm';
@@ -34,6 +34,8 @@ export interface Party {
 }
 
 export interface DocumentDraft {
+	/** The issuing studio: its own series and numbers. */
+	studioId: string;
 	typeCode: DocumentTypeCode;
 	/** Defaults to the type's series (INV, DEP, CN). */
 	series?: string;
@@ -64,11 +66,11 @@ export class InvoiceRuleError extends Error {
 	}
 }
 
-/** Takes the next number of a series and year; the row stays locked until the transaction ends. */
-export async function takeNumber(tx: Tx, series: string, year: number): Promise<number> {
+/** Takes a studio's next number of a series and year; the row stays locked until the transaction ends. */
+export async function takeNumber(tx: Tx, studioId: string, series: string, year: number): Promise<number> {
 	const rows = await tx.execute<{ last_number: number }>(sql`
-		insert into invoice_counter (series, year, last_number) values (${series}, ${year}, 1)
-		on conflict (series, year) do update set last_number = invoice_counter.last_number + 1
+		insert into invoice_counter (studio_id, series, year, last_number) values (${studioId}, ${series}, ${year}, 1)
+		on conflict (studio_id, series, year) do update set last_number = invoice_counter.last_number + 1
 		returning last_number`);
 	const n = Number(rows[0]?.last_number);
 	if (!Number.isSafeInteger(n) || n < 1) throw new Error('the invoice counter gave no number');
@@ -82,11 +84,12 @@ export async function issueDocument(tx: Tx, draft: DocumentDraft): Promise<{ inv
 	const issuedAt = draft.issuedAt ?? new Date();
 	const series = draft.series ?? SERIES_FOR_TYPE[draft.typeCode];
 	const year = documentYear(issuedAt, draft.timeZone);
-	const number = await takeNumber(tx, series, year);
+	const number = await takeNumber(tx, draft.studioId, series, year);
 	const t = draft.totals;
 	const [row] = await tx
 		.insert(invoice)
 		.values({
+			studioId: draft.studioId,
 			series,
 			year,
 			number,
@@ -119,6 +122,7 @@ export async function issueDocument(tx: Tx, draft: DocumentDraft): Promise<{ inv
 		.insert(invoiceLine)
 		.values(
 			t.lines.map((l, i) => ({
+				studioId: draft.studioId,
 				invoiceId: row!.id,
 				position: i + 1,
 				description: l.description,

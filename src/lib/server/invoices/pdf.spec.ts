@@ -43,6 +43,7 @@ const invoice: InvoiceRow = {
 
 const line = (position: number, description: string, net: number, amount: number): InvoiceLineRow => ({
 	id: position,
+	studioId: invoice.studioId,
 	invoiceId: invoice.id,
 	position,
 	description,

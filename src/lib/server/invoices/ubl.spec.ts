@@ -28,8 +28,10 @@ function document(
 		prepaid: opts.prepaid
 	});
 	const id = '0e0c7f43-2f7a-4b9e-8d55-1f2a3b4c5d6e';
+	const studioId = 'a3c1e2f0-5d4b-4c3a-9e8f-7a6b5c4d3e2f';
 	const invoice = {
 		id,
+		studioId,
 		series: typeCode === 381 ? 'CRN' : typeCode === 386 ? 'DEP' : 'INV',
 		year: 2027,
 		number: 7,
@@ -60,6 +62,7 @@ function document(
 	} satisfies InvoiceRow;
 	const lines: InvoiceLineRow[] = t.lines.map((l, i) => ({
 		id: i + 1,
+		studioId,
 		invoiceId: id,
 		position: i + 1,
 		description: l.description,

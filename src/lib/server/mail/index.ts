@@ -12,15 +12,16 @@ import { publicOrigin } from './transport';
 export { flushOutbox } from './outbox';
 
 /** What a message about a booking says, read inside the transaction that changes the booking. */
-async function bookingFacts(tx: Tx, bookingId: string): Promise<ConfirmationFacts | null> {
+async function bookingFacts(tx: Tx, bookingId: string): Promise<(ConfirmationFacts & { studioId: string }) | null> {
 	const [row] = await tx
 		.select({ b: booking, roomName: room.name, artistName: user.name, artistEmail: user.email })
 		.from(booking)
 		.innerJoin(room, eq(room.id, booking.roomId))
 		.innerJoin(user, eq(user.id, booking.artistId))
 		.where(eq(booking.id, bookingId));
-	const [s] = await tx.select().from(studio).where(eq(studio.id, 1));
-	if (!row || !s) return null;
+	if (!row) return null;
+	const [s] = await tx.select().from(studio).where(eq(studio.id, row.b.studioId));
+	if (!s) return null;
 	const b = row.b;
 	const [engineer] = b.engineerId ? await tx.select({ name: user.name }).from(user).where(eq(user.id, b.engineerId)) : [];
 	const gear = await tx
@@ -46,6 +47,7 @@ async function bookingFacts(tx: Tx, bookingId: string): Promise<ConfirmationFact
 		deposit: b.deposit,
 		lines: (quote.lines ?? []).map((l) => ({ label: l.label, amount: l.amount })),
 		studio: s,
+		studioId: s.id,
 		bookingUrl: `${publicOrigin()}/bookings/${b.id}`
 	};
 }
@@ -62,6 +64,7 @@ export async function queueConfirmation(tx: Tx, bookingId: string): Promise<void
 	if (!facts) return;
 	const mail = composeConfirmation(facts);
 	await enqueueMail(tx, {
+		studioId: facts.studioId,
 		dedupeKey: `booking-confirmed:${bookingId}`,
 		to: facts.artistEmail,
 		subject: mail.subject,
@@ -81,6 +84,7 @@ export async function queueCancellation(tx: Tx, fact: CancellationFact): Promise
 	if (!facts) return;
 	const mail = composeCancellation({ ...facts, refund: fact.refund, retained: fact.retained, rule: fact.rule });
 	await enqueueMail(tx, {
+		studioId: facts.studioId,
 		dedupeKey: `booking-cancelled:${fact.bookingId}`,
 		to: facts.artistEmail,
 		subject: mail.subject,

@@ -10,6 +10,8 @@ import { getStudio } from '../studio';
 import { mailFrom, mailTransport } from './transport';
 
 export interface OutgoingMail {
+	/** The studio it is from (its name and address send it); none for the platform's own messages. */
+	studioId?: string | null;
 	/** Makes each message once, e.g. "booking-confirmed:<booking id>". */
 	dedupeKey: string;
 	to: string;
@@ -17,6 +19,14 @@ export interface OutgoingMail {
 	text: string;
 	html?: string;
 	attachments?: { filename: string; contentType: string; content: string }[];
+}
+
+/** Who sends the platform's own messages (invitations, account mail) when MAIL_FROM is not set. */
+const PLATFORM_SENDER = { name: 'Slateroom', email: 'no-reply@slateroom.test' };
+
+async function studioSender(studioId: string): Promise<string> {
+	const studio = await getStudio(studioId);
+	return mailFrom(studio.name, studio.email);
 }
 
 /** After this many failed tries a message is marked failed and left for a person to look at. */
@@ -29,6 +39,7 @@ export async function enqueueMail(tx: Tx, mail: OutgoingMail): Promise<void> {
 	await tx
 		.insert(emailOutbox)
 		.values({
+			studioId: mail.studioId ?? null,
 			dedupeKey: mail.dedupeKey,
 			to: mail.to,
 			subject: mail.subject,
@@ -45,8 +56,8 @@ export async function enqueueMail(tx: Tx, mail: OutgoingMail): Promise<void> {
  */
 export async function flushOutbox(limit = 20): Promise<number> {
 	let sent = 0;
-	// The sender is read once a message is due, not on every tick of an empty outbox.
-	let from: string | undefined;
+	// A studio's sender is read once a message of it is due, not on every tick of an empty outbox.
+	const senders = new Map<string, string>();
 	for (let i = 0; i < limit; i++) {
 		const outcome = await db.transaction(async (tx) => {
 			const [row] = await tx
@@ -63,9 +74,11 @@ export async function flushOutbox(limit = 20): Promise<number> {
 				.limit(1)
 				.for('update', { skipLocked: true });
 			if (!row) return 'none' as const;
+			const key = row.studioId ?? '';
+			let from = senders.get(key);
 			if (from === undefined) {
-				const studio = await getStudio();
-				from = mailFrom(studio.name, studio.email);
+				from = row.studioId ? await studioSender(row.studioId) : mailFrom(PLATFORM_SENDER.name, PLATFORM_SENDER.email);
+				senders.set(key, from);
 			}
 			const attachments = row.attachments ?? [];
 			try {

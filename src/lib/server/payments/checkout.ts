@@ -113,7 +113,7 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 			const attempt = mine.reduce((m, p) => Math.max(m, p.attempt), 0) + 1;
 			[row] = await tx
 				.insert(payment)
-				.values({ bookingId: b.id, kind, amount, currency: b.currency, status: 'open', attempt, expiresAt })
+				.values({ studioId: b.studioId, bookingId: b.id, kind, amount, currency: b.currency, status: 'open', attempt, expiresAt })
 				.returning();
 		}
 		const [details] = await tx
@@ -121,7 +121,7 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 			.from(booking)
 			.innerJoin(room, eq(room.id, booking.roomId))
 			.innerJoin(user, eq(user.id, booking.artistId))
-			.innerJoin(studio, eq(studio.id, 1))
+			.innerJoin(studio, eq(studio.id, booking.studioId))
 			.where(eq(booking.id, b.id));
 		const tz = details!.timeZone;
 		const when = `${formatDate(b.startsAt, tz)}, ${formatTimes(b.startsAt, b.endsAt, tz)}`;

@@ -105,12 +105,13 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 				const items = await tx
 					.select()
 					.from(gearItem)
-					.where(and(inArray(gearItem.id, extraIds), eq(gearItem.active, true)));
+					.where(and(eq(gearItem.studioId, b.studioId), inArray(gearItem.id, extraIds), eq(gearItem.active, true)));
 				if (items.length !== extraIds.length) {
 					return invalid('gearUsed', 'Some of that gear is unknown.');
 				}
 				await tx.insert(bookingGear).values(
 					items.map((g) => ({
+						studioId: b.studioId,
 						bookingId: b.id,
 						gearItemId: g.id,
 						hireFee: g.hireable ? g.hireFee : 0,

@@ -34,7 +34,14 @@ import { awaitsDeposit } from '$lib/domain/lifecycle';
 import { isUuid } from '$lib/uuid';
 
 export async function auditTx(tx: Tx, action: string, bookingId: string, data: unknown, actorId: string | null = null) {
-	await tx.insert(auditLog).values({ actorId, action, entity: 'booking', entityId: bookingId, data: data ?? null });
+	await tx.insert(auditLog).values({
+		studioId: sql`(select ${booking.studioId} from ${booking} where ${booking.id} = ${bookingId})`,
+		actorId,
+		action,
+		entity: 'booking',
+		entityId: bookingId,
+		data: data ?? null
+	});
 }
 
 function paymentIntentOf(session: Pick<Stripe.Checkout.Session, 'payment_intent'>): string | null {
@@ -300,7 +307,7 @@ async function markEnded(
 }
 
 export interface QueueRefund {
-	booking: Pick<BookingRow, 'id' | 'currency'>;
+	booking: Pick<BookingRow, 'id' | 'studioId' | 'currency'>;
 	payment: Pick<PaymentRow, 'id'>;
 	amount: number;
 	reason: 'cancellation' | 'slot_unavailable' | 'cancelled_before_payment' | 'duplicate';
@@ -320,6 +327,7 @@ export async function queueRefund(tx: Tx, after: AfterCommit, r: QueueRefund): P
 	const [row] = await tx
 		.insert(refund)
 		.values({
+			studioId: r.booking.studioId,
 			bookingId: r.booking.id,
 			paymentId: r.payment.id,
 			amount: r.amount,

@@ -21,7 +21,8 @@ function refuseNonBookers(locals: App.Locals) {
 
 export const load: PageServerLoad = async ({ url, locals }) => {
 	refuseNonBookers(locals);
-	const [{ studio, policy }, rows, gearRows] = await Promise.all([getPolicy(), listRooms(), listHireableGear()]);
+	const { studio, policy } = await getPolicy();
+	const [rows, gearRows] = await Promise.all([listRooms(studio.id), listHireableGear(studio.id)]);
 	const rooms = rows.map((r) => ({ ...publicRoom(r, studio.currency), id: r.id }));
 	const slugOf = new Map(rooms.map((r) => [r.id, r.slug]));
 

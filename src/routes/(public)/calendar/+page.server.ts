@@ -7,7 +7,8 @@ import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {
-	const [{ studio, policy }, rows] = await Promise.all([getPolicy(), listRooms()]);
+	const { studio, policy } = await getPolicy();
+	const rows = await listRooms(studio.id);
 	const rooms = rows.map((r) => publicRoom(r, studio.currency));
 	const tz = studio.timeZone;
 	const today = wallClock(Date.now(), tz).date;

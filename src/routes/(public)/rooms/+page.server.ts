@@ -2,7 +2,8 @@ import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
-	const [{ studio, policy }, rooms] = await Promise.all([getPolicy(), listRooms()]);
+	const { studio, policy } = await getPolicy();
+	const rooms = await listRooms(studio.id);
 	return {
 		about: {
 			pricesIncludeVat: studio.pricesIncludeVat,

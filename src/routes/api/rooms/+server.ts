@@ -3,7 +3,8 @@ import { getStudio, listRooms, publicRoom } from '$lib/server/studio';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async () => {
-	const [studio, rooms] = await Promise.all([getStudio(), listRooms()]);
+	const studio = await getStudio();
+	const rooms = await listRooms(studio.id);
 	return json(
 		{
 			currency: studio.currency,

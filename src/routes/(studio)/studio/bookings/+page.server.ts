@@ -11,7 +11,8 @@ const validDate = (s: string | null) => (s && isCalendarDate(s) ? s : '');
 
 export const load: PageServerLoad = async ({ locals, url }) => {
 	const owner = requireRole(locals, 'owner');
-	const [studio, rooms] = await Promise.all([getStudio(), listRooms({ includeInactive: true })]);
+	const studio = await getStudio();
+	const rooms = await listRooms(studio.id, { includeInactive: true });
 	const tz = studio.timeZone;
 
 	const status = url.searchParams.getAll('status').filter(isBookingStatus);

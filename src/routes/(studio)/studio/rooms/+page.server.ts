@@ -3,6 +3,7 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/guard';
+import { staffActor } from '$lib/server/actor';
 import { getStudio, listRooms } from '$lib/server/studio';
 import { localDateOf } from '$lib/domain/time';
 import * as inventory from '$lib/server/inventory';
@@ -37,10 +38,11 @@ function emptyGear(currency: string) {
 
 export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
-	const [studio, rooms, gear] = await Promise.all([getStudio(), listRooms({ includeInactive: true }), inventory.listGear()]);
+	const studio = await getStudio();
+	const [rooms, gear] = await Promise.all([listRooms(studio.id, { includeInactive: true }), inventory.listGear(studio.id)]);
 	const currency = studio.currency;
 	const blocks = { halfDayMinutes: studio.halfDayMinutes, fullDayMinutes: studio.fullDayMinutes };
-	const upcoming = await blackouts.listUpcoming(localDateOf(new Date(), studio.timeZone));
+	const upcoming = await blackouts.listUpcoming(studio.id, localDateOf(new Date(), studio.timeZone));
 	const [roomForms, gearForms, newGear] = await Promise.all([
 		Promise.all(
 			rooms.map((r) =>
@@ -95,7 +97,8 @@ export const actions: Actions = {
 		const blocks = { halfDayMinutes, fullDayMinutes };
 		const form = await superValidate<RoomForm, Note>(request, zod4(roomSchema(currency, blocks)));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
-		const found = await inventory.updateRoom({ user, ip: getClientAddress() }, form.data.id, roomValuesFrom(form.data, currency));
+		const actor = await staffActor(user, getClientAddress());
+		const found = await inventory.updateRoom(actor, form.data.id, roomValuesFrom(form.data, currency));
 		if (!found) return message(form, { kind: 'error', text: 'That room is not here any more.' }, { status: 404 });
 		const odd = blockRateFindings(form.data, blocks, currency).length ? ' Some rates look odd: see the notes beside them.' : '';
 		return message(form, { kind: 'saved', text: `${form.data.name} saved. New quotes use this rate card.${odd}` });
@@ -106,7 +109,7 @@ export const actions: Actions = {
 		const { currency } = await getStudio();
 		const form = await superValidate<GearForm, Note>(request, zod4(gearSchema(currency)));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
-		const actor = { user, ip: getClientAddress() };
+		const actor = await staffActor(user, getClientAddress());
 		const values = gearValuesFrom(form.data, currency);
 		if (form.data.id) {
 			const outcome = await inventory.updateGear(actor, form.data.id, values);
@@ -125,7 +128,8 @@ export const actions: Actions = {
 		const user = requireRole(locals, 'owner');
 		const parsed = activeSchema.safeParse(Object.fromEntries((await readFormData(request)) ?? []));
 		if (!parsed.success) return fail(422, { gearActive: { kind: 'error' as const, text: 'Unknown gear.' } });
-		const row = await inventory.setGearActive({ user, ip: getClientAddress() }, parsed.data.id, parsed.data.active === 'true');
+		const actor = await staffActor(user, getClientAddress());
+		const row = await inventory.setGearActive(actor, parsed.data.id, parsed.data.active === 'true');
 		if (!row) return fail(404, { gearActive: { kind: 'error' as const, text: 'That gear is not here any more.' } });
 		return {
 			gearActive: {
@@ -144,7 +148,7 @@ export const actions: Actions = {
 		const { startsOn, reason, confirm } = parsed.data;
 		const endsOn = parsed.data.endsOn || startsOn;
 		const studio = await getStudio();
-		const clashes = (await blackouts.confirmedBookingsOn(startsOn, endsOn, studio.timeZone)).map((b) => ({
+		const clashes = (await blackouts.confirmedBookingsOn(studio.id, startsOn, endsOn, studio.timeZone)).map((b) => ({
 			...b,
 			startsAt: b.startsAt.toISOString(),
 			endsAt: b.endsAt.toISOString()
@@ -153,7 +157,7 @@ export const actions: Actions = {
 		if (clashes.length && confirm !== 'yes') {
 			return fail(409, { blackout: blackoutResult({ values, clashes, needsConfirm: true }) });
 		}
-		await blackouts.addBlackout({ user, ip: getClientAddress() }, { startsOn, endsOn, reason });
+		await blackouts.addBlackout(await staffActor(user, getClientAddress()), { startsOn, endsOn, reason });
 		return { blackout: blackoutResult({ saved: true, values: { startsOn: '', endsOn: '', reason: '' }, clashes }) };
 	},
 
@@ -161,7 +165,7 @@ export const actions: Actions = {
 		const user = requireRole(locals, 'owner');
 		const parsed = z.object({ id: z.uuid() }).safeParse(Object.fromEntries((await readFormData(request)) ?? []));
 		if (!parsed.success) return fail(422, { removed: { error: 'Unknown blackout.' } });
-		const row = await blackouts.removeBlackout({ user, ip: getClientAddress() }, parsed.data.id);
+		const row = await blackouts.removeBlackout(await staffActor(user, getClientAddress()), parsed.data.id);
 		if (!row) return fail(404, { removed: { error: 'That blackout was already removed.' } });
 		return { removed: { saved: `The blackout from ${row.startsOn} is removed; those days are open again.` } };
 	}

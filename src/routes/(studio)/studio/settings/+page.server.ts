@@ -2,6 +2,7 @@ import { fail } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireRole } from '$lib/server/guard';
+import { staffActor } from '$lib/server/actor';
 import { getStudio } from '$lib/server/studio';
 import * as settings from '$lib/server/settings';
 import { blockRateFindings, surchargeFindings } from '$lib/schemas/rate-card';
@@ -38,7 +39,8 @@ function surchargeForm(row: settings.SurchargeRow): SurchargeForm {
 
 export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
-	const [studio, surcharges] = await Promise.all([getStudio(), settings.listSurcharges()]);
+	const studio = await getStudio();
+	const surcharges = await settings.listSurcharges(studio.id);
 	const blocks = { halfDayMinutes: studio.halfDayMinutes, fullDayMinutes: studio.fullDayMinutes };
 	const schema = zod4(settingsSchema(studio.currency, blocks));
 	const [form, surchargeForms, newSurcharge] = await Promise.all([
@@ -64,7 +66,10 @@ export const actions: Actions = {
 		if (!form.valid) {
 			return message(form, { kind: 'error', text: 'Nothing was saved: some values need another look.' }, { status: 422 });
 		}
-		const changed = await settings.updatePolicy({ user, ip: getClientAddress() }, policyValuesFrom(form.data, currency));
+		const changed = await settings.updatePolicy(
+			await staffActor(user, getClientAddress()),
+			policyValuesFrom(form.data, currency)
+		);
 		const odd = blockRateFindings(engineerRates(form.data), { halfDayMinutes, fullDayMinutes }, currency).length > 0;
 		return message(form, {
 			kind: 'saved',
@@ -78,7 +83,7 @@ export const actions: Actions = {
 		const user = requireRole(locals, 'owner');
 		const form = await superValidate<SurchargeForm, Saved>(request, zod4(surchargeSchema));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
-		const actor = { user, ip: getClientAddress() };
+		const actor = await staffActor(user, getClientAddress());
 		const odd = surchargeFindings(form.data).length ? ' It looks odd: see the note beside it.' : '';
 		if (form.data.id) {
 			const found = await settings.updateSurcharge(actor, form.data.id, surchargeValuesFrom(form.data));
