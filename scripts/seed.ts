@@ -218,7 +218,7 @@ async function seedPeople(studioId: string) {
 }
 
 async function insertPerson(id: string, p: (typeof people)[number]) {
-	await db.insert(t.user).values({ id, email: p.email, name: p.name, role: p.role, emailVerified: true });
+	await db.insert(t.user).values({ id, email: p.email, name: p.name, emailVerified: true });
 	await db.insert(t.account).values({
 		id: crypto.randomUUID(),
 		accountId: id,

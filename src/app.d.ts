@@ -13,6 +13,10 @@ declare global {
 			user: SessionUser | null;
 			session: { id: string; expiresAt: Date } | null;
 			role: Role | null;
+			/** The studio a staff member works in now, with their role there; null for artists and visitors. */
+			studio: import('$lib/server/team').Membership | null;
+			/** Every studio the signed-in person works at. */
+			memberships: import('$lib/server/team').Membership[];
 			/** Set when this request met the database down or busy (db/index.ts, handleError); hooks.server.ts answers 503. */
 			databaseTrouble?: import('$lib/server/db/trouble').DatabaseTrouble;
 			/** Set by handleError when the database refused a value of the request as data (see hooks.server.ts). */

@@ -3,7 +3,7 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
 import { svelteKitHandler } from 'better-auth/svelte-kit';
 import { auth, CLIENT_ADDRESS_HEADER } from '$lib/server/auth';
-import { isRole } from '$lib/roles';
+import { currentMembership, membershipsOf } from '$lib/server/team';
 import { zoneFor } from '$lib/server/zones';
 import {
 	DATABASE_UNAVAILABLE,
@@ -166,18 +166,24 @@ const sessionIntoLocals: Handle = async ({ event, resolve }) => {
 	event.locals.user = null;
 	event.locals.session = null;
 	event.locals.role = null;
+	event.locals.studio = null;
+	event.locals.memberships = [];
 	if (event.url.pathname === '/api/health' || event.url.pathname.startsWith('/_app/')) return resolve(event);
 	// Sessions live in a cookie: a request without one (most public calendar traffic) has none.
 	if (!event.request.headers.get('cookie')) return resolve(event);
 	try {
 		const found = await auth.api.getSession({ headers: event.request.headers });
 		if (found) {
-			const role = (found.user as { role?: unknown }).role;
+			// The role is the person's role in the studio they work in now; without one, an artist.
+			const memberships = await membershipsOf(found.user.id);
+			const current = currentMembership(memberships, null);
+			event.locals.memberships = memberships;
+			event.locals.studio = current;
 			event.locals.user = {
 				id: found.user.id,
 				name: found.user.name,
 				email: found.user.email,
-				role: isRole(role) ? role : 'artist'
+				role: current?.role ?? 'artist'
 			};
 			event.locals.session = { id: found.session.id, expiresAt: found.session.expiresAt };
 			event.locals.role = event.locals.user.role;

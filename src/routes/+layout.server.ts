@@ -4,7 +4,8 @@ import { DATABASE_UNAVAILABLE, isDatabaseDown } from '$lib/server/db/health';
 import type { LayoutServerLoad } from './$types';
 
 export const load: LayoutServerLoad = async ({ locals }) => {
-	const studio = await getStudio().catch((e: unknown) => {
+	// A staff member sees the studio they work in; everyone else, for now, the studio the app serves.
+	const studio = await getStudio(locals.studio?.studioId).catch((e: unknown) => {
 		if (isDatabaseDown(e)) error(503, { error: 'unavailable', message: DATABASE_UNAVAILABLE });
 		throw e;
 	});

@@ -350,7 +350,10 @@ describe('POST /api/bookings', () => {
 
 	it('answers 409 taken: engineer with nearby starts where the engineer is free too', async () => {
 		const day = ownDay(15);
-		const engineers = await db.select().from(t.user).where(eq(t.user.role, 'engineer'));
+		const engineers = await db
+			.select()
+			.from(t.member)
+			.where(and(eq(t.member.organizationId, await studioIdOf(db)), eq(t.member.role, 'engineer')));
 		expect(engineers).toHaveLength(1); // the seed's one engineer
 		const a = await signedIn(DEMO.artist);
 		const b = await signedIn(DEMO.artist2);

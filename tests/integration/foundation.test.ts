@@ -85,7 +85,7 @@ describe('sign-in', () => {
 });
 
 describe('sign-up', () => {
-	it('makes an artist, whatever role the body asks for (OWASP ASVS 15.3.3)', async () => {
+	it('makes an artist in no studio team, whatever role the body asks for (OWASP ASVS 15.3.3)', async () => {
 		const email = `new-${Date.now()}@slateroom.test`;
 		const res = await new Client().form('/sign-up', { name: 'Test Band', email, password: 'a-long-enough-pass', role: 'owner' });
 		expect(res.status).toBe(303);
@@ -97,10 +97,12 @@ describe('sign-up', () => {
 			role: 'owner'
 		});
 		expect(viaApi.status).toBe(404);
-		const rows = await db.select({ email: t.user.email, role: t.user.role }).from(t.user).where(eq(t.user.email, email));
-		expect(rows).toEqual([{ email, role: 'artist' }]);
+		const rows = await db.select({ id: t.user.id, email: t.user.email }).from(t.user).where(eq(t.user.email, email));
+		expect(rows.map((r) => r.email)).toEqual([email]);
+		// Roles belong to a studio's team: a new account is in none.
+		expect(await db.select().from(t.member).where(eq(t.member.userId, rows[0]!.id))).toEqual([]);
 		const apiRows = await db
-			.select({ role: t.user.role })
+			.select({ id: t.user.id })
 			.from(t.user)
 			.where(eq(t.user.email, `api-${email}`));
 		expect(apiRows).toEqual([]);
@@ -157,7 +159,6 @@ describe('role zones', () => {
 		const [target] = await db.select().from(t.user).where(eq(t.user.email, DEMO.artist2));
 		const res = await artist.form('/studio/people?/setRole', { userId: target!.id, role: 'owner' });
 		await expectRefusedPage(res, 403, /Your role does not give access/, [DEMO.artist2, target!.id]);
-		const [after] = await db.select().from(t.user).where(eq(t.user.email, DEMO.artist2));
-		expect(after!.role).toBe('artist');
+		expect(await db.select().from(t.member).where(eq(t.member.userId, target!.id))).toEqual([]);
 	});
 });

@@ -49,7 +49,7 @@ async function sqlError(p: Promise<unknown>): Promise<{ code?: string; constrain
 
 async function person(name: string): Promise<string> {
 	const id = crypto.randomUUID();
-	await db.insert(t.user).values({ id, name, email: `${id}@walls.slateroom.test`, role: 'artist' });
+	await db.insert(t.user).values({ id, name, email: `${id}@walls.slateroom.test` });
 	madeUsers.push(id);
 	return id;
 }

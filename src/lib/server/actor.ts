@@ -1,7 +1,7 @@
 // Who changes a studio's data: the person, where from, and the studio they act in. Every staff
 // write takes one, so it can only reach rows of that studio and the audit log says whose it was.
+import { error } from '@sveltejs/kit';
 import type { SessionUser } from './auth';
-import { getStudio } from './studio';
 
 export interface Actor {
 	user: Pick<SessionUser, 'id'>;
@@ -9,8 +9,8 @@ export interface Actor {
 	studioId: string;
 }
 
-/** The actor for a staff member's request: for now in the studio the app serves. */
-export async function staffActor(user: Pick<SessionUser, 'id'>, ip: string | null): Promise<Actor> {
-	const studio = await getStudio();
-	return { user, ip, studioId: studio.id };
+/** The actor for a staff member's request, in the studio they work in now; 403 for anyone outside a team. */
+export function staffActor(locals: App.Locals, ip: string | null): Actor {
+	if (!locals.user || !locals.studio) error(403, { error: 'forbidden', message: 'You are not in a studio’s team.' });
+	return { user: locals.user, ip, studioId: locals.studio.studioId };
 }

@@ -1,4 +1,5 @@
 // Sign-in and sign-up through better-auth's server API, with our own limits, messages and audit.
+import { currentMembership, membershipsOf } from './team';
 import { APIError } from 'better-auth/api';
 import { auth } from './auth';
 import { audit } from './audit';
@@ -30,7 +31,8 @@ export async function signIn(input: { email: string; password: string }, headers
 	try {
 		const result = await auth.api.signInEmail({ body: { email: input.email, password: input.password }, headers });
 		await recordSignInSuccess(ip, input.email);
-		const role = (result.user as { role?: string }).role ?? 'artist';
+		// Where to land: the role in the studio they work at first, or an artist's home.
+		const role = currentMembership(await membershipsOf(result.user.id), null)?.role ?? 'artist';
 		await audit({ actorId: result.user.id, action: 'auth.sign_in', entity: 'user', entityId: result.user.id, ip });
 		return { ok: true, userId: result.user.id, role };
 	} catch (e) {

@@ -34,12 +34,8 @@ export const auth = betterAuth({
 		maxPasswordLength: 128,
 		autoSignIn: true
 	},
-	user: {
-		additionalFields: {
-			// input: false: a role can never be set from the sign-up body (OWASP ASVS 15.3.3, no mass assignment).
-			role: { type: 'string', required: false, defaultValue: 'artist', input: false }
-		}
-	},
+	// A person has no role of their own: roles belong to a studio's team (src/lib/server/team.ts),
+	// so nothing in a sign-up body can give one (OWASP ASVS 15.3.3, no mass assignment).
 	session: {
 		expiresIn: 60 * 60 * 24 * 14,
 		updateAge: 60 * 60 * 24

@@ -1,11 +1,11 @@
 // The calendar feed: a secret address per person that calendar programs poll (they cannot sign
-// in), giving the studio's sessions as iCalendar (RFC 5545). Engineers and the owner get every
-// session; nobody else has a feed. The address can be replaced, which turns the old one off.
+// in), giving sessions as iCalendar (RFC 5545). Engineers and owners get every session of each
+// studio they work at in that role; nobody else has a feed. The address can be replaced, which turns the old one off.
 import { randomBytes } from 'node:crypto';
 import { and, asc, eq, gte, inArray, lt } from 'drizzle-orm';
 import ical, { ICalCalendarMethod, ICalEventStatus } from 'ical-generator';
 import { db } from './db';
-import { booking, calendarFeed, room, user } from './db/schema';
+import { booking, calendarFeed, member, organization, room, user } from './db/schema';
 import type { Role } from '$lib/roles';
 
 /** Roles that may hold a feed: those who see every session. */
@@ -35,22 +35,29 @@ export async function replaceFeedToken(userId: string): Promise<string> {
 }
 
 /** The feed for a token, or null when the token is unknown or its holder may no longer have one. */
-export async function feedFor(token: string, studioName: string, now = new Date()): Promise<string | null> {
+export async function feedFor(token: string, now = new Date()): Promise<string | null> {
 	if (!/^[A-Za-z0-9_-]{43}$/.test(token)) return null;
-	const [holder] = await db
-		.select({ role: user.role })
+	const studios = await db
+		.select({ id: organization.id, name: organization.name })
 		.from(calendarFeed)
-		.innerJoin(user, eq(user.id, calendarFeed.userId))
-		.where(eq(calendarFeed.token, token));
-	if (!holder || !FEED_ROLES.includes(holder.role as Role)) return null;
+		.innerJoin(member, eq(member.userId, calendarFeed.userId))
+		.innerJoin(organization, eq(organization.id, member.organizationId))
+		.where(and(eq(calendarFeed.token, token), inArray(member.role, FEED_ROLES)));
+	if (!studios.length) return null;
+	const several = studios.length > 1;
 
 	const rows = await db
-		.select({ b: booking, roomName: room.name, artist: user.name })
+		.select({ b: booking, roomName: room.name, artist: user.name, studioName: organization.name })
 		.from(booking)
+		.innerJoin(organization, eq(organization.id, booking.studioId))
 		.innerJoin(room, eq(room.id, booking.roomId))
 		.innerJoin(user, eq(user.id, booking.artistId))
 		.where(
 			and(
+				inArray(
+					booking.studioId,
+					studios.map((s) => s.id)
+				),
 				inArray(booking.status, ['pending', 'confirmed', 'completed', 'cancelled']),
 				gte(booking.startsAt, new Date(now.getTime() - PAST_DAYS * 86_400_000)),
 				lt(booking.startsAt, new Date(now.getTime() + AHEAD_DAYS * 86_400_000))
@@ -68,11 +75,11 @@ export async function feedFor(token: string, studioName: string, now = new Date(
 	const cal = ical({
 		prodId: { company: 'Slateroom', product: 'Sessions', language: 'EN' },
 		method: ICalCalendarMethod.PUBLISH,
-		name: `${studioName}: sessions`,
+		name: several ? 'Slateroom: sessions' : `${studios[0]!.name}: sessions`,
 		// RFC 7986 REFRESH-INTERVAL / X-PUBLISHED-TTL: ask calendar programs to poll every 15 minutes.
 		ttl: 15 * 60
 	});
-	for (const { b, roomName, artist } of rows) {
+	for (const { b, roomName, artist, studioName } of rows) {
 		const engineerName = b.engineerId ? (engineers.get(b.engineerId) ?? 'engineer') : null;
 		cal.createEvent({
 			id: b.id,
@@ -90,7 +97,7 @@ export async function feedFor(token: string, studioName: string, now = new Date(
 			]
 				.filter((x) => x !== null)
 				.join('\n'),
-			location: roomName,
+			location: several ? `${roomName}, ${studioName}` : roomName,
 			// RFC 5545 §3.8.1.11: a cancelled session stays in the feed as CANCELLED, so calendars drop it.
 			status:
 				b.status === 'cancelled'

@@ -1,35 +1,101 @@
-// The studio's people and their roles, as the owner keeps them. Sign-up always makes an artist;
-// only the owner gives other roles, and the last owner cannot give theirs away.
-import { asc, eq, sql } from 'drizzle-orm';
+// A studio's people as its owner keeps them: its team (owners, engineers, accountants) and the
+// artists who have booked there. Signing up gives no role; an owner gives a role in their own
+// studio, or takes someone out of the team (their past sessions stay theirs). A studio always
+// keeps at least one owner.
+import { and, asc, eq, sql } from 'drizzle-orm';
 import { db } from './db';
-import { user } from './db/schema';
+import { booking, member, organization, user } from './db/schema';
 import { audit } from './audit';
-import type { SessionUser } from './auth';
+import type { Actor } from './actor';
+import { roleIn } from './team';
 import type { Role } from '$lib/roles';
 
-/** Everyone with an account, by role and name; for the owner only (null for anyone else). */
-export async function list(actor: SessionUser) {
-	if (actor.role !== 'owner') return null;
-	return db
-		.select({ id: user.id, name: user.name, email: user.email, role: user.role, createdAt: user.createdAt })
-		.from(user)
-		.orderBy(asc(user.role), asc(user.name));
+export interface StudioPerson {
+	id: string;
+	name: string;
+	email: string;
+	role: Role;
+	createdAt: Date;
+}
+
+/** The studio's team and the artists who have booked there, by role and name. */
+export async function list(studioId: string): Promise<StudioPerson[]> {
+	const team = await db
+		.select({ id: user.id, name: user.name, email: user.email, role: member.role, createdAt: user.createdAt })
+		.from(member)
+		.innerJoin(user, eq(user.id, member.userId))
+		.where(eq(member.organizationId, studioId));
+	const inTeam = new Set(team.map((p) => p.id));
+	const artists = await db
+		.selectDistinct({ id: user.id, name: user.name, email: user.email, createdAt: user.createdAt })
+		.from(booking)
+		.innerJoin(user, eq(user.id, booking.artistId))
+		.where(eq(booking.studioId, studioId));
+	const order: Role[] = ['owner', 'engineer', 'accountant', 'artist'];
+	return [
+		...team.map((p) => ({ ...p, role: p.role as Role })),
+		...artists.filter((a) => !inTeam.has(a.id)).map((a) => ({ ...a, role: 'artist' as const }))
+	].sort((x, y) => order.indexOf(x.role) - order.indexOf(y.role) || x.name.localeCompare(y.name));
 }
 
 export type RoleChange = { ok: true; email: string } | { ok: false; status: 403 | 404 | 409; message: string };
 
-/** The owner gives someone a role; recorded in the audit log. */
-export async function setRole(actor: SessionUser, userId: string, role: Role, ip: string | null = null): Promise<RoleChange> {
-	if (actor.role !== 'owner') return { ok: false, status: 403, message: 'Only the owner gives roles.' };
-	if (userId === actor.id && role !== 'owner') {
-		const [{ n } = { n: 0 }] = await db
-			.select({ n: sql<number>`count(*)::int` })
-			.from(user)
-			.where(eq(user.role, 'owner'));
-		if (n <= 1) return { ok: false, status: 409, message: 'You are the only owner: make someone else owner first.' };
+/**
+ * An owner gives someone of their studio's people a role there ('artist' takes them out of the
+ * team); recorded in the audit log.
+ */
+export async function setRole(actor: Actor, userId: string, role: Role): Promise<RoleChange> {
+	if ((await roleIn(actor.studioId, actor.user.id)) !== 'owner') {
+		return { ok: false, status: 403, message: 'Only an owner gives roles.' };
 	}
-	const [updated] = await db.update(user).set({ role }).where(eq(user.id, userId)).returning({ id: user.id, email: user.email });
-	if (!updated) return { ok: false, status: 404, message: 'No such person.' };
-	await audit({ actorId: actor.id, action: 'user.role_changed', entity: 'user', entityId: userId, data: { role }, ip });
-	return { ok: true, email: updated.email };
+	const person = (await list(actor.studioId)).find((p) => p.id === userId);
+	if (!person) return { ok: false, status: 404, message: 'No such person at this studio.' };
+	const outcome = await db.transaction(async (tx) => {
+		// One change to a studio's team at a time, so two owners stepping down at once cannot
+		// leave it with none.
+		await tx.select({ id: organization.id }).from(organization).where(eq(organization.id, actor.studioId)).for('update');
+		const [current] = await tx
+			.select({ role: member.role })
+			.from(member)
+			.where(and(eq(member.organizationId, actor.studioId), eq(member.userId, userId)));
+		const from = (current?.role ?? 'artist') as Role;
+		if (from === role) return { from, changed: false } as const;
+		if (from === 'owner') {
+			const [{ n } = { n: 0 }] = await tx
+				.select({ n: sql<number>`count(*)::int` })
+				.from(member)
+				.where(and(eq(member.organizationId, actor.studioId), eq(member.role, 'owner')));
+			if (n <= 1) return 'last-owner' as const;
+		}
+		if (role === 'artist') {
+			await tx.delete(member).where(and(eq(member.organizationId, actor.studioId), eq(member.userId, userId)));
+		} else {
+			await tx
+				.insert(member)
+				.values({ id: crypto.randomUUID(), organizationId: actor.studioId, userId, role })
+				.onConflictDoUpdate({ target: [member.organizationId, member.userId], set: { role } });
+		}
+		return { from, changed: true } as const;
+	});
+	if (outcome === 'last-owner') {
+		return {
+			ok: false,
+			status: 409,
+			message:
+				userId === actor.user.id
+					? 'You are the only owner: make someone else owner first.'
+					: 'This is the only owner: make someone else owner first.'
+		};
+	}
+	if (!outcome.changed) return { ok: true, email: person.email };
+	await audit({
+		studioId: actor.studioId,
+		actorId: actor.user.id,
+		action: 'member.role_changed',
+		entity: 'user',
+		entityId: userId,
+		data: { from: outcome.from, to: role },
+		ip: actor.ip
+	});
+	return { ok: true, email: person.email };
 }

@@ -3,6 +3,7 @@ import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
 import { organization, room, studio, surchargeRule } from './db/schema';
 import type { RoomRates, StudioPolicy } from '$lib/domain/types';
+import { staffActor } from './actor';
 
 export type StudioRow = typeof studio.$inferSelect;
 export type RoomRow = typeof room.$inferSelect;
@@ -94,4 +95,9 @@ export function publicRoom(row: RoomRow, currency: string) {
 		currency,
 		rates: { hourly: row.hourly, halfDay: row.halfDay, fullDay: row.fullDay }
 	};
+}
+
+/** The studio a staff member works in now (403 for anyone outside a team). */
+export function staffStudio(locals: App.Locals): Promise<StudioRow> {
+	return getStudio(staffActor(locals, null).studioId);
 }

@@ -99,18 +99,16 @@ export async function createHold(
 					})
 					.returning();
 				if (gear.length) {
-					await tx
-						.insert(bookingGear)
-						.values(
-							gear.map((g) => ({
-								studioId: roomRow.studioId,
-								bookingId: row!.id,
-								gearItemId: g.id,
-								hireFee: g.hireFee,
-								startsAt: start,
-								busyUntil
-							}))
-						);
+					await tx.insert(bookingGear).values(
+						gear.map((g) => ({
+							studioId: roomRow.studioId,
+							bookingId: row!.id,
+							gearItemId: g.id,
+							hireFee: g.hireFee,
+							startsAt: start,
+							busyUntil
+						}))
+					);
 				}
 				return row!;
 			});

@@ -1,6 +1,5 @@
 // Tables that better-auth reads and writes (its core schema: user, session, account, verification,
-// and its organization plugin's: organization, member, invitation), plus the role that Slateroom
-// adds to each user. Column names follow better-auth's field names. A studio is an organization;
+// and its organization plugin's: organization, member, invitation). Column names follow better-auth's field names. A studio is an organization;
 // its settings live in the studio table, keyed by the organization's id.
 import { sql } from 'drizzle-orm';
 import { pgTable, text, timestamp, boolean, index, uniqueIndex, check } from 'drizzle-orm/pg-core';
@@ -11,8 +10,6 @@ export const user = pgTable('user', {
 	email: text('email').notNull().unique(),
 	emailVerified: boolean('email_verified').default(false).notNull(),
 	image: text('image'),
-	/** owner | engineer | accountant | artist. Sign-up always makes an artist. */
-	role: text('role').default('artist').notNull(),
 	createdAt: timestamp('created_at', { withTimezone: true }).defaultNow().notNull(),
 	updatedAt: timestamp('updated_at', { withTimezone: true })
 		.defaultNow()

@@ -1,6 +1,6 @@
 import * as bookings from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guard';
-import { getStudio, listRooms } from '$lib/server/studio';
+import { listRooms, staffStudio } from '$lib/server/studio';
 import { BOOKING_STATUSES, holdLapsed, isBookingStatus } from '$lib/domain/lifecycle';
 import { localDayBounds } from '$lib/domain/time';
 import { isCalendarDate } from '$lib/components/booking/choices';
@@ -11,7 +11,7 @@ const validDate = (s: string | null) => (s && isCalendarDate(s) ? s : '');
 
 export const load: PageServerLoad = async ({ locals, url }) => {
 	const owner = requireRole(locals, 'owner');
-	const studio = await getStudio();
+	const studio = await staffStudio(locals);
 	const rooms = await listRooms(studio.id, { includeInactive: true });
 	const tz = studio.timeZone;
 

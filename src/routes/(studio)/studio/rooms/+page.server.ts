@@ -4,7 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/guard';
 import { staffActor } from '$lib/server/actor';
-import { getStudio, listRooms } from '$lib/server/studio';
+import { listRooms, staffStudio } from '$lib/server/studio';
 import { localDateOf } from '$lib/domain/time';
 import * as inventory from '$lib/server/inventory';
 import * as blackouts from '$lib/server/blackouts';
@@ -38,7 +38,7 @@ function emptyGear(currency: string) {
 
 export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
-	const studio = await getStudio();
+	const studio = await staffStudio(locals);
 	const [rooms, gear] = await Promise.all([listRooms(studio.id, { includeInactive: true }), inventory.listGear(studio.id)]);
 	const currency = studio.currency;
 	const blocks = { halfDayMinutes: studio.halfDayMinutes, fullDayMinutes: studio.fullDayMinutes };
@@ -93,11 +93,11 @@ const activeSchema = z.object({ id: z.uuid(), active: z.enum(['true', 'false']) 
 export const actions: Actions = {
 	room: async ({ request, locals, getClientAddress }) => {
 		const user = requireRole(locals, 'owner');
-		const { currency, halfDayMinutes, fullDayMinutes } = await getStudio();
+		const { currency, halfDayMinutes, fullDayMinutes } = await staffStudio(locals);
 		const blocks = { halfDayMinutes, fullDayMinutes };
 		const form = await superValidate<RoomForm, Note>(request, zod4(roomSchema(currency, blocks)));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
-		const actor = await staffActor(user, getClientAddress());
+		const actor = staffActor(locals, getClientAddress());
 		const found = await inventory.updateRoom(actor, form.data.id, roomValuesFrom(form.data, currency));
 		if (!found) return message(form, { kind: 'error', text: 'That room is not here any more.' }, { status: 404 });
 		const odd = blockRateFindings(form.data, blocks, currency).length ? ' Some rates look odd: see the notes beside them.' : '';
@@ -106,10 +106,10 @@ export const actions: Actions = {
 
 	gear: async ({ request, locals, getClientAddress }) => {
 		const user = requireRole(locals, 'owner');
-		const { currency } = await getStudio();
+		const { currency } = await staffStudio(locals);
 		const form = await superValidate<GearForm, Note>(request, zod4(gearSchema(currency)));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
-		const actor = await staffActor(user, getClientAddress());
+		const actor = staffActor(locals, getClientAddress());
 		const values = gearValuesFrom(form.data, currency);
 		if (form.data.id) {
 			const outcome = await inventory.updateGear(actor, form.data.id, values);
@@ -128,7 +128,7 @@ export const actions: Actions = {
 		const user = requireRole(locals, 'owner');
 		const parsed = activeSchema.safeParse(Object.fromEntries((await readFormData(request)) ?? []));
 		if (!parsed.success) return fail(422, { gearActive: { kind: 'error' as const, text: 'Unknown gear.' } });
-		const actor = await staffActor(user, getClientAddress());
+		const actor = staffActor(locals, getClientAddress());
 		const row = await inventory.setGearActive(actor, parsed.data.id, parsed.data.active === 'true');
 		if (!row) return fail(404, { gearActive: { kind: 'error' as const, text: 'That gear is not here any more.' } });
 		return {
@@ -147,7 +147,7 @@ export const actions: Actions = {
 		if (!parsed.success) return fail(422, { blackout: blackoutResult({ values, errors: zodFieldErrors(parsed.error) }) });
 		const { startsOn, reason, confirm } = parsed.data;
 		const endsOn = parsed.data.endsOn || startsOn;
-		const studio = await getStudio();
+		const studio = await staffStudio(locals);
 		const clashes = (await blackouts.confirmedBookingsOn(studio.id, startsOn, endsOn, studio.timeZone)).map((b) => ({
 			...b,
 			startsAt: b.startsAt.toISOString(),
@@ -157,7 +157,7 @@ export const actions: Actions = {
 		if (clashes.length && confirm !== 'yes') {
 			return fail(409, { blackout: blackoutResult({ values, clashes, needsConfirm: true }) });
 		}
-		await blackouts.addBlackout(await staffActor(user, getClientAddress()), { startsOn, endsOn, reason });
+		await blackouts.addBlackout(staffActor(locals, getClientAddress()), { startsOn, endsOn, reason });
 		return { blackout: blackoutResult({ saved: true, values: { startsOn: '', endsOn: '', reason: '' }, clashes }) };
 	},
 
@@ -165,7 +165,7 @@ export const actions: Actions = {
 		const user = requireRole(locals, 'owner');
 		const parsed = z.object({ id: z.uuid() }).safeParse(Object.fromEntries((await readFormData(request)) ?? []));
 		if (!parsed.success) return fail(422, { removed: { error: 'Unknown blackout.' } });
-		const row = await blackouts.removeBlackout(await staffActor(user, getClientAddress()), parsed.data.id);
+		const row = await blackouts.removeBlackout(staffActor(locals, getClientAddress()), parsed.data.id);
 		if (!row) return fail(404, { removed: { error: 'That blackout was already removed.' } });
 		return { removed: { saved: `The blackout from ${row.startsOn} is removed; those days are open again.` } };
 	}

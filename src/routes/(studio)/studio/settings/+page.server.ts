@@ -3,7 +3,7 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireRole } from '$lib/server/guard';
 import { staffActor } from '$lib/server/actor';
-import { getStudio } from '$lib/server/studio';
+import { staffStudio } from '$lib/server/studio';
 import * as settings from '$lib/server/settings';
 import { blockRateFindings, surchargeFindings } from '$lib/schemas/rate-card';
 import {
@@ -39,7 +39,7 @@ function surchargeForm(row: settings.SurchargeRow): SurchargeForm {
 
 export const load: PageServerLoad = async ({ locals }) => {
 	requireRole(locals, 'owner');
-	const studio = await getStudio();
+	const studio = await staffStudio(locals);
 	const surcharges = await settings.listSurcharges(studio.id);
 	const blocks = { halfDayMinutes: studio.halfDayMinutes, fullDayMinutes: studio.fullDayMinutes };
 	const schema = zod4(settingsSchema(studio.currency, blocks));
@@ -58,7 +58,7 @@ export const load: PageServerLoad = async ({ locals }) => {
 export const actions: Actions = {
 	save: async ({ request, locals, getClientAddress }) => {
 		const user = requireRole(locals, 'owner');
-		const { currency, halfDayMinutes, fullDayMinutes } = await getStudio();
+		const { currency, halfDayMinutes, fullDayMinutes } = await staffStudio(locals);
 		const form = await superValidate<SettingsForm, Saved>(
 			request,
 			zod4(settingsSchema(currency, { halfDayMinutes, fullDayMinutes }))
@@ -66,10 +66,7 @@ export const actions: Actions = {
 		if (!form.valid) {
 			return message(form, { kind: 'error', text: 'Nothing was saved: some values need another look.' }, { status: 422 });
 		}
-		const changed = await settings.updatePolicy(
-			await staffActor(user, getClientAddress()),
-			policyValuesFrom(form.data, currency)
-		);
+		const changed = await settings.updatePolicy(staffActor(locals, getClientAddress()), policyValuesFrom(form.data, currency));
 		const odd = blockRateFindings(engineerRates(form.data), { halfDayMinutes, fullDayMinutes }, currency).length > 0;
 		return message(form, {
 			kind: 'saved',
@@ -83,7 +80,7 @@ export const actions: Actions = {
 		const user = requireRole(locals, 'owner');
 		const form = await superValidate<SurchargeForm, Saved>(request, zod4(surchargeSchema));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
-		const actor = await staffActor(user, getClientAddress());
+		const actor = staffActor(locals, getClientAddress());
 		const odd = surchargeFindings(form.data).length ? ' It looks odd: see the note beside it.' : '';
 		if (form.data.id) {
 			const found = await settings.updateSurcharge(actor, form.data.id, surchargeValuesFrom(form.data));

@@ -2,12 +2,10 @@
 // programs poll it on their own. An unknown or replaced address is a plain 404.
 import { error } from '@sveltejs/kit';
 import { feedFor } from '$lib/server/feed';
-import { getStudio } from '$lib/server/studio';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ params }) => {
-	const studio = await getStudio();
-	const body = await feedFor(params.token, studio.name);
+	const body = await feedFor(params.token);
 	if (body === null) error(404, { message: 'No such calendar feed.', error: 'not_found' });
 	return new Response(body, {
 		headers: {
