@@ -7,6 +7,7 @@ import type { InvoiceLineRow, InvoiceRow } from './issue';
 
 const invoice: InvoiceRow = {
 	id: '00000000-0000-4000-8000-000000000001',
+	studioId: '00000000-0000-4000-8000-0000000000aa',
 	series: 'INV',
 	year: 2027,
 	number: 1,
