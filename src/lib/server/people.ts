@@ -2,7 +2,7 @@
 // artists who have booked there. Signing up gives no role; an owner gives a role in their own
 // studio, or takes someone out of the team (their past sessions stay theirs). A studio always
 // keeps at least one owner.
-import { and, asc, eq, sql } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import { db } from './db';
 import { booking, member, organization, user } from './db/schema';
 import { audit } from './audit';

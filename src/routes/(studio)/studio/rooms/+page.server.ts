@@ -92,7 +92,7 @@ const activeSchema = z.object({ id: z.uuid(), active: z.enum(['true', 'false']) 
 
 export const actions: Actions = {
 	room: async ({ request, locals, getClientAddress }) => {
-		const user = requireRole(locals, 'owner');
+		requireRole(locals, 'owner');
 		const { currency, halfDayMinutes, fullDayMinutes } = await staffStudio(locals);
 		const blocks = { halfDayMinutes, fullDayMinutes };
 		const form = await superValidate<RoomForm, Note>(request, zod4(roomSchema(currency, blocks)));
@@ -105,7 +105,7 @@ export const actions: Actions = {
 	},
 
 	gear: async ({ request, locals, getClientAddress }) => {
-		const user = requireRole(locals, 'owner');
+		requireRole(locals, 'owner');
 		const { currency } = await staffStudio(locals);
 		const form = await superValidate<GearForm, Note>(request, zod4(gearSchema(currency)));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
@@ -125,7 +125,7 @@ export const actions: Actions = {
 	},
 
 	gearActive: async ({ request, locals, getClientAddress }) => {
-		const user = requireRole(locals, 'owner');
+		requireRole(locals, 'owner');
 		const parsed = activeSchema.safeParse(Object.fromEntries((await readFormData(request)) ?? []));
 		if (!parsed.success) return fail(422, { gearActive: { kind: 'error' as const, text: 'Unknown gear.' } });
 		const actor = staffActor(locals, getClientAddress());
@@ -140,7 +140,7 @@ export const actions: Actions = {
 	},
 
 	blackout: async ({ request, locals, getClientAddress }) => {
-		const user = requireRole(locals, 'owner');
+		requireRole(locals, 'owner');
 		const raw = Object.fromEntries((await readFormData(request)) ?? []);
 		const values = { startsOn: formText(raw.startsOn), endsOn: formText(raw.endsOn), reason: formText(raw.reason) };
 		const parsed = blackoutSchema.safeParse(raw);
@@ -162,7 +162,7 @@ export const actions: Actions = {
 	},
 
 	removeBlackout: async ({ request, locals, getClientAddress }) => {
-		const user = requireRole(locals, 'owner');
+		requireRole(locals, 'owner');
 		const parsed = z.object({ id: z.uuid() }).safeParse(Object.fromEntries((await readFormData(request)) ?? []));
 		if (!parsed.success) return fail(422, { removed: { error: 'Unknown blackout.' } });
 		const row = await blackouts.removeBlackout(staffActor(locals, getClientAddress()), parsed.data.id);

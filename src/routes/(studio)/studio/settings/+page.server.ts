@@ -57,7 +57,7 @@ export const load: PageServerLoad = async ({ locals }) => {
 
 export const actions: Actions = {
 	save: async ({ request, locals, getClientAddress }) => {
-		const user = requireRole(locals, 'owner');
+		requireRole(locals, 'owner');
 		const { currency, halfDayMinutes, fullDayMinutes } = await staffStudio(locals);
 		const form = await superValidate<SettingsForm, Saved>(
 			request,
@@ -77,7 +77,7 @@ export const actions: Actions = {
 	},
 
 	surcharge: async ({ request, locals, getClientAddress }) => {
-		const user = requireRole(locals, 'owner');
+		requireRole(locals, 'owner');
 		const form = await superValidate<SurchargeForm, Saved>(request, zod4(surchargeSchema));
 		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
 		const actor = staffActor(locals, getClientAddress());
