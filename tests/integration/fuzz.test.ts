@@ -447,7 +447,8 @@ async function footprint() {
 			(select count(*) from blackout)::text as blackout,
 			(select count(*) from surcharge_rule)::text as surcharge_rule,
 			(select md5(string_agg(id::text || name || active::text, ',' order by id)) from room) as room,
-			(select md5(string_agg(id || role, ',' order by id)) from "user") as "user",
+			(select md5(string_agg(id, ',' order by id)) from "user") as "user",
+			(select md5(string_agg(organization_id || user_id || role, ',' order by organization_id, user_id)) from member) as member,
 			(select count(*) from recall_sheet)::text as recall_sheet,
 			(select count(*) from upload)::text as upload,
 			(select updated_at::text from studio limit 1) as studio
