@@ -7,7 +7,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq, inArray, sql } from 'drizzle-orm';
 import { studioIdOf, testDb } from '../support/db';
-import { DATABASE_URL } from '../support/env';
+import { DATABASE_URL, DEMO } from '../support/env';
+import { signedIn } from '../support/http';
 import { createDb } from '../../src/lib/server/db/client';
 import * as t from '../../src/lib/server/db/schema';
 import { issueDocument } from '../../src/lib/server/invoices/issue';
@@ -95,7 +96,8 @@ async function secondStudio(): Promise<string> {
 	return id;
 }
 
-async function furnish(studioId: string, engineer: string): Promise<Studio> {
+/** `open`: whether its room is in use (the demo studio's stays out of its pages). */
+async function furnish(studioId: string, engineer: string, open = false): Promise<Studio> {
 	const [room] = await db
 		.insert(t.room)
 		.values({
@@ -105,7 +107,7 @@ async function furnish(studioId: string, engineer: string): Promise<Studio> {
 			hourly: 1000,
 			halfDay: 3000,
 			fullDay: 5000,
-			active: false
+			active: open
 		})
 		.returning();
 	const [gear] = await db
@@ -130,7 +132,8 @@ beforeAll(async () => {
 	sharedEngineer = await person('Walls engineer');
 	outsider = await person('Walls outsider');
 	a = await furnish(await studioIdOf(db), sharedEngineer);
-	b = await furnish(await secondStudio(), sharedEngineer);
+	// The second studio's room is in use, so its session would show in a day plan that let it.
+	b = await furnish(await secondStudio(), sharedEngineer, true);
 });
 
 afterAll(async () => {
@@ -341,5 +344,49 @@ describe('document numbers per studio (Article 226(2))', () => {
 		} finally {
 			await wide.client.end();
 		}
+	});
+});
+
+describe("a studio's staff see only their studio's day and month", () => {
+	it("leaves the other studio's sessions out of the day plan", async () => {
+		const [own] = await db.select({ reference: t.booking.reference }).from(t.booking).where(eq(t.booking.id, b.booking));
+		const engineer = await signedIn(DEMO.engineer);
+		const res = await engineer.fetch('/api/plan?date=2032-05-04');
+		expect(res.status).toBe(200);
+		const text = await res.text();
+		expect(text).not.toContain(b.booking);
+		expect(text).not.toContain(own!.reference);
+	});
+
+	it("leaves the other studio's documents out of the month", async () => {
+		const series = `M${Array.from(crypto.getRandomValues(new Uint8Array(3)), (x) => String.fromCharCode(65 + (x % 26))).join('')}`;
+		const issuedAt = new Date('2099-03-10T12:00:00Z');
+		const lines = lumpSumLines(500, 'deposit', 'Month wall check (integration test)', [{ rateBp: 2550, weight: 1 }]);
+		const totals = documentTotals(lines, { currency: 'EUR', amountsIncludeVat: true, prepaid: 500 });
+		const issued: Record<string, string> = {};
+		for (const s of [a, b]) {
+			const { invoice } = await db.transaction((tx) =>
+				issueDocument(tx, {
+					studioId: s.id,
+					typeCode: 386,
+					series,
+					issuedAt,
+					timeZone: 'Europe/Helsinki',
+					supplyDate: '2099-03-10',
+					supplier: { name: 'Walls check', addressLines: [] },
+					customer: { name: 'Walls check', addressLines: [] },
+					bookingId: null,
+					totals
+				})
+			);
+			issued[s.id] = invoice.id;
+		}
+		const accountant = await signedIn(DEMO.accountant);
+		const res = await accountant.fetch('/api/invoices?month=2099-03');
+		expect(res.status).toBe(200);
+		const report = (await res.json()) as { documents: { id: string; number: string }[] };
+		const ids = report.documents.map((d) => d.id);
+		expect(ids).toContain(issued[a.id]);
+		expect(ids).not.toContain(issued[b.id]);
 	});
 });

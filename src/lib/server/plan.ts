@@ -16,8 +16,8 @@ export function isPlanDate(date: string): boolean {
 	return isStudioDate(date);
 }
 
-export async function todayInStudio(): Promise<string> {
-	const studio = await getStudio();
+export async function todayInStudio(studioId: string): Promise<string> {
+	const studio = await getStudio(studioId);
 	return localDateOf(new Date(), studio.timeZone);
 }
 
@@ -44,14 +44,19 @@ export interface DayPlan {
 	conflicts: { gear: string; bookings: string[] }[];
 }
 
-export async function dayPlan(date: string): Promise<DayPlan> {
-	const studio = await getStudio();
+/** A studio's day: its rooms, the sessions in them, their gear, recall sheets and files. */
+export async function dayPlan(studioId: string, date: string): Promise<DayPlan> {
+	const studio = await getStudio(studioId);
 	const tz = studio.timeZone;
 	const { start: dayStart, end: dayEnd } = localDayBounds(date, tz);
 	const engineer = user;
 
 	const [rooms, sessions] = await Promise.all([
-		db.select().from(room).where(eq(room.active, true)).orderBy(asc(room.sortOrder)),
+		db
+			.select()
+			.from(room)
+			.where(and(eq(room.studioId, studioId), eq(room.active, true)))
+			.orderBy(asc(room.sortOrder)),
 		db
 			.select({
 				id: booking.id,
@@ -69,7 +74,14 @@ export async function dayPlan(date: string): Promise<DayPlan> {
 			})
 			.from(booking)
 			.innerJoin(user, eq(user.id, booking.artistId))
-			.where(and(lt(booking.startsAt, dayEnd), gt(booking.endsAt, dayStart), inArray(booking.status, [...PLAN_STATUSES])))
+			.where(
+				and(
+					eq(booking.studioId, studioId),
+					lt(booking.startsAt, dayEnd),
+					gt(booking.endsAt, dayStart),
+					inArray(booking.status, [...PLAN_STATUSES])
+				)
+			)
 			.orderBy(asc(booking.startsAt))
 	]);
 	const ids = sessions.map((s) => s.id);

@@ -107,31 +107,43 @@ function refundRow(x: RefundWithBooking): MonthReport['refunds'][number] {
 }
 
 /** Failed refunds not yet tried again, whatever their month: to resolve (the month report and the studio desk). */
-export async function unresolvedFailedRefunds(): Promise<MonthReport['failedRefunds']> {
+export async function unresolvedFailedRefunds(studioId: string): Promise<MonthReport['failedRefunds']> {
 	const rows = await db
 		.select({ r: refund, reference: booking.reference, artist: user.name })
 		.from(refund)
 		.innerJoin(booking, eq(booking.id, refund.bookingId))
 		.innerJoin(user, eq(user.id, booking.artistId))
-		.where(inArray(refund.bookingId, db.select({ id: refund.bookingId }).from(refund).where(eq(refund.status, 'failed'))));
+		.where(
+			and(
+				eq(refund.studioId, studioId),
+				inArray(
+					refund.bookingId,
+					db
+						.select({ id: refund.bookingId })
+						.from(refund)
+						.where(and(eq(refund.studioId, studioId), eq(refund.status, 'failed')))
+				)
+			)
+		);
 	const unresolved = new Set(unresolvedFailures(rows.map((x) => x.r)).map((r) => r.id));
 	return rows.filter((x) => unresolved.has(x.r.id)).map(refundRow);
 }
 
 /** Final invoices issued before `to` whose balance is not paid (as of now). */
-export async function outstandingBalances(to: Date): Promise<MonthReport['outstanding']> {
+export async function outstandingBalances(studioId: string, to: Date): Promise<MonthReport['outstanding']> {
 	const finals = await db
 		.select({ doc: invoice, reference: booking.reference, artist: user.name })
 		.from(invoice)
 		.innerJoin(booking, eq(booking.id, invoice.bookingId))
 		.innerJoin(user, eq(user.id, booking.artistId))
-		.where(and(eq(invoice.typeCode, 380), lt(invoice.issuedAt, to)));
+		.where(and(eq(invoice.studioId, studioId), eq(invoice.typeCode, 380), lt(invoice.issuedAt, to)));
 	const balancePaid = finals.length
 		? await db
 				.select({ bookingId: payment.bookingId, amount: payment.amount })
 				.from(payment)
 				.where(
 					and(
+						eq(payment.studioId, studioId),
 						eq(payment.kind, 'balance'),
 						eq(payment.status, 'paid'),
 						inArray(
@@ -158,31 +170,32 @@ export async function outstandingBalances(to: Date): Promise<MonthReport['outsta
 		.filter((o) => o.owed > 0);
 }
 
-export async function monthReport(month: string, timeZone: string, currency: string): Promise<MonthReport> {
+/** A studio's month: its documents, payments and refunds, and what is still to resolve. */
+export async function monthReport(studioId: string, month: string, timeZone: string, currency: string): Promise<MonthReport> {
 	const { from, to } = monthRange(month, timeZone);
 	const [docs, paid, refunds, failedRefunds, outstanding] = await Promise.all([
 		db
 			.select({ doc: invoice, reference: booking.reference })
 			.from(invoice)
 			.leftJoin(booking, eq(booking.id, invoice.bookingId))
-			.where(and(gte(invoice.issuedAt, from), lt(invoice.issuedAt, to)))
+			.where(and(eq(invoice.studioId, studioId), gte(invoice.issuedAt, from), lt(invoice.issuedAt, to)))
 			.orderBy(asc(invoice.issuedAt), asc(invoice.displayNumber)),
 		db
 			.select({ p: payment, reference: booking.reference, artist: user.name })
 			.from(payment)
 			.innerJoin(booking, eq(booking.id, payment.bookingId))
 			.innerJoin(user, eq(user.id, booking.artistId))
-			.where(and(eq(payment.status, 'paid'), gte(payment.paidAt, from), lt(payment.paidAt, to)))
+			.where(and(eq(payment.studioId, studioId), eq(payment.status, 'paid'), gte(payment.paidAt, from), lt(payment.paidAt, to)))
 			.orderBy(asc(payment.paidAt)),
 		db
 			.select({ r: refund, reference: booking.reference, artist: user.name })
 			.from(refund)
 			.innerJoin(booking, eq(booking.id, refund.bookingId))
 			.innerJoin(user, eq(user.id, booking.artistId))
-			.where(and(gte(refund.createdAt, from), lt(refund.createdAt, to)))
+			.where(and(eq(refund.studioId, studioId), gte(refund.createdAt, from), lt(refund.createdAt, to)))
 			.orderBy(asc(refund.createdAt)),
-		unresolvedFailedRefunds(),
-		outstandingBalances(to)
+		unresolvedFailedRefunds(studioId),
+		outstandingBalances(studioId, to)
 	]);
 	const byId = new Map(docs.map((d) => [d.doc.id, d.doc.displayNumber]));
 	const precedingIds = docs.map((d) => d.doc.precedingInvoiceId).filter((x): x is string => !!x && !byId.has(x));
@@ -190,7 +203,7 @@ export async function monthReport(month: string, timeZone: string, currency: str
 		for (const p of await db
 			.select({ id: invoice.id, n: invoice.displayNumber })
 			.from(invoice)
-			.where(inArray(invoice.id, precedingIds)))
+			.where(and(eq(invoice.studioId, studioId), inArray(invoice.id, precedingIds))))
 			byId.set(p.id, p.n);
 	}
 

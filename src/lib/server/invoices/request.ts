@@ -11,7 +11,10 @@ export async function accountsRequest(locals: App.Locals, url: URL): Promise<Acc
 	if (locals.user.role !== 'accountant' && locals.user.role !== 'owner') {
 		return { ok: false, response: apiError(403, 'forbidden', 'The accounts are for the accountant and the owner.') };
 	}
-	const studio = await getStudio();
+	// The accounts of the studio they keep them for (a role of accountant or owner is a membership).
+	if (!locals.studio)
+		return { ok: false, response: apiError(403, 'forbidden', 'The accounts are for the accountant and the owner.') };
+	const studio = await getStudio(locals.studio.studioId);
 	const month = url.searchParams.get('month') ?? currentMonth(studio.timeZone);
 	return { ok: true, studio, month, user: locals.user };
 }

@@ -10,6 +10,6 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	const month = url.searchParams.get('month') ?? currentMonth(studio.timeZone);
 	if (!MONTH_PATTERN.test(month)) error(400, { message: 'Use a month such as 2027-03.' });
 	const { prev, next } = monthRange(month, studio.timeZone);
-	const report = await monthReport(month, studio.timeZone, studio.currency);
+	const report = await monthReport(studio.id, month, studio.timeZone, studio.currency);
 	return { ...report, prev, next };
 };

@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { requireRole } from '$lib/server/guard';
 import { dayPlan, isPlanDate, saveRecall, todayInStudio } from '$lib/server/plan';
 import { audit } from '$lib/server/audit';
+import { staffActor } from '$lib/server/actor';
 import { feedTokenOf, replaceFeedToken } from '$lib/server/feed';
 import type { RecallChannel } from '$lib/server/db/schema';
 import { CONTROL_CHARS_MESSAGE, DATE_MESSAGE, dateProblem, hasControlChars, lineText, multilineText } from '$lib/schemas/input';
@@ -12,9 +13,10 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
 	const me = requireRole(locals, 'owner', 'engineer');
-	const date = url.searchParams.get('date') ?? (await todayInStudio());
+	const { studioId } = staffActor(locals, null);
+	const date = url.searchParams.get('date') ?? (await todayInStudio(studioId));
 	if (!isPlanDate(date)) error(400, { message: dateProblem(date) ?? DATE_MESSAGE });
-	const [plan, feedToken] = await Promise.all([dayPlan(date), feedTokenOf(me.id)]);
+	const [plan, feedToken] = await Promise.all([dayPlan(studioId, date), feedTokenOf(me.id)]);
 	return {
 		plan,
 		feedUrl: feedToken ? `${url.origin}/feed/${feedToken}/sessions.ics` : null,

@@ -10,7 +10,7 @@ export const GET: RequestHandler = async ({ locals, url }) => {
 	const req = await accountsRequest(locals, url);
 	if (!req.ok) return req.response;
 	if (!isMonth(req.month)) return apiError(422, 'invalid', MONTH_MESSAGE, { fields: { month: [MONTH_MESSAGE] } });
-	return json(await monthReport(req.month, req.studio.timeZone, req.studio.currency), {
+	return json(await monthReport(req.studio.id, req.month, req.studio.timeZone, req.studio.currency), {
 		headers: { 'cache-control': 'private, no-store' }
 	});
 };

@@ -22,7 +22,7 @@ export const GET: RequestHandler = async ({ locals, url }) => {
 	if (!(REGISTERS as readonly string[]).includes(register)) fields.register = [`Choose one of: ${REGISTERS.join(', ')}.`];
 	if (Object.keys(fields).length) return apiError(422, 'invalid', 'Some of the export’s settings are not valid.', { fields });
 
-	const report = await monthReport(month, studio.timeZone, studio.currency);
+	const report = await monthReport(studio.id, month, studio.timeZone, studio.currency);
 	const headers = { 'cache-control': 'private, no-store', 'x-content-type-options': 'nosniff' };
 	if (format === 'zip' || format === 'ubl') {
 		const zip = await monthArchive(report, studio.timeZone, user, format === 'ubl' ? 'ubl' : 'all');
