@@ -1,7 +1,7 @@
 // A studio's team: who works there and as what. Roles belong to a studio (better-auth's
 // organization members): one person can be the engineer of one studio and an artist at another.
 // Anyone signed in without a membership is an artist.
-import { and, asc, eq, sql } from 'drizzle-orm';
+import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
 import { member, organization, STAFF_ROLES, type StaffRole } from './db/schema';
 
@@ -37,13 +37,4 @@ export async function roleIn(studioId: string, userId: string): Promise<StaffRol
 		.from(member)
 		.where(and(eq(member.organizationId, studioId), eq(member.userId, userId)));
 	return row && isStaffRole(row.role) ? row.role : null;
-}
-
-/** How many owners a studio has. */
-export async function ownerCount(studioId: string): Promise<number> {
-	const [{ n } = { n: 0 }] = await db
-		.select({ n: sql<number>`count(*)::int` })
-		.from(member)
-		.where(and(eq(member.organizationId, studioId), eq(member.role, 'owner')));
-	return n;
 }
