@@ -3,7 +3,7 @@
 // Anyone signed in without a membership is an artist.
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
-import { member, organization, STAFF_ROLES, type StaffRole } from './db/schema';
+import { member, organization, session, STAFF_ROLES, type StaffRole } from './db/schema';
 
 export interface Membership {
 	studioId: string;
@@ -37,4 +37,12 @@ export async function roleIn(studioId: string, userId: string): Promise<StaffRol
 		.from(member)
 		.where(and(eq(member.organizationId, studioId), eq(member.userId, userId)));
 	return row && isStaffRole(row.role) ? row.role : null;
+}
+
+/**
+ * Makes a studio the one a signed-in session works in (the organization plugin's active
+ * organization, kept on the session row). The caller has checked the person is in its team.
+ */
+export async function setActiveStudio(sessionId: string, studioId: string): Promise<void> {
+	await db.update(session).set({ activeOrganizationId: studioId }).where(eq(session.id, sessionId));
 }
