@@ -5,7 +5,7 @@
 // studio's team, and each studio numbers its documents in its own gapless series (Directive
 // 2006/112/EC, Article 226(2)).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { eq, inArray, sql } from 'drizzle-orm';
+import { and, eq, inArray, sql } from 'drizzle-orm';
 import { studioIdOf, testDb } from '../support/db';
 import { DATABASE_URL, DEMO } from '../support/env';
 import { signedIn } from '../support/http';
@@ -356,6 +356,29 @@ describe("a studio's staff see only their studio's day and month", () => {
 		const text = await res.text();
 		expect(text).not.toContain(b.booking);
 		expect(text).not.toContain(own!.reference);
+	});
+
+	it("keeps the other studio's recall notes out of the day plan, though the artist is the same", async () => {
+		// The artist's earlier session at B has a recall sheet; their later session at A does not.
+		const notes = `B's recall ${crypto.randomUUID().slice(0, 8)}`;
+		await db.insert(t.recallSheet).values({ studioId: b.id, bookingId: b.booking, artistId: artist, notes });
+		const [demoRoom] = await db
+			.select({ id: t.room.id })
+			.from(t.room)
+			.where(and(eq(t.room.studioId, a.id), eq(t.room.active, true)))
+			.limit(1);
+		const later = await book(a.id, demoRoom!.id, '14:00', '15:00');
+		const [own] = await db.select({ reference: t.booking.reference }).from(t.booking).where(eq(t.booking.id, later));
+		try {
+			const engineer = await signedIn(DEMO.engineer);
+			const res = await engineer.fetch('/api/plan?date=2032-05-04');
+			expect(res.status).toBe(200);
+			const text = await res.text();
+			expect(text).toContain(own!.reference);
+			expect(text).not.toContain(notes);
+		} finally {
+			await db.delete(t.recallSheet).where(eq(t.recallSheet.bookingId, b.booking));
+		}
 	});
 
 	it("leaves the other studio's documents out of the month", async () => {

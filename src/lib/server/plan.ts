@@ -5,6 +5,7 @@ import { and, asc, desc, eq, gt, inArray, lt, ne } from 'drizzle-orm';
 import { db } from './db';
 import { booking, bookingGear, gearItem, recallSheet, room, user, type RecallChannel } from './db/schema';
 import { getStudio } from './studio';
+import type { Actor } from './actor';
 import { isoInZone, localDateOf, localDayBounds } from '$lib/domain/time';
 import { summariesFor } from './uploads';
 import { isStudioDate } from '$lib/schemas/input';
@@ -125,7 +126,7 @@ export async function dayPlan(studioId: string, date: string): Promise<DayPlan> 
 		}
 	}
 
-	const previous = await Promise.all(sessions.map((s) => previousRecall(s.artistId, s.id, s.startsAt)));
+	const previous = await Promise.all(sessions.map((s) => previousRecall(studioId, s.artistId, s.id, s.startsAt)));
 
 	const planSessions = sessions.map((s, i): PlanSession & { roomId: string } => {
 		const own = ownSheets.find((r) => r.bookingId === s.id);
@@ -172,8 +173,11 @@ export async function dayPlan(studioId: string, date: string): Promise<DayPlan> 
 	};
 }
 
-/** The recall sheet of the artist's most recent earlier session, to rebuild the sound. */
-async function previousRecall(artistId: string, bookingId: string, before: Date) {
+/**
+ * The recall sheet of the artist's most recent earlier session at this studio, to rebuild the
+ * sound. Another studio's notes are that studio's work, and stay there.
+ */
+async function previousRecall(studioId: string, artistId: string, bookingId: string, before: Date) {
 	const [row] = await db
 		.select({
 			reference: booking.reference,
@@ -183,22 +187,33 @@ async function previousRecall(artistId: string, bookingId: string, before: Date)
 		})
 		.from(recallSheet)
 		.innerJoin(booking, eq(booking.id, recallSheet.bookingId))
-		.where(and(eq(recallSheet.artistId, artistId), ne(recallSheet.bookingId, bookingId), lt(booking.startsAt, before)))
+		.where(
+			and(
+				eq(recallSheet.studioId, studioId),
+				eq(recallSheet.artistId, artistId),
+				ne(recallSheet.bookingId, bookingId),
+				lt(booking.startsAt, before)
+			)
+		)
 		.orderBy(desc(booking.startsAt))
 		.limit(1);
 	return row;
 }
 
-/** Writes (or rewrites) the recall sheet of a session. Engineers and the owner only. */
-export async function saveRecall(bookingId: string, authorId: string, channels: RecallChannel[], notes: string) {
+/**
+ * Writes (or rewrites) the recall sheet of a session of the actor's studio (its engineers and
+ * owner; the route checks the role). A session of another studio is unknown here: false.
+ */
+export async function saveRecall(actor: Actor, bookingId: string, channels: RecallChannel[], notes: string) {
 	const [b] = await db
-		.select({ studioId: booking.studioId, artistId: booking.artistId })
+		.select({ artistId: booking.artistId })
 		.from(booking)
-		.where(eq(booking.id, bookingId));
+		.where(and(eq(booking.studioId, actor.studioId), eq(booking.id, bookingId)));
 	if (!b) return false;
+	const authorId = actor.user.id;
 	await db
 		.insert(recallSheet)
-		.values({ studioId: b.studioId, bookingId, artistId: b.artistId, authorId, channels, notes })
+		.values({ studioId: actor.studioId, bookingId, artistId: b.artistId, authorId, channels, notes })
 		.onConflictDoUpdate({ target: recallSheet.bookingId, set: { channels, notes, authorId, updatedAt: new Date() } });
 	return true;
 }

@@ -76,7 +76,8 @@ export const actions: Actions = {
 		}
 		const notes = formText(form.get('notes')).slice(0, 4000);
 		if (hasControlChars(notes, true)) return fail(422, { bookingId, error: `Notes: ${CONTROL_CHARS_MESSAGE}` });
-		if (!(await saveRecall(bookingId, me.id, channels, notes))) return fail(404, { bookingId, error: 'Unknown session.' });
+		if (!(await saveRecall(staffActor(locals, getClientAddress()), bookingId, channels, notes)))
+			return fail(404, { bookingId, error: 'Unknown session.' });
 		await audit({ actorId: me.id, action: 'recall.saved', entity: 'booking', entityId: bookingId, ip: getClientAddress() });
 		return { bookingId, saved: true };
 	}
