@@ -126,6 +126,13 @@ export async function studioBySlug(slug: string, memberships: readonly Membershi
 	return { studio: row.studio, slug: row.slug, membership };
 }
 
+/** A studio's short name (its storefront's first path segment). */
+export async function slugOf(studioId: string): Promise<string> {
+	const [row] = await db.select({ slug: organization.slug }).from(organization).where(eq(organization.id, studioId));
+	if (!row) throw new Error(`studio ${studioId} has no organization`);
+	return row.slug;
+}
+
 /** The studio a booking belongs to, with its short name (the booking's own, never the viewer's). */
 export async function studioOfBooking(bookingId: string): Promise<{ studio: StudioRow; slug: string }> {
 	const [row] = await db
