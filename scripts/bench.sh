@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# npm run bench: request rates and latencies of GET /api/availability (a month) and GET /api/health
+# npm run bench: request rates and latencies of GET /api/studios/hollow-pine/availability (a month) and GET /api/health
 # against the production build on loopback, with a year of seeded bookings. Prints figures; it is
 # not a test and asserts nothing.
 source "$(dirname "$0")/lib.sh"

@@ -1,4 +1,4 @@
-// Measures GET /api/availability over a month and GET /api/health in one run and prints the figures.
+// Measures GET /api/studios/hollow-pine/availability over a month and GET /api/health in one run and prints the figures.
 import autocannon from 'autocannon';
 
 const base = process.env.ORIGIN ?? 'http://127.0.0.1:3200';
@@ -15,9 +15,9 @@ async function run(title: string, path: string) {
 	return { title, rps: result.requests.average, p50: result.latency.p50, p99: result.latency.p99, non2xx };
 }
 
-const month = `/api/availability?room=live-room&from=${ymd(7)}&to=${ymd(37)}`;
+const month = `/api/studios/hollow-pine/availability?room=live-room&from=${ymd(7)}&to=${ymd(37)}`;
 await run('warm-up', month);
-const availability = await run('GET /api/availability (31 days)', month);
+const availability = await run('GET /api/studios/hollow-pine/availability (31 days)', month);
 const health = await run('GET /api/health', '/api/health');
 
 console.log(`\n${seconds} s each, ${connections} connections, production build on loopback, a year of bookings\n`);

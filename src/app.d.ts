@@ -25,6 +25,10 @@ declare global {
 		/** What the root layout gives every page (absent on an error page the layout could not load). */
 		interface PageData {
 			user?: { name: string; email: string; role: Role } | null;
+			/** The studio the page shows (a storefront's own, else the root layout's). */
+			studio?: { name: string; timeZone: string; currency: string; locale: string };
+			/** Set inside a studio's storefront (/SLUG/…) by its layout. */
+			storefront?: { id: string; slug: string; published: boolean };
 		}
 	}
 }

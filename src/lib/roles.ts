@@ -1,4 +1,5 @@
 // The four roles and what each may do. Shared by server guards and navigation.
+import { studioPath } from './studio-paths';
 export const ROLES = ['owner', 'engineer', 'accountant', 'artist'] as const;
 export type Role = (typeof ROLES)[number];
 
@@ -26,11 +27,19 @@ export interface NavItem {
 	label: string;
 }
 
-export function navigationFor(role: Role | null): NavItem[] {
-	const common: NavItem[] = [
-		{ href: '/rooms', label: 'Rooms & rates' },
-		{ href: '/calendar', label: 'Calendar' }
-	];
+/**
+ * The site's menu for a role. `studio` is the short name of the studio whose storefront the page
+ * is in: its rooms, calendar and booking page are offered there only, never on the platform's
+ * own pages (which studio would they be?).
+ */
+export function navigationFor(role: Role | null, studio: string | null = null): NavItem[] {
+	const common: NavItem[] = studio
+		? [
+				{ href: studioPath(studio, 'rooms'), label: 'Rooms & rates' },
+				{ href: studioPath(studio, 'calendar'), label: 'Calendar' }
+			]
+		: [];
+	const book: NavItem[] = studio ? [{ href: studioPath(studio, 'book'), label: 'Book a session' }] : [];
 	switch (role) {
 		case 'owner':
 			return [
@@ -47,9 +56,9 @@ export function navigationFor(role: Role | null): NavItem[] {
 		case 'accountant':
 			return [{ href: '/accounts', label: 'Accounts' }];
 		case 'artist':
-			return [{ href: '/book', label: 'Book a session' }, { href: '/bookings', label: 'My bookings' }, ...common];
+			return [...book, { href: '/bookings', label: 'My bookings' }, ...common];
 		default:
-			return [...common, { href: '/book', label: 'Book a session' }];
+			return [...common, ...book];
 	}
 }
 

@@ -37,7 +37,7 @@ const TURNAROUND_MS = 30 * 60_000;
 async function freeLiveRoomMorning(request: APIRequestContext, fromDays: number): Promise<string> {
 	for (let day = addDays(studioToday(), fromDays), tried = 0; tried < 60; day = addDays(day, 1), tried++) {
 		if (!isWorkday(day)) continue;
-		const res = await request.get(`/api/availability?room=live-room&from=${day}&to=${day}`);
+		const res = await request.get(`/api/studios/hollow-pine/availability?room=live-room&from=${day}&to=${day}`);
 		expect(res.status()).toBe(200);
 		const body = (await res.json()) as { busy: { start: string; end: string }[]; open: { start: string; end: string }[] };
 		const start = studioInstant(day, '10:00');
@@ -59,7 +59,7 @@ async function listSettled(page: Page) {
 
 test('an anonymous visitor sees the price of a half day and is asked to sign in to book', async ({ page, request }) => {
 	const date = await freeLiveRoomMorning(request, 10);
-	await page.goto(`/book?room=live-room&date=${date}&start=10:00&kind=half&engineer=1`);
+	await page.goto(`/hollow-pine/book?room=live-room&date=${date}&start=10:00&kind=half&engineer=1`);
 	const quote = page.getByTestId('quote');
 	await expect(quote.getByTestId('price-line').filter({ hasText: 'Live room, half day' })).toContainText('€160.00');
 	await expect(quote.getByTestId('price-line').filter({ hasText: 'Engineer, half day' })).toContainText('€120.00');
@@ -78,7 +78,7 @@ test('an anonymous visitor sees the price of a half day and is asked to sign in 
 
 test('a start in the past gets a clear message and keeps the choices', async ({ page }) => {
 	const past = addDays(studioToday(), -3);
-	await page.goto(`/book?room=live-room&date=${past}&start=10:00&kind=half`);
+	await page.goto(`/hollow-pine/book?room=live-room&date=${past}&start=10:00&kind=half`);
 	await expect(page.getByTestId('quote-problem')).toContainText('notice');
 	await expect(page.locator('#field-start-error')).toContainText('notice');
 	await expect(page.getByTestId('quote-total')).toHaveCount(0);
@@ -88,7 +88,7 @@ test('a start in the past gets a clear message and keeps the choices', async ({ 
 
 test('field errors land in live regions that were in the page before, tied to their fields', async ({ page, request }) => {
 	const date = await freeLiveRoomMorning(request, 10);
-	await page.goto(`/book?room=live-room&date=${date}&start=10:00&kind=half`);
+	await page.goto(`/hollow-pine/book?room=live-room&date=${date}&start=10:00&kind=half`);
 	await expect(page.getByTestId('quote').getByTestId('price-line').first()).toBeVisible();
 	const region = page.locator('#field-start-error');
 	const start = page.locator('#field-start');
@@ -117,7 +117,7 @@ test('field errors land in live regions that were in the page before, tied to th
 });
 
 test('a date that is not on the calendar is said so beside the date field', async ({ page }) => {
-	await page.goto('/book?room=live-room&date=2027-02-31&start=10:00&kind=half');
+	await page.goto('/hollow-pine/book?room=live-room&date=2027-02-31&start=10:00&kind=half');
 	await expect(page.locator('#field-date-error')).toContainText('There is no 2027-02-31 on the calendar');
 	await expect(page.locator('#field-date')).toHaveAttribute('aria-invalid', 'true');
 	await expect(page.locator('#field-date')).toHaveAttribute('aria-describedby', /\bfield-date-error\b/);
@@ -132,7 +132,7 @@ test('an artist books a half day with an engineer from the calendar, and the slo
 	let target = addDays(studioToday(), 20);
 
 	// 1. The public calendar, the live room, the target's week via the date field.
-	await page.goto('/calendar');
+	await page.goto('/hollow-pine/calendar');
 	await calendarReady(page);
 	const liveRoom = page.getByRole('navigation', { name: 'Rooms' }).getByRole('link', { name: 'Live room', exact: true });
 	await liveRoom.click();
@@ -169,7 +169,7 @@ test('an artist books a half day with an engineer from the calendar, and the slo
 	const { date } = chosen!;
 
 	// 3. The booking page, with the window's start filled in; a half day from 10:00 with an engineer.
-	await expect(page).toHaveURL(new RegExp(`/book\\?.*room=live-room.*date=${date}`));
+	await expect(page).toHaveURL(new RegExp(`/hollow-pine/book\\?.*room=live-room.*date=${date}`));
 	await page.getByLabel('Half day (4 h)').check();
 	await page.getByLabel('Start').selectOption('10:00');
 	await page.getByLabel('Book an engineer for the session').check();
@@ -185,7 +185,7 @@ test('an artist books a half day with an engineer from the calendar, and the slo
 	await page.getByLabel('E-mail').fill(ARTIST);
 	await page.getByLabel('Password').fill(DEMO_PASSWORD);
 	await page.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page).toHaveURL(/\/book\?/);
+	await expect(page).toHaveURL(/\/hollow-pine\/book\?/);
 	await expect(page.getByTestId('signed-in-as')).toBeVisible();
 	await expect(page.getByRole('radio', { name: /Live room/ })).toBeChecked();
 	await expect(page.getByLabel('Half day (4 h)')).toBeChecked();
@@ -220,7 +220,7 @@ test('an artist books a half day with an engineer from the calendar, and the slo
 	// 6. Anyone else now sees that morning booked, with no name, and no free window over it.
 	const other = await newContext(browser);
 	const visitor = await other.newPage();
-	await visitor.goto(`/calendar?room=live-room&date=${date}`);
+	await visitor.goto(`/hollow-pine/calendar?room=live-room&date=${date}`);
 	await calendarReady(visitor);
 	await listSettled(visitor);
 	const day = visitor.locator(`[data-testid="calendar-day"][data-date="${date}"]`);

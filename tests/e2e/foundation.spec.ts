@@ -1,7 +1,7 @@
 import { signIn, expect, test } from './support';
 
 test('the storefront shows the studio, its three rooms and their rates', async ({ page }) => {
-	await page.goto('/');
+	await page.goto('/hollow-pine');
 	await expect(page.getByRole('heading', { level: 1, name: 'Hollow Pine Studio' })).toBeVisible();
 	const card = (slug: string) => page.locator(`[data-testid="rate-card"][data-room="${slug}"]`);
 	await expect(card('live-room')).toContainText('Live room');
@@ -12,12 +12,29 @@ test('the storefront shows the studio, its three rooms and their rates', async (
 	await expect(card('control-room')).toContainText('€260.00');
 });
 
-const roles = [
-	{ email: 'owner@slateroom.test', lands: '/studio', nav: ['Studio desk', 'All bookings', 'People', 'Accounts'] },
-	{ email: 'engineer@slateroom.test', lands: '/plan', nav: ['Day plan', 'Calendar'] },
-	{ email: 'accountant@slateroom.test', lands: '/accounts', nav: ['Accounts'] },
-	{ email: 'artist@slateroom.test', lands: '/bookings', nav: ['Book a session', 'My bookings'] },
-	{ email: 'artist2@slateroom.test', lands: '/bookings', nav: ['Book a session', 'My bookings'] }
+// `nav`: the menu where they land (a page of the platform, no studio's rooms or calendar);
+// `storefront`: the links the menu adds inside the demo studio's storefront, to its own pages.
+const roles: { email: string; lands: string; nav: string[]; storefront: Record<string, string> }[] = [
+	{ email: 'owner@slateroom.test', lands: '/studio', nav: ['Studio desk', 'All bookings', 'People', 'Accounts'], storefront: {} },
+	{
+		email: 'engineer@slateroom.test',
+		lands: '/plan',
+		nav: ['Day plan'],
+		storefront: { 'Rooms & rates': '/hollow-pine/rooms', Calendar: '/hollow-pine/calendar' }
+	},
+	{ email: 'accountant@slateroom.test', lands: '/accounts', nav: ['Accounts'], storefront: {} },
+	{
+		email: 'artist@slateroom.test',
+		lands: '/bookings',
+		nav: ['My bookings'],
+		storefront: { 'Book a session': '/hollow-pine/book', Calendar: '/hollow-pine/calendar' }
+	},
+	{
+		email: 'artist2@slateroom.test',
+		lands: '/bookings',
+		nav: ['My bookings'],
+		storefront: { 'Book a session': '/hollow-pine/book' }
+	}
 ];
 
 for (const r of roles) {
@@ -27,8 +44,30 @@ for (const r of roles) {
 		const nav = page.getByRole('navigation', { name: 'Main' });
 		for (const label of r.nav) await expect(nav.getByRole('link', { name: label })).toBeVisible();
 		if (!r.email.startsWith('owner')) await expect(nav.getByRole('link', { name: 'People' })).toHaveCount(0);
+		await expect(nav.getByRole('link', { name: 'Calendar' })).toHaveCount(0);
+		await page.goto('/hollow-pine');
+		for (const [label, href] of Object.entries(r.storefront)) {
+			await expect(nav.getByRole('link', { name: label })).toHaveAttribute('href', href);
+		}
 	});
 }
+
+test('a visitor in a storefront is offered its rooms, calendar and booking page, and none on the platform’s pages', async ({
+	page
+}) => {
+	const nav = page.getByRole('navigation', { name: 'Main' });
+	await page.goto('/hollow-pine/rooms');
+	await expect(nav.getByRole('link', { name: 'Rooms & rates' })).toHaveAttribute('href', '/hollow-pine/rooms');
+	await expect(nav.getByRole('link', { name: 'Calendar' })).toHaveAttribute('href', '/hollow-pine/calendar');
+	await expect(nav.getByRole('link', { name: 'Book a session' })).toHaveAttribute('href', '/hollow-pine/book');
+	await expect(page.locator('[data-testid="rate-card"][data-room="live-room"]').getByRole('link')).toHaveAttribute(
+		'href',
+		'/hollow-pine/book?room=live-room'
+	);
+	await page.goto('/sign-in');
+	await expect(nav.getByRole('link', { name: 'Calendar' })).toHaveCount(0);
+	await expect(nav.getByRole('link', { name: 'Book a session' })).toHaveCount(0);
+});
 
 test('an artist who opens an owner page gets a calm 403', async ({ page }) => {
 	await signIn(page, 'artist@slateroom.test');

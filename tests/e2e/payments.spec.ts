@@ -49,7 +49,7 @@ function candidateSlots(now = Date.now()): Slot[] {
 
 /** The calendar says the vocal booth is free for the slot (plus turnaround). */
 async function isFree(request: APIRequestContext, slot: Slot): Promise<boolean> {
-	const res = await request.get(`/api/availability?room=vocal-booth&from=${slot.day}&to=${slot.day}`);
+	const res = await request.get(`/api/studios/hollow-pine/availability?room=vocal-booth&from=${slot.day}&to=${slot.day}`);
 	expect(res.status()).toBe(200);
 	const body = (await res.json()) as { busy: { start: string; end: string }[]; open: { start: string; end: string }[] };
 	const start = slot.start;
@@ -69,7 +69,7 @@ test('pay the deposit on Stripe’s page, see the booking confirmed, cancel and 
 	let slot: Slot | undefined;
 	for (const candidate of candidateSlots()) {
 		if (!(await isFree(page.request, candidate))) continue;
-		const res = await page.request.post('/api/bookings', {
+		const res = await page.request.post('/api/studios/hollow-pine/bookings', {
 			data: { room: 'vocal-booth', start: `${candidate.day}T${candidate.from}`, end: `${candidate.day}T${candidate.to}` }
 		});
 		if (res.status() === 201) {

@@ -48,7 +48,7 @@ export async function holdFirstFree(
 	slots: SlotTimes
 ): Promise<{ id: string; checkoutUrl: string } & Slot> {
 	return firstFree(days, slots, async ({ start, end }) => {
-		const res = await request.post('/api/bookings', { data: { room, start, end } });
+		const res = await request.post('/api/studios/hollow-pine/bookings', { data: { room, start, end } });
 		return { status: res.status(), body: () => res.json() };
 	});
 }

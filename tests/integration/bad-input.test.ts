@@ -50,14 +50,18 @@ const rows = async (table: typeof t.booking | typeof t.gearItem | typeof t.black
 describe('a NUL character (U+0000) in a text field or parameter', () => {
 	it('is refused by the quote, signed in or not', async () => {
 		for (const who of [new Client(), artist]) {
-			const res = await who.json('/api/quote', { room: `live-room${NUL}`, start: `${DAY}T10:00`, end: `${DAY}T12:00` });
+			const res = await who.json('/api/studios/hollow-pine/quote', {
+				room: `live-room${NUL}`,
+				start: `${DAY}T10:00`,
+				end: `${DAY}T12:00`
+			});
 			const body = await apiError(res, 422);
 			expect(body.fields?.room?.join(' ')).toMatch(/control characters/);
 		}
 	});
 
 	it('is refused in the availability query', async () => {
-		const res = await new Client().fetch(`/api/availability?room=live-room%00&from=${DAY}&to=${DAY}`);
+		const res = await new Client().fetch(`/api/studios/hollow-pine/availability?room=live-room%00&from=${DAY}&to=${DAY}`);
 		expect((await apiError(res, 422)).fields?.room).toBeTruthy();
 	});
 
@@ -68,14 +72,20 @@ describe('a NUL character (U+0000) in a text field or parameter', () => {
 			{ room: 'live-room', start: `${DAY}T10:00`, end: `${DAY}T12:00`, notes: `bring${NUL}strings` },
 			{ room: 'live-room', start: `${DAY}T10:00${NUL}`, end: `${DAY}T12:00` }
 		]) {
-			await apiError(await artist.json('/api/bookings', body), 422);
+			await apiError(await artist.json('/api/studios/hollow-pine/bookings', body), 422);
 		}
 		expect(await rows(t.booking)).toBe(before);
 	});
 
 	it('is refused by the booking form posted without JavaScript, with the form errors shown', async () => {
 		const before = await rows(t.booking);
-		const res = await artist.form('/book', { room: 'live-room', kind: 'half', date: DAY, start: '10:00', notes: `a${NUL}b` });
+		const res = await artist.form('/hollow-pine/book', {
+			room: 'live-room',
+			kind: 'half',
+			date: DAY,
+			start: '10:00',
+			notes: `a${NUL}b`
+		});
 		expect(res.status).toBe(422);
 		expect(await res.text()).toContain('Remove the control characters');
 		expect(await rows(t.booking)).toBe(before);
@@ -140,14 +150,17 @@ describe('dates at the edges of the calendar, and dates that do not exist', () =
 			['0001-01-01', '0001-01-02'],
 			['9999-12-30', '9999-12-31']
 		]) {
-			const body = await apiError(await new Client().fetch(`/api/availability?room=live-room&from=${from}&to=${to}`), 422);
+			const body = await apiError(
+				await new Client().fetch(`/api/studios/hollow-pine/availability?room=live-room&from=${from}&to=${to}`),
+				422
+			);
 			expect(body.fields?.from?.[0]).toMatch(/between 2000 and 2100/);
 		}
 	});
 
 	it('are said so on the booking page', async () => {
 		for (const date of ['0001-01-01', '9999-12-31']) {
-			const res = await new Client().fetch(`/book?room=live-room&date=${date}`);
+			const res = await new Client().fetch(`/hollow-pine/book?room=live-room&date=${date}`);
 			expect(res.status).toBe(200);
 			expect(await res.text()).toContain('Choose a date between 2000 and 2100');
 		}
@@ -156,10 +169,10 @@ describe('dates at the edges of the calendar, and dates that do not exist', () =
 	it('are refused by the day plan, page and API, and so is a day that does not exist', async () => {
 		for (const date of ['0001-01-01', '9999-12-31']) {
 			expect((await engineer.fetch(`/plan?date=${date}`)).status).toBe(400);
-			expect((await apiError(await engineer.fetch(`/api/plan?date=${date}`), 422)).fields?.date).toBeTruthy();
+			expect((await apiError(await engineer.fetch(`/api/studios/hollow-pine/plan?date=${date}`), 422)).fields?.date).toBeTruthy();
 		}
 		// It used to answer 200 with an empty plan, as if 30 February existed.
-		const body = await apiError(await engineer.fetch('/api/plan?date=2027-02-30'), 422);
+		const body = await apiError(await engineer.fetch('/api/studios/hollow-pine/plan?date=2027-02-30'), 422);
 		expect(body.fields?.date?.[0]).toContain('There is no 2027-02-30');
 		expect((await engineer.fetch('/plan?date=2027-02-30')).status).toBe(400);
 	});
@@ -190,7 +203,7 @@ describe('the booking form posted without JavaScript with a date or start that i
 			{ room: 'live-room', kind: 'half', date: DAY, start: 'hello' },
 			{ room: 'live-room', kind: 'hourly', hours: '2', date: '2027-02-30', start: '25:99' }
 		]) {
-			const res = await artist.form('/book', fields);
+			const res = await artist.form('/hollow-pine/book', fields);
 			expect(res.status).toBe(422);
 			const html = await res.text();
 			expect(html).toMatch(/Choose a date|not on the calendar|Choose a start time/);
@@ -315,7 +328,7 @@ describe('an address whose path does not decode', () => {
 				[artist, 'GET', `/bookings/${bad}`],
 				[artist, 'POST', `/api/bookings/${bad}/cancel`],
 				[engineer, 'POST', `/studio/${bad}`],
-				[owner, 'GET', `/calendar/${bad}`]
+				[owner, 'GET', `/hollow-pine/calendar/${bad}`]
 			);
 		}
 		for (const [who, method, path] of cases) {

@@ -20,14 +20,14 @@ const ownDay = (n: number) => DAYS[n]!;
 beforeAll(() => clearDays(db, DAYS));
 
 async function quote(body: unknown) {
-	const res = await new Client().json('/api/quote', body);
+	const res = await new Client().json('/api/studios/hollow-pine/quote', body);
 	return { status: res.status, body: (await res.json()) as Quote & { error?: string; fields?: Record<string, string[]> } };
 }
 
 /** Helsinki wall time → the ISO 8601 instant (IANA tz database, through the app's own zone code). */
 const helsinki = studioIso;
 
-describe('POST /api/quote', () => {
+describe('POST /api/studios/hollow-pine/quote', () => {
 	const day = ownDay(0);
 
 	it('prices 5 h in the live room as a half day plus one hour (demo rates)', async () => {
@@ -110,7 +110,7 @@ describe('POST /api/quote', () => {
 			['{"gear":"all"}', 'invalid']
 		];
 		for (const [body, error] of cases) {
-			const res = await new Client().fetch('/api/quote', {
+			const res = await new Client().fetch('/api/studios/hollow-pine/quote', {
 				method: 'POST',
 				headers: { 'content-type': 'application/json' },
 				body
@@ -121,7 +121,7 @@ describe('POST /api/quote', () => {
 			expect(answer.message).toMatch(/\w/);
 		}
 		// A body that is not sent as JSON.
-		const form = await new Client().fetch('/api/quote', { method: 'POST', body: 'room=live-room' });
+		const form = await new Client().fetch('/api/studios/hollow-pine/quote', { method: 'POST', body: 'room=live-room' });
 		expect(form.status).toBe(415);
 		expect(((await form.json()) as { error: string }).error).toBe('unsupported_media_type');
 	});
@@ -174,18 +174,18 @@ describe('POST /api/quote', () => {
 	});
 });
 
-describe('GET /api/availability', () => {
+describe('GET /api/studios/hollow-pine/availability', () => {
 	it('shows open hours, a booking plus its turnaround as busy, and no names', async () => {
 		const day = ownDay(1);
 		const artist = await signedIn(DEMO.artist);
-		const made = await artist.json('/api/bookings', {
+		const made = await artist.json('/api/studios/hollow-pine/bookings', {
 			room: 'control-room',
 			start: `${day}T10:00`,
 			end: `${day}T14:00`,
 			project: 'Secret demo'
 		});
 		expect(made.status).toBe(201);
-		const res = await new Client().fetch(`/api/availability?room=control-room&from=${day}&to=${day}`);
+		const res = await new Client().fetch(`/api/studios/hollow-pine/availability?room=control-room&from=${day}&to=${day}`);
 		expect(res.status).toBe(200);
 		expect(res.headers.get('cache-control')).toContain('max-age');
 		const text = await res.text();
@@ -217,7 +217,7 @@ describe('GET /api/availability', () => {
 			.values({ studioId: await studioIdOf(db), startsOn: closed, endsOn: closed, reason: 'Family day' })
 			.returning();
 		try {
-			const res = await new Client().fetch(`/api/availability?room=live-room&from=${closed}&to=${closed}`);
+			const res = await new Client().fetch(`/api/studios/hollow-pine/availability?room=live-room&from=${closed}&to=${closed}`);
 			const body = (await res.json()) as { open: unknown[]; closed: { date: string; reason: string }[] };
 			expect(body.open).toEqual([]);
 			expect(body.closed).toEqual([{ date: closed, reason: 'Family day' }]);
@@ -229,7 +229,9 @@ describe('GET /api/availability', () => {
 	it('clips today by the minimum notice of 24 hours', async () => {
 		const today = studioToday();
 		const asked = Date.now();
-		const res = await new Client().fetch(`/api/availability?room=live-room&from=${today}&to=${addDays(today, 3)}`);
+		const res = await new Client().fetch(
+			`/api/studios/hollow-pine/availability?room=live-room&from=${today}&to=${addDays(today, 3)}`
+		);
 		const body = (await res.json()) as { open: { start: string }[] };
 		expect(body.open.length).toBeGreaterThan(0);
 		// The server's now is no earlier than `asked`.
@@ -244,7 +246,9 @@ describe('GET /api/availability', () => {
 		const horizonNeeded = Math.ceil((Date.parse(change.ymd) - Date.now()) / 86_400_000) + 2;
 		if (horizonNeeded > studio!.horizonDays) await db.update(t.studio).set({ horizonDays: horizonNeeded });
 		try {
-			const res = await new Client().fetch(`/api/availability?room=vocal-booth&from=${change.ymd}&to=${change.ymd}`);
+			const res = await new Client().fetch(
+				`/api/studios/hollow-pine/availability?room=vocal-booth&from=${change.ymd}&to=${change.ymd}`
+			);
 			const body = (await res.json()) as { open: { start: string; end: string }[] };
 			expect(change.hours === 23 || change.hours === 25).toBe(true);
 			expect(body.open).toHaveLength(1);
@@ -269,7 +273,7 @@ describe('GET /api/availability', () => {
 		['room=live-room&from=2027-02-01&to=2027-02-29', 'to'],
 		['room=live-room&from=2027-13-01&to=2027-13-02', 'from']
 	])('answers 422 for %s', async (query, field) => {
-		const res = await new Client().fetch(`/api/availability?${query}`);
+		const res = await new Client().fetch(`/api/studios/hollow-pine/availability?${query}`);
 		expect(res.status).toBe(422);
 		const body = (await res.json()) as { fields: Record<string, string[]> };
 		expect(body.fields[field]).toBeDefined();
@@ -278,7 +282,7 @@ describe('GET /api/availability', () => {
 
 describe('the booking page', () => {
 	it('says plainly that a date in the address is not on the calendar (was a 500)', async () => {
-		const res = await new Client().fetch('/book?room=live-room&date=2027-02-31&start=10:00', {
+		const res = await new Client().fetch('/hollow-pine/book?room=live-room&date=2027-02-31&start=10:00', {
 			headers: { accept: 'text/html' }
 		});
 		expect(res.status).toBe(200);
@@ -290,7 +294,11 @@ describe('the booking page', () => {
 describe('POST /api/bookings', () => {
 	it('needs a signed-in person (401)', async () => {
 		const day = ownDay(12);
-		const res = await new Client().json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T12:00` });
+		const res = await new Client().json('/api/studios/hollow-pine/bookings', {
+			room: 'live-room',
+			start: `${day}T10:00`,
+			end: `${day}T12:00`
+		});
 		await expectRefused(res, 401);
 		const [{ n } = { n: -1 }] = await db
 			.select({ n: sql<number>`count(*)::int` })
@@ -302,7 +310,7 @@ describe('POST /api/bookings', () => {
 	it('makes a hold priced by the server, ignoring price, status and artist in the body (OWASP ASVS 15.3.3)', async () => {
 		const day = ownDay(2);
 		const artist = await signedIn(DEMO.artist);
-		const res = await artist.json('/api/bookings', {
+		const res = await artist.json('/api/studios/hollow-pine/bookings', {
 			room: 'live-room',
 			start: `${day}T10:00`,
 			end: `${day}T14:00`,
@@ -336,8 +344,15 @@ describe('POST /api/bookings', () => {
 		const day = ownDay(3);
 		const a = await signedIn(DEMO.artist);
 		const b = await signedIn(DEMO.artist2);
-		expect((await a.json('/api/bookings', { room: 'vocal-booth', start: `${day}T12:00`, end: `${day}T16:00` })).status).toBe(201);
-		const res = await b.json('/api/bookings', { room: 'vocal-booth', start: `${day}T13:00`, end: `${day}T15:00` });
+		expect(
+			(await a.json('/api/studios/hollow-pine/bookings', { room: 'vocal-booth', start: `${day}T12:00`, end: `${day}T16:00` }))
+				.status
+		).toBe(201);
+		const res = await b.json('/api/studios/hollow-pine/bookings', {
+			room: 'vocal-booth',
+			start: `${day}T13:00`,
+			end: `${day}T15:00`
+		});
 		expect(res.status).toBe(409);
 		const body = (await res.json()) as { error: string; taken: string; message: string; nearestStarts: string[] };
 		expect(body).toMatchObject({ error: 'slot_taken', taken: 'room' });
@@ -358,9 +373,16 @@ describe('POST /api/bookings', () => {
 		const a = await signedIn(DEMO.artist);
 		const b = await signedIn(DEMO.artist2);
 		expect(
-			(await a.json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T14:00`, engineer: true })).status
+			(
+				await a.json('/api/studios/hollow-pine/bookings', {
+					room: 'live-room',
+					start: `${day}T10:00`,
+					end: `${day}T14:00`,
+					engineer: true
+				})
+			).status
 		).toBe(201);
-		const res = await b.json('/api/bookings', {
+		const res = await b.json('/api/studios/hollow-pine/bookings', {
 			room: 'vocal-booth',
 			start: `${day}T10:00`,
 			end: `${day}T14:00`,
@@ -378,7 +400,7 @@ describe('POST /api/bookings', () => {
 		// An offered start really books.
 		expect(
 			(
-				await b.json('/api/bookings', {
+				await b.json('/api/studios/hollow-pine/bookings', {
 					room: 'vocal-booth',
 					start: helsinki(day, '14:30'),
 					end: helsinki(day, '18:30'),
@@ -398,9 +420,16 @@ describe('POST /api/bookings', () => {
 		const a = await signedIn(DEMO.artist);
 		const b = await signedIn(DEMO.artist2);
 		expect(
-			(await a.json('/api/bookings', { room: 'live-room', start: `${day}T10:00`, end: `${day}T14:00`, gear: [gear!.id] })).status
+			(
+				await a.json('/api/studios/hollow-pine/bookings', {
+					room: 'live-room',
+					start: `${day}T10:00`,
+					end: `${day}T14:00`,
+					gear: [gear!.id]
+				})
+			).status
 		).toBe(201);
-		const res = await b.json('/api/bookings', {
+		const res = await b.json('/api/studios/hollow-pine/bookings', {
 			room: 'control-room',
 			start: `${day}T11:00`,
 			end: `${day}T15:00`,
@@ -423,7 +452,7 @@ describe('POST /api/bookings', () => {
 			.where(and(eq(t.gearItem.hireable, true), eq(t.gearItem.active, true)))
 			.limit(1);
 		const a = await signedIn(DEMO.artist);
-		const made = await a.json('/api/bookings', {
+		const made = await a.json('/api/studios/hollow-pine/bookings', {
 			room: 'control-room',
 			start: `${day}T10:00`,
 			end: `${day}T14:00`,
@@ -445,7 +474,7 @@ describe('POST /api/bookings', () => {
 		const before = await hrefs();
 		expect(before.html).toContain('hold ran out');
 		expect(before.free).toBe('true');
-		const link = /href="(\/book\?[^"]*)"/.exec(before.html)?.[1];
+		const link = /href="(\/hollow-pine\/book\?[^"]*)"/.exec(before.html)?.[1];
 		const q = new URL(link!, 'http://x').searchParams;
 		expect(Object.fromEntries(q)).toMatchObject({
 			room: 'control-room',
@@ -459,19 +488,24 @@ describe('POST /api/bookings', () => {
 
 		// Someone else takes the time: the page says so and points at that day on the calendar.
 		const b = await signedIn(DEMO.artist2);
-		expect((await b.json('/api/bookings', { room: 'control-room', start: `${day}T12:00`, end: `${day}T14:00` })).status).toBe(
-			201
-		);
+		expect(
+			(await b.json('/api/studios/hollow-pine/bookings', { room: 'control-room', start: `${day}T12:00`, end: `${day}T14:00` }))
+				.status
+		).toBe(201);
 		const after = await hrefs();
 		expect(after.free).toBe('false');
-		expect(after.html).toContain(`href="/calendar?room=control-room&date=${day}"`);
-		expect(after.html).not.toMatch(/href="\/book\?/);
+		expect(after.html).toContain(`href="/hollow-pine/calendar?room=control-room&date=${day}"`);
+		expect(after.html).not.toMatch(/href="\/hollow-pine\/book\?/);
 	});
 
 	it('frees an expired hold without anyone visiting a page', async () => {
 		const day = ownDay(4);
 		const a = await signedIn(DEMO.artist);
-		const res = await a.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T12:00` });
+		const res = await a.json('/api/studios/hollow-pine/bookings', {
+			room: 'control-room',
+			start: `${day}T10:00`,
+			end: `${day}T12:00`
+		});
 		const { id } = (await res.json()) as { id: string };
 		await db
 			.update(t.booking)
@@ -484,9 +518,10 @@ describe('POST /api/bookings', () => {
 		}, 'the hold job');
 		expect(status).toBe('expired');
 		const b = await signedIn(DEMO.artist2);
-		expect((await b.json('/api/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T12:00` })).status).toBe(
-			201
-		);
+		expect(
+			(await b.json('/api/studios/hollow-pine/bookings', { room: 'control-room', start: `${day}T10:00`, end: `${day}T12:00` }))
+				.status
+		).toBe(201);
 	});
 });
 
@@ -494,7 +529,11 @@ describe('scoping (OWASP ASVS 8.2.2)', () => {
 	it('artist2 cannot read, list or cancel artist’s booking; the owner and engineer can read it', async () => {
 		const day = ownDay(7);
 		const a = await signedIn(DEMO.artist);
-		const made = await a.json('/api/bookings', { room: 'live-room', start: `${day}T18:00`, end: `${day}T20:00` });
+		const made = await a.json('/api/studios/hollow-pine/bookings', {
+			room: 'live-room',
+			start: `${day}T18:00`,
+			end: `${day}T20:00`
+		});
 		const { id } = (await made.json()) as { id: string };
 		const b = await signedIn(DEMO.artist2);
 		await expectRefused(await b.fetch(`/api/bookings/${id}`), 404, { secrets: [id, 'Noa'] });
@@ -526,7 +565,7 @@ describe('races (OWASP ASVS 2.3.4, 15.4.2)', () => {
 	});
 
 	async function race(bodies: unknown[]) {
-		const results = await Promise.all(bodies.map((body, i) => artists[i]!.json('/api/bookings', body)));
+		const results = await Promise.all(bodies.map((body, i) => artists[i]!.json('/api/studios/hollow-pine/bookings', body)));
 		return results.map((r) => r.status);
 	}
 

@@ -168,7 +168,7 @@ describe('bursts over HTTP while the database is up', () => {
 		const ms: number[] = [];
 		const answers = await Promise.all(
 			Array.from({ length: 20 }, async (_, i) => {
-				const res = await (i % 2 ? other : artist).json('/api/bookings', {
+				const res = await (i % 2 ? other : artist).json('/api/studios/hollow-pine/bookings', {
 					room: 'vocal-booth',
 					start: `${DAYS[1]}T10:00`,
 					end: `${DAYS[1]}T14:00`
@@ -193,7 +193,9 @@ describe('bursts over HTTP while the database is up', () => {
 		const ms: number[] = [];
 		const answers = await Promise.all(
 			Array.from({ length: 40 }, async (_, i) => {
-				const res = await fetch(`${new Client().base}/api/availability?room=${rooms[i % 3]}&from=${from}&to=${to}`);
+				const res = await fetch(
+					`${new Client().base}/api/studios/hollow-pine/availability?room=${rooms[i % 3]}&from=${from}&to=${to}`
+				);
 				ms.push(performance.now() - started);
 				return { status: res.status, text: await res.text() };
 			})

@@ -73,9 +73,9 @@ describe('the month export', () => {
 		const month = await monthOfDeposit(await bookAndPay(artist));
 
 		const accountant = await signedIn(DEMO.accountant);
-		const report = (await (await accountant.json(`/api/invoices?month=${month}`)).json()) as Report;
+		const report = (await (await accountant.json(`/api/studios/hollow-pine/invoices?month=${month}`)).json()) as Report;
 
-		const res = await accountant.fetch(`/api/invoices/export?month=${month}&format=csv`);
+		const res = await accountant.fetch(`/api/studios/hollow-pine/invoices/export?month=${month}&format=csv`);
 		expect(res.status).toBe(200);
 		expect(res.headers.get('content-type')).toMatch(/^text\/csv/);
 		expect(res.headers.get('content-disposition')).toBe(`attachment; filename="documents-${month}.csv"`);
@@ -96,7 +96,9 @@ describe('the month export', () => {
 		for (const r of rows) expect(r.Net).toMatch(/^-?\d+\.\d{2}$/);
 
 		const payments = parse<Record<string, string>>(
-			await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=payments`)).text(),
+			await (
+				await accountant.fetch(`/api/studios/hollow-pine/invoices/export?month=${month}&format=csv&register=payments`)
+			).text(),
 			{
 				columns: true
 			}
@@ -104,7 +106,9 @@ describe('the month export', () => {
 		expect(sum(payments.map((p) => p.Amount!))).toBe(euros(report.totals.received));
 
 		const refunds = parse<Record<string, string>>(
-			await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=refunds`)).text(),
+			await (
+				await accountant.fetch(`/api/studios/hollow-pine/invoices/export?month=${month}&format=csv&register=refunds`)
+			).text(),
 			{
 				columns: true
 			}
@@ -113,7 +117,7 @@ describe('the month export', () => {
 		expect(sum(refunds.filter((r) => r.Status === 'succeeded').map((r) => r.Amount!))).toBe(euros(-report.totals.refunded));
 
 		const vat = parse<Record<string, string>>(
-			await (await accountant.fetch(`/api/invoices/export?month=${month}&format=csv&register=vat`)).text(),
+			await (await accountant.fetch(`/api/studios/hollow-pine/invoices/export?month=${month}&format=csv&register=vat`)).text(),
 			{
 				columns: true
 			}
@@ -124,9 +128,9 @@ describe('the month export', () => {
 	it('gives a ZIP of every register and each document’s PDF', async () => {
 		const month = await monthWithADocument();
 		const owner = await signedIn(DEMO.owner);
-		const report = (await (await owner.json(`/api/invoices?month=${month}`)).json()) as Report;
+		const report = (await (await owner.json(`/api/studios/hollow-pine/invoices?month=${month}`)).json()) as Report;
 		expect(report.documents.length).toBeGreaterThan(0);
-		const res = await owner.fetch(`/api/invoices/export?month=${month}&format=zip`);
+		const res = await owner.fetch(`/api/studios/hollow-pine/invoices/export?month=${month}&format=zip`);
 		expect(res.status).toBe(200);
 		expect(res.headers.get('content-type')).toBe('application/zip');
 		const files = unzipSync(new Uint8Array(await res.arrayBuffer()));
@@ -144,10 +148,10 @@ describe('the month export', () => {
 	it('gives every document of the month as an EN 16931 e-invoice in UBL whose rules hold', async () => {
 		const month = await monthWithADocument();
 		const accountant = await signedIn(DEMO.accountant);
-		const report = (await (await accountant.json(`/api/invoices?month=${month}`)).json()) as Report & {
+		const report = (await (await accountant.json(`/api/studios/hollow-pine/invoices?month=${month}`)).json()) as Report & {
 			documents: { number: string; typeCode: number; amountDue: number }[];
 		};
-		const res = await accountant.fetch(`/api/invoices/export?month=${month}&format=ubl`);
+		const res = await accountant.fetch(`/api/studios/hollow-pine/invoices/export?month=${month}&format=ubl`);
 		expect(res.status).toBe(200);
 		expect(res.headers.get('content-disposition')).toBe(`attachment; filename="e-invoices-${month}.zip"`);
 		const files = unzipSync(new Uint8Array(await res.arrayBuffer()));
@@ -164,18 +168,25 @@ describe('the month export', () => {
 
 	it('is for the accountant and the owner only, and names a bad setting', async () => {
 		const month = await monthWithADocument();
-		const [doc] = ((await (await (await signedIn(DEMO.accountant)).json(`/api/invoices?month=${month}`)).json()) as Report)
-			.documents;
+		const [doc] = (
+			(await (await (await signedIn(DEMO.accountant)).json(`/api/studios/hollow-pine/invoices?month=${month}`)).json()) as Report
+		).documents;
 		// Nothing of the month in a refusal: not a document number, not a customer.
 		const secrets = [doc!.number, doc!.customer];
-		await expectRefused(await new Client().fetch(`/api/invoices/export?month=${month}&format=csv`), 401, { secrets });
+		await expectRefused(await new Client().fetch(`/api/studios/hollow-pine/invoices/export?month=${month}&format=csv`), 401, {
+			secrets
+		});
 		for (const who of [DEMO.artist, DEMO.engineer]) {
-			await expectRefused(await (await signedIn(who)).fetch(`/api/invoices/export?month=${month}&format=zip`), 403, {
-				secrets
-			});
+			await expectRefused(
+				await (await signedIn(who)).fetch(`/api/studios/hollow-pine/invoices/export?month=${month}&format=zip`),
+				403,
+				{
+					secrets
+				}
+			);
 		}
 		const accountant = await signedIn(DEMO.accountant);
-		const bad = await accountant.fetch('/api/invoices/export?month=2027-13&format=xls&register=people');
+		const bad = await accountant.fetch('/api/studios/hollow-pine/invoices/export?month=2027-13&format=xls&register=people');
 		expect(bad.status).toBe(422);
 		const body = (await bad.json()) as { error: string; fields: Record<string, string[]> };
 		expect(body.error).toBe('invalid');

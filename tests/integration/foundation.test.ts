@@ -17,8 +17,8 @@ describe('public endpoints', () => {
 		expect(await res.json()).toEqual({ ok: true, db: 'up' });
 	});
 
-	it('GET /api/rooms lists the demo rooms with their rates in minor units', async () => {
-		const res = await new Client().fetch('/api/rooms');
+	it('GET /api/studios/hollow-pine/rooms lists the demo rooms with their rates in minor units', async () => {
+		const res = await new Client().fetch('/api/studios/hollow-pine/rooms');
 		expect(res.status).toBe(200);
 		const body = (await res.json()) as { currency: string; rooms: { slug: string; rates: Record<string, number> }[] };
 		expect(body.currency).toBe('EUR');

@@ -297,7 +297,7 @@ describe('PDFs and the month', () => {
 		await expectRefused(await artist.fetch(`/invoices/${crypto.randomUUID()}/pdf`), 404);
 	});
 
-	it('GET /api/invoices?month lists the month’s documents, payments and VAT by rate for the accountant', async () => {
+	it('GET /api/studios/hollow-pine/invoices?month lists the month’s documents, payments and VAT by rate for the accountant', async () => {
 		const ids = await db
 			.select({ id: t.invoice.id, issuedAt: t.invoice.issuedAt })
 			.from(t.invoice)
@@ -308,7 +308,7 @@ describe('PDFs and the month', () => {
 			.format(ids[0]!.issuedAt)
 			.slice(0, 7);
 		const accountant = await signedIn(DEMO.accountant);
-		const res = await accountant.fetch(`/api/invoices?month=${month}`);
+		const res = await accountant.fetch(`/api/studios/hollow-pine/invoices?month=${month}`);
 		expect(res.status).toBe(200);
 		const body = (await res.json()) as {
 			documents: { id: string; typeCode: number; total: number }[];
@@ -321,9 +321,11 @@ describe('PDFs and the month', () => {
 		expect(body.totals.received).toBe(body.payments.reduce((s, p) => s + p.amount, 0));
 		expect(body.vatByRate.map((v) => v.rateBp)).toContain(2550);
 		const secrets = [ids[0]!.id];
-		await expectRefused(await (await signedIn(DEMO.artist)).fetch(`/api/invoices?month=${month}`), 403, { secrets });
-		await expectRefused(await new Client().fetch(`/api/invoices?month=${month}`), 401, { secrets });
-		const bad = await accountant.fetch('/api/invoices?month=2027-13');
+		await expectRefused(await (await signedIn(DEMO.artist)).fetch(`/api/studios/hollow-pine/invoices?month=${month}`), 403, {
+			secrets
+		});
+		await expectRefused(await new Client().fetch(`/api/studios/hollow-pine/invoices?month=${month}`), 401, { secrets });
+		const bad = await accountant.fetch('/api/studios/hollow-pine/invoices?month=2027-13');
 		expect(bad.status).toBe(422);
 		expect(((await bad.json()) as { error: string }).error).toBe('invalid');
 	});

@@ -52,7 +52,7 @@ function fields(row: StudioRow, change: Partial<Record<keyof SettingsForm, strin
 const policyOf = ({ updatedAt: _u, ...rest }: StudioRow) => rest;
 
 async function quote(body: unknown) {
-	const res = await new Client().json('/api/quote', body);
+	const res = await new Client().json('/api/studios/hollow-pine/quote', body);
 	return { status: res.status, body: (await res.json()) as { total: number; lines: { key: string; amount: number }[] } };
 }
 
@@ -105,7 +105,7 @@ describe('Rates & policy page', () => {
 		expect((await quote(body)).body.total).toBe(16000 + 12000);
 
 		const artist = await signedIn(DEMO.artist);
-		const made = await artist.json('/api/bookings', body);
+		const made = await artist.json('/api/studios/hollow-pine/bookings', body);
 		expect(made.status).toBe(201);
 		const booked = (await made.json()) as { id: string };
 		const [before] = await db.select().from(t.booking).where(eq(t.booking.id, booked.id));
@@ -341,7 +341,7 @@ describe('Rooms & gear page', () => {
 			expect(res.status).toBe(200);
 			const [row] = await db.select().from(t.room).where(eq(t.room.id, live().id));
 			expect(row!.halfDay).toBe(16105);
-			const rooms = (await (await new Client().fetch('/api/rooms')).json()) as {
+			const rooms = (await (await new Client().fetch('/api/studios/hollow-pine/rooms')).json()) as {
 				rooms: { slug: string; rates: { halfDay: number } }[];
 			};
 			expect(rooms.rooms.find((r) => r.slug === 'live-room')!.rates.halfDay).toBe(16105);
@@ -454,10 +454,14 @@ describe('Rooms & gear page', () => {
 });
 
 describe('Blackout days', () => {
-	it('warns about confirmed bookings on those days, never cancels them, and closes the day on /api/availability', async () => {
+	it('warns about confirmed bookings on those days, never cancels them, and closes the day on /api/studios/hollow-pine/availability', async () => {
 		const day = OWN_DAYS[2]!;
 		const artist = await signedIn(DEMO.artist);
-		const made = await artist.json('/api/bookings', { room: 'vocal-booth', start: `${day}T09:00`, end: `${day}T13:00` });
+		const made = await artist.json('/api/studios/hollow-pine/bookings', {
+			room: 'vocal-booth',
+			start: `${day}T09:00`,
+			end: `${day}T13:00`
+		});
 		expect(made.status).toBe(201);
 		const { id } = (await made.json()) as { id: string };
 		// Stands for a paid deposit: the payment flow is not what this test is about.
@@ -484,7 +488,9 @@ describe('Blackout days', () => {
 			const [still] = await db.select().from(t.booking).where(eq(t.booking.id, id));
 			expect(still!.status).toBe('confirmed');
 
-			const avail = (await (await new Client().fetch(`/api/availability?room=live-room&from=${day}&to=${day}`)).json()) as {
+			const avail = (await (
+				await new Client().fetch(`/api/studios/hollow-pine/availability?room=live-room&from=${day}&to=${day}`)
+			).json()) as {
 				open: unknown[];
 				closed: { date: string; reason: string }[];
 			};
@@ -492,7 +498,9 @@ describe('Blackout days', () => {
 			expect(avail.closed).toEqual([{ date: day, reason: 'Test blackout' }]);
 
 			expect((await owner.form('/studio/rooms?/removeBlackout', { id: row!.id })).status).toBe(200);
-			const reopened = (await (await new Client().fetch(`/api/availability?room=live-room&from=${day}&to=${day}`)).json()) as {
+			const reopened = (await (
+				await new Client().fetch(`/api/studios/hollow-pine/availability?room=live-room&from=${day}&to=${day}`)
+			).json()) as {
 				open: unknown[];
 			};
 			expect(reopened.open.length).toBeGreaterThan(0);

@@ -427,7 +427,7 @@ describe('a deposit that arrives after the hold ran out', () => {
 					.where(eq(t.booking.id, b.id));
 				const ymd = b.start.slice(0, 10);
 				const hours: [string, string] = [b.start.slice(11), b.end.slice(11)];
-				const res = await artist2.json('/api/bookings', {
+				const res = await artist2.json('/api/studios/hollow-pine/bookings', {
 					room: 'live-room',
 					start: `${ymd}T${hours[0]}`,
 					end: `${ymd}T${hours[1]}`
@@ -480,7 +480,7 @@ async function bookSoon(who: Client, room: string, minHours: number, maxHours = 
 			if (notice < minHours * 3_600_000 + margin || notice > maxHours * 3_600_000 - margin) continue;
 			const start = `${ymd}T${hhmm}`;
 			const end = `${ymd}T${String(h + 2).padStart(2, '0')}:00`;
-			const res = await who.json('/api/bookings', { room, start, end });
+			const res = await who.json('/api/studios/hollow-pine/bookings', { room, start, end });
 			if (res.status === 201) {
 				const body = (await res.json()) as Omit<Booked, 'sessionId' | 'start' | 'end'>;
 				return { ...body, sessionId: body.checkoutUrl.split('/pay/')[1]!, start, end };
@@ -547,7 +547,7 @@ describe('cancellation', () => {
 
 		// The slot is free again: someone else can book it.
 		const other = await signedIn(DEMO.artist2);
-		const again = await other.json('/api/bookings', { room: 'control-room', start: b.start, end: b.end });
+		const again = await other.json('/api/studios/hollow-pine/bookings', { room: 'control-room', start: b.start, end: b.end });
 		expect(again.status).toBe(201);
 		await other.json(`/api/bookings/${((await again.json()) as { id: string }).id}/cancel`, {});
 	});
@@ -592,7 +592,9 @@ describe('cancellation', () => {
 		const month = new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/Helsinki', year: 'numeric', month: '2-digit' })
 			.format(failed.createdAt)
 			.slice(0, 7);
-		const report = (await (await owner.fetch(`/api/invoices?month=${month}`)).json()) as { failedRefunds: { id: string }[] };
+		const report = (await (await owner.fetch(`/api/studios/hollow-pine/invoices?month=${month}`)).json()) as {
+			failedRefunds: { id: string }[];
+		};
 		expect(report.failedRefunds.map((r) => r.id)).toContain(failed.id);
 		await expectRefused(await artist.json(`/api/bookings/${b.id}/cancel/retry`, {}), 403);
 		expect((await money(b.id)).refunds.map((r) => r.status)).toEqual(['failed']);
@@ -600,7 +602,9 @@ describe('cancellation', () => {
 		const retry = await owner.json(`/api/bookings/${b.id}/cancel/retry`, {});
 		expect(((await retry.json()) as { retried: number }).retried).toBe(1);
 		await waitFor(async () => (await money(b.id)).refunds.find((r) => r.status === 'succeeded'), 'retried refund succeeded');
-		const after = (await (await owner.fetch(`/api/invoices?month=${month}`)).json()) as { failedRefunds: { id: string }[] };
+		const after = (await (await owner.fetch(`/api/studios/hollow-pine/invoices?month=${month}`)).json()) as {
+			failedRefunds: { id: string }[];
+		};
 		expect(after.failedRefunds.map((r) => r.id)).not.toContain(failed.id);
 		expect((await money(b.id)).invoices.filter((i) => i.typeCode === 381)).toHaveLength(1);
 	});
@@ -785,7 +789,9 @@ describe('a refund whose Idempotency-Key Stripe refuses', () => {
 		const month = new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/Helsinki', year: 'numeric', month: '2-digit' })
 			.format(failed.createdAt)
 			.slice(0, 7);
-		const report = (await (await owner.fetch(`/api/invoices?month=${month}`)).json()) as { failedRefunds: { id: string }[] };
+		const report = (await (await owner.fetch(`/api/studios/hollow-pine/invoices?month=${month}`)).json()) as {
+			failedRefunds: { id: string }[];
+		};
 		expect(report.failedRefunds.map((r) => r.id)).toContain(failed.id);
 		const atStripe = await stripe.refunds.list({ payment_intent: paid!.paymentIntentId! });
 		expect(atStripe.data.map((r) => r.amount)).toEqual([100]);

@@ -35,9 +35,9 @@ interface Plan {
 	}[];
 }
 
-describe('GET /api/plan', () => {
+describe('GET /api/studios/hollow-pine/plan', () => {
 	it('gives the engineer each room’s sessions with the recall sheet carried over', async () => {
-		const res = await (await signedIn(DEMO.engineer)).fetch(`/api/plan?date=${day}`);
+		const res = await (await signedIn(DEMO.engineer)).fetch(`/api/studios/hollow-pine/plan?date=${day}`);
 		expect(res.status).toBe(200);
 		const plan = (await res.json()) as Plan;
 		expect(plan.rooms.map((r) => r.slug)).toEqual(['live-room', 'vocal-booth', 'control-room']);
@@ -50,23 +50,25 @@ describe('GET /api/plan', () => {
 	it('is for engineers and the owner only', async () => {
 		// Nothing of the day's plan in a refusal: not the session, its artist or its recall sheet.
 		const secrets = [ref3, 'Lantern', 'Kick drum'];
-		await expectRefused(await new Client().fetch(`/api/plan?date=${day}`), 401, { secrets });
-		await expectRefused(await (await signedIn(DEMO.artist)).fetch(`/api/plan?date=${day}`), 403, { secrets });
-		await expectRefused(await (await signedIn(DEMO.accountant)).fetch(`/api/plan?date=${day}`), 403, { secrets });
-		const owner = await (await signedIn(DEMO.owner)).fetch(`/api/plan?date=${day}`);
+		await expectRefused(await new Client().fetch(`/api/studios/hollow-pine/plan?date=${day}`), 401, { secrets });
+		await expectRefused(await (await signedIn(DEMO.artist)).fetch(`/api/studios/hollow-pine/plan?date=${day}`), 403, { secrets });
+		await expectRefused(await (await signedIn(DEMO.accountant)).fetch(`/api/studios/hollow-pine/plan?date=${day}`), 403, {
+			secrets
+		});
+		const owner = await (await signedIn(DEMO.owner)).fetch(`/api/studios/hollow-pine/plan?date=${day}`);
 		expect(owner.status).toBe(200);
 		expect(await owner.text()).toContain(ref3);
 	});
 
 	it('answers 422 for a malformed date', async () => {
-		const res = await (await signedIn(DEMO.engineer)).fetch('/api/plan?date=next-tuesday');
+		const res = await (await signedIn(DEMO.engineer)).fetch('/api/studios/hollow-pine/plan?date=next-tuesday');
 		expect(res.status).toBe(422);
 		expect(((await res.json()) as { error: string }).error).toBe('invalid');
 	});
 
 	it('lets the engineer write this session’s recall sheet, which the plan then shows', async () => {
 		const c = await signedIn(DEMO.engineer);
-		const plan = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as Plan & {
+		const plan = (await (await c.fetch(`/api/studios/hollow-pine/plan?date=${day}`)).json()) as Plan & {
 			rooms: { sessions: { id: string; ownRecall: unknown }[] }[];
 		};
 		const session = plan.rooms.flatMap((r) => r.sessions).find((s) => s.reference === ref3) as unknown as { id: string };
@@ -83,7 +85,7 @@ describe('GET /api/plan', () => {
 			notes: 'Amp on the riser'
 		});
 		expect(res.status).toBe(200);
-		const after = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as {
+		const after = (await (await c.fetch(`/api/studios/hollow-pine/plan?date=${day}`)).json()) as {
 			rooms: {
 				sessions: { id: string; ownRecall: { channels: { source: string; preampGainDb: number }[]; notes: string } | null }[];
 			}[];
@@ -99,7 +101,7 @@ describe('GET /api/plan', () => {
 			['Amp on the riser', 'Rhythm guitar']
 		);
 		// The artist's try changed nothing.
-		const kept = (await (await c.fetch(`/api/plan?date=${day}`)).json()) as typeof after;
+		const kept = (await (await c.fetch(`/api/studios/hollow-pine/plan?date=${day}`)).json()) as typeof after;
 		expect(kept.rooms.flatMap((r) => r.sessions).find((s) => s.id === session.id)!.ownRecall).toEqual(own);
 	});
 });

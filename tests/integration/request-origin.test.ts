@@ -5,7 +5,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { signedIn, type Client } from '../support/http';
 import { APP_URL, DEMO } from '../support/env';
-import { testDb } from '../support/db';
+import { DEMO_STUDIO_SLUG, testDb } from '../support/db';
 import { weekdayAhead } from '../support/dates';
 import { holdAt } from '../support/booking';
 import { expectRefused } from '../support/refusal';
@@ -60,6 +60,20 @@ describe('state-changing API requests come from the app’s own origin', () => {
 		// curl with the cookie: no Origin, no Sec-Fetch-Site (see src/lib/domain/request-origin.ts).
 		expect((await forged(artist, `/api/bookings/${second}/cancel`, {})).status).toBe(200);
 		expect(await statusOf(second)).toBe('cancelled');
+	});
+
+	it('a hold at a studio’s address from another origin is refused and nothing is held', async () => {
+		const artist = await signedIn(DEMO.artist);
+		const count = async () => (await db.select({ id: t.booking.id }).from(t.booking)).length;
+		const before = await count();
+		const res = await fetch(`${APP_URL}/api/studios/${DEMO_STUDIO_SLUG}/bookings`, {
+			method: 'POST',
+			headers: { cookie: artist.cookieHeader(), origin: `http://127.0.0.1:${otherPort}`, 'content-type': 'application/json' },
+			body: JSON.stringify({ room: 'vocal-booth', start: `${day}T17:30`, end: `${day}T19:30` }),
+			redirect: 'manual'
+		});
+		await expectRefused(res, 403);
+		expect(await count()).toBe(before);
 	});
 
 	it('sign-out from another origin is refused too; reading stays open', async () => {

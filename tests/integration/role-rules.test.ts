@@ -59,12 +59,12 @@ describe('the accountant is read-only outside the accounts', () => {
 			.select({ id: t.booking.id })
 			.from(t.booking)
 			.where(eq(t.booking.artistId, await accountantId()));
-		const page = await html(accountant, '/book?room=control-room');
+		const page = await html(accountant, '/hollow-pine/book?room=control-room');
 		expect(page.status).toBe(403);
 		expect(page.body).toContain('does not book sessions');
 
 		const day = weekdayAhead(95);
-		const viaForm = await accountant.form('/book', {
+		const viaForm = await accountant.form('/hollow-pine/book', {
 			room: 'control-room',
 			date: day,
 			start: '13:00',
@@ -72,7 +72,11 @@ describe('the accountant is read-only outside the accounts', () => {
 			hours: '2'
 		});
 		expect(viaForm.status).toBe(403);
-		const viaApi = await accountant.json('/api/bookings', { room: 'control-room', start: `${day}T13:00`, end: `${day}T15:00` });
+		const viaApi = await accountant.json('/api/studios/hollow-pine/bookings', {
+			room: 'control-room',
+			start: `${day}T13:00`,
+			end: `${day}T15:00`
+		});
 		expect(viaApi.status).toBe(403);
 		expect(await viaApi.json()).toMatchObject({ error: 'forbidden' });
 		const after = await db
@@ -119,7 +123,7 @@ describe('the accountant is read-only outside the accounts', () => {
 
 	it('cannot open the day plan, its recall sheets or its calendar feed', async () => {
 		expect((await html(accountant, '/plan')).status).toBe(403);
-		expect((await accountant.fetch(`/api/plan?date=${paid.day}`)).status).toBe(403);
+		expect((await accountant.fetch(`/api/studios/hollow-pine/plan?date=${paid.day}`)).status).toBe(403);
 		expect((await accountant.form('/plan?/feed', {})).status).toBe(403);
 		expect((await html(accountant, '/studio')).status).toBe(403);
 	});
@@ -155,7 +159,8 @@ const MAX_PAGES = 150;
  * documents); exports.test.ts covers who may have it, and the same handler answers the CSV and
  * UBL links this crawl does follow.
  */
-const SKIPPED = (url: URL) => url.pathname === '/api/invoices/export' && url.searchParams.get('format') === 'zip';
+const SKIPPED = (url: URL) =>
+	url.pathname === '/api/studios/hollow-pine/invoices/export' && url.searchParams.get('format') === 'zip';
 
 function shapeOf(url: URL): string {
 	return `${url.pathname.replace(UUID, ':id')}?${[...url.searchParams.keys()].sort().join('&')}`;
@@ -219,7 +224,8 @@ describe('every link leads somewhere its viewer may go', () => {
 		'for the %s',
 		async (role, email) => {
 			const who = email ? await signedIn(email) : new Client();
-			const starts = ['/'];
+			// The platform's front page and the demo studio's storefront.
+			const starts = ['/', '/hollow-pine'];
 			if (role !== 'visitor') starts.push(HOME_FOR_ROLE[role]);
 			// A booking page of each kind the role can open: the engineer's and owner's lists start from
 			// the plan and the desk; the artist's own and the accountant's through the accounts.

@@ -351,7 +351,7 @@ describe("a studio's staff see only their studio's day and month", () => {
 	it("leaves the other studio's sessions out of the day plan", async () => {
 		const [own] = await db.select({ reference: t.booking.reference }).from(t.booking).where(eq(t.booking.id, b.booking));
 		const engineer = await signedIn(DEMO.engineer);
-		const res = await engineer.fetch('/api/plan?date=2032-05-04');
+		const res = await engineer.fetch('/api/studios/hollow-pine/plan?date=2032-05-04');
 		expect(res.status).toBe(200);
 		const text = await res.text();
 		expect(text).not.toContain(b.booking);
@@ -405,7 +405,7 @@ describe("a studio's staff see only their studio's day and month", () => {
 			issued[s.id] = invoice.id;
 		}
 		const accountant = await signedIn(DEMO.accountant);
-		const res = await accountant.fetch('/api/invoices?month=2099-03');
+		const res = await accountant.fetch('/api/studios/hollow-pine/invoices?month=2099-03');
 		expect(res.status).toBe(200);
 		const report = (await res.json()) as { documents: { id: string; number: string }[] };
 		const ids = report.documents.map((d) => d.id);

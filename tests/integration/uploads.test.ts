@@ -137,7 +137,7 @@ describe('uploading to a booking', () => {
 	it('shows the files in the engineer’s day plan once the booking is confirmed', async () => {
 		const { booking, stored } = await bookingWithTrack();
 		await payAndConfirm(db, booking);
-		const res = await engineer.fetch(`/api/plan?date=${booking.day}`);
+		const res = await engineer.fetch(`/api/studios/hollow-pine/plan?date=${booking.day}`);
 		const plan = (await res.json()) as {
 			rooms: { sessions: { id: string; uploads: { id: string; name: string; href: string }[] }[] }[];
 		};

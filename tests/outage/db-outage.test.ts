@@ -26,8 +26,12 @@ const RECOVERY_LIMIT_MS = 2000;
 const day = weekdayAhead(90);
 const quoteBody = JSON.stringify({ room: 'live-room', start: `${day}T10:00`, end: `${day}T12:00` });
 const quote = () =>
-	fetch(`${APP_URL}/api/quote`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: quoteBody });
-const rooms = (signal?: AbortSignal) => fetch(`${APP_URL}/api/rooms`, { signal });
+	fetch(`${APP_URL}/api/studios/hollow-pine/quote`, {
+		method: 'POST',
+		headers: { 'content-type': 'application/json' },
+		body: quoteBody
+	});
+const rooms = (signal?: AbortSignal) => fetch(`${APP_URL}/api/studios/hollow-pine/rooms`, { signal });
 /** An event Stripe might send, signed as Stripe signs it (SDK generateTestHeaderString, offline). */
 function webhook() {
 	const payload = JSON.stringify({
@@ -84,14 +88,16 @@ describe('database outage', () => {
 			answers.push(health);
 			expect(health.status).toBe(503);
 			expect(JSON.parse(health.text)).toEqual({ ok: false, db: 'down' });
-			const page = await timed('GET /rooms', () => fetch(`${APP_URL}/rooms`, { headers: { accept: 'text/html' } }));
+			const page = await timed('GET /hollow-pine/rooms', () =>
+				fetch(`${APP_URL}/hollow-pine/rooms`, { headers: { accept: 'text/html' } })
+			);
 			answers.push(page);
 			expect(page.status).toBe(503);
 			expect(page.text).toContain('not answering');
 			// JSON endpoints: the same 503 and error shape as /api/health's status, never a 500.
 			const api = [
-				await timed('GET /api/rooms', () => rooms()),
-				await timed('POST /api/quote', quote),
+				await timed('GET /api/studios/hollow-pine/rooms', () => rooms()),
+				await timed('POST /api/studios/hollow-pine/quote', quote),
 				await timed('GET /api/auth/get-session', () => artist.fetch('/api/auth/get-session')),
 				await timed('GET /api/bookings', () => artist.fetch('/api/bookings')),
 				await timed('POST /api/stripe/webhook', webhook)
@@ -102,8 +108,8 @@ describe('database outage', () => {
 					i % 3 === 0
 						? timed('burst GET /api/bookings', () => artist.fetch('/api/bookings'))
 						: i % 3 === 1
-							? timed('burst POST /api/quote', quote)
-							: timed('burst GET /api/rooms', () => rooms())
+							? timed('burst POST /api/studios/hollow-pine/quote', quote)
+							: timed('burst GET /api/studios/hollow-pine/rooms', () => rooms())
 				)
 			);
 			for (const res of [...api, ...burst]) {
@@ -118,7 +124,7 @@ describe('database outage', () => {
 			// The database stays down a while longer; requests keep failing fast, one after another.
 			const until = performance.now() + 2000;
 			while (performance.now() < until) {
-				const res = await timed('GET /api/rooms (loop)', () => rooms());
+				const res = await timed('GET /api/studios/hollow-pine/rooms (loop)', () => rooms());
 				answers.push(res);
 				expect(res.status).toBe(503);
 			}
@@ -169,7 +175,7 @@ describe('database outage', () => {
 		const health = await fetch(`${APP_URL}/api/health`);
 		expect(health.status).toBe(200);
 		expect(await health.json()).toEqual({ ok: true, db: 'up' });
-		const roomsPage = await fetch(`${APP_URL}/rooms`);
+		const roomsPage = await fetch(`${APP_URL}/hollow-pine/rooms`);
 		expect(roomsPage.status).toBe(200);
 		const priced = await quote();
 		expect(priced.status).toBe(200);

@@ -8,7 +8,7 @@ import { firstFree, type Slot, type SlotTimes } from './slots';
 import { payOnFake } from './stripe-fake';
 import { waitFor } from './wait';
 
-/** A quote as the API gives it (POST /api/quote, and with a new hold): integer minor units. */
+/** A quote as the API gives it (POST /api/studios/hollow-pine/quote, and with a new hold): integer minor units. */
 export interface ApiQuote {
 	lines: { key: string; label: string; amount: number; net: number }[];
 	net: number;
@@ -55,7 +55,7 @@ function held(body: Omit<Held, 'sessionId'>): Held {
 /** Holds the first free slot of the wish as `who`; taken slots are passed over, anything else fails. */
 export async function holdFirstFree(who: Client, wish: HoldWish): Promise<Held> {
 	const body = await firstFree<Omit<Held, 'sessionId' | keyof Slot>>(wish.days, wish.slots, async ({ start, end }) => {
-		const res = await who.json('/api/bookings', { room: wish.room, start, end, ...wish.extra });
+		const res = await who.json('/api/studios/hollow-pine/bookings', { room: wish.room, start, end, ...wish.extra });
 		return { status: res.status, body: () => res.json() };
 	});
 	return held(body);

@@ -35,6 +35,11 @@ describe('judgeRequestOrigin', () => {
 			expect(judgeRequestOrigin({ ...base, method, origin: 'https://other.example.test' }).ok).toBe(false);
 		}
 		expect(judgeRequestOrigin({ ...base, pathname: '/api/auth/sign-out', origin: 'https://other.example.test' }).ok).toBe(false);
+		// A studio's own endpoints, under its short name.
+		for (const pathname of ['/api/studios/hollow-pine/bookings', '/api/studios/hollow-pine/quote']) {
+			expect(judgeRequestOrigin({ ...base, pathname, origin: 'https://other.example.test' }).ok).toBe(false);
+			expect(judgeRequestOrigin({ ...base, pathname, origin: appOrigin }).ok).toBe(true);
+		}
 	});
 
 	it('leaves safe methods, pages and the signed webhook alone', () => {

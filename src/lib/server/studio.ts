@@ -1,9 +1,11 @@
 // The studio's settings as the domain rules want them (StudioPolicy), and its rooms.
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
-import { organization, room, studio, surchargeRule } from './db/schema';
+import { booking, organization, room, studio, surchargeRule } from './db/schema';
 import type { RoomRates, StudioPolicy } from '$lib/domain/types';
 import { staffActor } from './actor';
+import type { Membership } from './team';
+import { RESERVED_SLUGS, hasSlugShape } from '$lib/domain/studio-slug';
 
 export type StudioRow = typeof studio.$inferSelect;
 export type RoomRow = typeof room.$inferSelect;
@@ -95,6 +97,52 @@ export function publicRoom(row: RoomRow, currency: string) {
 		currency,
 		rates: { hourly: row.hourly, halfDay: row.halfDay, fullDay: row.fullDay }
 	};
+}
+
+/** A studio as its short name names it, and who may see it. */
+export interface StudioAtAddress {
+	studio: StudioRow;
+	slug: string;
+	/** The viewer's membership of its team, if any (their role there). */
+	membership: Membership | null;
+}
+
+/**
+ * The studio whose short name is `slug`, when the viewer may see it: a published studio is seen by
+ * anyone, one not published yet only by its own team (`memberships`, from locals). Null for an
+ * unknown or reserved name and for a studio the viewer may not see: the caller answers 404, so an
+ * outsider cannot tell an unpublished studio from none.
+ */
+export async function studioBySlug(slug: string, memberships: readonly Membership[]): Promise<StudioAtAddress | null> {
+	if (!hasSlugShape(slug) || RESERVED_SLUGS.has(slug)) return null;
+	const [row] = await db
+		.select({ studio, slug: organization.slug })
+		.from(studio)
+		.innerJoin(organization, eq(organization.id, studio.id))
+		.where(eq(organization.slug, slug));
+	if (!row) return null;
+	const membership = memberships.find((m) => m.studioId === row.studio.id) ?? null;
+	if (!row.studio.published && !membership) return null;
+	return { studio: row.studio, slug: row.slug, membership };
+}
+
+/** A studio's short name (its storefront's first path segment). */
+export async function slugOf(studioId: string): Promise<string> {
+	const [row] = await db.select({ slug: organization.slug }).from(organization).where(eq(organization.id, studioId));
+	if (!row) throw new Error(`studio ${studioId} has no organization`);
+	return row.slug;
+}
+
+/** The studio a booking belongs to, with its short name (the booking's own, never the viewer's). */
+export async function studioOfBooking(bookingId: string): Promise<{ studio: StudioRow; slug: string }> {
+	const [row] = await db
+		.select({ studio, slug: organization.slug })
+		.from(booking)
+		.innerJoin(studio, eq(studio.id, booking.studioId))
+		.innerJoin(organization, eq(organization.id, booking.studioId))
+		.where(eq(booking.id, bookingId));
+	if (!row) throw new Error(`booking ${bookingId} has no studio`);
+	return row;
 }
 
 /** The studio a staff member works in now (403 for anyone outside a team). */

@@ -15,6 +15,9 @@ const ZONES: Zone[] = [
 	{ prefix: '/uploads', roles: 'signed-in' }
 ];
 
+/** The first part of each zone's address: never a studio's short name (src/lib/domain/studio-slug.ts). */
+export const ZONE_PREFIXES: readonly string[] = ZONES.map((z) => z.prefix);
+
 export function zoneFor(pathname: string): Zone | undefined {
 	return ZONES.find((z) => pathname === z.prefix || pathname.startsWith(z.prefix + '/'));
 }

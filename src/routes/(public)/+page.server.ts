@@ -1,10 +1,11 @@
-import { getStudio, listRooms, publicRoom } from '$lib/server/studio';
+import { getStudio, listRooms, publicRoom, slugOf } from '$lib/server/studio';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
 	const studio = await getStudio();
-	const rooms = await listRooms(studio.id);
+	const [rooms, slug] = await Promise.all([listRooms(studio.id), slugOf(studio.id)]);
 	return {
+		slug,
 		about: {
 			tagline: studio.tagline,
 			description: studio.description,

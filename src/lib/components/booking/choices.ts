@@ -5,6 +5,7 @@
 
 import { wallClock } from '$lib/domain/time';
 import { isStudioDate } from '$lib/schemas/input';
+import { studioPath } from '$lib/studio-paths';
 
 export const BOOKING_KINDS = ['hourly', 'half', 'full'] as const;
 export type BookingKind = (typeof BOOKING_KINDS)[number];
@@ -60,9 +61,11 @@ export function choicesQuery(c: Partial<BookingChoices>): string {
 	return q.toString();
 }
 
-export function bookPath(c: Partial<BookingChoices>): string {
+/** The studio's booking page with these choices filled in. */
+export function bookPath(studio: string, c: Partial<BookingChoices>): string {
 	const q = choicesQuery(c);
-	return q ? `/book?${q}` : '/book';
+	const page = studioPath(studio, 'book');
+	return q ? `${page}?${q}` : page;
 }
 
 /** Reads the choices back from a query string; anything malformed is left out, never guessed. */

@@ -1,6 +1,7 @@
-// The price of the booking being chosen, from POST /api/quote: asked again a moment after the
+// The price of the booking being chosen, from the studio's POST /api/studios/STUDIO/quote: asked again a moment after the
 // choices stop changing, with an older answer dropped when a newer question is on its way.
 import type { QuoteView } from '$lib/types/quote';
+import { studioApiPath } from '$lib/studio-paths';
 
 import type { BookingRequest } from '$lib/schemas/booking';
 
@@ -17,7 +18,11 @@ export class LiveQuote {
 	#controller: AbortController | undefined;
 	#lastKey = '';
 
-	constructor(private readonly delayMs = 250) {}
+	/** `studio`: the short name of the studio whose prices are asked. */
+	constructor(
+		private readonly studio: string,
+		private readonly delayMs = 250
+	) {}
 
 	/** Asks for the price of `body` unless it is the question already asked. */
 	request(body: QuoteBody): void {
@@ -45,7 +50,7 @@ export class LiveQuote {
 		const controller = new AbortController();
 		this.#controller = controller;
 		try {
-			const res = await fetch('/api/quote', {
+			const res = await fetch(studioApiPath(this.studio, 'quote'), {
 				method: 'POST',
 				headers: { 'content-type': 'application/json', accept: 'application/json' },
 				body: key,

@@ -1,6 +1,7 @@
-// The public calendar's data: GET /api/availability per room, and the shapes the calendar and
+// The public calendar's data: a studio's GET /api/studios/STUDIO/availability per room, and the shapes the calendar and
 // the list of free times read. No names ever: the API sends only times.
 import { clockLabel, eachDay, wallClock } from '$lib/domain/time';
+import { studioApiPath } from '$lib/studio-paths';
 
 export interface AvailabilityBody {
 	timeZone: string;
@@ -17,10 +18,16 @@ export interface RoomRef {
 
 export class AvailabilityError extends Error {}
 
-/** One room's free and busy times for local dates from..to (at most 62 days, the API's limit). */
-export async function fetchAvailability(room: string, from: string, to: string, signal?: AbortSignal): Promise<AvailabilityBody> {
+/** One room's free and busy times at a studio for local dates from..to (at most 62 days, the API's limit). */
+export async function fetchAvailability(
+	studio: string,
+	room: string,
+	from: string,
+	to: string,
+	signal?: AbortSignal
+): Promise<AvailabilityBody> {
 	const q = new URLSearchParams({ room, from, to });
-	const res = await fetch(`/api/availability?${q}`, { signal, headers: { accept: 'application/json' } });
+	const res = await fetch(`${studioApiPath(studio, 'availability')}?${q}`, { signal, headers: { accept: 'application/json' } });
 	if (!res.ok) {
 		const body = (await res.json().catch(() => null)) as { message?: string } | null;
 		throw new AvailabilityError(body?.message ?? `The free times could not be loaded (${res.status}).`);

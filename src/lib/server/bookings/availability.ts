@@ -77,8 +77,12 @@ export type AvailabilityResult =
 	  }
 	| { ok: false; fields: FieldErrors };
 
-/** GET /api/availability, the calendar and the booking page: a room's open and busy times over local dates. */
+/**
+ * GET /api/studios/STUDIO/availability, the calendar and the booking page: a room of the studio's
+ * open and busy times over local dates.
+ */
 export async function availability(
+	ctx: PricingContext,
 	params: { room: string | null; from: string | null; to: string | null },
 	now = new Date()
 ): Promise<AvailabilityResult> {
@@ -97,7 +101,6 @@ export async function availability(
 	if (days > AVAILABILITY_MAX_DAYS)
 		return { ok: false, fields: { to: [`Ask for at most ${AVAILABILITY_MAX_DAYS} days at a time.`] } };
 
-	const ctx = await pricingContext();
 	const roomRow = await getRoomBySlug(ctx.studio.id, params.room);
 	if (!roomRow) return { ok: false, fields: { room: ['There is no room by that name.'] } };
 	const tz = ctx.policy.timeZone;
@@ -160,10 +163,14 @@ export async function nearestStarts(
 /**
  * Whether a booking's time could be booked again just as it was (room, opening hours, notice,
  * closed days, other bookings, an engineer and its gear), for a booking whose hold ran out.
- * `taken` says what stands in the way.
+ * `taken` says what stands in the way. `studioId` is the booking's own studio.
  */
-export async function rebookable(b: BookingDetail, now = new Date()): Promise<{ free: true } | { free: false; taken: Taken }> {
-	const ctx = await pricingContext();
+export async function rebookable(
+	b: BookingDetail,
+	studioId: string,
+	now = new Date()
+): Promise<{ free: true } | { free: false; taken: Taken }> {
+	const ctx = await pricingContext(studioId);
 	const tz = ctx.policy.timeZone;
 	const roomRow = await getRoomBySlug(ctx.studio.id, b.roomSlug);
 	if (!roomRow) return { free: false, taken: 'room' };

@@ -1,5 +1,6 @@
-// What pricing and checking a booking need from the studio, read once per request and handed
-// down to every step that needs it.
+// What pricing and checking a booking need from its studio, read once per request and handed
+// down to every step that needs it. The studio is always named: the one in the address, or the
+// booking's own; there is no default studio.
 import { publicHolidayChecker } from '$lib/domain/holidays';
 import type { StudioPolicy } from '$lib/domain/types';
 import { getPolicy, type StudioRow } from '../studio';
@@ -10,7 +11,7 @@ export interface PricingContext {
 	holidays: (ymd: string) => boolean;
 }
 
-export async function pricingContext(): Promise<PricingContext> {
-	const { studio, policy } = await getPolicy();
+export async function pricingContext(studioId: string): Promise<PricingContext> {
+	const { studio, policy } = await getPolicy(studioId);
 	return { studio, policy, holidays: publicHolidayChecker(policy.country) };
 }

@@ -11,7 +11,7 @@ import { startCheckout } from '../payments/checkout';
 import { holdExpiry } from '$lib/domain/lifecycle';
 import type { Quote } from '$lib/domain/pricing';
 import { nearestStarts } from './availability';
-import { pricingContext, type PricingContext } from './context';
+import type { PricingContext } from './context';
 import { expireLapsedHolds } from './occupancy';
 import { priceRequest } from './quote';
 import { newReference } from './reference';
@@ -44,7 +44,7 @@ export async function createHold(
 	const holdExpiresAt = holdExpiry(now, ctx.policy.holdMinutes);
 
 	// Holds whose time ran out must not keep anyone else from this slot.
-	await expireLapsedHolds(now);
+	await expireLapsedHolds(now, ctx.studio.id);
 
 	const minutes = minutesBetween(start, end);
 	const needs = { engineer: req.engineer, gearIds: gear.map((g) => g.id) };
@@ -61,7 +61,7 @@ export async function createHold(
 	for (let attempt = 0; attempt < 6; attempt++) {
 		let engineerId: string | null = null;
 		if (req.engineer) {
-			const engineers = await resourceCalendar(roomRow.studioId, { engineer: true }, start, busyUntil, now);
+			const engineers = await resourceCalendar(ctx.studio.id, { engineer: true }, start, busyUntil, now);
 			engineerId = engineers.freeEngineer(start.getTime(), busyUntil.getTime());
 			if (!engineerId) return conflict('engineer');
 		}
@@ -80,7 +80,7 @@ export async function createHold(
 				const [row] = await tx
 					.insert(booking)
 					.values({
-						studioId: roomRow.studioId,
+						studioId: ctx.studio.id,
 						reference: newReference(),
 						roomId: roomRow.id,
 						engineerId,
@@ -101,7 +101,7 @@ export async function createHold(
 				if (gear.length) {
 					await tx.insert(bookingGear).values(
 						gear.map((g) => ({
-							studioId: roomRow.studioId,
+							studioId: ctx.studio.id,
 							bookingId: row!.id,
 							gearItemId: g.id,
 							hireFee: g.hireFee,
@@ -147,15 +147,16 @@ export type HeldWithCheckout = {
 
 /**
  * Holds the slot, records who held it, and starts the deposit's Checkout: the one way to book,
- * for the /book form and for POST /api/bookings alike.
+ * for the studio's /book form and for POST /api/studios/STUDIO/bookings alike. `at.ctx` is the
+ * studio of the address: the room and gear are looked up in it alone.
  */
 export async function holdAndCheckout(
 	actor: SessionUser,
 	req: BookingRequest,
-	at: { origin: string; ip: string; ctx?: PricingContext },
+	at: { origin: string; ip: string; ctx: PricingContext },
 	now = new Date()
 ): Promise<HeldWithCheckout | HoldRefusal> {
-	const ctx = at.ctx ?? (await pricingContext());
+	const { ctx } = at;
 	const outcome = await createHold(actor, req, ctx, now);
 	if (!outcome.ok) return outcome;
 	const b = outcome.booking;

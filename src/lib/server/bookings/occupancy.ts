@@ -15,8 +15,15 @@ export function occupying(now: Date) {
 	return and(inArray(booking.status, OCCUPYING_STATUSES), not(holdLapsedSql(now)));
 }
 
-/** Marks the holds that ran out as expired; the periodic job and every new hold call it. */
-export async function expireLapsedHolds(now = new Date()): Promise<number> {
-	const rows = await db.update(booking).set({ status: 'expired' }).where(holdLapsedSql(now)).returning({ id: booking.id });
+/**
+ * Marks the holds that ran out as expired: every studio's for the periodic job, one studio's for a
+ * new hold there (another studio's holds never stand in its way).
+ */
+export async function expireLapsedHolds(now = new Date(), studioId?: string): Promise<number> {
+	const rows = await db
+		.update(booking)
+		.set({ status: 'expired' })
+		.where(and(holdLapsedSql(now), studioId === undefined ? undefined : eq(booking.studioId, studioId)))
+		.returning({ id: booking.id });
 	return rows.length;
 }

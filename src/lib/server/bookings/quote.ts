@@ -4,7 +4,7 @@ import { getRoomBySlug, roomRates, type RoomRow } from '../studio';
 import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from '$lib/domain/pricing';
 import { closedDays } from './availability';
 import { hireableGear, type GearRow } from './resources';
-import { pricingContext, type PricingContext } from './context';
+import type { PricingContext } from './context';
 import {
 	invalidRequest,
 	localDays,
@@ -56,11 +56,11 @@ export async function priceRequest(req: BookingRequest, ctx: PricingContext, now
 	return { ok: true, quote, room: roomRow, start, end, gear };
 }
 
-/** POST /api/quote: the body parsed once, the studio read once, the request priced. */
-export async function quoteFor(input: unknown, now = new Date()): Promise<Priced> {
+/** POST /api/studios/STUDIO/quote: the body parsed once, the request priced at the studio read once. */
+export async function quoteFor(ctx: PricingContext, input: unknown, now = new Date()): Promise<Priced> {
 	const parsed = parseBookingRequest(input);
 	if (!parsed.ok) return parsed;
-	return priceRequest(parsed.request, await pricingContext(), now);
+	return priceRequest(parsed.request, ctx, now);
 }
 
 /** The quote as the public API shows it: the lines, VAT, totals, deposit and balance, all in minor units. */

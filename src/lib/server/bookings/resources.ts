@@ -84,6 +84,7 @@ export async function resourceCalendar(
 					.innerJoin(booking, eq(booking.id, bookingGear.bookingId))
 					.where(
 						and(
+							eq(bookingGear.studioId, studioId),
 							inArray(bookingGear.gearItemId, [...needs.gearIds]),
 							occupying(now),
 							lt(bookingGear.startsAt, to),

@@ -1,22 +1,18 @@
-// What the accounts endpoints share: who may ask (the accountant and the owner) and which month.
-import { apiError } from '../api';
-import { getStudio, type StudioRow } from '../studio';
+// What the accounts endpoints share: who may ask (the accountant and the owner of the studio in
+// the address) and which month.
+import { apiStaffStudio } from '../storefront';
+import type { StudioRow } from '../studio';
 import { MONTH_PATTERN, currentMonth } from './month';
 
 export type AccountsRequest =
 	{ ok: true; studio: StudioRow; month: string; user: NonNullable<App.Locals['user']> } | { ok: false; response: Response };
 
-export async function accountsRequest(locals: App.Locals, url: URL): Promise<AccountsRequest> {
-	if (!locals.user) return { ok: false, response: apiError(401, 'unauthenticated', 'Please sign in first.') };
-	if (locals.user.role !== 'accountant' && locals.user.role !== 'owner') {
-		return { ok: false, response: apiError(403, 'forbidden', 'The accounts are for the accountant and the owner.') };
-	}
-	// The accounts of the studio they keep them for (a role of accountant or owner is a membership).
-	if (!locals.studio)
-		return { ok: false, response: apiError(403, 'forbidden', 'The accounts are for the accountant and the owner.') };
-	const studio = await getStudio(locals.studio.studioId);
+export async function accountsRequest(slug: string, locals: App.Locals, url: URL): Promise<AccountsRequest> {
+	const found = await apiStaffStudio(slug, locals, ['accountant', 'owner'], 'The accounts are for the accountant and the owner.');
+	if (!found.ok) return found;
+	const { studio } = found.at;
 	const month = url.searchParams.get('month') ?? currentMonth(studio.timeZone);
-	return { ok: true, studio, month, user: locals.user };
+	return { ok: true, studio, month, user: found.user };
 }
 
 export const MONTH_MESSAGE = 'Use a month such as 2027-03.';

@@ -11,5 +11,6 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	if (!MONTH_PATTERN.test(month)) error(400, { message: 'Use a month such as 2027-03.' });
 	const { prev, next } = monthRange(month, studio.timeZone);
 	const report = await monthReport(studio.id, month, studio.timeZone, studio.currency);
-	return { ...report, prev, next };
+	// The files come from the API of the studio these accounts are kept for.
+	return { ...report, prev, next, api: `/api/studios/${locals.studio!.slug}` };
 };

@@ -1,6 +1,7 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import * as bookings from '$lib/server/bookings';
-import { getStudio } from '$lib/server/studio';
+import { getStudio, studioOfBooking } from '$lib/server/studio';
+import { studioPath } from '$lib/studio-paths';
 import { bookPath, type BookingKind } from '$lib/components/booking/choices';
 import { requireRole, requireUser } from '$lib/server/guard';
 import * as payments from '$lib/server/payments';
@@ -37,14 +38,16 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 	const now = new Date();
 	let rebook: { free: boolean; taken: 'room' | 'engineer' | 'gear' | null; bookHref: string; calendarHref: string } | null = null;
 	if (holdGone(b, now)) {
-		const [studio, outcome] = await Promise.all([getStudio(), bookings.rebookable(b, now)]);
+		// The booking's own studio: its booking page and calendar are where the time is offered again.
+		const { studio, slug } = await studioOfBooking(b.id);
+		const outcome = await bookings.rebookable(b, studio.id, now);
 		const at = wallClock(b.startsAt, studio.timeZone);
 		const minutes = q.durationMinutes;
 		const kind: BookingKind = minutes === studio.halfDayMinutes ? 'half' : minutes === studio.fullDayMinutes ? 'full' : 'hourly';
 		rebook = {
 			free: outcome.free,
 			taken: outcome.free ? null : outcome.taken,
-			bookHref: bookPath({
+			bookHref: bookPath(slug, {
 				room: b.roomSlug,
 				date: at.date,
 				start: at.time,
@@ -54,7 +57,7 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 				gear: b.gear.map((g) => g.id),
 				project: b.project
 			}),
-			calendarHref: `/calendar?room=${encodeURIComponent(b.roomSlug)}&date=${at.date}`
+			calendarHref: `${studioPath(slug, 'calendar')}?room=${encodeURIComponent(b.roomSlug)}&date=${at.date}`
 		};
 	}
 	const quote: QuoteView = {

@@ -5,6 +5,7 @@ import { BOOKING_STATUSES, holdLapsed, isBookingStatus } from '$lib/domain/lifec
 import { localDayBounds } from '$lib/domain/time';
 import { isCalendarDate } from '$lib/components/booking/choices';
 import { dateProblem } from '$lib/schemas/input';
+import { studioPath } from '$lib/studio-paths';
 import type { PageServerLoad } from './$types';
 
 const validDate = (s: string | null) => (s && isCalendarDate(s) ? s : '');
@@ -56,6 +57,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 		}));
 
 	return {
+		calendarHref: `${studioPath(locals.studio!.slug, 'calendar')}?room=all`,
 		filters: { status, room, from, to, q },
 		problems,
 		rooms: rooms.map((r) => ({ slug: r.slug, name: r.name })),

@@ -6,8 +6,8 @@ import { monthReport } from '$lib/server/invoices/month';
 import { MONTH_MESSAGE, accountsRequest, isMonth } from '$lib/server/invoices/request';
 import type { RequestHandler } from './$types';
 
-export const GET: RequestHandler = async ({ locals, url }) => {
-	const req = await accountsRequest(locals, url);
+export const GET: RequestHandler = async ({ params, locals, url }) => {
+	const req = await accountsRequest(params.studio, locals, url);
 	if (!req.ok) return req.response;
 	if (!isMonth(req.month)) return apiError(422, 'invalid', MONTH_MESSAGE, { fields: { month: [MONTH_MESSAGE] } });
 	return json(await monthReport(req.studio.id, req.month, req.studio.timeZone, req.studio.currency), {

@@ -3,11 +3,13 @@ import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { listHireableGear } from '$lib/server/inventory';
 import * as bookings from '$lib/server/bookings';
-import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
+import { listRooms, publicRoom } from '$lib/server/studio';
+import { pageStudio } from '$lib/server/storefront';
 import { bookPath, choicesFromQuery, YMD_RE } from '$lib/components/booking/choices';
 import { addDays, wallClock } from '$lib/domain/time';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import { mayBook } from '$lib/roles';
+import { studioPath } from '$lib/studio-paths';
 import { dateProblem } from '$lib/schemas/input';
 import { bookFormSchema, type BookForm, type BookMessage } from './schema';
 import type { Actions, PageServerLoad } from './$types';
@@ -19,9 +21,11 @@ function refuseNonBookers(locals: App.Locals) {
 	}
 }
 
-export const load: PageServerLoad = async ({ url, locals }) => {
+export const load: PageServerLoad = async ({ url, locals, parent }) => {
 	refuseNonBookers(locals);
-	const { studio, policy } = await getPolicy();
+	const { storefront } = await parent();
+	const ctx = await bookings.pricingContext(storefront.id);
+	const { studio, policy } = ctx;
 	const [rows, gearRows] = await Promise.all([listRooms(studio.id), listHireableGear(studio.id)]);
 	const rooms = rows.map((r) => ({ ...publicRoom(r, studio.currency), id: r.id }));
 	const slugOf = new Map(rooms.map((r) => [r.id, r.slug]));
@@ -52,10 +56,10 @@ export const load: PageServerLoad = async ({ url, locals }) => {
 	}
 
 	// The chosen day's open windows, so the starts that fit are there on the first paint; the page
-	// asks GET /api/availability again when the room or the day changes.
+	// asks GET /api/studios/STUDIO/availability again when the room or the day changes.
 	let open: AvailabilityBody | null = null;
 	if (room && form.data.date) {
-		const result = await bookings.availability({ room, from: form.data.date, to: form.data.date });
+		const result = await bookings.availability(ctx, { room, from: form.data.date, to: form.data.date });
 		if (result.ok) open = result.body;
 	}
 
@@ -104,18 +108,20 @@ function formField(field: string, kind: BookForm['kind']): Exclude<keyof BookFor
 }
 
 export const actions: Actions = {
-	default: async ({ request, locals, url, getClientAddress }) => {
+	default: async ({ request, locals, url, params, getClientAddress }) => {
+		// Actions run before any load: the studio of the address is looked up (and hidden) here too.
+		const { studio: found, slug } = await pageStudio(params.studio, locals);
 		const form = await superValidate<BookForm, BookMessage>(request, zod4(bookFormSchema));
 		// Signed out (a session that ended while choosing): keep every choice through sign-in.
 		if (!locals.user) {
 			// The choices ride along only when sign-in can follow them back (at most 500 characters).
-			const back = bookPath(form.data);
-			redirect(303, `/sign-in?next=${encodeURIComponent(back.length <= 500 ? back : '/book')}`);
+			const back = bookPath(slug, form.data);
+			redirect(303, `/sign-in?next=${encodeURIComponent(back.length <= 500 ? back : studioPath(slug, 'book'))}`);
 		}
 		refuseNonBookers(locals);
 		if (!form.valid) return fail(422, { form });
 
-		const ctx = await bookings.pricingContext();
+		const ctx = await bookings.pricingContext(found.id);
 		const { studio } = ctx;
 		const outcome = await bookings.holdAndCheckout(locals.user, bookings.requestFromChoices(form.data, studio), {
 			origin: url.origin,

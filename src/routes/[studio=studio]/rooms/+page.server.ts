@@ -1,8 +1,9 @@
 import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
 import type { PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async () => {
-	const { studio, policy } = await getPolicy();
+export const load: PageServerLoad = async ({ parent }) => {
+	const { storefront } = await parent();
+	const { studio, policy } = await getPolicy(storefront.id);
 	const rooms = await listRooms(studio.id);
 	return {
 		about: {

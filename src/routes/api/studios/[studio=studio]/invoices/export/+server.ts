@@ -10,8 +10,8 @@ import type { RequestHandler } from './$types';
 const FORMATS = ['csv', 'zip', 'ubl'] as const;
 const REGISTERS = ['documents', 'payments', 'refunds', 'vat'] as const;
 
-export const GET: RequestHandler = async ({ locals, url }) => {
-	const req = await accountsRequest(locals, url);
+export const GET: RequestHandler = async ({ params, locals, url }) => {
+	const req = await accountsRequest(params.studio, locals, url);
 	if (!req.ok) return req.response;
 	const { studio, month, user } = req;
 	const format = url.searchParams.get('format') ?? 'csv';

@@ -1,13 +1,15 @@
 import * as bookings from '$lib/server/bookings';
-import { getPolicy, listRooms, publicRoom } from '$lib/server/studio';
+import { listRooms, publicRoom } from '$lib/server/studio';
 import { publicHolidayList } from '$lib/domain/holidays';
 import { isCalendarDate } from '$lib/components/booking/choices';
 import { addDays, mondayOf, wallClock } from '$lib/domain/time';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import type { PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async ({ url }) => {
-	const { studio, policy } = await getPolicy();
+export const load: PageServerLoad = async ({ url, parent }) => {
+	const { storefront } = await parent();
+	const ctx = await bookings.pricingContext(storefront.id);
+	const { studio, policy } = ctx;
 	const rows = await listRooms(studio.id);
 	const rooms = rows.map((r) => publicRoom(r, studio.currency));
 	const tz = studio.timeZone;
@@ -23,7 +25,7 @@ export const load: PageServerLoad = async ({ url }) => {
 	// The first week is rendered on the server too, so the list of free times works before (and
 	// without) the calendar's script; the browser refetches as the visitor moves between weeks.
 	const slugs = room === 'all' ? rooms.map((r) => r.slug) : [room];
-	const results = await Promise.all(slugs.map((slug) => bookings.availability({ room: slug, from, to })));
+	const results = await Promise.all(slugs.map((slug) => bookings.availability(ctx, { room: slug, from, to })));
 	const initial: Record<string, AvailabilityBody> = {};
 	results.forEach((r, i) => {
 		if (r.ok) initial[slugs[i]!] = r.body;
