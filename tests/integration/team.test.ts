@@ -8,9 +8,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
 import { Client } from '../support/http';
-import { APP_URL, DEMO, MAIL_API } from '../support/env';
+import { APP_URL, DEMO } from '../support/env';
 import { studioIdOf, testDb } from '../support/db';
 import { waitFor } from '../support/wait';
+import { invitationIdIn, joinTeam, mailTo, makeStudio as makeStudioIn, userIdOf, type TestStudio } from '../support/team';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
@@ -24,59 +25,10 @@ const address = (who: string) => `${who}-${run}@team.slateroom.test`;
 const DAY = '2033-06-14';
 const at = (hhmm: string) => new Date(`${DAY}T${hhmm}:00+03:00`);
 
-interface CaughtMail {
-	subject: string;
-	text: string;
-	to: { address: string }[];
-	from: { name: string }[];
-}
-
-async function mailTo(to: string): Promise<CaughtMail[]> {
-	const all = (await (await fetch(`${MAIL_API}/api/email`)).json()) as CaughtMail[];
-	return all.filter((m) => m.to.some((x) => x.address === to));
-}
-
-const linkIn = (text: string) => text.match(/\/invitations\/([0-9a-f-]{36})/)?.[1];
-
-interface Studio {
-	id: string;
-	name: string;
-	room: string;
-}
-
-/** A studio of this file: the demo studio's settings under another name, one open room. */
-async function makeStudio(name: string): Promise<Studio> {
-	const id = crypto.randomUUID();
-	await db.insert(t.organization).values({ id, name, slug: `team-${run}-${id.slice(0, 6)}` });
-	const [demo] = await db
-		.select()
-		.from(t.studio)
-		.where(eq(t.studio.id, await studioIdOf(db)));
-	const { id: _id, updatedAt: _u, ...settings } = demo!;
-	await db.insert(t.studio).values({ ...settings, id, name, published: false });
-	const [room] = await db
-		.insert(t.room)
-		.values({
-			studioId: id,
-			slug: `team-room-${id.slice(0, 6)}`,
-			name: `${name} room`,
-			hourly: 1000,
-			halfDay: 3000,
-			fullDay: 5000
-		})
-		.returning();
-	return { id, name, room: room!.id };
-}
-
-async function join(studioId: string, userId: string, role: t.StaffRole) {
-	await db.insert(t.member).values({ id: crypto.randomUUID(), organizationId: studioId, userId, role });
-}
-
-async function userId(email: string): Promise<string> {
-	const [row] = await db.select({ id: t.user.id }).from(t.user).where(eq(t.user.email, email));
-	if (!row) throw new Error(`no user ${email}`);
-	return row.id;
-}
+type Studio = TestStudio;
+const makeStudio = (name: string) => makeStudioIn(db, name);
+const join = (studioId: string, userId: string, role: t.StaffRole) => joinTeam(db, studioId, userId, role);
+const userId = (email: string) => userIdOf(db, email);
 
 /** A confirmed session in a studio's room on this file's day, with an engineer. */
 async function session(studio: Studio, artistId: string, engineerId: string, start: string, end: string) {
@@ -126,7 +78,7 @@ async function inviteAndRead(owner: Client, email: string, role = 'engineer') {
 	const res = await invite(owner, email, role);
 	expect(res.status).toBe(200);
 	const mail = await waitFor(async () => (await mailTo(email))[before], `the invitation e-mail to ${email}`);
-	const id = linkIn(mail.text);
+	const id = invitationIdIn(mail.text);
 	expect(id).toBeDefined();
 	return { id: id!, mail };
 }

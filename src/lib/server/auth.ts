@@ -9,7 +9,8 @@ import { env } from '$env/dynamic/private';
 import { db } from './db';
 import { user, session, account, verification, organization, member, invitation } from './db/schema';
 import { isRole, type Role } from '$lib/roles';
-import { INVITATION_DAYS, queueInvitation } from './mail/invitation';
+import { INVITATION_DAYS } from './mail/invitation';
+import { queueInvitation } from './mail';
 import { redactText, safeLogArgs } from '$lib/domain/log-redaction';
 
 export type { Role } from '$lib/roles';

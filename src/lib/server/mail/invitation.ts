@@ -1,10 +1,5 @@
 // The e-mail that invites someone into a studio's team: which studio, as what, the link that
-// accepts it and until when it works. Queued in the outbox like every other message, from the
-// studio's name and address; a resent invitation (a new expiry) is a new message.
-import { enqueueMail, flushSoon } from './outbox';
-import { publicOrigin } from './transport';
-import { db } from '../db';
-import { getStudio } from '../studio';
+// accepts it and until when it works (mail/index.ts queues it in the outbox).
 import { formatDateTime } from '$lib/domain/time';
 import { ROLE_LABELS, type Role } from '$lib/roles';
 
@@ -47,34 +42,4 @@ export function composeInvitation(f: InvitationFacts): { subject: string; text: 
 			`${f.studioName}`
 		].join('\n')
 	};
-}
-
-/** Queues an invitation's e-mail; called by better-auth's organization plugin once it has written the invitation. */
-export async function queueInvitation(input: {
-	id: string;
-	email: string;
-	role: Role;
-	studioId: string;
-	studioName: string;
-	inviterName: string;
-	expiresAt: Date;
-}): Promise<void> {
-	const studio = await getStudio(input.studioId);
-	const mail = composeInvitation({
-		...input,
-		timeZone: studio.timeZone,
-		locale: studio.locale,
-		url: `${publicOrigin()}/invitations/${input.id}`
-	});
-	await db.transaction((tx) =>
-		enqueueMail(tx, {
-			studioId: input.studioId,
-			// Each sending of an invitation has its own expiry, so a resend is a message of its own.
-			dedupeKey: `invitation:${input.id}:${input.expiresAt.getTime()}`,
-			to: input.email,
-			subject: mail.subject,
-			text: mail.text
-		})
-	);
-	flushSoon();
 }
