@@ -174,9 +174,11 @@ const sessionIntoLocals: Handle = async ({ event, resolve }) => {
 	try {
 		const found = await auth.api.getSession({ headers: event.request.headers });
 		if (found) {
-			// The role is the person's role in the studio they work in now; without one, an artist.
+			// The role is the person's role in the studio they work in now (the session's active
+			// organization, while they are still in its team, else the first they joined); without
+			// one, an artist. Read on every request, so someone taken out of a team loses it at once.
 			const memberships = await membershipsOf(found.user.id);
-			const current = currentMembership(memberships, null);
+			const current = currentMembership(memberships, found.session.activeOrganizationId);
 			event.locals.memberships = memberships;
 			event.locals.studio = current;
 			event.locals.user = {

@@ -11,6 +11,11 @@ export const load: LayoutServerLoad = async ({ locals }) => {
 	});
 	return {
 		user: locals.user ? { name: locals.user.name, email: locals.user.email, role: locals.user.role } : null,
+		// The header's studio switcher, for someone in more than one team.
+		teams:
+			locals.memberships.length > 1 && locals.studio
+				? { current: locals.studio.studioId, all: locals.memberships.map((m) => ({ id: m.studioId, name: m.name })) }
+				: null,
 		studio: { name: studio.name, timeZone: studio.timeZone, currency: studio.currency, locale: studio.locale }
 	};
 };

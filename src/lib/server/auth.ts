@@ -1,12 +1,16 @@
 import { betterAuth } from 'better-auth';
 import { drizzleAdapter } from 'better-auth/adapters/drizzle';
 import { sveltekitCookies } from 'better-auth/svelte-kit';
+import { organization as organizationPlugin } from 'better-auth/plugins/organization';
+import { createAccessControl } from 'better-auth/plugins/access';
 import { getRequestEvent } from '$app/server';
 import { building } from '$app/environment';
 import { env } from '$env/dynamic/private';
 import { db } from './db';
-import { user, session, account, verification } from './db/schema';
-import type { Role } from '$lib/roles';
+import { user, session, account, verification, organization, member, invitation } from './db/schema';
+import { isRole, type Role } from '$lib/roles';
+import { INVITATION_DAYS } from './mail/invitation';
+import { queueInvitation } from './mail';
 import { redactText, safeLogArgs } from '$lib/domain/log-redaction';
 
 export type { Role } from '$lib/roles';
@@ -20,6 +24,31 @@ export const MIN_PASSWORD_LENGTH = 10;
  */
 export const CLIENT_ADDRESS_HEADER = 'x-slateroom-client-address';
 
+/**
+ * What a studio's team may do through better-auth's organization plugin, by role. The owner runs
+ * the team (invites, removes, gives roles, changes the studio); an engineer and an accountant
+ * change nothing about it. Their work (the day plan, the accounts) is guarded by our own zones
+ * and `requireRole`, not by these statements.
+ */
+export const teamAccess = createAccessControl({
+	organization: ['update', 'delete'],
+	member: ['create', 'update', 'delete'],
+	invitation: ['create', 'cancel']
+} as const);
+
+export const teamRoles = {
+	owner: teamAccess.newRole({
+		organization: ['update', 'delete'],
+		member: ['create', 'update', 'delete'],
+		invitation: ['create', 'cancel']
+	}),
+	engineer: teamAccess.newRole({ organization: [], member: [], invitation: [] }),
+	accountant: teamAccess.newRole({ organization: [], member: [], invitation: [] })
+};
+
+/** At most this many invitations of a studio wait for an answer at once. */
+export const PENDING_INVITATION_LIMIT = 50;
+
 const origin = env.ORIGIN ?? env.BETTER_AUTH_URL ?? 'http://127.0.0.1:3000';
 
 export const auth = betterAuth({
@@ -27,7 +56,10 @@ export const auth = betterAuth({
 	// The build imports this module to analyse routes; it never signs anything with this placeholder.
 	secret: env.BETTER_AUTH_SECRET ?? (building ? 'build-time-placeholder-secret-not-used' : undefined),
 	trustedOrigins: [origin],
-	database: drizzleAdapter(db, { provider: 'pg', schema: { user, session, account, verification } }),
+	database: drizzleAdapter(db, {
+		provider: 'pg',
+		schema: { user, session, account, verification, organization, member, invitation }
+	}),
 	emailAndPassword: {
 		enabled: true,
 		minPasswordLength: MIN_PASSWORD_LENGTH,
@@ -66,8 +98,36 @@ export const auth = betterAuth({
 			else console.info(line);
 		}
 	},
-	// sveltekitCookies must be the last plugin: it copies better-auth's cookies onto SvelteKit's.
-	plugins: [sveltekitCookies(getRequestEvent)]
+	plugins: [
+		// A studio is an organization; its team are the members, with our three roles. Its HTTP
+		// routes stay closed (hooks.server.ts): our pages check first and then call auth.api.
+		organizationPlugin({
+			ac: teamAccess,
+			roles: teamRoles,
+			creatorRole: 'owner',
+			invitationExpiresIn: INVITATION_DAYS * 24 * 60 * 60,
+			invitationLimit: PENDING_INVITATION_LIMIT,
+			// Invitation ids are random UUIDs (122 random bits) that only the invitation e-mail
+			// carries, and accounts have no e-mail verification: holding the link, signed in with the
+			// address it was sent to, is the proof of that address.
+			requireEmailVerificationOnInvitation: false,
+			sendInvitationEmail: async ({ invitation: sent, organization: studio, inviter }) => {
+				const role = sent.role;
+				if (!isRole(role) || role === 'artist') return;
+				await queueInvitation({
+					id: sent.id,
+					email: sent.email,
+					role,
+					studioId: studio.id,
+					studioName: studio.name,
+					inviterName: inviter.user.name,
+					expiresAt: new Date(sent.expiresAt)
+				});
+			}
+		}),
+		// sveltekitCookies must be the last plugin: it copies better-auth's cookies onto SvelteKit's.
+		sveltekitCookies(getRequestEvent)
+	]
 });
 
 export interface SessionUser {

@@ -2,7 +2,7 @@
 // artists who have booked there. Signing up gives no role; an owner gives a role in their own
 // studio, or takes someone out of the team (their past sessions stay theirs). A studio always
 // keeps at least one owner.
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq, exists, or, sql } from 'drizzle-orm';
 import { db } from './db';
 import { booking, member, organization, user } from './db/schema';
 import { audit } from './audit';
@@ -38,6 +38,33 @@ export async function list(studioId: string): Promise<StudioPerson[]> {
 	].sort((x, y) => order.indexOf(x.role) - order.indexOf(y.role) || x.name.localeCompare(y.name));
 }
 
+/** One person of the studio's people (in its team, or an artist who has booked there), or null. */
+async function personAt(studioId: string, userId: string): Promise<{ email: string } | null> {
+	const [row] = await db
+		.select({ email: user.email })
+		.from(user)
+		.where(
+			and(
+				eq(user.id, userId),
+				or(
+					exists(
+						db
+							.select({ one: sql`1` })
+							.from(member)
+							.where(and(eq(member.organizationId, studioId), eq(member.userId, userId)))
+					),
+					exists(
+						db
+							.select({ one: sql`1` })
+							.from(booking)
+							.where(and(eq(booking.studioId, studioId), eq(booking.artistId, userId)))
+					)
+				)
+			)
+		);
+	return row ?? null;
+}
+
 export type RoleChange = { ok: true; email: string } | { ok: false; status: 403 | 404 | 409; message: string };
 
 /**
@@ -48,7 +75,7 @@ export async function setRole(actor: Actor, userId: string, role: Role): Promise
 	if ((await roleIn(actor.studioId, actor.user.id)) !== 'owner') {
 		return { ok: false, status: 403, message: 'Only an owner gives roles.' };
 	}
-	const person = (await list(actor.studioId)).find((p) => p.id === userId);
+	const person = await personAt(actor.studioId, userId);
 	if (!person) return { ok: false, status: 404, message: 'No such person at this studio.' };
 	const outcome = await db.transaction(async (tx) => {
 		// One change to a studio's team at a time, so two owners stepping down at once cannot

@@ -1,6 +1,6 @@
 // E-mail: the messages the studio sends about a booking, queued in the outbox inside the
-// transaction that confirms or cancels it (payments/state.ts and payments/refunds.ts call these);
-// the periodic jobs (src/lib/server/jobs.ts) send what is queued.
+// transaction that confirms or cancels it (payments/state.ts and payments/refunds.ts call these),
+// and its invitations into the team; the periodic jobs (src/lib/server/jobs.ts) send what is queued.
 import { and, eq } from 'drizzle-orm';
 import { booking, bookingGear, gearItem, room, studio, user } from '../db/schema';
 import type { CancellationFact } from '../payments/refunds';
@@ -8,6 +8,10 @@ import type { Tx } from '../payments/core';
 import { composeCancellation, composeConfirmation, type ConfirmationFacts } from './confirmation';
 import { enqueueMail, flushSoon } from './outbox';
 import { publicOrigin } from './transport';
+import { composeInvitation } from './invitation';
+import { db } from '../db';
+import { getStudio } from '../studio';
+import type { Role } from '$lib/roles';
 
 export { flushOutbox } from './outbox';
 
@@ -91,5 +95,38 @@ export async function queueCancellation(tx: Tx, fact: CancellationFact): Promise
 		text: mail.text,
 		attachments: [calendarAttachment(facts.reference, mail.ics, 'CANCEL')]
 	});
+	flushSoon();
+}
+
+/**
+ * Queues the e-mail of an invitation into a studio's team, from the studio's name and address;
+ * better-auth's organization plugin calls it once it has written the invitation, and again for a
+ * resend, whose new expiry makes it a message of its own.
+ */
+export async function queueInvitation(input: {
+	id: string;
+	email: string;
+	role: Role;
+	studioId: string;
+	studioName: string;
+	inviterName: string;
+	expiresAt: Date;
+}): Promise<void> {
+	const studio = await getStudio(input.studioId);
+	const mail = composeInvitation({
+		...input,
+		timeZone: studio.timeZone,
+		locale: studio.locale,
+		url: `${publicOrigin()}/invitations/${input.id}`
+	});
+	await db.transaction((tx) =>
+		enqueueMail(tx, {
+			studioId: input.studioId,
+			dedupeKey: `invitation:${input.id}:${input.expiresAt.getTime()}`,
+			to: input.email,
+			subject: mail.subject,
+			text: mail.text
+		})
+	);
 	flushSoon();
 }
