@@ -1,0 +1,546 @@
+// Every route of the app, walked by each role of studio A against studio B's things. The routes
+// are found from the src/routes folder, so a route added without an entry here fails the first
+// test: nobody can add a page or an endpoint without saying how it keeps other studios out.
+//
+// Studio B is made here, unpublished, with one of everything (room, gear, closed days, a surcharge,
+// a team, an artist, a confirmed session with a payment, a document, a recall sheet, an upload and
+// a pending invitation), each named with a random marker. Each role of A then asks every route for
+// B's things (in the address, the query, the form fields or the JSON body) and every answer must:
+// - not be a server error;
+// - be a refusal (403 or 404) where the address itself names B's thing;
+// - contain none of B's markers, whatever its status;
+// and at the end, nothing of B's may have changed (a digest of every row that carries its id).
+// This is the check OWASP's testing guide calls "testing for insecure direct object references"
+// (WSTG-ATHZ-04), done exhaustively over the route table rather than by sampling.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { readdirSync, readFileSync, existsSync } from 'node:fs';
+import { join, relative, sep } from 'node:path';
+import { eq, sql } from 'drizzle-orm';
+import { studioIdOf, testDb } from '../support/db';
+import { DEMO } from '../support/env';
+import { Client, signedIn } from '../support/http';
+import * as t from '../../src/lib/server/db/schema';
+import { issueDocument } from '../../src/lib/server/invoices/issue';
+import { documentTotals, lumpSumLines } from '../../src/lib/domain/invoice';
+
+const { db, client } = testDb();
+const ROUTES = join(process.cwd(), 'src', 'routes');
+
+// ——— The routes, as the folder says ———
+
+interface FoundRoute {
+	id: string;
+	/** HTTP methods a +server.ts exports. */
+	methods: string[];
+	/** Form actions a +page.server.ts exports ('default' for an unnamed one); null when there is no page. */
+	actions: string[] | null;
+	/** Whether it renders a page (a folder of form actions alone does not). */
+	hasPage: boolean;
+}
+
+function walkDir(dir: string): string[] {
+	return readdirSync(dir, { withFileTypes: true }).flatMap((d) =>
+		d.isDirectory() ? [dir + sep + d.name, ...walkDir(dir + sep + d.name)] : []
+	);
+}
+
+function routeIdOf(dir: string): string {
+	const parts = relative(ROUTES, dir)
+		.split(sep)
+		.filter((p) => p !== '' && !/^\(.*\)$/.test(p));
+	return '/' + parts.join('/');
+}
+
+function discoverRoutes(): FoundRoute[] {
+	const found: FoundRoute[] = [];
+	for (const dir of [ROUTES, ...walkDir(ROUTES)]) {
+		const server = join(dir, '+server.ts');
+		const pageServer = join(dir, '+page.server.ts');
+		// A page, or a folder whose only content is form actions (sign-out).
+		const page = existsSync(join(dir, '+page.svelte')) || existsSync(pageServer);
+		const methods = existsSync(server)
+			? [...readFileSync(server, 'utf8').matchAll(/export (?:const|async function) (GET|POST|PUT|PATCH|DELETE)\b/g)].map(
+					(m) => m[1]!
+				)
+			: [];
+		let actions: string[] | null = null;
+		if (page) {
+			actions = [];
+			if (existsSync(pageServer)) {
+				const text = readFileSync(pageServer, 'utf8');
+				const at = text.indexOf('export const actions');
+				// The actions object's own keys sit one tab in.
+				if (at >= 0) actions = [...text.slice(at).matchAll(/^\t([A-Za-z]+):/gm)].map((m) => m[1]!);
+			}
+		}
+		if (methods.length || actions)
+			found.push({ id: routeIdOf(dir), methods, actions, hasPage: existsSync(join(dir, '+page.svelte')) });
+	}
+	return found.sort((a, b) => a.id.localeCompare(b.id));
+}
+
+// ——— Studio B ———
+
+interface B {
+	id: string;
+	slug: string;
+	room: string;
+	roomSlug: string;
+	gear: string;
+	blackout: string;
+	surcharge: string;
+	owner: string;
+	engineer: string;
+	artist: string;
+	booking: string;
+	reference: string;
+	invoice: string;
+	upload: string;
+	invitation: string;
+	/** Texts that exist only in B's rows: none may come back to anyone of A. */
+	markers: string[];
+}
+
+type Body = Record<string, string> | [string, string][];
+
+/**
+ * How a route is asked for B's things. `path` fills the address; `into` says the address itself
+ * names something of B's (so the answer must be 403 or 404); `form`/`json` give the body of each
+ * action or method (a default is sent otherwise); `noPost` keeps a route's writes out of the walk,
+ * with the reason.
+ */
+interface Entry {
+	path: (b: B) => string;
+	into: boolean;
+	form?: Record<string, (b: B) => Body>;
+	json?: Record<string, (b: B) => unknown>;
+	noPost?: string;
+}
+
+const money = { hourly: '10.00', halfDay: '30.00', fullDay: '50.00' };
+const B_IDS = (b: B): Body => ({ id: b.room, bookingId: b.booking, userId: b.owner, studio: b.slug, studioId: b.id });
+
+const ENTRIES: Record<string, Entry> = {
+	'/': { path: () => '/', into: false },
+	'/sign-in': { path: () => '/sign-in', into: false, noPost: 'signing in as somebody else is the sign-in tests’ subject' },
+	'/sign-up': { path: () => '/sign-up', into: false, noPost: 'making accounts is the sign-up tests’ subject' },
+	'/sign-out': { path: () => '/sign-out', into: false, noPost: 'it would end the walking session; it names nothing of a studio' },
+	'/calendar': { path: () => '/calendar', into: false },
+	'/rooms': { path: () => '/rooms', into: false },
+	'/book': {
+		path: (b) => `/book?room=${b.roomSlug}`,
+		into: false,
+		form: { default: (b) => ({ room: b.roomSlug, date: '2031-03-04', start: '10:00', end: '12:00' }) }
+	},
+	'/feed/[token]/sessions.ics': { path: () => `/feed/${'0'.repeat(43)}/sessions.ics`, into: true },
+	'/bookings': { path: () => '/bookings', into: false },
+	'/bookings/[id=uuid]': {
+		path: (b) => `/bookings/${b.booking}`,
+		into: true,
+		form: { upload: () => ({}), remove: (b) => ({ id: b.upload, uploadId: b.upload }) }
+	},
+	'/invoices/[id=uuid]/pdf': { path: (b) => `/invoices/${b.invoice}/pdf`, into: true },
+	'/uploads/[id=uuid]': { path: (b) => `/uploads/${b.upload}`, into: true },
+	'/studio': { path: () => '/studio', into: false },
+	'/studio/bookings': { path: (b) => `/studio/bookings?q=${b.reference}`, into: false },
+	'/studio/people': {
+		path: () => '/studio/people',
+		into: false,
+		form: { setRole: (b) => ({ userId: b.owner, role: 'accountant' }) }
+	},
+	'/studio/rooms': {
+		path: () => '/studio/rooms',
+		into: false,
+		form: {
+			room: (b) => ({ id: b.room, name: 'Taken over', description: '', ...money, active: 'on' }),
+			gear: (b) => ({ id: b.gear, name: 'Taken over', category: 'microphone', homeRoom: b.room, hireFee: '1.00' }),
+			gearActive: (b) => ({ id: b.gear, active: 'false' }),
+			blackout: () => ({ startsOn: '2099-01-01', endsOn: '2098-01-01', reason: 'refused range' }),
+			removeBlackout: (b) => ({ id: b.blackout })
+		}
+	},
+	'/studio/settings': {
+		path: () => '/studio/settings',
+		into: false,
+		form: {
+			save: () => ({ name: '' }),
+			surcharge: (b) => ({
+				id: b.surcharge,
+				label: 'Taken over',
+				kind: 'window',
+				percent: '50',
+				weekdays: '1',
+				from: '18:00',
+				to: '24:00',
+				active: 'on'
+			})
+		}
+	},
+	'/plan': {
+		path: () => `/plan?date=${B_DAY}`,
+		into: false,
+		form: { feed: () => ({}), recall: (b) => ({ bookingId: b.booking, rows: '0', notes: 'Taken over' }) }
+	},
+	'/accounts': { path: () => `/accounts?month=${B_DAY.slice(0, 7)}`, into: false },
+	'/api/health': { path: () => '/api/health', into: false },
+	'/api/rooms': { path: () => '/api/rooms', into: false },
+	'/api/availability': { path: (b) => `/api/availability?room=${b.roomSlug}&from=${B_DAY}&to=${B_DAY}`, into: false },
+	'/api/quote': {
+		path: () => '/api/quote',
+		into: false,
+		json: { POST: (b) => ({ room: b.roomSlug, start: `${B_DAY}T10:00`, end: `${B_DAY}T12:00` }) }
+	},
+	'/api/plan': { path: () => `/api/plan?date=${B_DAY}`, into: false },
+	'/api/invoices': { path: () => `/api/invoices?month=${B_DAY.slice(0, 7)}`, into: false },
+	'/api/invoices/export': { path: () => `/api/invoices/export?month=${B_DAY.slice(0, 7)}&format=csv`, into: false },
+	'/api/bookings': {
+		path: () => '/api/bookings',
+		into: false,
+		json: { POST: (b) => ({ room: b.roomSlug, start: `${B_DAY}T10:00`, end: `${B_DAY}T12:00` }) }
+	},
+	'/api/bookings/[id=uuid]': { path: (b) => `/api/bookings/${b.booking}`, into: true },
+	'/api/bookings/[id=uuid]/cancel': { path: (b) => `/api/bookings/${b.booking}/cancel`, into: true },
+	'/api/bookings/[id=uuid]/cancel/retry': { path: (b) => `/api/bookings/${b.booking}/cancel/retry`, into: true },
+	'/api/bookings/[id=uuid]/cancellation': { path: (b) => `/api/bookings/${b.booking}/cancellation`, into: true },
+	'/api/bookings/[id=uuid]/close': { path: (b) => `/api/bookings/${b.booking}/close`, into: true },
+	'/api/bookings/[id=uuid]/pay': { path: (b) => `/api/bookings/${b.booking}/pay`, into: true },
+	'/api/bookings/[id=uuid]/uploads': { path: (b) => `/api/bookings/${b.booking}/uploads`, into: true },
+	'/api/bookings/[id=uuid]/uploads/[uploadId=uuid]': {
+		path: (b) => `/api/bookings/${b.booking}/uploads/${b.upload}`,
+		into: true
+	},
+	'/api/stripe/webhook': {
+		path: () => '/api/stripe/webhook',
+		into: false,
+		// Unsigned: the provider's signature is what lets an event in, and nothing of a person's role.
+		json: { POST: (b) => ({ type: 'checkout.session.completed', data: { object: { metadata: { bookingId: b.booking } } } }) }
+	}
+};
+
+/** A day far ahead that nothing else books: B's session is on it. */
+const B_DAY = '2031-03-04';
+
+// ——— Making B, and a digest of it ———
+
+const mark = `Zq${crypto.randomUUID().slice(0, 8)}`;
+let b: B;
+const made = { users: [] as string[] };
+
+async function person(label: string): Promise<string> {
+	const id = crypto.randomUUID();
+	await db.insert(t.user).values({
+		id,
+		name: `${label} ${mark}`,
+		email: `${mark.toLowerCase()}-${label.toLowerCase().replace(/\W+/g, '-')}@walk.slateroom.test`
+	});
+	made.users.push(id);
+	return id;
+}
+
+async function makeStudioB(): Promise<B> {
+	const id = crypto.randomUUID();
+	const slug = `walk-${mark.toLowerCase()}`;
+	const name = `Studio ${mark}`;
+	await db.insert(t.organization).values({ id, name, slug });
+	const [demo] = await db
+		.select()
+		.from(t.studio)
+		.where(eq(t.studio.id, await studioIdOf(db)));
+	const { id: _id, updatedAt: _u, ...settings } = demo!;
+	await db
+		.insert(t.studio)
+		.values({ ...settings, id, name, published: false, email: `${mark.toLowerCase()}@walk.slateroom.test` });
+	const owner = await person('Owner');
+	const engineer = await person('Engineer');
+	const artist = await person('Artist');
+	await db.insert(t.member).values([
+		{ id: crypto.randomUUID(), organizationId: id, userId: owner, role: 'owner' },
+		{ id: crypto.randomUUID(), organizationId: id, userId: engineer, role: 'engineer' }
+	]);
+	const roomSlug = `room-${mark.toLowerCase()}`;
+	const [room] = await db
+		.insert(t.room)
+		.values({ studioId: id, slug: roomSlug, name: `Room ${mark}`, hourly: 1000, halfDay: 3000, fullDay: 5000, active: true })
+		.returning();
+	const [gear] = await db
+		.insert(t.gearItem)
+		.values({
+			studioId: id,
+			name: `Microphone ${mark}`,
+			category: 'microphone',
+			homeRoomId: room!.id,
+			hireable: true,
+			hireFee: 500
+		})
+		.returning();
+	const [blackout] = await db
+		.insert(t.blackout)
+		.values({ studioId: id, startsOn: '2031-04-01', endsOn: '2031-04-02', reason: `Closed ${mark}` })
+		.returning();
+	const [surcharge] = await db
+		.insert(t.surchargeRule)
+		.values({
+			studioId: id,
+			label: `Late ${mark}`,
+			kind: 'window',
+			percentBp: 2000,
+			weekdays: [1],
+			fromMinute: 1200,
+			toMinute: 1440
+		})
+		.returning();
+	const reference = `WK-${mark.slice(2, 6).toUpperCase()}-${mark.slice(6, 10).toUpperCase()}`;
+	const [booking] = await db
+		.insert(t.booking)
+		.values({
+			studioId: id,
+			reference,
+			roomId: room!.id,
+			artistId: artist,
+			engineerId: engineer,
+			startsAt: new Date(`${B_DAY}T10:00:00Z`),
+			endsAt: new Date(`${B_DAY}T12:00:00Z`),
+			busyUntil: new Date(`${B_DAY}T12:00:00Z`),
+			status: 'confirmed',
+			quote: {},
+			currency: 'EUR',
+			total: 2000,
+			deposit: 500,
+			notes: `Notes ${mark}`
+		})
+		.returning();
+	await db
+		.insert(t.payment)
+		.values({ studioId: id, bookingId: booking!.id, kind: 'deposit', amount: 500, currency: 'EUR', status: 'paid' });
+	const lines = lumpSumLines(500, 'deposit', `Deposit ${mark}`, [{ rateBp: 2550, weight: 1 }]);
+	const totals = documentTotals(lines, { currency: 'EUR', amountsIncludeVat: true, prepaid: 500 });
+	const { invoice } = await db.transaction((tx) =>
+		issueDocument(tx, {
+			studioId: id,
+			typeCode: 386,
+			series: 'WK',
+			issuedAt: new Date(`${B_DAY}T09:00:00Z`),
+			timeZone: settings.timeZone,
+			supplyDate: B_DAY,
+			supplier: { name, addressLines: [] },
+			customer: { name: `Artist ${mark}`, addressLines: [] },
+			bookingId: booking!.id,
+			totals
+		})
+	);
+	await db
+		.insert(t.recallSheet)
+		.values({ studioId: id, bookingId: booking!.id, artistId: artist, authorId: engineer, notes: `Recall ${mark}` });
+	const [upload] = await db
+		.insert(t.upload)
+		.values({
+			studioId: id,
+			bookingId: booking!.id,
+			uploaderId: artist,
+			originalName: `demo-${mark}.wav`,
+			storageKey: `walk/${mark}`,
+			contentType: 'audio/wav',
+			sizeBytes: 44,
+			sha256: '0'.repeat(64)
+		})
+		.returning();
+	const invitation = crypto.randomUUID();
+	await db.insert(t.invitation).values({
+		id: invitation,
+		organizationId: id,
+		email: `${mark.toLowerCase()}-invited@walk.slateroom.test`,
+		role: 'engineer',
+		expiresAt: new Date(Date.now() + 7 * 86_400_000),
+		inviterId: owner
+	});
+	return {
+		id,
+		slug,
+		room: room!.id,
+		roomSlug,
+		gear: gear!.id,
+		blackout: blackout!.id,
+		surcharge: surcharge!.id,
+		owner,
+		engineer,
+		artist,
+		booking: booking!.id,
+		reference,
+		invoice: invoice.id,
+		upload: upload!.id,
+		invitation,
+		markers: [
+			name,
+			`Room ${mark}`,
+			`Microphone ${mark}`,
+			`Closed ${mark}`,
+			`Late ${mark}`,
+			`Artist ${mark}`,
+			`Owner ${mark}`,
+			`Engineer ${mark}`,
+			reference,
+			invoice.displayNumber,
+			`Recall ${mark}`,
+			`demo-${mark}`,
+			`Notes ${mark}`,
+			`Deposit ${mark}`,
+			`${mark.toLowerCase()}-invited`
+		]
+	};
+}
+
+/** The tables whose rows carry a studio, as the database lists them. */
+async function studioTables(): Promise<string[]> {
+	const rows = await client<{ table_name: string }[]>`
+		select c.table_name from information_schema.columns c
+		join information_schema.tables t using (table_schema, table_name)
+		where c.table_schema = 'public' and c.column_name = 'studio_id' and t.table_type = 'BASE TABLE'
+		order by c.table_name`;
+	return rows.map((r) => r.table_name);
+}
+
+/** One digest per table of every row of B's (and its organization, team and invitations). */
+async function digestOf(studioId: string): Promise<Record<string, string>> {
+	const out: Record<string, string> = {};
+	const tables = [
+		...(await studioTables()).map((name) => [name, 'studio_id'] as const),
+		['organization', 'id'],
+		['studio', 'id'],
+		['member', 'organization_id'],
+		['invitation', 'organization_id']
+	] as const;
+	for (const [table, column] of tables) {
+		const [row] = await client<{ d: string | null }[]>`
+			select md5(string_agg(x::text, '|' order by x::text)) as d from ${client(table)} x where ${client(column)} = ${studioId}`;
+		out[table] = row?.d ?? 'none';
+	}
+	return out;
+}
+
+async function removeStudio(studioId: string) {
+	const tables = await studioTables();
+	// Children before parents: delete what can be deleted, then again, until nothing is left.
+	for (let pass = 0; pass < tables.length + 1; pass++) {
+		let left = 0;
+		for (const table of tables) {
+			try {
+				await client`delete from ${client(table)} where studio_id = ${studioId}`;
+			} catch {
+				left++;
+			}
+		}
+		if (left === 0) break;
+	}
+	await db.delete(t.invitation).where(eq(t.invitation.organizationId, studioId));
+	await db.delete(t.member).where(eq(t.member.organizationId, studioId));
+	await db.delete(t.studio).where(eq(t.studio.id, studioId));
+	await db.delete(t.organization).where(eq(t.organization.id, studioId));
+}
+
+// ——— The walk ———
+
+const ROLES = ['owner', 'engineer', 'accountant', 'artist'] as const;
+const clients = {} as Record<(typeof ROLES)[number], Client>;
+let before: Record<string, string>;
+
+beforeAll(async () => {
+	b = await makeStudioB();
+	before = await digestOf(b.id);
+	for (const role of ROLES) clients[role] = await signedIn(DEMO[role]);
+});
+
+afterAll(async () => {
+	try {
+		if (b) await removeStudio(b.id);
+		for (const id of made.users) {
+			await db.delete(t.session).where(eq(t.session.userId, id));
+			await db.delete(t.user).where(eq(t.user.id, id));
+		}
+	} finally {
+		await client.end();
+	}
+});
+
+const routes = discoverRoutes();
+
+describe('the route table', () => {
+	it('has an entry for every route in src/routes, and none for a route that is gone', () => {
+		const ids = routes.map((r) => r.id);
+		expect(
+			ids.filter((id) => !(id in ENTRIES)),
+			'routes without an entry'
+		).toEqual([]);
+		expect(
+			Object.keys(ENTRIES).filter((id) => !ids.includes(id)),
+			'entries without a route'
+		).toEqual([]);
+	});
+});
+
+/** Every request of the walk: a route, a method or action, and what to send. */
+interface Step {
+	route: string;
+	label: string;
+	send: (c: Client) => Promise<Response>;
+}
+
+function stepsOf(route: FoundRoute, entry: Entry, theirs: B): Step[] {
+	const path = entry.path(theirs);
+	const steps: Step[] = [];
+	const get = (label: string) => ({
+		route: route.id,
+		label,
+		send: (c: Client) => c.fetch(path, { headers: { accept: 'text/html,application/json' } })
+	});
+	if (route.hasPage) steps.push(get('GET page'));
+	for (const method of route.methods) {
+		if (method === 'GET') {
+			steps.push(get('GET'));
+			continue;
+		}
+		if (entry.noPost) continue;
+		const body = entry.json?.[method]?.(theirs) ?? { bookingId: theirs.booking, room: theirs.roomSlug, studio: theirs.slug };
+		steps.push({ route: route.id, label: method, send: (c) => c.json(path, body, method) });
+	}
+	if (route.actions && !entry.noPost) {
+		for (const action of route.actions) {
+			const fields = entry.form?.[action]?.(theirs) ?? B_IDS(theirs);
+			const target = action === 'default' ? path : `${path}${path.includes('?') ? '&' : '?'}/${action}`;
+			steps.push({ route: route.id, label: `action ${action}`, send: (c) => c.form(target, fields) });
+		}
+	}
+	return steps;
+}
+
+describe("studio A's people, walking every route against studio B", () => {
+	it('gets nothing of B back, and changes nothing of B', async () => {
+		const failures: string[] = [];
+		let pairs = 0;
+		for (const route of routes) {
+			const entry = ENTRIES[route.id];
+			if (!entry) continue;
+			for (const step of stepsOf(route, entry, b)) {
+				for (const role of ROLES) {
+					pairs++;
+					const res = await step.send(clients[role]);
+					const type = res.headers.get('content-type') ?? '';
+					const text = type.includes('pdf') || type.includes('zip') ? '' : await res.text();
+					const where = `${role} ${step.label} ${route.id} → ${res.status}`;
+					if (res.status >= 500) failures.push(`${where}: a server error`);
+					if (entry.into && res.status !== 403 && res.status !== 404) failures.push(`${where}: not refused`);
+					const leaked = b.markers.filter((m) => text.includes(m));
+					if (leaked.length) failures.push(`${where}: shows ${leaked.join(', ')}`);
+				}
+			}
+		}
+		console.info(`route walk: ${routes.length} routes, ${pairs} route × method × role requests`);
+		expect(failures).toEqual([]);
+		expect(await digestOf(b.id)).toEqual(before);
+		// The walkers are still who they were (no request moved them into B's team).
+		const [{ n } = { n: -1 }] = await db
+			.select({ n: sql<number>`count(*)::int` })
+			.from(t.member)
+			.where(eq(t.member.organizationId, b.id));
+		expect(n).toBe(2);
+	});
+});
