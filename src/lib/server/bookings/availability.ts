@@ -3,7 +3,7 @@
 import { and, asc, eq, gt, gte, lt, lte } from 'drizzle-orm';
 import { db } from '../db';
 import { blackout, booking } from '../db/schema';
-import { getRoomBySlug, type RoomRow } from '../studio';
+import { getPolicy, getRoomBySlug, type RoomRow } from '../studio';
 import {
 	AvailabilityInputError,
 	computeAvailability,
@@ -11,7 +11,7 @@ import {
 	startsThatFit,
 	type Blackout
 } from '$lib/domain/availability';
-import { publicHolidayList } from '$lib/domain/holidays';
+import { publicHolidayChecker, publicHolidayList } from '$lib/domain/holidays';
 import { dateProblem, lineText } from '$lib/schemas/input';
 import { pricingContext, type PricingContext } from './context';
 import { occupying } from './occupancy';
@@ -163,7 +163,9 @@ export async function nearestStarts(
  * `taken` says what stands in the way.
  */
 export async function rebookable(b: BookingDetail, now = new Date()): Promise<{ free: true } | { free: false; taken: Taken }> {
-	const ctx = await pricingContext();
+	// The booking's own studio's calendar and rules.
+	const { studio, policy } = await getPolicy(b.studioId);
+	const ctx: PricingContext = { studio, policy, holidays: publicHolidayChecker(policy.country) };
 	const tz = ctx.policy.timeZone;
 	const roomRow = await getRoomBySlug(ctx.studio.id, b.roomSlug);
 	if (!roomRow) return { free: false, taken: 'room' };

@@ -29,7 +29,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	const q = (url.searchParams.get('q') ?? '').trim().slice(0, 100);
 
 	// Local dates of the studio, both ends included: from its midnight to the midnight after `to`.
-	const rows = await bookings.listForViewer(owner, {
+	const rows = await bookings.listInStudio({ studioId: studio.id, role: owner.role }, {
 		status: status.length ? status : undefined,
 		from: from ? localDayBounds(from, tz).start : undefined,
 		to: to ? localDayBounds(to, tz).end : undefined
