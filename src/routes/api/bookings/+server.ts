@@ -18,9 +18,7 @@ export const GET: RequestHandler = async ({ locals, url }) => {
 	if (asked === null) {
 		const rows = await bookings.listOwn(locals.user);
 		return json({
-			bookings: rows.map((b) =>
-				bookings.bookingJson(b, { slug: b.studioSlug, name: b.studioName, timeZone: b.studioTimeZone })
-			)
+			bookings: rows.map((b) => bookings.bookingJson(b, { slug: b.studioSlug, name: b.studioName, timeZone: b.studioTimeZone }))
 		});
 	}
 	const problem = hasSlugShape(asked) ? null : slugProblem(asked);

@@ -180,7 +180,8 @@ export const actions: Actions = {
 		const me = requireUser(locals);
 		await formOf(request);
 		const result = await payments.retryFailedRefunds(me, params.id);
-		if (!result.ok) refuse(result.status, result.status === 404 ? 'not_found' : 'forbidden', 'Only the owner may retry a refund.');
+		if (!result.ok)
+			refuse(result.status, result.status === 404 ? 'not_found' : 'forbidden', 'Only the owner may retry a refund.');
 		backWith(params.id, result.retried ? 'refund-retried' : 'refund-nothing');
 	},
 	/** The owner or an engineer records the end of the session: overtime, final invoice, completed. */
