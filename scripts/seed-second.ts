@@ -152,11 +152,11 @@ async function seedGear(db: Database, studioId: string, roomIds: Record<string, 
 	await db.insert(t.gearItem).values(items.map((g) => ({ ...g, studioId })));
 }
 
-/** A calendar day the studio is open: Sunday and Swedish public holidays are skipped in `step`'s direction. */
+/** A weekday the studio is open: weekends and Swedish public holidays are skipped, away from today. */
 function openDay(days: number): string {
 	const step = days < 0 ? -1 : 1;
 	let ymd = addDays(localDateOf(new Date(), P.timeZone), days);
-	while (isoWeekday(ymd) === 7 || isPublicHoliday(P.country, ymd)) ymd = addDays(ymd, step);
+	while (isoWeekday(ymd) >= 6 || isPublicHoliday(P.country, ymd)) ymd = addDays(ymd, step);
 	return ymd;
 }
 

@@ -203,6 +203,14 @@ describe('the first studio’s staff and a booking of the second', () => {
 		expect(page.status).toBe(200);
 		expect(await page.text()).toContain('studio time Europe/Stockholm');
 		expect((await engineer.fetch(`/api/bookings/${id}/uploads`)).status).toBe(200);
+		// The day plan carries over only this studio's recall sheets: the artist's sheet from the
+		// first studio stays there.
+		const item = (await list(engineer, '?studio=tallbacken')).find((b) => b.id === id)!;
+		const plan = (await (await engineer.fetch(`/api/plan?date=${item.start.slice(0, 10)}`)).json()) as {
+			rooms: { sessions: { id: string; recall: unknown }[] }[];
+		};
+		const session = plan.rooms.flatMap((r) => r.sessions).find((s) => s.id === id);
+		expect(session?.recall).toBeNull();
 		const pdf = await (await signedIn(B.accountant)).fetch(`/invoices/${bInvoice}/pdf`);
 		expect(pdf.status).toBe(200);
 		expect(pdf.headers.get('content-type')).toBe('application/pdf');

@@ -125,7 +125,7 @@ export async function dayPlan(studioId: string, date: string): Promise<DayPlan> 
 		}
 	}
 
-	const previous = await Promise.all(sessions.map((s) => previousRecall(s.artistId, s.id, s.startsAt)));
+	const previous = await Promise.all(sessions.map((s) => previousRecall(studioId, s.artistId, s.id, s.startsAt)));
 
 	const planSessions = sessions.map((s, i): PlanSession & { roomId: string } => {
 		const own = ownSheets.find((r) => r.bookingId === s.id);
@@ -172,8 +172,11 @@ export async function dayPlan(studioId: string, date: string): Promise<DayPlan> 
 	};
 }
 
-/** The recall sheet of the artist's most recent earlier session, to rebuild the sound. */
-async function previousRecall(artistId: string, bookingId: string, before: Date) {
+/**
+ * The recall sheet of the artist's most recent earlier session at this studio, to rebuild the
+ * sound: another studio's sheets are that studio's own.
+ */
+async function previousRecall(studioId: string, artistId: string, bookingId: string, before: Date) {
 	const [row] = await db
 		.select({
 			reference: booking.reference,
@@ -183,7 +186,14 @@ async function previousRecall(artistId: string, bookingId: string, before: Date)
 		})
 		.from(recallSheet)
 		.innerJoin(booking, eq(booking.id, recallSheet.bookingId))
-		.where(and(eq(recallSheet.artistId, artistId), ne(recallSheet.bookingId, bookingId), lt(booking.startsAt, before)))
+		.where(
+			and(
+				eq(recallSheet.studioId, studioId),
+				eq(recallSheet.artistId, artistId),
+				ne(recallSheet.bookingId, bookingId),
+				lt(booking.startsAt, before)
+			)
+		)
 		.orderBy(desc(booking.startsAt))
 		.limit(1);
 	return row;
