@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
-# npm run bench: request rates and latencies of GET /api/studios/hollow-pine/availability (a month) and GET /api/health
-# against the production build on loopback, with a year of seeded bookings. Prints figures; it is
+# npm run bench: request rates and latencies of a studio's month of availability and GET /api/health
+# against the production build on loopback, with a year of seeded bookings; then the same month
+# once the scratch database holds 1,000 studios (BENCH_STUDIOS), as a ratio. Prints figures; it is
 # not a test and asserts nothing.
 source "$(dirname "$0")/lib.sh"
 
@@ -32,7 +33,8 @@ rm -rf "$(pg_data_dir bench)"
 pg_start bench "$PG_PORT"
 pg_create_db "$PG_PORT" slateroom_bench
 node --import tsx scripts/migrate.ts >/dev/null
-node --import tsx scripts/seed.ts >/dev/null
+# One studio to begin with: the second demo studio is left out.
+SEED_SECOND_STUDIO=0 node --import tsx scripts/seed.ts >/dev/null
 node --import tsx scripts/bench-data.ts
 if [ "${SKIP_BUILD:-0}" != "1" ] || [ ! -f build/index.js ]; then
 	npx vite build --logLevel warn >"$LOG_DIR/build.log" 2>&1 || { tail -n 40 "$LOG_DIR/build.log"; die "build failed"; }

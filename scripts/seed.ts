@@ -1,11 +1,12 @@
-// Seeds the demo studio of the product brief (an invented business): settings, rooms, gear,
-// people and a few bookings. Idempotent: running it again changes nothing that is already there.
+// Seeds the demo studios (invented businesses): settings, rooms, gear, people and a few bookings
+// of each; the second studio's are in scripts/seed-second.ts. Idempotent: running it again changes nothing that is already there.
 // Only for demo and test databases (npm start and npm test call it; SEED_DEMO=0 skips it).
 import { eq, sql } from 'drizzle-orm';
 import { hashPassword } from 'better-auth/crypto';
 import { createDb } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
 import { seedDemoBookings } from './seed-bookings';
+import { seedSecondStudio } from './seed-second';
 import { DEMO_POLICY as P, DEMO_ROOMS } from '../src/lib/domain/demo';
 
 const url = process.env.DATABASE_URL;
@@ -217,7 +218,7 @@ async function seedPeople(studioId: string) {
 	return ids;
 }
 
-async function insertPerson(id: string, p: (typeof people)[number]) {
+async function insertPerson(id: string, p: { email: string; name: string }) {
 	await db.insert(t.user).values({ id, email: p.email, name: p.name, emailVerified: true });
 	await db.insert(t.account).values({
 		id: crypto.randomUUID(),
@@ -235,7 +236,9 @@ try {
 	await seedGear(studioId, roomIds);
 	const userIds = await seedPeople(studioId);
 	await seedDemoBookings(db, { studioId, roomIds, userIds });
-	console.log('demo studio seeded');
+	// The benchmark starts from one studio (scripts/bench.sh).
+	if (process.env.SEED_SECOND_STUDIO !== '0') await seedSecondStudio(db, userIds, insertPerson);
+	console.log('demo studios seeded');
 } finally {
 	await client.end();
 }

@@ -70,7 +70,7 @@ fi
 log "applying migrations"
 node --import tsx scripts/migrate.ts
 if [ "$SEED_DEMO" = "1" ]; then
-	log "seeding the demo studio"
+	log "seeding the demo studios"
 	node --import tsx scripts/seed.ts
 fi
 
@@ -97,6 +97,7 @@ cat <<MSG
   Demo sign-ins (password slateroom-demo):
     owner@slateroom.test  engineer@slateroom.test  accountant@slateroom.test
     artist@slateroom.test  artist2@slateroom.test
+    second studio: owner2@slateroom.test  engineer2@slateroom.test  accountant2@slateroom.test
   Logs in .data/logs. Press Ctrl-C to stop.
 
 MSG

@@ -12,7 +12,7 @@ import { DEMO_BOOKING_IDS } from '../../src/lib/domain/demo';
 
 /** The third seeded session as the API gives it to the engineer. */
 async function demoSession(): Promise<{ reference: string; start: string }> {
-	const res = await (await signedIn('engineer@slateroom.test')).fetch('/api/bookings');
+	const res = await (await signedIn('engineer@slateroom.test')).fetch('/api/bookings?studio=hollow-pine');
 	const { bookings } = (await res.json()) as { bookings: { id: string; reference: string; start: string }[] };
 	const demo = bookings.find((b) => b.id === DEMO_BOOKING_IDS[2]);
 	expect(demo, 'the third seeded session').toBeDefined();
@@ -21,7 +21,7 @@ async function demoSession(): Promise<{ reference: string; start: string }> {
 
 test('the engineer opens the day plan, reads the carried-over recall sheet and writes this session’s', async ({ page }) => {
 	await signIn(page, 'engineer@slateroom.test');
-	const { bookings } = (await (await page.request.get('/api/bookings')).json()) as {
+	const { bookings } = (await (await page.request.get('/api/bookings?studio=hollow-pine')).json()) as {
 		bookings: { id: string; reference: string; start: string }[];
 	};
 	const demo = bookings.find((b) => b.id === DEMO_BOOKING_IDS[2]);

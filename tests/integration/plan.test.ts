@@ -14,7 +14,7 @@ let day = '';
 let ref3 = '';
 let ref1 = '';
 beforeAll(async () => {
-	const res = await (await signedIn(DEMO.engineer)).fetch('/api/bookings');
+	const res = await (await signedIn(DEMO.engineer)).fetch('/api/bookings?studio=hollow-pine');
 	const { bookings } = (await res.json()) as { bookings: { id: string; reference: string; start: string }[] };
 	const demo = bookings.find((b) => b.id === DEMO_BOOKING_IDS[2]);
 	if (!demo) throw new Error('the third seeded session is missing');

@@ -1,4 +1,5 @@
 // The studio's settings as the domain rules want them (StudioPolicy), and its rooms.
+import { error } from '@sveltejs/kit';
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
 import { booking, organization, room, studio, surchargeRule } from './db/schema';
@@ -12,9 +13,16 @@ export type RoomRow = typeof room.$inferSelect;
 
 /**
  * A studio by its id; without one, the studio the app serves today (the first one made) until the
- * pages are routed by studio.
+ * pages are routed by studio. A database with no studio yet (SEED_DEMO=0) answers 404 there, not 500.
  */
 export async function getStudio(id?: string): Promise<StudioRow> {
+	const row = await findStudio(id);
+	if (!row) error(404, { error: 'not_found', message: 'No studio is set up here yet.' });
+	return row;
+}
+
+/** The studio by its id (without one, the first made), or null when there is none. */
+export async function findStudio(id?: string): Promise<StudioRow | null> {
 	const [row] = await db
 		.select({ studio })
 		.from(studio)
@@ -22,8 +30,7 @@ export async function getStudio(id?: string): Promise<StudioRow> {
 		.where(id === undefined ? undefined : eq(studio.id, id))
 		.orderBy(asc(organization.createdAt), asc(organization.id))
 		.limit(1);
-	if (!row) throw new Error('The studio is not set up yet: run the seed (npm start does).');
-	return row.studio;
+	return row?.studio ?? null;
 }
 
 export function policyFrom(row: StudioRow, surcharges: (typeof surchargeRule.$inferSelect)[]): StudioPolicy {

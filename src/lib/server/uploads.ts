@@ -1,7 +1,8 @@
 // The artist's uploads to a booking (reference tracks, lyric sheets), scoped by the acting user
-// (OWASP ASVS 8.2.2): the booking's artist and the owner add and remove files; they and the
-// engineers list and download them; another artist gets a 404, as for a booking that does not
-// exist; accountants get nothing.
+// (OWASP ASVS 8.2.2), by the person's role at the booking's own studio: the booking's artist and
+// the studio's owner add and remove files; they and its engineers list and download them; another
+// artist, or staff of another studio, gets a 404, as for a booking that does not exist; the
+// studio's accountant gets nothing.
 //
 // Files live under UPLOAD_DIR/<booking id>/<random uuid>: the path is the server's own (ASVS
 // 5.3.2), the type comes from the content (5.2.2), and the size is counted as the bytes arrive
@@ -34,6 +35,7 @@ import { booking, upload } from './db/schema';
 import { holdLapsed, isCancellable, type BookingStatus } from '$lib/domain/lifecycle';
 import { isBodyTooLarge, type IncomingFile } from './multipart';
 import type { SessionUser } from './auth';
+import { actorAt } from './bookings/read';
 import { isUuid } from '$lib/uuid';
 
 export type UploadRow = typeof upload.$inferSelect;
@@ -77,26 +79,36 @@ function roleMay(actor: SessionUser, access: Access): boolean {
 	return actor.role === 'engineer' && access === 'read';
 }
 
-/** The booking when the actor may see it (an artist: their own only), else undefined. */
-async function visibleBooking(actor: SessionUser, bookingId: string) {
+/**
+ * The booking with the person as they stand at its studio, when they may know it exists: its
+ * artist, or anyone in its studio's team. Undefined otherwise (a 404).
+ */
+async function visibleBooking(person: SessionUser, bookingId: string) {
 	const [b] = await db
-		.select({ id: booking.id, artistId: booking.artistId, status: booking.status, holdExpiresAt: booking.holdExpiresAt })
+		.select({
+			id: booking.id,
+			studioId: booking.studioId,
+			artistId: booking.artistId,
+			status: booking.status,
+			holdExpiresAt: booking.holdExpiresAt
+		})
 		.from(booking)
 		.where(eq(booking.id, bookingId));
 	if (!b) return undefined;
-	if (actor.role === 'artist' && b.artistId !== actor.id) return undefined;
-	return b;
+	const actor = await actorAt(person, b.studioId);
+	if (actor.role === 'artist' && b.artistId !== person.id) return undefined;
+	return { booking: b, actor };
 }
 
-async function gate(actor: SessionUser, bookingId: string, access: Access) {
+async function gate(person: SessionUser, bookingId: string, access: Access) {
+	const seen = await visibleBooking(person, bookingId);
+	if (!seen) return NOT_FOUND;
+	const { actor } = seen;
 	if (!roleMay(actor, access)) {
-		// An engineer may read a booking's files but not change them; say so only about a booking they can see.
-		return actor.role === 'engineer' && (await visibleBooking(actor, bookingId))
-			? fail(403, 'forbidden', 'Only the artist and the owner add or remove files.')
-			: FORBIDDEN;
+		// An engineer may read a booking's files but not change them.
+		return actor.role === 'engineer' ? fail(403, 'forbidden', 'Only the artist and the owner add or remove files.') : FORBIDDEN;
 	}
-	const b = await visibleBooking(actor, bookingId);
-	return b ? ({ ok: true, booking: b } as const) : NOT_FOUND;
+	return { ok: true, booking: seen.booking, actor } as const;
 }
 
 export async function usage(bookingId: string, tx: Pick<typeof db, 'select'> = db): Promise<BookingUsage> {
@@ -130,7 +142,8 @@ export async function listForViewer(actor: SessionUser, bookingId: string) {
 		usage: { files: rows.length, bytes: rows.reduce((sum, r) => sum + r.sizeBytes, 0) } satisfies BookingUsage,
 		limits: limits(),
 		open: uploadsOpen(g.booking),
-		mayChange: roleMay(actor, 'write')
+		mayChange: roleMay(g.actor, 'write'),
+		studioId: g.booking.studioId
 	};
 }
 
@@ -293,15 +306,17 @@ async function readAt(file: string, offset: number): Promise<Uint8Array> {
 	}
 }
 
-/** A file to download, for someone who may see its booking. */
-export async function getForDownload(actor: SessionUser, uploadId: string) {
-	if (!roleMay(actor, 'read')) return FORBIDDEN;
+/** A file to download, for someone who may see its booking, by their role at the booking's studio. */
+export async function getForDownload(person: SessionUser, uploadId: string) {
 	const [row] = await db
 		.select({ upload, artistId: booking.artistId })
 		.from(upload)
 		.innerJoin(booking, eq(booking.id, upload.bookingId))
 		.where(eq(upload.id, uploadId));
-	if (!row || (actor.role === 'artist' && row.artistId !== actor.id)) return fail(404, 'not_found', 'No such file.');
+	if (!row) return fail(404, 'not_found', 'No such file.');
+	const actor = await actorAt(person, row.upload.studioId);
+	if (actor.role === 'artist' && row.artistId !== person.id) return fail(404, 'not_found', 'No such file.');
+	if (!roleMay(actor, 'read')) return FORBIDDEN;
 	return { ok: true as const, upload: row.upload, path: storedPath(row.upload.storageKey) };
 }
 

@@ -18,8 +18,10 @@ export {
 	canSeeAll,
 	getForViewer,
 	getRow,
-	listForViewer,
+	actorAt,
+	listInStudio,
 	listOwn,
+	roleAt,
 	ownerDesk,
 	type BookingDetail,
 	type BookingRow

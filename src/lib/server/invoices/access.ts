@@ -1,9 +1,11 @@
-// Who may read a document: the booking's artist, the owner and the accountant (OWASP ASVS 8.2.2).
-// Another artist gets the same answer as for a document that does not exist.
+// Who may read a document: the booking's artist, and the owner and the accountant of the
+// document's studio (OWASP ASVS 8.2.2). Another artist, or anyone outside that studio's team, gets
+// the same answer as for a document that does not exist.
 import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import { booking, invoice } from '../db/schema';
 import type { SessionUser } from '../auth';
+import { roleAt } from '../bookings/read';
 import { linesOf, type InvoiceLineRow, type InvoiceRow } from './issue';
 
 export type DocumentAccess =
@@ -23,9 +25,10 @@ export async function documentForViewer(viewer: SessionUser, id: string): Promis
 		.leftJoin(booking, eq(booking.id, invoice.bookingId))
 		.where(eq(invoice.id, id));
 	if (!row) return { ok: false, status: 404 };
-	if (viewer.role === 'artist') {
+	const role = await roleAt(viewer.id, row.invoice.studioId);
+	if (role === 'artist') {
 		if (row.artistId !== viewer.id) return { ok: false, status: 404 };
-	} else if (viewer.role !== 'owner' && viewer.role !== 'accountant') {
+	} else if (role !== 'owner' && role !== 'accountant') {
 		return { ok: false, status: 403 };
 	}
 	const [lines, preceding] = await Promise.all([

@@ -17,16 +17,16 @@ export { flushOutbox } from './outbox';
 
 /** What a message about a booking says, read inside the transaction that changes the booking. */
 async function bookingFacts(tx: Tx, bookingId: string): Promise<(ConfirmationFacts & { studioId: string }) | null> {
+	// The booking with its own studio (its name, zone, address and currency speak in the message).
 	const [row] = await tx
-		.select({ b: booking, roomName: room.name, artistName: user.name, artistEmail: user.email })
+		.select({ b: booking, s: studio, roomName: room.name, artistName: user.name, artistEmail: user.email })
 		.from(booking)
+		.innerJoin(studio, eq(studio.id, booking.studioId))
 		.innerJoin(room, eq(room.id, booking.roomId))
 		.innerJoin(user, eq(user.id, booking.artistId))
 		.where(eq(booking.id, bookingId));
 	if (!row) return null;
-	const [s] = await tx.select().from(studio).where(eq(studio.id, row.b.studioId));
-	if (!s) return null;
-	const b = row.b;
+	const { b, s } = row;
 	const [engineer] = b.engineerId ? await tx.select({ name: user.name }).from(user).where(eq(user.id, b.engineerId)) : [];
 	const gear = await tx
 		.select({ name: gearItem.name })

@@ -14,14 +14,15 @@ export type MoneyRefusal = {
 	fields?: Record<string, string[]>;
 };
 
-/** The booking, when the acting user may start a payment on it: its artist or the owner. */
+/** The booking, when the acting user may start a payment on it: its artist or its studio's owner. */
 export async function payable(actor: SessionUser, bookingId: string): Promise<{ ok: true; booking: BookingRow } | MoneyRefusal> {
-	const b = await getRow(actor, bookingId);
-	if (!b) return { ok: false, status: 404, code: 'not_found', message: 'No such booking.' };
-	if (actor.role !== 'artist' && actor.role !== 'owner') {
+	const found = await getRow(actor, bookingId);
+	if (!found) return { ok: false, status: 404, code: 'not_found', message: 'No such booking.' };
+	// The role at the booking's own studio: an engineer elsewhere pays for their own session here.
+	if (found.as.role !== 'artist' && found.as.role !== 'owner') {
 		return { ok: false, status: 403, code: 'forbidden', message: 'Only the artist or the owner starts a payment.' };
 	}
-	return { ok: true, booking: b };
+	return { ok: true, booking: found.booking };
 }
 
 /**

@@ -3,9 +3,11 @@
 // every line of the quote, the deposit deducted as paid on account; the booking is completed.
 import { and, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
-import { bookingGear, gearItem, room } from '../db/schema';
+import { db } from '../db';
+import { booking, bookingGear, gearItem, room } from '../db/schema';
 import { getPolicy, roomRates } from '../studio';
 import type { SessionUser } from '../auth';
+import { roleAt } from '../bookings/read';
 import { inTransaction, lockBooking, pgCode, setBookingStatus } from './core';
 import { auditTx } from './state';
 import { issueFinalInvoice } from '../invoices/documents';
@@ -43,9 +45,21 @@ function invalid(field: string, message: string): CloseOutcome {
 	return { ok: false, status: 422, code: 'invalid', message, fields: { [field]: [message] } };
 }
 
+/**
+ * The owner or an engineer of the booking's own studio closes it; its artist is refused (403), and
+ * anyone else gets a 404: another studio's booking is not theirs to know of.
+ */
 export async function closeBooking(actor: SessionUser, bookingId: string, input: unknown): Promise<CloseOutcome> {
-	if (actor.role !== 'owner' && actor.role !== 'engineer') {
-		return { ok: false, status: 403, code: 'forbidden', message: 'Only the owner or an engineer records the end of a session.' };
+	const [head] = await db
+		.select({ studioId: booking.studioId, artistId: booking.artistId })
+		.from(booking)
+		.where(eq(booking.id, bookingId));
+	if (!head) return { ok: false, status: 404, code: 'not_found', message: 'No such booking.' };
+	const role = await roleAt(actor.id, head.studioId);
+	if (role !== 'owner' && role !== 'engineer') {
+		return role === 'artist' && head.artistId !== actor.id
+			? { ok: false, status: 404, code: 'not_found', message: 'No such booking.' }
+			: { ok: false, status: 403, code: 'forbidden', message: 'Only the owner or an engineer records the end of a session.' };
 	}
 	const parsed = closeSchema.safeParse(input);
 	if (!parsed.success) {
@@ -53,7 +67,7 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 		for (const issue of parsed.error.issues) (fields[String(issue.path[0] ?? '_')] ??= []).push(issue.message);
 		return { ok: false, status: 422, code: 'invalid', message: 'Some details need another look.', fields };
 	}
-	const { policy } = await getPolicy();
+	const { policy } = await getPolicy(head.studioId);
 	let recordedEnd: Date;
 	try {
 		recordedEnd = parseBookingInstant(parsed.data.actualEnd, policy.timeZone);

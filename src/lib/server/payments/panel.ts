@@ -7,6 +7,7 @@ import { and, asc, eq } from 'drizzle-orm';
 import { db } from '../db';
 import { booking, bookingGear, gearItem, invoice } from '../db/schema';
 import { getStudio } from '../studio';
+import { actorAt } from '../bookings/read';
 import type { SessionUser } from '../auth';
 import { loadMoneyState } from './core';
 import { unresolvedFailures } from './state';
@@ -19,16 +20,18 @@ import type { MoneyPanelData } from '$lib/types/money';
 const OPEN_LINK_MARGIN_MS = 60_000;
 
 export async function loadMoneyPanel(
-	viewer: SessionUser,
+	person: SessionUser,
 	b: { id: string; status?: string; currency?: string; total?: number; deposit?: number }
 ): Promise<MoneyPanelData | null> {
 	const [row] = await db.select().from(booking).where(eq(booking.id, b.id));
 	if (!row) return null;
+	// Everything here is decided by the person's role at the booking's own studio.
+	const viewer = await actorAt(person, row.studioId);
 	const isArtist = viewer.role === 'artist';
 	if (isArtist && row.artistId !== viewer.id) return null;
 	const now = new Date();
 	const [studioRow, state, docs] = await Promise.all([
-		getStudio(),
+		getStudio(row.studioId),
 		loadMoneyState(db, row.id),
 		db.select().from(invoice).where(eq(invoice.bookingId, row.id)).orderBy(asc(invoice.issuedAt))
 	]);
@@ -67,7 +70,7 @@ export async function loadMoneyPanel(
 			db
 				.select({ id: gearItem.id, name: gearItem.name, hireFee: gearItem.hireFee, hireable: gearItem.hireable })
 				.from(gearItem)
-				.where(and(eq(gearItem.active, true)))
+				.where(and(eq(gearItem.studioId, row.studioId), eq(gearItem.active, true)))
 				.orderBy(asc(gearItem.name)),
 			db.select({ id: bookingGear.gearItemId }).from(bookingGear).where(eq(bookingGear.bookingId, row.id))
 		]);

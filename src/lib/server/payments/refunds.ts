@@ -9,9 +9,10 @@
 import { and, asc, eq, isNull, isNotNull, lt } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import { db } from '../db';
-import { payment, refund } from '../db/schema';
+import { booking, payment, refund } from '../db/schema';
 import { getPolicy } from '../studio';
 import type { SessionUser } from '../auth';
+import { actorAt } from '../bookings/read';
 import {
 	eachIsolated,
 	inTransaction,
@@ -43,11 +44,24 @@ export interface CancellationFact {
 	retained: number;
 }
 
-/** Who may cancel: the booking's artist and the owner; another artist's booking is not theirs to know of. */
+/**
+ * Who may cancel: the booking's artist and its studio's owner; another artist's booking is not
+ * theirs to know of, nor is another studio's. `actor` is the person as they stand at the
+ * booking's studio (`actorAt`).
+ */
 export function cancelAccess(actor: SessionUser, b: Pick<BookingRow, 'artistId'>): 'ok' | 'not_found' | 'forbidden' {
 	if (actor.role === 'owner') return 'ok';
 	if (actor.role === 'artist') return b.artistId === actor.id ? 'ok' : 'not_found';
 	return 'forbidden';
+}
+
+/** The studio a booking belongs to and its artist, read before a transaction that needs its policy. */
+async function studioOf(bookingId: string): Promise<{ studioId: string; artistId: string } | undefined> {
+	const [row] = await db
+		.select({ studioId: booking.studioId, artistId: booking.artistId })
+		.from(booking)
+		.where(eq(booking.id, bookingId));
+	return row;
 }
 
 export interface CancellationPreview {
@@ -92,7 +106,7 @@ function onArrivalOf(
 }
 
 export async function previewCancellation(b: BookingRow, now = new Date()): Promise<CancellationPreview> {
-	const [{ policy }, state] = await Promise.all([getPolicy(), loadMoneyState(db, b.id)]);
+	const [{ policy }, state] = await Promise.all([getPolicy(b.studioId), loadMoneyState(db, b.id)]);
 	const r = refundForCancellation({ paid: state.held, deposit: b.deposit, bookingStart: b.startsAt, cancelledAt: now, policy });
 	const coming = onArrivalOf(state, b, now, policy, r.refund);
 	return {
@@ -117,11 +131,14 @@ export async function cancelBooking(
 	input: { reason?: string } = {},
 	now = new Date()
 ): Promise<CancelOutcome> {
-	const { policy } = await getPolicy();
+	const of = await studioOf(bookingId);
+	if (!of) return { ok: false, status: 404, code: 'not_found', message: 'No such booking.' };
+	// The booking's own studio's ladder, and the person's role there.
+	const [{ policy }, as] = await Promise.all([getPolicy(of.studioId), actorAt(actor, of.studioId)]);
 	const result = await inTransaction<CancelOutcome>(async (tx, after) => {
 		const b = await lockBooking(tx, bookingId);
 		if (!b) return { ok: false, status: 404, code: 'not_found', message: 'No such booking.' };
-		const access = cancelAccess(actor, b);
+		const access = cancelAccess(as, b);
 		if (access === 'not_found') return { ok: false, status: 404, code: 'not_found', message: 'No such booking.' };
 		if (access === 'forbidden')
 			return { ok: false, status: 403, code: 'forbidden', message: 'Only the artist or the owner may cancel.' };
@@ -216,9 +233,18 @@ export async function cancelBooking(
 	return { ...result, refunds: fresh.filter((r) => ids.has(r.id)) };
 }
 
-/** The owner tries failed refunds of a booking again (each with a new Idempotency-Key). */
-export async function retryFailedRefunds(actor: SessionUser, bookingId: string): Promise<{ ok: boolean; retried: number }> {
-	if (actor.role !== 'owner') return { ok: false, retried: 0 };
+/**
+ * The owner of the booking's studio tries its failed refunds again (each with a new
+ * Idempotency-Key); anyone else is refused, with a 404 when the booking is not theirs to know of.
+ */
+export async function retryFailedRefunds(
+	actor: SessionUser,
+	bookingId: string
+): Promise<{ ok: true; retried: number } | { ok: false; status: 403 | 404; retried: 0 }> {
+	const of = await studioOf(bookingId);
+	if (!of) return { ok: false, status: 404, retried: 0 };
+	const as = await actorAt(actor, of.studioId);
+	if (as.role !== 'owner') return { ok: false, status: as.role === 'artist' && of.artistId !== actor.id ? 404 : 403, retried: 0 };
 	const retried = await inTransaction(async (tx, after) => {
 		const b = await lockBooking(tx, bookingId);
 		if (!b) return 0;

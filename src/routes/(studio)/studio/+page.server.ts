@@ -10,7 +10,7 @@ export const load: PageServerLoad = async ({ locals }) => {
 	const { studioId } = staffActor(locals, null);
 	const now = new Date();
 	const [desk, owed, failedRefunds] = await Promise.all([
-		bookings.ownerDesk(owner, now),
+		bookings.ownerDesk({ studioId, role: owner.role }, now),
 		// What is owed and which refunds failed, whatever their month (the month report lists both too).
 		outstandingBalances(studioId, now),
 		unresolvedFailedRefunds(studioId)

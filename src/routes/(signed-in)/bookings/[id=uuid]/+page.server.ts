@@ -1,9 +1,8 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import * as bookings from '$lib/server/bookings';
-import { getStudio, studioOfBooking } from '$lib/server/studio';
 import { studioPath } from '$lib/studio-paths';
 import { bookPath, type BookingKind } from '$lib/components/booking/choices';
-import { requireRole, requireUser } from '$lib/server/guard';
+import { requireUser } from '$lib/server/guard';
 import * as payments from '$lib/server/payments';
 import { formFields } from '$lib/server/payments/http';
 import type { QuoteView } from '$lib/types/quote';
@@ -18,7 +17,7 @@ import type { Actions, PageServerLoad } from './$types';
 export const load: PageServerLoad = async ({ locals, params }) => {
 	const me = requireUser(locals);
 	const b = await bookings.getForViewer(me, params.id);
-	// Another artist's booking is a 404, not a 403: its existence is not theirs to know.
+	// Another artist's booking, or another studio's, is a 404, not a 403: its existence is not theirs to know.
 	if (!b) error(404, { error: 'not_found', message: 'There is no booking at this address, or it is not yours to see.' });
 	// The booking itself matters more than its payment panel: if payments cannot be read, the
 	// page still shows the booking and says so.
@@ -32,16 +31,20 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		uploads.listForViewer(me, b.id)
 	]);
 	const q = b.quote;
-	const { timeZone } = await getStudio();
+	// The booking is read through its own studio: its zone, and the viewer's role there (the
+	// engineer of one studio is an artist at another).
+	const { studio } = b;
+	const { timeZone } = studio;
+	const role = b.viewerRole;
 
 	// A hold that ran out (swept or not yet): say so, and offer the same time again if it is free.
 	const now = new Date();
 	let rebook: { free: boolean; taken: 'room' | 'engineer' | 'gear' | null; bookHref: string; calendarHref: string } | null = null;
 	if (holdGone(b, now)) {
 		// The booking's own studio: its booking page and calendar are where the time is offered again.
-		const { studio, slug } = await studioOfBooking(b.id);
-		const outcome = await bookings.rebookable(b, studio.id, now);
-		const at = wallClock(b.startsAt, studio.timeZone);
+		const { slug } = studio;
+		const outcome = await bookings.rebookable(b, b.studioId, now);
+		const at = wallClock(b.startsAt, timeZone);
 		const minutes = q.durationMinutes;
 		const kind: BookingKind = minutes === studio.halfDayMinutes ? 'half' : minutes === studio.fullDayMinutes ? 'full' : 'hourly';
 		rebook = {
@@ -110,15 +113,17 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 					mayChange: listed.mayChange
 				}
 			: null,
-		viewerIsArtist: me.role === 'artist',
+		// The booking's studio, not the one its viewer works in now (the layout's).
+		studio: { name: studio.name, timeZone, currency: studio.currency, locale: studio.locale },
+		viewerIsArtist: role === 'artist',
 		// The accountant goes back to the month of the booking's latest document (its session's month without one).
 		back: backLink(
-			me.role,
+			role,
 			localDateOf(b.startsAt, timeZone),
 			localDateOf(money?.invoices.at(-1)?.issuedAt ?? b.startsAt, timeZone)
 		),
 		// The accountant reads what the accounts need: the session, its price and its money.
-		showDetails: me.role !== 'accountant'
+		showDetails: role !== 'accountant'
 	};
 };
 
@@ -173,11 +178,13 @@ export const actions: Actions = {
 		}
 		backWith(params.id, 'cancelled');
 	},
-	/** The owner sends failed refunds again. */
+	/** The owner of the booking's studio sends failed refunds again. */
 	retry: async ({ request, locals, params }) => {
-		const owner = requireRole(locals, 'owner');
+		const me = requireUser(locals);
 		await formOf(request);
-		const result = await payments.retryFailedRefunds(owner, params.id);
+		const result = await payments.retryFailedRefunds(me, params.id);
+		if (!result.ok)
+			refuse(result.status, result.status === 404 ? 'not_found' : 'forbidden', 'Only the owner may retry a refund.');
 		backWith(params.id, result.retried ? 'refund-retried' : 'refund-nothing');
 	},
 	/** The owner or an engineer records the end of the session: overtime, final invoice, completed. */

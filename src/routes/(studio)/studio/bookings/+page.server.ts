@@ -30,11 +30,14 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	const q = (url.searchParams.get('q') ?? '').trim().slice(0, 100);
 
 	// Local dates of the studio, both ends included: from its midnight to the midnight after `to`.
-	const rows = await bookings.listForViewer(owner, {
-		status: status.length ? status : undefined,
-		from: from ? localDayBounds(from, tz).start : undefined,
-		to: to ? localDayBounds(to, tz).end : undefined
-	});
+	const rows = await bookings.listInStudio(
+		{ studioId: studio.id, role: owner.role },
+		{
+			status: status.length ? status : undefined,
+			from: from ? localDayBounds(from, tz).start : undefined,
+			to: to ? localDayBounds(to, tz).end : undefined
+		}
+	);
 	const needle = q.toLowerCase();
 	const list = rows
 		.filter((b) => !room || b.roomSlug === room)

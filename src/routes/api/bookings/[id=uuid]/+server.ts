@@ -1,14 +1,12 @@
 import { json } from '@sveltejs/kit';
 import * as bookings from '$lib/server/bookings';
 import { apiError } from '$lib/server/api';
-import { getStudio } from '$lib/server/studio';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, params }) => {
 	if (!locals.user) return apiError(401, 'unauthenticated', 'Please sign in first.');
 	const b = await bookings.getForViewer(locals.user, params.id);
-	// Another artist's booking is a 404, not a 403: its existence is not theirs to know.
+	// Another artist's booking, or another studio's, is a 404, not a 403: its existence is not theirs to know.
 	if (!b) return apiError(404, 'not_found', 'No such booking.');
-	const studio = await getStudio();
-	return json(bookings.bookingJson(b, studio.timeZone));
+	return json(bookings.bookingJson(b, b.studio));
 };

@@ -1,4 +1,5 @@
-// GET: the document as a PDF, for the booking's artist, the owner and the accountant.
+// GET: the document as a PDF, for the booking's artist and its studio's owner and accountant;
+// its times in that studio's zone.
 import { apiError } from '$lib/server/api';
 import { documentForViewer } from '$lib/server/invoices/access';
 import { renderInvoicePdf } from '$lib/server/invoices/pdf';
@@ -13,7 +14,7 @@ export const GET: RequestHandler = async ({ locals, params }) => {
 			? apiError(404, 'not_found', 'No such document.')
 			: apiError(403, 'forbidden', 'Invoices are for the artist, the owner and the accountant.');
 	}
-	const studio = await getStudio();
+	const studio = await getStudio(found.invoice.studioId);
 	const pdf = await renderInvoicePdf({ ...found, timeZone: studio.timeZone });
 	return new Response(new Uint8Array(pdf), {
 		headers: {

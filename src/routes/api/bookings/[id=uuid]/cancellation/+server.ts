@@ -8,12 +8,12 @@ import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, params }) => {
 	if (!locals.user) return unauthenticated();
-	const b = await bookings.getRow(locals.user, params.id);
-	const access = b ? cancelAccess(locals.user, b) : 'not_found';
-	// Another artist's booking is a 404: its existence is not theirs to know.
-	if (!b || access === 'not_found') return apiError(404, 'not_found', 'No such booking.');
+	const found = await bookings.getRow(locals.user, params.id);
+	const access = found ? cancelAccess(found.as, found.booking) : 'not_found';
+	// Another artist's booking, or another studio's, is a 404: its existence is not theirs to know.
+	if (!found || access === 'not_found') return apiError(404, 'not_found', 'No such booking.');
 	if (access === 'forbidden') return apiError(403, 'forbidden', 'Only the artist or the owner may cancel.');
-	const p = await previewCancellation(b);
+	const p = await previewCancellation(found.booking);
 	return json(
 		{
 			refund: p.refund,

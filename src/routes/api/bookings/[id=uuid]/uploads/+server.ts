@@ -10,7 +10,7 @@ export const GET: RequestHandler = async ({ locals, params }) => {
 	if (!locals.user) return apiError(401, 'unauthenticated', 'Please sign in first.');
 	const listed = await uploads.listForViewer(locals.user, params.id);
 	if (!listed.ok) return apiError(listed.status, listed.error, listed.message);
-	const { timeZone } = await getStudio();
+	const { timeZone } = await getStudio(listed.studioId);
 	return json({
 		uploads: listed.uploads.map((u) => uploads.uploadJson(u, (d) => isoInZone(d, timeZone))),
 		usage: listed.usage,
@@ -29,7 +29,7 @@ export const POST: RequestHandler = async ({ locals, params, request, getClientA
 	if (!saved.ok) return apiError(saved.status, saved.error, saved.message);
 	const u = saved.upload;
 	await uploads.auditAdded(me, params.id, u, getClientAddress());
-	const { timeZone } = await getStudio();
+	const { timeZone } = await getStudio(u.studioId);
 	return json(
 		uploads.uploadJson(u, (d) => isoInZone(d, timeZone)),
 		{ status: 201 }

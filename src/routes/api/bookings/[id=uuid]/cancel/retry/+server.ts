@@ -1,4 +1,4 @@
-// POST (owner): tries the booking's failed refunds again, each with a new Idempotency-Key.
+// POST (the owner of the booking's studio): tries the booking's failed refunds again, each with a new Idempotency-Key.
 import { json } from '@sveltejs/kit';
 import { apiError } from '$lib/server/api';
 import { retryFailedRefunds } from '$lib/server/payments';
@@ -7,9 +7,13 @@ import type { RequestHandler } from './$types';
 
 export const POST: RequestHandler = async ({ locals, params, request }) => {
 	if (!locals.user) return unauthenticated();
-	if (locals.user.role !== 'owner') return apiError(403, 'forbidden', 'Only the owner may retry a refund.');
 	const read = await readInput(request);
 	if (!read.ok) return read.response;
 	const result = await retryFailedRefunds(locals.user, params.id);
+	if (!result.ok) {
+		return result.status === 404
+			? apiError(404, 'not_found', 'No such booking.')
+			: apiError(403, 'forbidden', 'Only the owner may retry a refund.');
+	}
 	return json({ retried: result.retried });
 };
