@@ -1,8 +1,8 @@
 import { signIn, expect, test } from './support';
 
-test('the storefront shows the studio, its three rooms and their rates', async ({ page }) => {
-	await page.goto('/');
-	await expect(page.getByRole('heading', { level: 1, name: 'Hollow Pine Studio' })).toBeVisible();
+test('the storefront shows the studio’s three rooms and their rates', async ({ page }) => {
+	await page.goto('/rooms');
+	await expect(page.getByRole('heading', { level: 1, name: 'Rooms & rates' })).toBeVisible();
 	const card = (slug: string) => page.locator(`[data-testid="rate-card"][data-room="${slug}"]`);
 	await expect(card('live-room')).toContainText('Live room');
 	await expect(card('live-room')).toContainText('€45.00');
