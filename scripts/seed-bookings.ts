@@ -165,7 +165,7 @@ export async function seedDemoBookings(
 			.values({
 				id: DEMO_BOOKING_IDS[i],
 				studioId: ids.studioId,
-				reference: newReference(),
+				reference: newReference('HP'),
 				roomId: ids.roomIds[d.room]!,
 				engineerId: d.engineer ? engineerId : null,
 				artistId: ids.userIds[d.artist]!,

@@ -8,6 +8,7 @@ import * as t from '../src/lib/server/db/schema';
 import { seedDemoBookings } from './seed-bookings';
 import { seedSecondStudio } from './seed-second';
 import { DEMO_POLICY as P, DEMO_ROOMS } from '../src/lib/domain/demo';
+import { SETUP_STEPS } from '../src/lib/domain/setup';
 
 const url = process.env.DATABASE_URL;
 if (!url) throw new Error('DATABASE_URL is not set');
@@ -40,8 +41,12 @@ async function seedStudio(): Promise<string> {
 			tagline: 'A converted barn for tracking bands and voices, outside Tampere.',
 			description:
 				'Three rooms under one roof: a timber live room with a high ceiling, a dry vocal booth and a control room with a view of both. Book by the hour, the half day or the full day; an engineer is available for any booking.',
-			addressLines: ['Kuusikkotie 14', '33980 Pirkkala (invented address)', 'Finland'],
+			street: 'Kuusikkotie 14',
+			postalCode: '33980',
+			city: 'Pirkkala (invented address)',
 			country: P.country,
+			referencePrefix: 'HP',
+			setupDone: [...SETUP_STEPS],
 			email: 'hello@hollowpine.test',
 			vatId: 'FI00000000',
 			timeZone: P.timeZone,

@@ -142,7 +142,9 @@ async function expectPdfShows(
 	expect(supplier.vatId).toBeTruthy();
 	expect(lefts.slice(0, buyerAt).filter(Boolean)).toEqual([
 		supplier.name,
-		...supplier.addressLines,
+		supplier.street,
+		`${supplier.postalCode} ${supplier.city}`,
+		'Finland',
 		`VAT ID ${supplier.vatId}`,
 		supplier.email
 	]);

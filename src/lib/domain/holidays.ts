@@ -89,6 +89,11 @@ export function isPublicHoliday(country: string, ymd: string): boolean {
 	return set.has(ymd);
 }
 
+/** Does date-holidays know the public holidays of `country` (ISO 3166-1 alpha-2)? */
+export function hasPublicHolidayCalendar(country: string): boolean {
+	return country.toUpperCase() in new Holidays().getCountries();
+}
+
 /** A `(ymd) => boolean` for one country, the shape the pricing engine takes. */
 export function publicHolidayChecker(country: string): (ymd: string) => boolean {
 	calendarFor(country); // fail early on an unknown country

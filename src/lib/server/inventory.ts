@@ -1,6 +1,7 @@
 // Rooms with their rate cards, and the gear inventory, as the owner keeps them. A rate change
 // touches only future quotes: a booking keeps the quote it was made with (booking.quote).
-import { and, asc, eq, isNotNull } from 'drizzle-orm';
+import { and, asc, eq, isNotNull, sql } from 'drizzle-orm';
+import { slugFromName } from '$lib/domain/studio-slug';
 import { db } from './db';
 import type { Actor } from './actor';
 import { gearItem, room } from './db/schema';
@@ -59,6 +60,38 @@ export async function updateRoom(actor: Actor, id: string, values: RoomValues): 
 		ip: actor.ip
 	});
 	return true;
+}
+
+/**
+ * Adds a room to the studio. Its short name (its key in addresses and the API) is made from its
+ * name by the short-name rule, with -2, -3… when the studio already has one by that name.
+ */
+export async function addRoom(actor: Actor, values: RoomValues): Promise<string> {
+	const base = slugFromName(values.name) || 'room';
+	const taken = new Set(
+		(await db.select({ slug: room.slug }).from(room).where(eq(room.studioId, actor.studioId))).map((r) => r.slug)
+	);
+	let slug = base;
+	for (let n = 2; taken.has(slug); n++) slug = `${base.slice(0, 36)}-${n}`;
+	const [row] = await db
+		.insert(room)
+		.values({
+			...values,
+			studioId: actor.studioId,
+			slug,
+			sortOrder: sql`(select coalesce(max(${room.sortOrder}), 0) + 1 from ${room} where ${room.studioId} = ${actor.studioId})`
+		})
+		.returning({ id: room.id });
+	await audit({
+		studioId: actor.studioId,
+		actorId: actor.user.id,
+		action: 'room.added',
+		entity: 'room',
+		entityId: row!.id,
+		data: { ...values, slug },
+		ip: actor.ip
+	});
+	return row!.id;
 }
 
 /** Every piece of gear, retired ones last. */

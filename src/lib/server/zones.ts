@@ -11,6 +11,7 @@ const ZONES: Zone[] = [
 	{ prefix: '/studio', roles: ['owner'] },
 	{ prefix: '/plan', roles: ['owner', 'engineer'] },
 	{ prefix: '/accounts', roles: ['owner', 'accountant'] },
+	{ prefix: '/studios', roles: 'signed-in' },
 	{ prefix: '/bookings', roles: 'signed-in' },
 	{ prefix: '/uploads', roles: 'signed-in' }
 ];

@@ -1,21 +1,11 @@
-import { getStudio, listRooms, publicRoom, slugOf } from '$lib/server/studio';
+import * as setup from '$lib/server/studio-setup';
 import type { PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async () => {
-	const studio = await getStudio();
-	const [rooms, slug] = await Promise.all([listRooms(studio.id), slugOf(studio.id)]);
+/** The platform's front page: what Slateroom is and the studios published on it. */
+export const load: PageServerLoad = async ({ locals }) => {
+	const studios = await setup.listPublished();
 	return {
-		slug,
-		about: {
-			tagline: studio.tagline,
-			description: studio.description,
-			addressLines: studio.addressLines,
-			pricesIncludeVat: studio.pricesIncludeVat,
-			vatRatePercent: studio.vatRateBp / 100,
-			halfDayHours: studio.halfDayMinutes / 60,
-			fullDayHours: studio.fullDayMinutes / 60,
-			engineer: { hourly: studio.engineerHourly, halfDay: studio.engineerHalfDay, fullDay: studio.engineerFullDay }
-		},
-		rooms: rooms.map((r) => publicRoom(r, studio.currency))
+		studios: studios.map(({ slug, name, city, country }) => ({ slug, name, city, country })),
+		signedIn: !!locals.user
 	};
 };

@@ -81,7 +81,7 @@ export async function createHold(
 					.insert(booking)
 					.values({
 						studioId: ctx.studio.id,
-						reference: newReference(),
+						reference: newReference(ctx.studio.referencePrefix),
 						roomId: roomRow.id,
 						engineerId,
 						artistId: artist.id,

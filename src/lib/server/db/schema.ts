@@ -47,46 +47,57 @@ const updated = () =>
  * A studio's settings: identity, tax, time and the booking policy. Its id is its organization's
  * (better-auth's organization plugin keeps the name, short name and team).
  */
-export const studio = pgTable('studio', {
-	id: text('id')
-		.primaryKey()
-		.references(() => organization.id),
-	name: text('name').notNull(),
-	/** Seen by anyone outside the team only once published. */
-	published: boolean('published').notNull().default(false),
-	tagline: text('tagline').notNull().default(''),
-	description: text('description').notNull().default(''),
-	addressLines: text('address_lines')
-		.array()
-		.notNull()
-		.default(sql`'{}'::text[]`),
-	country: text('country').notNull(),
-	email: text('email').notNull(),
-	vatId: text('vat_id').notNull().default(''),
-	timeZone: text('time_zone').notNull(),
-	currency: text('currency').notNull(),
-	locale: text('locale').notNull().default('en-GB'),
-	vatRateBp: integer('vat_rate_bp').notNull(),
-	pricesIncludeVat: boolean('prices_include_vat').notNull(),
-	halfDayMinutes: integer('half_day_minutes').notNull().default(240),
-	fullDayMinutes: integer('full_day_minutes').notNull().default(480),
-	minBookingMinutes: integer('min_booking_minutes').notNull(),
-	incrementMinutes: integer('increment_minutes').notNull(),
-	turnaroundMinutes: integer('turnaround_minutes').notNull(),
-	minNoticeMinutes: integer('min_notice_minutes').notNull(),
-	horizonDays: integer('horizon_days').notNull(),
-	holdMinutes: integer('hold_minutes').notNull(),
-	depositBp: integer('deposit_bp').notNull(),
-	depositMinimum: money('deposit_minimum').notNull(),
-	overtimeIncrementMinutes: integer('overtime_increment_minutes').notNull(),
-	engineerHourly: money('engineer_hourly').notNull(),
-	engineerHalfDay: money('engineer_half_day').notNull(),
-	engineerFullDay: money('engineer_full_day').notNull(),
-	closedOnPublicHolidays: boolean('closed_on_public_holidays').notNull().default(false),
-	openingHours: jsonb('opening_hours').$type<OpeningHours[]>().notNull(),
-	cancellation: jsonb('cancellation').$type<CancellationRung[]>().notNull(),
-	updatedAt: updated()
-});
+export const studio = pgTable(
+	'studio',
+	{
+		id: text('id')
+			.primaryKey()
+			.references(() => organization.id),
+		name: text('name').notNull(),
+		/** Seen by anyone outside the team only once published. */
+		published: boolean('published').notNull().default(false),
+		tagline: text('tagline').notNull().default(''),
+		description: text('description').notNull().default(''),
+		/** The postal address as EN 16931 asks for it (BT-35, BT-38, BT-37) and the country (BT-40, ISO 3166-1 alpha-2). */
+		street: text('street').notNull().default(''),
+		postalCode: text('postal_code').notNull().default(''),
+		city: text('city').notNull().default(''),
+		country: text('country').notNull(),
+		/** Two to four capitals that open the studio's booking references: HP-7K3Q-XM2P. */
+		referencePrefix: text('reference_prefix').notNull(),
+		/** The set-up steps the owner has finished (src/lib/domain/setup.ts names them). */
+		setupDone: text('setup_done')
+			.array()
+			.notNull()
+			.default(sql`'{}'::text[]`),
+		email: text('email').notNull(),
+		vatId: text('vat_id').notNull().default(''),
+		timeZone: text('time_zone').notNull(),
+		currency: text('currency').notNull(),
+		locale: text('locale').notNull().default('en-GB'),
+		vatRateBp: integer('vat_rate_bp').notNull(),
+		pricesIncludeVat: boolean('prices_include_vat').notNull(),
+		halfDayMinutes: integer('half_day_minutes').notNull().default(240),
+		fullDayMinutes: integer('full_day_minutes').notNull().default(480),
+		minBookingMinutes: integer('min_booking_minutes').notNull(),
+		incrementMinutes: integer('increment_minutes').notNull(),
+		turnaroundMinutes: integer('turnaround_minutes').notNull(),
+		minNoticeMinutes: integer('min_notice_minutes').notNull(),
+		horizonDays: integer('horizon_days').notNull(),
+		holdMinutes: integer('hold_minutes').notNull(),
+		depositBp: integer('deposit_bp').notNull(),
+		depositMinimum: money('deposit_minimum').notNull(),
+		overtimeIncrementMinutes: integer('overtime_increment_minutes').notNull(),
+		engineerHourly: money('engineer_hourly').notNull(),
+		engineerHalfDay: money('engineer_half_day').notNull(),
+		engineerFullDay: money('engineer_full_day').notNull(),
+		closedOnPublicHolidays: boolean('closed_on_public_holidays').notNull().default(false),
+		openingHours: jsonb('opening_hours').$type<OpeningHours[]>().notNull(),
+		cancellation: jsonb('cancellation').$type<CancellationRung[]>().notNull(),
+		updatedAt: updated()
+	},
+	(t) => [check('studio_reference_prefix_shape', sql`${t.referencePrefix} ~ '^[A-Z]{2,4}$'`)]
+);
 
 export const surchargeRule = pgTable(
 	'surcharge_rule',

@@ -31,7 +31,15 @@ import { formatMoney } from '$lib/domain/money';
 type StudioRow = typeof studio.$inferSelect;
 
 export function supplierOf(s: StudioRow): Party {
-	return { name: s.name, addressLines: s.addressLines, country: s.country, vatId: s.vatId, email: s.email };
+	return {
+		name: s.name,
+		street: s.street,
+		postalCode: s.postalCode,
+		city: s.city,
+		country: s.country,
+		vatId: s.vatId,
+		email: s.email
+	};
 }
 
 export interface BookingForDocuments {
@@ -71,7 +79,7 @@ export async function bookingForDocuments(tx: Tx, bookingId: string): Promise<Bo
 		...row,
 		quote: row.quote as Quote,
 		// Article 226(5): the customer's full name; Slateroom keeps no postal address of artists.
-		customer: { name: row.artistName, email: row.artistEmail, addressLines: [] }
+		customer: { name: row.artistName, email: row.artistEmail }
 	};
 }
 

@@ -27,7 +27,14 @@ export type InvoiceLineRow = typeof invoiceLine.$inferSelect;
 /** A party as printed on the document (Article 226(3)–(5)). */
 export interface Party {
 	name: string;
-	addressLines: string[];
+	/** EN 16931 BT-35 / BT-50. */
+	street?: string;
+	/** BT-38 / BT-53. */
+	postalCode?: string;
+	/** BT-37 / BT-52. */
+	city?: string;
+	/** The address of documents issued before the address had its own fields (their text never changes). */
+	addressLines?: string[];
 	country?: string;
 	vatId?: string;
 	email?: string;

@@ -19,7 +19,10 @@ const invoice: InvoiceRow = {
 	supplyDate: '2027-03-02',
 	supplier: {
 		name: 'Hollow Pine Studio',
-		addressLines: ['Kuusikkotie 14', '33980 Pirkkala', 'Finland'],
+		street: 'Kuusikkotie 14',
+		postalCode: '33980',
+		city: 'Pirkkala',
+		country: 'FI',
 		vatId: 'FI00000000',
 		email: 'hello@hollowpine.test'
 	},

@@ -11,6 +11,24 @@ import { invoiceFonts } from './fonts';
 import { basisPointsToPercent, formatMoney } from '$lib/domain/money';
 import { payableTotal } from '$lib/domain/invoice';
 import { formatCalendarDate, localDateOf } from '$lib/domain/time';
+import { postalLines } from '$lib/domain/setup';
+
+/** A party's address as printed: its street, postal code and city, and country, or the lines of a document issued before those had their own fields. */
+function partyLines(party: Party): string[] {
+	if (party.street === undefined && party.postalCode === undefined && party.city === undefined) return party.addressLines ?? [];
+	const lines = postalLines(party);
+	if (lines.length && party.country) lines.push(regionName(party.country));
+	return lines;
+}
+
+/** An ISO 3166 country code in words, FI → Finland (ECMA-402 Intl.DisplayNames). */
+function regionName(code: string): string {
+	try {
+		return new Intl.DisplayNames(['en-GB'], { type: 'region' }).of(code) ?? code;
+	} catch {
+		return code;
+	}
+}
 
 const require = createRequire(import.meta.url);
 // CommonJS pdfkit, the build that uses the fontkit copy fonts.ts adjusts.
@@ -77,7 +95,7 @@ export function renderInvoicePdf(input: PdfInput): Promise<Buffer> {
 		.fillColor(INK)
 		.text(p(supplier.name), left, 50, { width: width * 0.55 });
 	doc.font('text').fontSize(9).fillColor(SOFT);
-	for (const l of supplier.addressLines) doc.text(p(l), { width: width * 0.55 });
+	for (const l of partyLines(supplier)) doc.text(p(l), { width: width * 0.55 });
 	if (supplier.vatId) doc.text(`VAT ID ${supplier.vatId}`, { width: width * 0.55 });
 	if (supplier.email) doc.text(supplier.email, { width: width * 0.55 });
 	const afterSupplier = doc.y;
@@ -131,7 +149,7 @@ export function renderInvoicePdf(input: PdfInput): Promise<Buffer> {
 		.fillColor(INK)
 		.text(p(customer.name), left, doc.y + 2, { width: width * 0.6 });
 	doc.fontSize(9).fillColor(SOFT);
-	for (const l of customer.addressLines ?? []) doc.text(p(l), { width: width * 0.6 });
+	for (const l of partyLines(customer)) doc.text(p(l), { width: width * 0.6 });
 	if (customer.vatId) doc.text(`VAT ID ${customer.vatId}`);
 	if (customer.email) doc.text(customer.email);
 	y = doc.y + 20;

@@ -10,12 +10,14 @@ import type { InvoiceLineRow, InvoiceRow } from './issue';
 
 const supplier = {
 	name: 'Hollow Pine Studio',
-	addressLines: ['Kuusikkotie 14', '33980 Pirkkala'],
+	street: 'Kuusikkotie 14',
+	postalCode: '33980',
+	city: 'Pirkkala',
 	country: 'FI',
 	vatId: 'FI00000000',
 	email: 'hello@hollowpine.test'
 };
-const customer = { name: 'Noa Virta (The Lantern Static)', addressLines: [], email: 'artist@slateroom.test' };
+const customer = { name: 'Noa Virta (The Lantern Static)', email: 'artist@slateroom.test' };
 
 function document(
 	typeCode: 380 | 381 | 386,
@@ -108,6 +110,39 @@ describe('UBL e-invoices (EN 16931)', () => {
 		expect(text((doc.LegalMonetaryTotal as Node).PayableAmount)).toBe('196.00');
 		expect(text((doc.TaxTotal as Node).TaxAmount)).toBe('56.89');
 		expect(xml).toContain('xmlns="urn:oasis:names:specification:ubl:schema:xsd:Invoice-2"');
+	});
+
+	it('writes the seller’s street, city and postal code as their own terms (BT-35, BT-37, BT-38), and a document issued before them with its lines', () => {
+		const d = document(380, [line('Mixing', 18323, 600)], { incl: false });
+		const xml = documentAsUbl({ ...d, preceding: null, timeZone: 'Europe/Helsinki' });
+		expect(brokenRules(xml)).toEqual([]);
+		const seller = (((parser.parse(xml) as Node).Invoice as Node).AccountingSupplierParty as Node).Party as Node;
+		const address = seller.PostalAddress as Node;
+		expect(address.StreetName).toBe('Kuusikkotie 14');
+		expect(address.CityName).toBe('Pirkkala');
+		expect(String(address.PostalZone)).toBe('33980');
+		// UBL 2.1's AddressType order: StreetName, CityName, PostalZone, Country.
+		expect(xml.indexOf('<cbc:CityName>')).toBeLessThan(xml.indexOf('<cbc:PostalZone>'));
+
+		const before = {
+			...d,
+			invoice: {
+				...d.invoice,
+				supplier: {
+					...supplier,
+					street: undefined,
+					postalCode: undefined,
+					city: undefined,
+					addressLines: ['Kuusikkotie 14', '33980 Pirkkala']
+				}
+			}
+		};
+		const oldXml = documentAsUbl({ ...before, preceding: null, timeZone: 'Europe/Helsinki' });
+		expect(brokenRules(oldXml)).toEqual([]);
+		const oldAddress = ((((parser.parse(oldXml) as Node).Invoice as Node).AccountingSupplierParty as Node).Party as Node)
+			.PostalAddress as Node;
+		expect(oldAddress.StreetName).toBe('Kuusikkotie 14');
+		expect(oldAddress.AdditionalStreetName).toBe('33980 Pirkkala');
 	});
 
 	it('carries the EN 16931 worked figure: base 183.23 at 6 % gives VAT 10.99 (BR-CO-17)', () => {

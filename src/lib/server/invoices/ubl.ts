@@ -39,9 +39,16 @@ function party(node: XMLBuilder, p: Party, fallbackCountry: string) {
 	const partyNode = node.ele('cac:Party');
 	if (p.email) partyNode.ele('cbc:EndpointID', { schemeID: 'EM' }).txt(p.email);
 	const address = partyNode.ele('cac:PostalAddress');
-	const [street, ...rest] = p.addressLines;
-	if (street) address.ele('cbc:StreetName').txt(street); // BT-35 / BT-50
-	if (rest.length) address.ele('cbc:AdditionalStreetName').txt(rest.join(', ')); // BT-36 / BT-51
+	if (p.street !== undefined || p.postalCode !== undefined || p.city !== undefined) {
+		if (p.street) address.ele('cbc:StreetName').txt(p.street); // BT-35 / BT-50
+		if (p.city) address.ele('cbc:CityName').txt(p.city); // BT-37 / BT-52
+		if (p.postalCode) address.ele('cbc:PostalZone').txt(p.postalCode); // BT-38 / BT-53
+	} else {
+		// A document issued before the address had its own fields: its lines as they were printed.
+		const [street, ...rest] = p.addressLines ?? [];
+		if (street) address.ele('cbc:StreetName').txt(street); // BT-35 / BT-50
+		if (rest.length) address.ele('cbc:AdditionalStreetName').txt(rest.join(', ')); // BT-36 / BT-51
+	}
 	address
 		.ele('cac:Country')
 		.ele('cbc:IdentificationCode')

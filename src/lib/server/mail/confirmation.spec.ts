@@ -33,7 +33,9 @@ function facts(over: Partial<ConfirmationFacts> = {}): ConfirmationFacts {
 			email: 'hello@hollowpine.test',
 			timeZone: 'Europe/Helsinki',
 			locale: 'en-GB',
-			addressLines: ['Kuusikkotie 14', '33980 Pirkkala'],
+			street: 'Kuusikkotie 14',
+			postalCode: '33980',
+			city: 'Pirkkala',
 			country: 'FI'
 		},
 		bookingUrl: 'http://127.0.0.1:3000/bookings/7f1c2a9e-52b4-4c1d-9e0a-3b6f4d2c8a11',

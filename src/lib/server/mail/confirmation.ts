@@ -10,6 +10,7 @@ import ical, { ICalCalendarMethod, ICalEventStatus } from 'ical-generator';
 import { formatMoney } from '$lib/domain/money';
 import { preparationChecklist } from '$lib/domain/preparation';
 import { formatDate, formatTimes } from '$lib/domain/time';
+import { postalLines } from '$lib/domain/setup';
 
 export interface ConfirmationFacts {
 	bookingId: string;
@@ -27,7 +28,16 @@ export interface ConfirmationFacts {
 	total: number;
 	deposit: number;
 	lines: { label: string; amount: number }[];
-	studio: { name: string; email: string; timeZone: string; locale: string; addressLines: string[]; country: string };
+	studio: {
+		name: string;
+		email: string;
+		timeZone: string;
+		locale: string;
+		street: string;
+		postalCode: string;
+		city: string;
+		country: string;
+	};
 	/** Where the booking's own page is, e.g. https://studio.example/bookings/<id>. */
 	bookingUrl: string;
 }
@@ -69,7 +79,7 @@ export function bookingCalendarFile(f: ConfirmationFacts, now = new Date()): str
 		end: f.endsAt,
 		summary: `${f.roomName} at ${f.studio.name}`,
 		description,
-		location: [...f.studio.addressLines, countryName(f.studio.country, f.studio.locale)].filter(Boolean).join(', '),
+		location: [...postalLines(f.studio), countryName(f.studio.country, f.studio.locale)].filter(Boolean).join(', '),
 		url: f.bookingUrl
 	});
 	return cal.toString();

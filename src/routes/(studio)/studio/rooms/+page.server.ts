@@ -17,12 +17,11 @@ import {
 	gearValuesFrom,
 	roomFormFrom,
 	roomSchema,
-	roomValuesFrom,
 	type GearForm,
 	type RoomForm
 } from './schema';
-import { blockRateFindings } from '$lib/schemas/rate-card';
 import { formText, readFormData } from '$lib/server/api';
+import { roomAction } from './room-action';
 import type { Actions, PageServerLoad } from './$types';
 
 type Note = { kind: 'saved' | 'error'; text: string };
@@ -91,18 +90,7 @@ function blackoutResult(r: Partial<BlackoutResult> & Pick<BlackoutResult, 'value
 const activeSchema = z.object({ id: z.uuid(), active: z.enum(['true', 'false']) });
 
 export const actions: Actions = {
-	room: async ({ request, locals, getClientAddress }) => {
-		requireRole(locals, 'owner');
-		const { currency, halfDayMinutes, fullDayMinutes } = await staffStudio(locals);
-		const blocks = { halfDayMinutes, fullDayMinutes };
-		const form = await superValidate<RoomForm, Note>(request, zod4(roomSchema(currency, blocks)));
-		if (!form.valid) return message(form, { kind: 'error', text: 'Not saved: check the marked fields.' }, { status: 422 });
-		const actor = staffActor(locals, getClientAddress());
-		const found = await inventory.updateRoom(actor, form.data.id, roomValuesFrom(form.data, currency));
-		if (!found) return message(form, { kind: 'error', text: 'That room is not here any more.' }, { status: 404 });
-		const odd = blockRateFindings(form.data, blocks, currency).length ? ' Some rates look odd: see the notes beside them.' : '';
-		return message(form, { kind: 'saved', text: `${form.data.name} saved. New quotes use this rate card.${odd}` });
-	},
+	room: (event) => roomAction(event),
 
 	gear: async ({ request, locals, getClientAddress }) => {
 		requireRole(locals, 'owner');

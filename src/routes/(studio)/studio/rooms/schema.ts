@@ -44,7 +44,8 @@ function buildRoomSchema(currency: string, blocks: BlockLengths) {
 	return (
 		z
 			.object({
-				id: z.string().regex(UUID_OR_EMPTY, { error: 'Unknown room.' }).min(1, { error: 'Unknown room.' }),
+				/** Empty for a room being added (the studio's set-up adds its rooms). */
+				id: z.string().regex(UUID_OR_EMPTY, { error: 'Unknown room.' }).default(''),
 				name: lineText({ error: 'Name the room.' })
 					.trim()
 					.min(1, { error: 'Name the room.' })
@@ -122,6 +123,9 @@ export function roomValuesFrom(f: RoomForm, currency: string): RoomValues {
 		active: f.active
 	};
 }
+
+/** A room about to be added: bookable, rates still to fill in. */
+export const NEW_ROOM: RoomForm = { id: '', name: '', description: '', hourly: '', halfDay: '', fullDay: '', active: true };
 
 export const NEW_GEAR: Omit<GearForm, 'hireFee'> = {
 	id: '',

@@ -5,6 +5,7 @@ import { requireRole } from '$lib/server/guard';
 import { staffActor } from '$lib/server/actor';
 import { staffStudio } from '$lib/server/studio';
 import * as settings from '$lib/server/settings';
+import * as setup from '$lib/server/studio-setup';
 import { blockRateFindings, surchargeFindings } from '$lib/schemas/rate-card';
 import {
 	engineerRates,
@@ -52,7 +53,15 @@ export const load: PageServerLoad = async ({ locals }) => {
 		),
 		superValidate<SurchargeForm, Saved>({ ...NEW_SURCHARGE_VALUES }, zod4(surchargeSchema), { id: NEW_SURCHARGE, errors: false })
 	]);
-	return { form, surchargeForms, newSurcharge, currency: studio.currency, blocks, updatedAt: studio.updatedAt.toISOString() };
+	return {
+		form,
+		surchargeForms,
+		newSurcharge,
+		currency: studio.currency,
+		blocks,
+		updatedAt: studio.updatedAt.toISOString(),
+		published: studio.published
+	};
 };
 
 export const actions: Actions = {
@@ -92,5 +101,10 @@ export const actions: Actions = {
 		const label = form.data.label;
 		form.data = { ...NEW_SURCHARGE_VALUES };
 		return message(form, { kind: 'saved', text: `${label} added.${odd}` });
+	},
+	unpublish: async ({ locals, getClientAddress }) => {
+		requireRole(locals, 'owner');
+		await setup.unpublish(staffActor(locals, getClientAddress()));
+		return { unpublished: true };
 	}
 };

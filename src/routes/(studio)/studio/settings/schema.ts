@@ -13,6 +13,9 @@ import type { CancellationRung, OpeningHours } from '$lib/domain/types';
 // Types only: erased before the browser bundle is made.
 import type { PolicyValues, SurchargeValues } from '$lib/server/settings';
 
+/** The parts of the Rates & policy form (PolicySections.svelte); the set-up shows a few per step. */
+export type PolicySection = 'engineer' | 'vat' | 'deposit' | 'ladder' | 'rules' | 'hours' | 'holidays';
+
 export const WEEKDAY_NAMES = ['Monday', 'Tuesday', 'Wednesday', 'Thursday', 'Friday', 'Saturday', 'Sunday'] as const;
 /** Rows offered for the cancellation ladder; blank rows are left out. */
 export const LADDER_ROWS = 4;
