@@ -28,7 +28,10 @@ async function seedStudio(db: Database): Promise<string> {
 			tagline: 'A pine loft for bands and voices, above a carpentry workshop near Falun.',
 			description:
 				'Two rooms under a pitched roof: the loft for a band playing together and the cabin for vocals and overdubs. Book by the hour, the half day or the full day, with an engineer if you like. Prices exclude VAT.',
-			addressLines: ['Tallbacksvägen 3', '791 99 Falun (invented address)', 'Sweden'],
+			street: 'Tallbacksvägen 3',
+			postalCode: '791 99',
+			city: 'Falun (invented address)',
+			referencePrefix: 'TL',
 			country: P.country,
 			email: 'hej@tallbacken.test',
 			vatId: 'SE000000000001',
@@ -246,7 +249,7 @@ async function seedSessions(db: Database, studioId: string, roomIds: Record<stri
 		await db.insert(t.booking).values({
 			id: SECOND_BOOKING_IDS[i],
 			studioId,
-			reference: newReference(),
+			reference: newReference('TL'),
 			roomId: roomIds[d.room]!,
 			engineerId: d.engineer ? engineerId : null,
 			artistId: ids[d.artist]!,

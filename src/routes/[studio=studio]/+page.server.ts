@@ -1,4 +1,5 @@
 import { getStudio, listRooms, publicRoom } from '$lib/server/studio';
+import { countryChoice } from '$lib/domain/studio-place';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ parent }) => {
@@ -8,7 +9,12 @@ export const load: PageServerLoad = async ({ parent }) => {
 		about: {
 			tagline: studio.tagline,
 			description: studio.description,
-			addressLines: studio.addressLines,
+			// The address as a letter carries it: street, postal code and city, country.
+			addressLines: [
+				studio.street,
+				[studio.postalCode, studio.city].filter(Boolean).join(' '),
+				countryChoice(studio.country)?.name ?? studio.country
+			].filter(Boolean),
 			pricesIncludeVat: studio.pricesIncludeVat,
 			vatRatePercent: studio.vatRateBp / 100,
 			halfDayHours: studio.halfDayMinutes / 60,
