@@ -371,7 +371,7 @@ describe("a studio's staff see only their studio's day and month", () => {
 		const [own] = await db.select({ reference: t.booking.reference }).from(t.booking).where(eq(t.booking.id, later));
 		try {
 			const engineer = await signedIn(DEMO.engineer);
-			const res = await engineer.fetch('/api/plan?date=2032-05-04');
+			const res = await engineer.fetch('/api/studios/hollow-pine/plan?date=2032-05-04');
 			expect(res.status).toBe(200);
 			const text = await res.text();
 			expect(text).toContain(own!.reference);
