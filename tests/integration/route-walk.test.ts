@@ -19,6 +19,7 @@ import { eq, sql } from 'drizzle-orm';
 import { studioIdOf, testDb } from '../support/db';
 import { DEMO } from '../support/env';
 import { Client, signedIn } from '../support/http';
+import { wav } from '../support/audio';
 import * as t from '../../src/lib/server/db/schema';
 import { issueDocument } from '../../src/lib/server/invoices/issue';
 import { documentTotals, lumpSumLines } from '../../src/lib/domain/invoice';
@@ -115,8 +116,17 @@ interface Entry {
 	form?: Record<string, (b: B) => Body>;
 	json?: Record<string, (b: B) => unknown>;
 	noPost?: string;
+	/** Bodies sent as multipart/form-data (a file), by method or action. */
+	multipart?: Record<string, (b: B) => FormData>;
 	/** Actions left out of the walk, each with the reason. */
 	skip?: Record<string, string>;
+}
+
+/** A form with a small, valid WAV file in the field the upload endpoints read. */
+function withFile(): FormData {
+	const form = new FormData();
+	form.set('file', new Blob([wav()], { type: 'audio/wav' }), 'walk.wav');
+	return form;
 }
 
 const money = { hourly: '10.00', halfDay: '30.00', fullDay: '50.00' };
@@ -185,7 +195,8 @@ const ENTRIES: Record<string, Entry> = {
 	'/bookings/[id=uuid]': {
 		path: (b) => `/bookings/${b.booking}`,
 		into: true,
-		form: { upload: () => ({}), remove: (b) => ({ id: b.upload, uploadId: b.upload }) }
+		form: { remove: (b) => ({ id: b.upload, uploadId: b.upload }) },
+		multipart: { upload: () => withFile() }
 	},
 	'/invoices/[id=uuid]/pdf': { path: (b) => `/invoices/${b.invoice}/pdf`, into: true },
 	'/uploads/[id=uuid]': { path: (b) => `/uploads/${b.upload}`, into: true },
@@ -196,14 +207,19 @@ const ENTRIES: Record<string, Entry> = {
 	'/api/bookings/[id=uuid]/cancellation': { path: (b) => `/api/bookings/${b.booking}/cancellation`, into: true },
 	'/api/bookings/[id=uuid]/close': { path: (b) => `/api/bookings/${b.booking}/close`, into: true },
 	'/api/bookings/[id=uuid]/pay': { path: (b) => `/api/bookings/${b.booking}/pay`, into: true },
-	'/api/bookings/[id=uuid]/uploads': { path: (b) => `/api/bookings/${b.booking}/uploads`, into: true },
+	'/api/bookings/[id=uuid]/uploads': {
+		path: (b) => `/api/bookings/${b.booking}/uploads`,
+		into: true,
+		multipart: { POST: () => withFile() }
+	},
 	'/api/bookings/[id=uuid]/uploads/[uploadId=uuid]': {
 		path: (b) => `/api/bookings/${b.booking}/uploads/${b.upload}`,
 		into: true
 	},
 	// The staff pages of the studio the walker works in, sent B's ids in queries and fields.
 	'/studio': { path: () => '/studio', into: false },
-	'/studio/bookings': { path: (b) => `/studio/bookings?q=${b.reference}`, into: false },
+	// Its filters name no studio; B's sessions must simply not be among the results.
+	'/studio/bookings': { path: () => '/studio/bookings?status=confirmed', into: false },
 	'/studio/people': {
 		path: () => '/studio/people',
 		into: false,
@@ -554,14 +570,28 @@ function stepsOf(route: FoundRoute, entry: Entry, theirs: B): Step[] {
 			continue;
 		}
 		if (entry.noPost) continue;
+		const files = entry.multipart?.[method];
+		if (files) {
+			steps.push({ route: route.id, label: method, send: (c) => c.fetch(path, { method, body: files(theirs) }) });
+			continue;
+		}
 		const body = entry.json?.[method]?.(theirs) ?? { bookingId: theirs.booking, room: theirs.roomSlug, studio: theirs.slug };
 		steps.push({ route: route.id, label: method, send: (c) => c.json(path, body, method) });
 	}
 	if (route.actions && !entry.noPost) {
 		for (const action of route.actions) {
 			if (entry.skip?.[action]) continue;
-			const fields = entry.form?.[action]?.(theirs) ?? B_IDS(theirs);
 			const target = action === 'default' ? path : `${path}${path.includes('?') ? '&' : '?'}/${action}`;
+			const files = entry.multipart?.[action];
+			if (files) {
+				steps.push({
+					route: route.id,
+					label: `action ${action}`,
+					send: (c) => c.fetch(target, { method: 'POST', headers: { accept: 'text/html' }, body: files(theirs) })
+				});
+				continue;
+			}
+			const fields = entry.form?.[action]?.(theirs) ?? B_IDS(theirs);
 			steps.push({ route: route.id, label: `action ${action}`, send: (c) => c.form(target, fields) });
 		}
 	}
