@@ -21,10 +21,10 @@ const availability = await run('GET /api/studios/hollow-pine/availability (31 da
 const health = await run('GET /api/health', '/api/health');
 
 console.log(`\n${seconds} s each, ${connections} connections, production build on loopback, a year of bookings\n`);
-console.log('endpoint                              req/s      p50 ms   p99 ms   errors');
+console.log(`${'endpoint'.padEnd(52)}   req/s      p50 ms   p99 ms   errors`);
 for (const r of [availability, health]) {
 	console.log(
-		`${r.title.padEnd(36)} ${r.rps.toFixed(0).padStart(7)} ${String(r.p50).padStart(10)} ${String(r.p99).padStart(8)} ${String(r.non2xx).padStart(8)}`
+		`${r.title.padEnd(52)} ${r.rps.toFixed(0).padStart(7)} ${String(r.p50).padStart(10)} ${String(r.p99).padStart(8)} ${String(r.non2xx).padStart(8)}`
 	);
 }
 console.log(`\navailability / health throughput ratio: ${(availability.rps / health.rps).toFixed(3)}`);
