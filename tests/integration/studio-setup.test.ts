@@ -157,3 +157,70 @@ describe('GET /api/studios', () => {
 		}
 	});
 });
+
+describe('the set-up and publishing', () => {
+	it('publishes only with an address and a bookable room, then lists the studio until its owner unpublishes it', async () => {
+		const owner = await newPerson('Publishing Owner');
+		expect((await owner.json('/api/studios', studio({ slug: 'larch-cellar', name: 'Larch Cellar' }))).status).toBe(201);
+		const slugs = async () => (await listed()).map((s) => s.slug);
+
+		// Nothing yet: the set-up says what is missing and publishes nothing.
+		const early = await owner.form('/studio/setup?/publish', {});
+		expect(early.status).toBe(422);
+		const earlyPage = await (await owner.fetch('/studio/setup?step=review')).text();
+		expect(earlyPage).toContain('at least one bookable room');
+		expect(await slugs()).not.toContain('larch-cellar');
+
+		// A bad address keeps what was typed and saves nothing.
+		const bad = await owner.form('/studio/setup?/address', {
+			street: 'Lärkgatan 3',
+			postalCode: '11122',
+			city: '',
+			country: 'SE',
+			vatId: ''
+		});
+		expect(bad.status).toBe(422);
+		const badPage = await bad.text();
+		expect(badPage).toContain('Give the town or city.');
+		expect(badPage).toContain('Lärkgatan 3');
+
+		const saved = await owner.form('/studio/setup?/address', {
+			street: 'Lärkgatan 3',
+			postalCode: '11122',
+			city: 'Stockholm',
+			country: 'SE',
+			vatId: 'se556677889901'
+		});
+		expect(saved.status).toBe(303);
+		expect(saved.headers.get('location')).toBe('/studio/setup?step=vat');
+		const added = await owner.form('/studio/setup?/room', {
+			id: '',
+			name: 'Cellar room',
+			description: '',
+			hourly: '400',
+			halfDay: '1400',
+			fullDay: '2600',
+			active: 'on'
+		});
+		expect(added.status).toBe(200);
+		const [org] = await db.select().from(t.organization).where(eq(t.organization.slug, 'larch-cellar'));
+		const [row] = await db.select().from(t.studio).where(eq(t.studio.id, org!.id));
+		expect(row).toMatchObject({ street: 'Lärkgatan 3', postalCode: '11122', city: 'Stockholm', vatId: 'SE556677889901' });
+		expect(row!.setupDone).toEqual(['address']);
+		const rooms = await db.select().from(t.room).where(eq(t.room.studioId, org!.id));
+		expect(rooms.map((r) => [r.slug, r.hourly, r.halfDay, r.fullDay, r.active])).toEqual([
+			['cellar-room', 40000, 140000, 260000, true]
+		]);
+
+		// The desk shows the set-up until the studio is published.
+		expect(await (await owner.fetch('/studio')).text()).toContain('Set-up: 1 of 7 done');
+		const published = await owner.form('/studio/setup?/publish', {});
+		expect(published.status).toBe(303);
+		expect(await slugs()).toContain('larch-cellar');
+		expect(await (await owner.fetch('/studio')).text()).not.toContain('Set-up:');
+
+		const unpublished = await owner.form('/studio/settings?/unpublish', {});
+		expect(unpublished.status).toBe(200);
+		expect(await slugs()).not.toContain('larch-cellar');
+	});
+});

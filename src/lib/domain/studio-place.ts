@@ -68,6 +68,24 @@ function englishName(code: string): string {
 	}
 }
 
+/**
+ * A country's zones, the one to propose first: our choice for the largest countries, then the
+ * zones named after a place in the country. The tz database now makes some of those links to a
+ * neighbour's zone (Europe/Oslo and Europe/Stockholm to Europe/Berlin, same clock); the links are
+ * still valid zone names and read as the owner expects, so they come before the neighbour's.
+ */
+function zonesOf(country: string, all: readonly string[]): string[] {
+	const rank = (zone: string) => {
+		if (zone === MAIN_ZONE[country]) return 0;
+		const info = getTimezone(zone);
+		const own = info?.countries[0] === country;
+		if (own && !info?.deprecated) return 1;
+		if (own) return 2;
+		return 3;
+	};
+	return [...all].sort((a, b) => rank(a) - rank(b) || a.localeCompare(b));
+}
+
 let choices: CountryChoice[] | null = null;
 
 /**
@@ -76,17 +94,14 @@ let choices: CountryChoice[] | null = null;
  */
 export function countryChoices(): CountryChoice[] {
 	if (choices) return choices;
-	choices = Object.values(getAllCountries())
+	choices = Object.values(getAllCountries({ deprecated: true }))
 		.filter((c) => c.timezones.length > 0 && hasPublicHolidayCalendar(c.id))
 		.map((c) => {
 			const own = (countryToCurrency as Record<string, string | undefined>)[c.id];
 			return {
 				code: c.id,
 				name: englishName(c.id),
-				zones:
-					MAIN_ZONE[c.id] && (c.timezones as string[]).includes(MAIN_ZONE[c.id]!)
-						? [MAIN_ZONE[c.id]!, ...c.timezones.filter((z) => z !== MAIN_ZONE[c.id])]
-						: [...c.timezones],
+				zones: zonesOf(c.id, c.timezones),
 				currency: own && STRIPE_PRESENTMENT_CURRENCIES.has(own) ? own : FALLBACK_CURRENCY
 			};
 		})
