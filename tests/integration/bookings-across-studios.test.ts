@@ -206,7 +206,7 @@ describe('the first studio’s staff and a booking of the second', () => {
 		// The day plan carries over only this studio's recall sheets: the artist's sheet from the
 		// first studio stays there.
 		const item = (await list(engineer, '?studio=tallbacken')).find((b) => b.id === id)!;
-		const plan = (await (await engineer.fetch(`/api/plan?date=${item.start.slice(0, 10)}`)).json()) as {
+		const plan = (await (await engineer.fetch(`/api/studios/tallbacken/plan?date=${item.start.slice(0, 10)}`)).json()) as {
 			rooms: { sessions: { id: string; recall: unknown }[] }[];
 		};
 		const session = plan.rooms.flatMap((r) => r.sessions).find((s) => s.id === id);

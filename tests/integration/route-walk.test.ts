@@ -148,8 +148,7 @@ const ENTRIES: Record<string, Entry> = {
 	'/invitations/[id=uuid]': {
 		path: (b) => `/invitations/${b.invitation}`,
 		into: true,
-		form: { accept: () => ({}) },
-		skip: { switchAccount: 'it signs the walker out; it takes nothing but the address' }
+		form: { accept: () => ({}) }
 	},
 	'/feed/[token]/sessions.ics': { path: () => `/feed/${'0'.repeat(43)}/sessions.ics`, into: true },
 	// B's storefront and studio API, by its short name: unpublished, so unknown to outsiders.

@@ -128,13 +128,19 @@ describe('an invitation by e-mail', () => {
 		expect(html).toContain(`/sign-in?next=${encodeURIComponent(`/invitations/${invitationId}`)}`);
 	});
 
-	it('refuses someone signed in with another address (403), and changes nothing', async () => {
+	it('refuses someone signed in with another address (403), names neither the studio nor the invited address, and changes nothing', async () => {
 		const artist = await new Client().signIn(DEMO.artist);
-		const page = await (await artist.fetch(`/invitations/${invitationId}`)).text();
-		expect(page).toContain(`this invitation is for ${engineerEmail}`);
+		const page = await artist.fetch(`/invitations/${invitationId}`);
+		expect(page.status).toBe(403);
+		const text = await page.text();
+		expect(text).toContain(`sent to another e-mail address than ${DEMO.artist}`);
+		expect(text).not.toContain(engineerEmail);
+		expect(text).not.toContain(a.name);
 		const res = await artist.form(`/invitations/${invitationId}?/accept`, {});
 		expect(res.status).toBe(403);
-		expect(await res.text()).toContain(`This invitation is for ${engineerEmail}`);
+		const refused = await res.text();
+		expect(refused).toContain(`sent to another e-mail address than ${DEMO.artist}`);
+		expect(refused).not.toContain(engineerEmail);
 		const [row] = await db.select({ status: t.invitation.status }).from(t.invitation).where(eq(t.invitation.id, invitationId));
 		expect(row!.status).toBe('pending');
 	});
@@ -329,14 +335,14 @@ describe('the team keeps an owner, and a removed member keeps their past work', 
 
 		// The same session cookie, the next request: the plan is closed to them.
 		expect((await removed.fetch(`/plan?date=${DAY}`)).status).toBe(403);
-		expect((await removed.fetch(`/api/plan?date=${DAY}`)).status).toBe(403);
+		expect((await removed.fetch(`/api/studios/${a.slug}/plan?date=${DAY}`)).status).toBe(403);
 		// The session they ran is still theirs.
 		const [row] = await db.select({ engineerId: t.booking.engineerId }).from(t.booking).where(eq(t.booking.id, booking));
 		expect(row!.engineerId).toBe(removedId);
 		const seen = await ownerA.fetch(`/api/bookings/${booking}`);
 		expect(seen.status).toBe(200);
 		expect(JSON.stringify(await seen.json())).toContain('Team spec removed');
-		const plan = (await (await ownerA.fetch(`/api/plan?date=${DAY}`)).json()) as unknown;
+		const plan = (await (await ownerA.fetch(`/api/studios/${a.slug}/plan?date=${DAY}`)).json()) as unknown;
 		expect(JSON.stringify(plan)).toContain(booking);
 	});
 });
@@ -354,7 +360,7 @@ describe('a person in two teams', () => {
 		let html = await (await engineer.fetch(`/plan?date=${DAY}`)).text();
 		expect(html).toContain(`Day plan · ${a.name}`);
 		expect(html).toContain('data-testid="studio-switch"');
-		let plan = JSON.stringify(await (await engineer.fetch(`/api/plan?date=${DAY}`)).json());
+		let plan = JSON.stringify(await (await engineer.fetch(`/api/studios/${a.slug}/plan?date=${DAY}`)).json());
 		expect(plan).toContain(mine);
 		expect(plan).not.toContain(theirs);
 
@@ -364,7 +370,7 @@ describe('a person in two teams', () => {
 		expect(switched.headers.get('location')).toBe(back);
 		html = await (await engineer.fetch(back)).text();
 		expect(html).toContain(`Day plan · ${b.name}`);
-		plan = JSON.stringify(await (await engineer.fetch(`/api/plan?date=${DAY}`)).json());
+		plan = JSON.stringify(await (await engineer.fetch(`/api/studios/${b.slug}/plan?date=${DAY}`)).json());
 		expect(plan).toContain(theirs);
 		expect(plan).not.toContain(mine);
 
@@ -372,7 +378,7 @@ describe('a person in two teams', () => {
 		const demo = await studioIdOf(db);
 		expect((await engineer.form('/studio-switch', { studio: demo, back })).status).toBe(403);
 		expect((await engineer.form('/studio-switch', { studio: 'x'.repeat(65) })).status).toBe(400);
-		plan = JSON.stringify(await (await engineer.fetch(`/api/plan?date=${DAY}`)).json());
+		plan = JSON.stringify(await (await engineer.fetch(`/api/studios/${b.slug}/plan?date=${DAY}`)).json());
 		expect(plan).toContain(theirs);
 
 		// An address their role there cannot open sends them to that role's home instead.

@@ -10,12 +10,14 @@ import { MAIL_API } from './env';
 export interface TestStudio {
 	id: string;
 	name: string;
+	slug: string;
 	room: string;
 }
 
 export async function makeStudio(db: Database, name: string): Promise<TestStudio> {
 	const id = crypto.randomUUID();
-	await db.insert(t.organization).values({ id, name, slug: `team-${id.slice(0, 8)}` });
+	const slug = `team-${id.slice(0, 8)}`;
+	await db.insert(t.organization).values({ id, name, slug });
 	const [demo] = await db
 		.select()
 		.from(t.studio)
@@ -33,7 +35,7 @@ export async function makeStudio(db: Database, name: string): Promise<TestStudio
 			fullDay: 5000
 		})
 		.returning();
-	return { id, name, room: room!.id };
+	return { id, name, slug, room: room!.id };
 }
 
 export async function joinTeam(db: Database, studioId: string, userId: string, role: t.StaffRole): Promise<void> {

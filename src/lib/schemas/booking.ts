@@ -1,4 +1,4 @@
-// What a booking request says, as the /book form and the JSON API (POST /api/quote,
+// What a booking request says, as the /book form and the JSON API (POST /api/studios/STUDIO/quote,
 // POST /api/bookings) both take it: one set of field rules and messages, run in the browser and
 // on the server. Shapes only: whether the time is free, long enough and open is the server's to
 // say (src/lib/server/bookings), because only it knows the calendar.
@@ -55,7 +55,7 @@ export type BookForm = z.infer<typeof bookFormSchema>;
 
 /**
  * The API's request for the form's choices: the start as the studio's wall time, the end that
- * wall time plus the booked length. The page asks POST /api/quote with it as the choices change,
+ * wall time plus the booked length. The page asks POST /api/studios/STUDIO/quote with it as the choices change,
  * and the form's action books it, so both price the same thing.
  */
 export function requestFromChoices(c: BookingChoices, lengths: BlockLengths): BookingRequest {

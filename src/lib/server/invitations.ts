@@ -248,7 +248,8 @@ export async function accept(
 		return {
 			ok: false,
 			status: 403,
-			message: `This invitation is for ${found.email}, and you are signed in as ${who.email}. Sign out and sign in (or create an account) with ${found.email}.`
+			// Names nothing of the studio or of the person invited: the link is not this person's.
+			message: `This invitation was sent to another e-mail address than ${who.email}. Sign out, then open the link again and sign in (or create an account) with the address it was sent to.`
 		};
 	}
 	if (await roleIn(found.studioId, who.id)) {

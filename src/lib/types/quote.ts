@@ -1,4 +1,4 @@
-/** The parts of a quote the booking pages show: POST /api/quote's answer and a booking's stored snapshot both fit. */
+/** The parts of a quote the booking pages show: POST /api/studios/STUDIO/quote's answer and a booking's stored snapshot both fit. */
 export interface QuoteView {
 	currency: string;
 	pricesIncludeVat: boolean;

@@ -110,7 +110,7 @@ export interface StartOption {
 
 /**
  * Every start on the increment grid at which a booking of `minutes` fits wholly inside one of
- * the open windows (as GET /api/availability returns them), in time order. The windows are
+ * the open windows (as GET /api/studios/STUDIO/availability returns them), in time order. The windows are
  * already snapped to the studio's grid, so stepping by the increment from a window's start stays
  * on it (the studio's zone has whole-hour offsets in the demo; a half-hour zone still steps from
  * an on-grid start).

@@ -1,24 +1,34 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import * as invitations from '$lib/server/invitations';
-import { auth } from '$lib/server/auth';
-import { audit } from '$lib/server/audit';
 import { requireUser } from '$lib/server/guard';
 import { roleIn } from '$lib/server/team';
 import { HOME_FOR_ROLE } from '$lib/roles';
 import type { Actions, PageServerLoad } from './$types';
 
+const OTHER_ACCOUNT = (email: string) =>
+	`This invitation was sent to another e-mail address than ${email}. Sign out, then open the link again and sign in (or create an account) with the address it was sent to.`;
+
 /**
- * An invitation's link: anyone holding it sees the studio and the role; the person it was sent to,
- * signed in with that address, accepts it.
+ * An invitation's link: signed out, its holder sees the studio and the role and signs in or up;
+ * the person it was sent to, signed in with that address, accepts it. Anyone signed in as somebody
+ * else gets a 403 that names nothing of the studio.
  */
 export const load: PageServerLoad = async ({ params, locals, url }) => {
 	const inv = await invitations.view(params.id);
 	if (!inv) error(404, { error: 'not_found', message: 'There is no such invitation. Check the link in the e-mail.' });
 	const here = url.pathname;
-	let standing: 'closed' | 'signed-out' | 'other-account' | 'member' | 'invited';
+	// Signed in as someone else: the link is not theirs, so it names nothing of the studio or of
+	// the person invited (they sign out and open it again as the invited address).
+	if (
+		locals.user &&
+		locals.user.email.toLowerCase() !== inv.email.toLowerCase() &&
+		!(await roleIn(inv.studioId, locals.user.id))
+	) {
+		error(403, { error: 'forbidden', message: OTHER_ACCOUNT(locals.user.email) });
+	}
+	let standing: 'closed' | 'signed-out' | 'member' | 'invited';
 	if (inv.state !== 'open') standing = 'closed';
 	else if (!locals.user) standing = 'signed-out';
-	else if (locals.user.email.toLowerCase() !== inv.email.toLowerCase()) standing = 'other-account';
 	else if (await roleIn(inv.studioId, locals.user.id)) standing = 'member';
 	else standing = 'invited';
 	return {
@@ -41,13 +51,5 @@ export const actions: Actions = {
 		const done = await invitations.accept(me, request.headers, params.id, getClientAddress());
 		if (!done.ok) return fail(done.status, { error: done.message });
 		redirect(303, HOME_FOR_ROLE[done.role]);
-	},
-	/** Signed in with another address: sign out, then sign in (or up) with the invited one and come back here. */
-	switchAccount: async ({ params, locals, request, getClientAddress }) => {
-		if (locals.user) {
-			await auth.api.signOut({ headers: request.headers });
-			await audit({ actorId: locals.user.id, action: 'auth.sign_out', ip: getClientAddress() });
-		}
-		redirect(303, `/sign-in?next=${encodeURIComponent(`/invitations/${params.id}`)}`);
 	}
 };
