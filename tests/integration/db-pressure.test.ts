@@ -236,7 +236,7 @@ describe('a lock pile-up', () => {
 				}, 'the pool waiting on the lock');
 				// …and the app, asked, says the database is busy, not down; a page that cannot get a
 				// connection in time says the same, as a 503 with Retry-After.
-				const page = fetch(`${new Client().base}/rooms`, { headers: { accept: 'text/html' } });
+				const page = fetch(`${new Client().base}/hollow-pine/rooms`, { headers: { accept: 'text/html' } });
 				const health = await fetch(`${new Client().base}/api/health`);
 				expect(health.status).toBe(200);
 				expect(await health.json()).toEqual({ ok: true, db: 'busy' });

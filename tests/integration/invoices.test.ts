@@ -10,7 +10,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { and, desc, eq, inArray, isNotNull } from 'drizzle-orm';
 import { Client, signedIn } from '../support/http';
 import { DATABASE_URL, DEMO } from '../support/env';
-import { testDb } from '../support/db';
+import { studioIdOf, testDb } from '../support/db';
 import { sleep, waitFor } from '../support/wait';
 import { bookAndPay as bookAndPayOn } from '../support/booking';
 import { moveIntoPast } from '../support/started';
@@ -303,7 +303,13 @@ describe('PDFs and the month', () => {
 		const ids = await db
 			.select({ id: t.invoice.id, issuedAt: t.invoice.issuedAt })
 			.from(t.invoice)
-			.where(and(inArray(t.invoice.typeCode, [380, 381, 386]), isNotNull(t.invoice.bookingId)))
+			.where(
+				and(
+					eq(t.invoice.studioId, await studioIdOf(db)),
+					inArray(t.invoice.typeCode, [380, 381, 386]),
+					isNotNull(t.invoice.bookingId)
+				)
+			)
 			.orderBy(desc(t.invoice.issuedAt))
 			.limit(1);
 		const month = new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/Helsinki', year: 'numeric', month: '2-digit' })
