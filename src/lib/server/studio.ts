@@ -8,9 +8,6 @@ import { staffActor } from './actor';
 export type StudioRow = typeof studio.$inferSelect;
 export type RoomRow = typeof room.$inferSelect;
 
-/** No studio exists yet (a platform with none set up), or none by the id asked for. */
-export class StudioMissing extends Error {}
-
 /**
  * A studio by its id; without one, the studio the app serves today (the first one made) until the
  * pages are routed by studio.
@@ -23,7 +20,7 @@ export async function getStudio(id?: string): Promise<StudioRow> {
 		.where(id === undefined ? undefined : eq(studio.id, id))
 		.orderBy(asc(organization.createdAt), asc(organization.id))
 		.limit(1);
-	if (!row) throw new StudioMissing('The studio is not set up yet: run the seed (npm start does).');
+	if (!row) throw new Error('The studio is not set up yet: run the seed (npm start does).');
 	return row.studio;
 }
 
