@@ -165,7 +165,7 @@ describe('the set-up and publishing', () => {
 		const slugs = async () => (await listed()).map((s) => s.slug);
 
 		// Nothing yet: the set-up says what is missing and publishes nothing.
-		const early = await owner.form('/studio/setup?/publish', {});
+		const early = await owner.form('/studio/setup?/publish', { confirm: 'publish' });
 		expect(early.status).toBe(422);
 		const earlyPage = await (await owner.fetch('/studio/setup?step=review')).text();
 		expect(earlyPage).toContain('at least one bookable room');
@@ -214,12 +214,17 @@ describe('the set-up and publishing', () => {
 
 		// The desk shows the set-up until the studio is published.
 		expect(await (await owner.fetch('/studio')).text()).toContain('Set-up: 1 of 7 done');
-		const published = await owner.form('/studio/setup?/publish', {});
+		// A post without the button's word changes nothing.
+		expect((await owner.form('/studio/setup?/publish', {})).status).toBe(400);
+		expect(await slugs()).not.toContain('larch-cellar');
+		const published = await owner.form('/studio/setup?/publish', { confirm: 'publish' });
 		expect(published.status).toBe(303);
 		expect(await slugs()).toContain('larch-cellar');
 		expect(await (await owner.fetch('/studio')).text()).not.toContain('Set-up:');
 
-		const unpublished = await owner.form('/studio/settings?/unpublish', {});
+		expect((await owner.form('/studio/settings?/unpublish', {})).status).toBe(400);
+		expect(await slugs()).toContain('larch-cellar');
+		const unpublished = await owner.form('/studio/settings?/unpublish', { confirm: 'unpublish' });
 		expect(unpublished.status).toBe(200);
 		expect(await slugs()).not.toContain('larch-cellar');
 	});

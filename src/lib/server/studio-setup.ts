@@ -171,13 +171,14 @@ export async function saveAddress(actor: Actor, values: AddressValues): Promise<
 export async function publish(actor: Actor): Promise<{ ok: true } | { ok: false; missing: string[] }> {
 	const state = await setupState(actor.studioId);
 	if (state.missing.length) return { ok: false, missing: state.missing };
-	await setPublished(actor, true);
+	if (!state.published) await setPublished(actor, true);
 	return { ok: true };
 }
 
 /** Takes the studio off the platform's list and its storefront off the web; its data stays. */
 export async function unpublish(actor: Actor): Promise<void> {
-	await setPublished(actor, false);
+	const [row] = await db.select({ published: studio.published }).from(studio).where(eq(studio.id, actor.studioId));
+	if (row?.published) await setPublished(actor, false);
 }
 
 async function setPublished(actor: Actor, published: boolean) {

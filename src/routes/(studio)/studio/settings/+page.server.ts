@@ -6,6 +6,7 @@ import { staffActor } from '$lib/server/actor';
 import { staffStudio } from '$lib/server/studio';
 import * as settings from '$lib/server/settings';
 import * as setup from '$lib/server/studio-setup';
+import { formText, readFormData } from '$lib/server/api';
 import { blockRateFindings, surchargeFindings } from '$lib/schemas/rate-card';
 import {
 	engineerRates,
@@ -102,8 +103,11 @@ export const actions: Actions = {
 		form.data = { ...NEW_SURCHARGE_VALUES };
 		return message(form, { kind: 'saved', text: `${label} added.${odd}` });
 	},
-	unpublish: async ({ locals, getClientAddress }) => {
+	unpublish: async ({ request, locals, getClientAddress }) => {
 		requireRole(locals, 'owner');
+		// The button says what it does; a post without its word changes nothing.
+		const fd = await readFormData(request);
+		if (formText(fd?.get('confirm')) !== 'unpublish') return fail(400, { unpublished: false });
 		await setup.unpublish(staffActor(locals, getClientAddress()));
 		return { unpublished: true };
 	}

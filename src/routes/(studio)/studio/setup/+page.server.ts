@@ -137,8 +137,11 @@ export const actions: Actions = {
 		redirect(303, `/studio/setup?step=${after('rooms')}`);
 	},
 
-	publish: async ({ locals, getClientAddress }) => {
+	publish: async ({ request, locals, getClientAddress }) => {
 		requireRole(locals, 'owner');
+		// The button says what it does; a post without its word changes nothing.
+		const fd = await readFormData(request);
+		if (formText(fd?.get('confirm')) !== 'publish') return fail(400, { missing: [] as string[] });
 		const outcome = await setup.publish(staffActor(locals, getClientAddress()));
 		if (!outcome.ok) return fail(422, { missing: outcome.missing });
 		redirect(303, '/studio/setup?step=review');
