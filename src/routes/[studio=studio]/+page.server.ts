@@ -1,5 +1,6 @@
 import { getStudio, listRooms, publicRoom } from '$lib/server/studio';
 import { countryChoice } from '$lib/domain/studio-place';
+import { postalLines } from '$lib/domain/setup';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ parent }) => {
@@ -9,12 +10,8 @@ export const load: PageServerLoad = async ({ parent }) => {
 		about: {
 			tagline: studio.tagline,
 			description: studio.description,
-			// The address as a letter carries it: street, postal code and city, country.
-			addressLines: [
-				studio.street,
-				[studio.postalCode, studio.city].filter(Boolean).join(' '),
-				countryChoice(studio.country)?.name ?? studio.country
-			].filter(Boolean),
+			// The address as a letter carries it: street, postal code and city, then the country.
+			addressLines: [...postalLines(studio), countryChoice(studio.country)?.name ?? studio.country],
 			pricesIncludeVat: studio.pricesIncludeVat,
 			vatRatePercent: studio.vatRateBp / 100,
 			halfDayHours: studio.halfDayMinutes / 60,
