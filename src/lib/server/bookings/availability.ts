@@ -55,12 +55,20 @@ export async function closedDays(ctx: PricingContext, from: string, to: string):
 	return out;
 }
 
-/** The times a room is kept (its bookings' start to busy-until) over [from, to). */
-export async function busyIntervals(roomId: string, from: Date, to: Date, now = new Date()) {
+/** The times a room of a studio is kept (its bookings' start to busy-until) over [from, to). */
+export async function busyIntervals(room: { id: string; studioId: string }, from: Date, to: Date, now = new Date()) {
 	return db
 		.select({ start: booking.startsAt, end: booking.endsAt })
 		.from(booking)
-		.where(and(eq(booking.roomId, roomId), occupying(now), lt(booking.startsAt, to), gt(booking.busyUntil, from)))
+		.where(
+			and(
+				eq(booking.studioId, room.studioId),
+				eq(booking.roomId, room.id),
+				occupying(now),
+				lt(booking.startsAt, to),
+				gt(booking.busyUntil, from)
+			)
+		)
 		.orderBy(asc(booking.startsAt));
 }
 
@@ -105,10 +113,7 @@ export async function availability(
 	if (!roomRow) return { ok: false, fields: { room: ['There is no room by that name.'] } };
 	const tz = ctx.policy.timeZone;
 	const window = instantsAround(from, to);
-	const [busy, blackouts] = await Promise.all([
-		busyIntervals(roomRow.id, window.start, window.end, now),
-		closedDays(ctx, from, to)
-	]);
+	const [busy, blackouts] = await Promise.all([busyIntervals(roomRow, window.start, window.end, now), closedDays(ctx, from, to)]);
 	const result = computeAvailability({ from, to, policy: ctx.policy, busy, blackouts, now });
 	return {
 		ok: true,
@@ -140,7 +145,7 @@ export async function nearestStarts(
 	const windowStart = shiftDays(wanted, -5);
 	const windowEnd = shiftDays(wanted, 5);
 	const [busy, blackouts, resources] = await Promise.all([
-		busyIntervals(roomRow.id, windowStart, windowEnd, now),
+		busyIntervals(roomRow, windowStart, windowEnd, now),
 		closedDays(ctx, from, to),
 		resourceCalendar(ctx.studio.id, needs, windowStart, windowEnd, now)
 	]);
@@ -178,7 +183,7 @@ export async function rebookable(
 	const minutes = minutesBetween(b.startsAt, b.endsAt);
 	const days = localDays(b.startsAt, b.endsAt, tz);
 	const [busy, blackouts] = await Promise.all([
-		busyIntervals(roomRow.id, shiftDays(start, -2), shiftDays(b.endsAt, 2), now),
+		busyIntervals(roomRow, shiftDays(start, -2), shiftDays(b.endsAt, 2), now),
 		closedDays(ctx, days.first, days.last)
 	]);
 	let fits = false;

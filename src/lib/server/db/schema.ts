@@ -232,7 +232,7 @@ export const booking = pgTable(
 		uniqueIndex('booking_studio_reference_idx').on(t.studioId, t.reference),
 		foreignKey({ name: 'booking_room_fk', columns: [t.studioId, t.roomId], foreignColumns: [room.studioId, room.id] }),
 		index('booking_studio_time_idx').on(t.studioId, t.startsAt),
-		index('booking_room_time_idx').on(t.roomId, t.startsAt),
+		index('booking_room_time_idx').on(t.studioId, t.roomId, t.startsAt),
 		index('booking_artist_idx').on(t.artistId, t.startsAt),
 		index('booking_status_idx').on(t.status, t.holdExpiresAt),
 		check('booking_times', sql`${t.endsAt} > ${t.startsAt} and ${t.busyUntil} >= ${t.endsAt}`),
