@@ -1,5 +1,5 @@
 import type { Page } from '@playwright/test';
-import { expect, test } from './support';
+import { acceptSteps, addRoom, expect, publishStudio, saveVat, signUp, test } from './support';
 
 /**
  * With SETUP_SCREENSHOTS=<folder>, each screen of the flow is also saved at a desktop (1280 px) and
@@ -27,10 +27,7 @@ test('a new person signs up, sets up a studio with a room, publishes it and find
 	await shot(page, '01-front');
 	await page.getByTestId('set-up-cta').click();
 	await expect(page).toHaveURL(/\/sign-up\?next=%2Fstudios%2Fnew$/);
-	await page.getByLabel('Your name or band').fill('Harriet Quay');
-	await page.getByLabel('E-mail').fill(`harbour-${tag}@slateroom.test`);
-	await page.getByLabel('Password').fill('a-long-enough-pass');
-	await page.getByRole('button', { name: 'Create account' }).click();
+	await signUp(page, { name: 'Harriet Quay', email: `harbour-${tag}@slateroom.test`, password: 'a-long-enough-pass' });
 	await expect(page).toHaveURL(/\/studios\/new$/);
 
 	// The short name follows the name as typed and is checked; the country proposes zone and currency.
@@ -64,8 +61,7 @@ test('a new person signs up, sets up a studio with a room, publishes it and find
 
 	await expect(page.getByRole('heading', { level: 1, name: 'VAT' })).toBeVisible();
 	await shot(page, '04-vat');
-	await page.getByLabel('VAT rate (%)').fill('25');
-	await page.getByRole('button', { name: 'Save and continue' }).click();
+	await saveVat(page, '25');
 
 	// Left half-way, the owner's desk leads back into the set-up.
 	await expect(page.getByRole('heading', { level: 1, name: 'Rooms' })).toBeVisible();
@@ -78,28 +74,17 @@ test('a new person signs up, sets up a studio with a room, publishes it and find
 	// Without a room the set-up does not move on.
 	await page.getByRole('button', { name: 'Continue', exact: true }).click();
 	await expect(page.getByText('Add at least one bookable room first.')).toBeVisible();
-	const adding = page.getByRole('form', { name: 'Add a room' });
-	await adding.getByLabel('Name').fill('Tracking room');
-	await adding.getByLabel('Per hour (NOK)').fill('450');
-	await adding.getByLabel(/^Half day/).fill('1600');
-	await adding.getByLabel(/^Full day/).fill('3000');
-	await adding.getByRole('button', { name: 'Add room' }).click();
-	await expect(page.getByRole('form', { name: 'Rate card: Tracking room' })).toBeVisible();
+	await addRoom(page, { name: 'Tracking room', currency: 'NOK', hourly: '450', halfDay: '1600', fullDay: '3000' });
 	await shot(page, '06-rooms');
 	await page.getByRole('button', { name: 'Continue', exact: true }).click();
 
-	for (const heading of ['Engineer rates', 'Opening hours', 'Booking rules', 'Public holidays']) {
-		await expect(page.getByRole('heading', { level: 1, name: heading })).toBeVisible();
-		await shot(page, `07-${heading.toLowerCase().replace(/ /g, '-')}`);
-		await page.getByRole('button', { name: 'Save and continue' }).click();
-	}
+	await acceptSteps(page, undefined, (heading) => shot(page, `07-${heading.toLowerCase().replace(/ /g, '-')}`));
 
 	await expect(page.getByRole('heading', { level: 1, name: 'Review and publish' })).toBeVisible();
 	await expect(page.getByTestId('review')).toContainText('Bryggen 7');
 	await expect(page.getByTestId('review')).toContainText('Tracking room');
 	await shot(page, '08-review');
-	await page.getByRole('button', { name: 'Publish the studio' }).click();
-	await expect(page.getByTestId('published')).toContainText(`/${slug}`);
+	await publishStudio(page, slug);
 
 	await page.goto('/studio');
 	await expect(page.getByTestId('setup-progress')).toHaveCount(0);

@@ -1,8 +1,7 @@
-import { expect, newContext, signIn, test } from './support';
+import { acceptInvitationAsNewcomer, expect, invite, signIn, test } from './support';
 import { Client } from '../support/http';
 import { testDb } from '../support/db';
-import { waitFor } from '../support/wait';
-import { invitationIdIn, joinTeam, mailTo, makeStudio, userIdOf } from '../support/team';
+import { joinTeam, makeStudio, userIdOf } from '../support/team';
 
 // An owner builds a team in the browser: invites an engineer by e-mail on the People page; the
 // engineer opens the link from the e-mail, creates an account with that address, accepts, and
@@ -26,32 +25,20 @@ test('an owner invites an engineer, who accepts in the browser and sees that stu
 	await page.goto('/studio/people');
 	await expect(page).toHaveTitle(`People · ${studio.name}`);
 	const engineerEmail = `engineer-${run}@team-e2e.slateroom.test`;
-	await page.getByLabel('E-mail').fill(engineerEmail);
-	await page.getByLabel('Role', { exact: true }).selectOption('engineer');
-	await page.getByRole('button', { name: 'Send invitation' }).click();
-	await expect(page.getByRole('status')).toContainText(`Invitation sent to ${engineerEmail}`);
-	await expect(page.getByTestId('pending-invitations')).toContainText(engineerEmail);
+	await invite(page, engineerEmail, 'engineer');
 
 	// The engineer's own browser, with the link from the e-mail.
-	const mail = await waitFor(async () => (await mailTo(engineerEmail))[0], 'the invitation e-mail');
-	const id = invitationIdIn(mail.text);
-	expect(id).toBeDefined();
-	const context = await newContext(browser);
-	const engineer = await context.newPage();
-	await engineer.goto(`/invitations/${id}`);
-	await expect(engineer.getByTestId('invitation-summary')).toContainText(`${studio.name}'s team as an engineer`);
-	await engineer.getByRole('link', { name: 'Create an account' }).click();
-	await engineer.getByLabel('Your name or band').fill('Aarne Koski');
-	await engineer.getByLabel('E-mail').fill(engineerEmail);
-	await engineer.getByLabel('Password').fill(password);
-	await engineer.getByRole('button', { name: 'Create account' }).click();
-	await engineer.getByRole('button', { name: `Accept and join ${studio.name}` }).click();
+	const engineer = await acceptInvitationAsNewcomer(browser, studio.name, 'an engineer', {
+		name: 'Aarne Koski',
+		email: engineerEmail,
+		password
+	});
 
 	await expect(engineer).toHaveURL(/\/plan$/);
 	await expect(engineer).toHaveTitle(`Day plan · ${studio.name}`);
 	await expect(engineer.locator('header')).toContainText(studio.name);
 	await expect(engineer.getByTestId('signed-in-as')).toContainText('Engineer');
-	await context.close();
+	await engineer.context().close();
 
 	// The owner's list: the engineer is in the team, the invitation no longer waits.
 	await page.reload();
