@@ -36,7 +36,7 @@ test('an owner invites an engineer, who accepts in the browser and sees that stu
 
 	await expect(engineer).toHaveURL(/\/plan$/);
 	await expect(engineer).toHaveTitle(`Day plan · ${studio.name}`);
-	await expect(engineer.locator('header')).toContainText(studio.name);
+	await expect(engineer.getByRole('banner')).toContainText(studio.name);
 	await expect(engineer.getByTestId('signed-in-as')).toContainText('Engineer');
 	await engineer.context().close();
 
