@@ -4,6 +4,7 @@
 import { eq, sql } from 'drizzle-orm';
 import type { Database } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
+import { policyColumns, seedSurcharges } from './seed-policy';
 import { SECOND_BOOKING_IDS, SECOND_POLICY as P, SECOND_ROOMS, SECOND_STUDIO, SECOND_TEAM } from '../src/lib/domain/demo-second';
 import { newReference } from '../src/lib/server/bookings/reference';
 import { quoteBooking } from '../src/lib/domain/pricing';
@@ -24,6 +25,7 @@ async function seedStudio(db: Database): Promise<string> {
 		.values({
 			id: studioId,
 			published: true,
+			...policyColumns(P),
 			name: SECOND_STUDIO.name,
 			tagline: 'A pine loft for bands and voices, above a carpentry workshop near Falun.',
 			description:
@@ -32,52 +34,14 @@ async function seedStudio(db: Database): Promise<string> {
 			postalCode: '791 99',
 			city: 'Falun (invented address)',
 			referencePrefix: 'TL',
-			country: P.country,
 			email: 'hej@tallbacken.test',
 			vatId: 'SE000000000001',
-			timeZone: P.timeZone,
-			currency: P.currency,
 			locale: 'en-GB',
-			vatRateBp: P.vatRateBp,
-			pricesIncludeVat: P.pricesIncludeVat,
-			halfDayMinutes: P.blocks.halfDayMinutes,
-			fullDayMinutes: P.blocks.fullDayMinutes,
-			minBookingMinutes: P.minBookingMinutes,
-			incrementMinutes: P.incrementMinutes,
-			turnaroundMinutes: P.turnaroundMinutes,
-			minNoticeMinutes: P.minNoticeMinutes,
-			horizonDays: P.horizonDays,
-			holdMinutes: P.holdMinutes,
-			depositBp: P.depositBp,
-			depositMinimum: P.depositMinimum,
-			overtimeIncrementMinutes: P.overtimeIncrementMinutes,
-			engineerHourly: P.engineerRates.hourly,
-			engineerHalfDay: P.engineerRates.halfDay,
-			engineerFullDay: P.engineerRates.fullDay,
 			// Closed on Swedish public holidays (date-holidays' data for SE).
-			closedOnPublicHolidays: true,
-			openingHours: P.openingHours.map((h) => ({ ...h })),
-			cancellation: P.cancellation.map((c) => ({ ...c }))
+			closedOnPublicHolidays: true
 		})
 		.onConflictDoNothing();
-	const [{ n } = { n: 0 }] = await db
-		.select({ n: sql<number>`count(*)::int` })
-		.from(t.surchargeRule)
-		.where(eq(t.surchargeRule.studioId, studioId));
-	if (n === 0) {
-		await db.insert(t.surchargeRule).values(
-			P.surcharges.map((r, i) => ({
-				studioId,
-				label: r.label,
-				kind: r.kind,
-				percentBp: r.percentBp,
-				weekdays: [...r.weekdays],
-				fromMinute: r.fromMinute,
-				toMinute: r.toMinute,
-				sortOrder: i + 1
-			}))
-		);
-	}
+	await seedSurcharges(db, studioId, P);
 	return studioId;
 }
 

@@ -5,6 +5,7 @@ import { eq, sql } from 'drizzle-orm';
 import { hashPassword } from 'better-auth/crypto';
 import { createDb } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
+import { policyColumns, seedSurcharges } from './seed-policy';
 import { seedDemoBookings } from './seed-bookings';
 import { seedSecondStudio } from './seed-second';
 import { DEMO_POLICY as P, DEMO_ROOMS } from '../src/lib/domain/demo';
@@ -37,6 +38,7 @@ async function seedStudio(): Promise<string> {
 		.values({
 			id: studioId,
 			published: true,
+			...policyColumns(P),
 			name: 'Hollow Pine Studio',
 			tagline: 'A converted barn for tracking bands and voices, outside Tampere.',
 			description:
@@ -44,54 +46,16 @@ async function seedStudio(): Promise<string> {
 			street: 'Kuusikkotie 14',
 			postalCode: '33980',
 			city: 'Pirkkala (invented address)',
-			country: P.country,
 			referencePrefix: 'HP',
 			setupDone: [...SETUP_STEPS],
 			email: 'hello@hollowpine.test',
 			vatId: 'FI00000000',
-			timeZone: P.timeZone,
-			currency: P.currency,
 			locale: 'en-GB',
-			vatRateBp: P.vatRateBp,
-			pricesIncludeVat: P.pricesIncludeVat,
-			halfDayMinutes: P.blocks.halfDayMinutes,
-			fullDayMinutes: P.blocks.fullDayMinutes,
-			minBookingMinutes: P.minBookingMinutes,
-			incrementMinutes: P.incrementMinutes,
-			turnaroundMinutes: P.turnaroundMinutes,
-			minNoticeMinutes: P.minNoticeMinutes,
-			horizonDays: P.horizonDays,
-			holdMinutes: P.holdMinutes,
-			depositBp: P.depositBp,
-			depositMinimum: P.depositMinimum,
-			overtimeIncrementMinutes: P.overtimeIncrementMinutes,
-			engineerHourly: P.engineerRates.hourly,
-			engineerHalfDay: P.engineerRates.halfDay,
-			engineerFullDay: P.engineerRates.fullDay,
-			closedOnPublicHolidays: false,
-			openingHours: P.openingHours.map((h) => ({ ...h })),
-			cancellation: P.cancellation.map((c) => ({ ...c }))
+			closedOnPublicHolidays: false
 		})
 		.onConflictDoNothing();
 
-	const [{ count } = { count: 0 }] = await db
-		.select({ count: sql<number>`count(*)::int` })
-		.from(t.surchargeRule)
-		.where(eq(t.surchargeRule.studioId, studioId));
-	if (count === 0) {
-		await db.insert(t.surchargeRule).values(
-			P.surcharges.map((r, i) => ({
-				studioId,
-				label: r.label,
-				kind: r.kind,
-				percentBp: r.percentBp,
-				weekdays: [...r.weekdays],
-				fromMinute: r.fromMinute,
-				toMinute: r.toMinute,
-				sortOrder: i + 1
-			}))
-		);
-	}
+	await seedSurcharges(db, studioId, P);
 	return studioId;
 }
 
