@@ -2,7 +2,7 @@
 import { error } from '@sveltejs/kit';
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
-import { booking, organization, room, studio, surchargeRule } from './db/schema';
+import { organization, room, studio, surchargeRule } from './db/schema';
 import type { RoomRates, StudioPolicy } from '$lib/domain/types';
 import { staffActor } from './actor';
 import type { Membership } from './team';
@@ -11,26 +11,17 @@ import { RESERVED_SLUGS, hasSlugShape } from '$lib/domain/studio-slug';
 export type StudioRow = typeof studio.$inferSelect;
 export type RoomRow = typeof room.$inferSelect;
 
-/**
- * A studio by its id; without one, the studio the app serves today (the first one made) until the
- * pages are routed by studio. A database with no studio yet (SEED_DEMO=0) answers 404 there, not 500.
- */
-export async function getStudio(id?: string): Promise<StudioRow> {
+/** A studio by its id; 404 when there is none (never a 500). */
+export async function getStudio(id: string): Promise<StudioRow> {
 	const row = await findStudio(id);
-	if (!row) error(404, { error: 'not_found', message: 'No studio is set up here yet.' });
+	if (!row) error(404, { error: 'not_found', message: 'There is no such studio.' });
 	return row;
 }
 
-/** The studio by its id (without one, the first made), or null when there is none. */
-export async function findStudio(id?: string): Promise<StudioRow | null> {
-	const [row] = await db
-		.select({ studio })
-		.from(studio)
-		.innerJoin(organization, eq(organization.id, studio.id))
-		.where(id === undefined ? undefined : eq(studio.id, id))
-		.orderBy(asc(organization.createdAt), asc(organization.id))
-		.limit(1);
-	return row?.studio ?? null;
+/** A studio by its id, or null when there is none. */
+export async function findStudio(id: string): Promise<StudioRow | null> {
+	const [row] = await db.select().from(studio).where(eq(studio.id, id));
+	return row ?? null;
 }
 
 export function policyFrom(row: StudioRow, surcharges: (typeof surchargeRule.$inferSelect)[]): StudioPolicy {
@@ -67,7 +58,7 @@ export function policyFrom(row: StudioRow, surcharges: (typeof surchargeRule.$in
 	};
 }
 
-export async function getPolicy(id?: string): Promise<{ studio: StudioRow; policy: StudioPolicy }> {
+export async function getPolicy(id: string): Promise<{ studio: StudioRow; policy: StudioPolicy }> {
 	const row = await getStudio(id);
 	const surcharges = await db
 		.select()
@@ -131,25 +122,6 @@ export async function studioBySlug(slug: string, memberships: readonly Membershi
 	const membership = memberships.find((m) => m.studioId === row.studio.id) ?? null;
 	if (!row.studio.published && !membership) return null;
 	return { studio: row.studio, slug: row.slug, membership };
-}
-
-/** A studio's short name (its storefront's first path segment). */
-export async function slugOf(studioId: string): Promise<string> {
-	const [row] = await db.select({ slug: organization.slug }).from(organization).where(eq(organization.id, studioId));
-	if (!row) throw new Error(`studio ${studioId} has no organization`);
-	return row.slug;
-}
-
-/** The studio a booking belongs to, with its short name (the booking's own, never the viewer's). */
-export async function studioOfBooking(bookingId: string): Promise<{ studio: StudioRow; slug: string }> {
-	const [row] = await db
-		.select({ studio, slug: organization.slug })
-		.from(booking)
-		.innerJoin(studio, eq(studio.id, booking.studioId))
-		.innerJoin(organization, eq(organization.id, booking.studioId))
-		.where(eq(booking.id, bookingId));
-	if (!row) throw new Error(`booking ${bookingId} has no studio`);
-	return row;
 }
 
 /** The studio a staff member works in now (403 for anyone outside a team). */
