@@ -24,6 +24,7 @@ import {
 } from 'drizzle-orm/pg-core';
 import { organization, user } from './auth-schema';
 import type { CancellationRung, OpeningHours } from '$lib/domain/types';
+import type { BillingDetails } from '$lib/domain/billing';
 // A relative import: drizzle-kit and the scripts load this file without SvelteKit's aliases.
 import { BOOKING_STATUSES, type BookingStatus } from '../../domain/lifecycle';
 
@@ -94,9 +95,32 @@ export const studio = pgTable(
 		closedOnPublicHolidays: boolean('closed_on_public_holidays').notNull().default(false),
 		openingHours: jsonb('opening_hours').$type<OpeningHours[]>().notNull(),
 		cancellation: jsonb('cancellation').$type<CancellationRung[]>().notNull(),
+		/**
+		 * Business buyers in another EU member state pay no VAT here; they account for it (reverse
+		 * charge, Directive 2006/112/EC Articles 44 and 196; EN 16931 category AE). Off by default.
+		 */
+		reverseChargeAbroad: boolean('reverse_charge_abroad').notNull().default(false),
+		/** The studio's own Stripe account (Connect, direct charges): deposits and refunds run on it. */
+		stripeAccountId: text('stripe_account_id').unique(),
+		/** From the account's last `account.updated`: whether it may take charges and pay out now. */
+		chargesEnabled: boolean('charges_enabled').notNull().default(false),
+		payoutsEnabled: boolean('payouts_enabled').notNull().default(false),
+		detailsSubmitted: boolean('details_submitted').notNull().default(false),
+		/** The account's `requirements.currently_due`: what the owner still has to give. */
+		accountRequirements: text('account_requirements')
+			.array()
+			.notNull()
+			.default(sql`'{}'::text[]`),
+		/** `created` of the account event last applied, so an older event arriving late changes nothing. */
+		accountEventAt: ts('account_event_at'),
+		/** The platform's fee on each charge, in basis points of the amount (application_fee_amount). */
+		platformFeeBp: integer('platform_fee_bp').notNull().default(0),
 		updatedAt: updated()
 	},
-	(t) => [check('studio_reference_prefix_shape', sql`${t.referencePrefix} ~ '^[A-Z]{2,4}$'`)]
+	(t) => [
+		check('studio_reference_prefix_shape', sql`${t.referencePrefix} ~ '^[A-Z]{2,4}$'`),
+		check('studio_platform_fee_range', sql`${t.platformFeeBp} between 0 and 10000`)
+	]
 );
 
 export const surchargeRule = pgTable(
@@ -224,6 +248,8 @@ export const booking = pgTable(
 		cancelReason: text('cancel_reason'),
 		/** RFC 5545 SEQUENCE: rises each time the booking is moved. */
 		sequence: integer('sequence').notNull().default(0),
+		/** The buyer chosen at booking; null: the artist's name alone (documents issued earlier keep theirs). */
+		billing: jsonb('billing').$type<BillingDetails>(),
 		createdAt: created(),
 		updatedAt: updated()
 	},
@@ -341,6 +367,10 @@ export const payment = pgTable(
 		 * method): how much of it goes back if it arrives, by the ladder at the cancellation.
 		 */
 		refundOnArrival: money('refund_on_arrival'),
+		/** The connected account the Checkout Session was made on; null: the platform's own (before Connect). */
+		stripeAccountId: text('stripe_account_id'),
+		/** The platform's fee asked on this charge (application_fee_amount), minor units. */
+		applicationFee: money('application_fee').notNull().default(0),
 		createdAt: created(),
 		updatedAt: updated()
 	},
@@ -383,6 +413,8 @@ export const refund = pgTable(
 		requestedBy: text('requested_by').references(() => user.id),
 		/** When the refund request reached Stripe (null: not sent yet; the payments job retries). */
 		sentAt: ts('sent_at'),
+		/** The connected account the refund is made on (its payment's); null: the platform's own. */
+		stripeAccountId: text('stripe_account_id'),
 		createdAt: created(),
 		updatedAt: updated()
 	},
@@ -401,6 +433,8 @@ export const refund = pgTable(
 export const stripeEvent = pgTable('stripe_event', {
 	id: text('id').primaryKey(),
 	type: text('type').notNull(),
+	/** The connected account a Connect event came from; null for the platform's own events. */
+	account: text('account'),
 	receivedAt: created(),
 	processedAt: ts('processed_at')
 });
@@ -596,6 +630,29 @@ export const calendarFeed = pgTable('calendar_feed', {
 	token: text('token').notNull().unique(),
 	createdAt: created()
 });
+
+/** The billing details an artist keeps in their account (one set), offered when they book. */
+export const billingDetails = pgTable(
+	'billing_details',
+	{
+		userId: text('user_id')
+			.primaryKey()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		kind: text('kind').$type<BillingDetails['kind']>().notNull(),
+		name: text('name').notNull(),
+		street: text('street').notNull(),
+		postalCode: text('postal_code').notNull(),
+		city: text('city').notNull(),
+		country: text('country').notNull(),
+		vatId: text('vat_id').notNull().default(''),
+		updatedAt: updated()
+	},
+	(t) => [
+		check('billing_details_kind', sql`${t.kind} in ('person', 'organisation')`),
+		check('billing_details_country', sql`${t.country} ~ '^[A-Z]{2}$'`),
+		check('billing_details_vat_only_organisation', sql`${t.vatId} = '' or ${t.kind} = 'organisation'`)
+	]
+);
 
 /**
  * Sign-in failures and sign-ups, counted per client address and account in the database so
