@@ -288,6 +288,9 @@ describe('an account that cannot take charges', () => {
 		const s = await fx.stripe.checkout.sessions.create(depositParams(), { stripeAccount: a });
 		await fx.control('POST', `/accounts/${a}/requirements`, { currently_due: ['external_account'] });
 
+		const shown = await fetch(s.url ?? '', { signal: AbortSignal.timeout(60_000) });
+		expect(await shown.text()).toContain(`Paid to</dt><dd>a connected account (<code>${a}</code>)`);
+
 		const viaControl = await fx.control('POST', `/sessions/${s.id}/pay`);
 		expect(viaControl.status).toBe(400);
 		expect(viaControl.json).toMatchObject({ error: { code: 'charges_not_enabled' } });
