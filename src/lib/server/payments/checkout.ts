@@ -279,12 +279,12 @@ async function supersede(paymentId: string, reason: string): Promise<void> {
 /**
  * Stripe refuses a charge on the connected account itself: an account it does not know or that
  * was disconnected (403 account_invalid, Stripe docs "Error codes"), or one that cannot take
- * charges yet (fake-services/stripe/README.md names the code the fake answers with).
+ * charges yet (400 charges_not_enabled; fake-services/stripe/README.md, "Connect").
  */
 export function accountRefused(err: { type?: string; code?: string; statusCode?: number }): boolean {
 	return (
 		err.code === 'account_invalid' ||
-		err.code === 'account_charges_disabled' ||
+		err.code === 'charges_not_enabled' ||
 		(err.statusCode === 403 && err.type === 'StripePermissionError')
 	);
 }
