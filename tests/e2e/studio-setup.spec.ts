@@ -66,7 +66,7 @@ test('a new person signs up, sets up a studio with a room, publishes it and find
 	// Left half-way, the owner's desk leads back into the set-up.
 	await expect(page.getByRole('heading', { level: 1, name: 'Rooms' })).toBeVisible();
 	await page.goto('/studio');
-	await expect(page.getByTestId('setup-progress')).toContainText('Set-up: 2 of 7 done');
+	await expect(page.getByTestId('setup-progress')).toContainText('Set-up: 2 of 8 done');
 	await shot(page, '05-desk-half-way');
 	await page.getByRole('link', { name: 'Continue the set-up' }).click();
 	await expect(page.getByRole('heading', { level: 1, name: 'Rooms' })).toBeVisible();
