@@ -11,6 +11,8 @@
 // is inside all of that, whatever the hour of the run, and is nobody else's (a studio of its own).
 import { referencePrefixFromName } from '../../src/lib/domain/setup';
 import { addDays, studioToday, workdayFrom } from '../support/dates';
+import { studioIdOf, testDb } from '../support/db';
+import { connectStudio } from '../support/team';
 import {
 	acceptInvitationAsNewcomer,
 	acceptSteps,
@@ -28,6 +30,9 @@ import {
 } from './support';
 
 const HOLLOW_PINE_ROOMS = ['Live room', 'Vocal booth', 'Control room'];
+
+const { db, client } = testDb();
+test.afterAll(() => client.end());
 
 test('a new studio is set up, booked and paid, and its own accountant and engineer see it alone', async ({ page, browser }) => {
 	const tag = crypto.randomUUID().slice(0, 6).replace(/[0-9]/g, 'x');
@@ -49,6 +54,8 @@ test('a new studio is set up, booked and paid, and its own accountant and engine
 	await page.getByRole('button', { name: 'Continue', exact: true }).click();
 	await acceptSteps(page);
 	await publishStudio(page, slug);
+	// Deposits are paid into the studio's own payment account: one that can take charges.
+	await connectStudio(db, await studioIdOf(db, slug));
 
 	// 2. An artist of their own finds the studio, books a half day in its room and pays the deposit.
 	const day = workdayFrom(addDays(studioToday(), 3));

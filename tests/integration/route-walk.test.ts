@@ -21,6 +21,7 @@ import { DEMO } from '../support/env';
 import { Client, signedIn } from '../support/http';
 import { wav } from '../support/audio';
 import * as t from '../../src/lib/server/db/schema';
+import { connectStudio, settingsOf } from '../support/team';
 import { issueDocument } from '../../src/lib/server/invoices/issue';
 import { documentTotals, lumpSumLines } from '../../src/lib/domain/invoice';
 
@@ -313,10 +314,11 @@ async function makeStudioB(): Promise<B> {
 		.select()
 		.from(t.studio)
 		.where(eq(t.studio.id, await studioIdOf(db)));
-	const { id: _id, updatedAt: _u, ...settings } = demo!;
+	const settings = settingsOf(demo!);
 	await db
 		.insert(t.studio)
 		.values({ ...settings, id, name, published: false, email: `${mark.toLowerCase()}@walk.slateroom.test` });
+	await connectStudio(db, id);
 	const owner = await person('Owner');
 	const engineer = await person('Engineer');
 	const artist = await person('Artist');

@@ -11,6 +11,7 @@ import { Client, signedIn } from '../support/http';
 import { workdaysAhead } from '../support/dates';
 import { expectRefused, expectRefusedPage } from '../support/refusal';
 import * as t from '../../src/lib/server/db/schema';
+import { connectStudio, settingsOf } from '../support/team';
 
 const { db, client } = testDb();
 const [DAY] = workdaysAhead(110, 1);
@@ -43,8 +44,8 @@ async function makeStudio(label: string, published: boolean): Promise<MadeStudio
 		.select()
 		.from(t.studio)
 		.where(eq(t.studio.id, await studioIdOf(db)));
-	const { id: _id, updatedAt: _u, ...settings } = demo!;
-	await db.insert(t.studio).values({ ...settings, id, name, published });
+	await db.insert(t.studio).values({ ...settingsOf(demo!), id, name, published });
+	await connectStudio(db, id);
 	const roomSlug = `${label}-room`;
 	const roomName = `${label} room ${id.slice(0, 6)}`;
 	const [room] = await db
