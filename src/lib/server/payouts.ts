@@ -50,7 +50,20 @@ async function ensureAccount(studioId: string): Promise<string> {
  * return and refresh addresses are our own pages on `origin`. Returns the link's address.
  */
 export async function startGetPaid(studioId: string, origin: string): Promise<string> {
-	const account = await ensureAccount(studioId);
+	return onboardingLink(await ensureAccount(studioId), origin);
+}
+
+/**
+ * A fresh onboarding link for the studio's existing account (an expired or used link's
+ * refresh_url lands here); null when the studio has no account yet, which only the owner's
+ * button makes.
+ */
+export async function renewLink(studioId: string, origin: string): Promise<string | null> {
+	const [row] = await db.select({ account: studio.stripeAccountId }).from(studio).where(eq(studio.id, studioId));
+	return row?.account ? onboardingLink(row.account, origin) : null;
+}
+
+async function onboardingLink(account: string, origin: string): Promise<string> {
 	const link = await stripe().accountLinks.create({
 		account,
 		type: 'account_onboarding',

@@ -9,12 +9,12 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = async ({ locals, url }) => {
 	requireRole(locals, 'owner');
 	const { studioId } = staffActor(locals, null);
-	let link: string;
+	let link: string | null;
 	try {
-		link = await payouts.startGetPaid(studioId, url.origin);
+		link = await payouts.renewLink(studioId, url.origin);
 	} catch (e) {
 		console.error('get paid: a new onboarding link failed', e instanceof Error ? e.message : e);
 		redirect(303, '/studio/get-paid');
 	}
-	redirect(303, link);
+	redirect(303, link ?? '/studio/get-paid');
 };
