@@ -1,11 +1,14 @@
 /**
  * The /v1 API: authentication, parameter validation, idempotency, expansion, lists and routing.
  * `handleApi` is synchronous once the body has been read, which makes every request atomic.
+ *
+ * A `Stripe-Account` header (the SDK's `stripeAccount` option) makes the call on that connected
+ * account: what it creates belongs to the account, and it sees only the account's objects.
  */
 import type { IncomingHttpHeaders } from 'node:http';
 import { type FormObject, type FormValue, FormParseError, parseForm, stableStringify } from './form.js';
 import { type ListObject, type Metadata, type RequestContext, StripeApiError, THREE_DECIMAL, err, newId } from './objects.js';
-import type { CreateSessionInput, LineItemInput, StripeFakeState } from './state.js';
+import type { CreateAccountInput, CreateSessionInput, LineItemInput, Scope, StripeFakeState } from './state.js';
 
 export interface ApiRequest {
 	method: string;
@@ -66,6 +69,14 @@ function int(params: Params, key: string, name = key): number | null {
 		throw err.invalid(name, `Invalid integer: ${typeof v === 'string' ? v : JSON.stringify(v)}`, 'parameter_invalid_integer');
 	}
 	return Number(v);
+}
+
+function bool(params: Params, key: string, name = key): boolean | null {
+	const v = params[key];
+	if (v === undefined || v === '') return null;
+	if (v === 'true') return true;
+	if (v === 'false') return false;
+	throw err.invalid(name, `Invalid boolean: ${typeof v === 'string' ? v : JSON.stringify(v)}`, 'parameter_invalid_boolean');
 }
 
 function maxLength(value: string | null, max: number, name: string): void {
@@ -137,29 +148,31 @@ const EXPANDABLE: Record<string, ReadonlySet<string>> = {
 		'payment_link'
 	]),
 	payment_intent: new Set(['latest_charge', 'customer', 'payment_method', 'application', 'on_behalf_of', 'review']),
-	charge: new Set(['payment_intent', 'customer', 'balance_transaction', 'payment_method']),
-	refund: new Set(['charge', 'payment_intent', 'balance_transaction'])
+	charge: new Set(['payment_intent', 'customer', 'balance_transaction', 'payment_method', 'application_fee', 'application']),
+	refund: new Set(['charge', 'payment_intent', 'balance_transaction']),
+	account: new Set([]),
+	application_fee: new Set(['account', 'application', 'balance_transaction', 'charge', 'originating_transaction'])
 };
 
-function expandAt(state: StripeFakeState, value: unknown, segments: string[], path: string): unknown {
+function expandAt(state: StripeFakeState, scope: Scope, value: unknown, segments: string[], path: string): unknown {
 	const [field, ...rest] = segments;
 	if (field === undefined || value === null || typeof value !== 'object') return value;
 	const obj = value as Record<string, unknown>;
 	if (obj.object === 'list' && Array.isArray(obj.data)) {
 		if (field !== 'data') throw err.invalid('expand', `This property cannot be expanded (${path}).`);
-		obj.data = obj.data.map((item) => expandAt(state, item, rest, path));
+		obj.data = obj.data.map((item) => expandAt(state, scope, item, rest, path));
 		return obj;
 	}
 	const kind = typeof obj.object === 'string' ? obj.object : '';
 	if (!EXPANDABLE[kind]?.has(field)) throw err.invalid('expand', `This property cannot be expanded (${path}).`);
 	let child = obj[field];
 	if (kind === 'checkout.session' && field === 'line_items' && typeof obj.id === 'string') {
-		child = lineItemsList(state, obj.id, {});
+		child = lineItemsList(state, scope, obj.id, {});
 	} else if (typeof child === 'string') {
-		const found = state.findById(child);
+		const found = state.findById(child, scope);
 		if (found) child = structuredClone(found);
 	}
-	obj[field] = expandAt(state, child, rest, path);
+	obj[field] = expandAt(state, scope, child, rest, path);
 	return obj;
 }
 
@@ -173,12 +186,12 @@ function expandFor(params: Params, kind: string): string[] {
 	return list;
 }
 
-function render<T extends object>(state: StripeFakeState, object: T, expand: string[]): T {
+function render<T extends object>(state: StripeFakeState, scope: Scope, object: T, expand: string[]): T {
 	let out: unknown = structuredClone(object);
 	for (const path of expand) {
 		const segments = path.split('.');
 		if (segments.length > 4) throw err.invalid('expand', `You cannot expand more than 4 levels of a property (${path}).`);
-		out = expandAt(state, out, segments, path);
+		out = expandAt(state, scope, out, segments, path);
 	}
 	return out as T;
 }
@@ -223,8 +236,8 @@ function paginate<T extends { id: string }>(newestFirst: T[], params: Params, li
 	};
 }
 
-function lineItemsList(state: StripeFakeState, sessionId: string, params: Params) {
-	const rec = state.requireSession(sessionId);
+function lineItemsList(state: StripeFakeState, scope: Scope, sessionId: string, params: Params) {
+	const rec = state.requireSession(sessionId, scope);
 	// Line items keep the order they were given in.
 	return paginate(structuredClone(rec.lineItems), params, `/v1/checkout/sessions/${sessionId}/line_items`);
 }
@@ -278,6 +291,7 @@ const PRICE_DATA_PARAMS = new Set([
 ]);
 const PRODUCT_DATA_PARAMS = new Set(['name', 'description', 'metadata', 'images', 'tax_code', 'unit_label']);
 const PI_DATA_PARAMS = new Set([
+	'application_fee_amount',
 	'metadata',
 	'description',
 	'receipt_email',
@@ -392,7 +406,8 @@ function parseCreateSession(state: StripeFakeState, params: Params): CreateSessi
 	let piData: CreateSessionInput['paymentIntentData'] = {
 		metadata: {},
 		description: null,
-		receiptEmail: null
+		receiptEmail: null,
+		applicationFeeAmount: null
 	};
 	if (pid !== undefined && pid !== '') {
 		if (!isObject(pid)) throw err.invalid('payment_intent_data', 'Invalid object: payment_intent_data must be a hash.');
@@ -400,8 +415,16 @@ function parseCreateSession(state: StripeFakeState, params: Params): CreateSessi
 		piData = {
 			metadata: metadata(pid.metadata, 'payment_intent_data[metadata]'),
 			description: str(pid, 'description', 'payment_intent_data[description]'),
-			receiptEmail: str(pid, 'receipt_email', 'payment_intent_data[receipt_email]')
+			receiptEmail: str(pid, 'receipt_email', 'payment_intent_data[receipt_email]'),
+			applicationFeeAmount: int(pid, 'application_fee_amount', 'payment_intent_data[application_fee_amount]')
 		};
+		if (piData.applicationFeeAmount !== null && piData.applicationFeeAmount < 0) {
+			throw err.invalid(
+				'payment_intent_data[application_fee_amount]',
+				'Invalid integer: application_fee_amount must be 0 or more.',
+				'parameter_invalid_integer'
+			);
+		}
 	}
 	const pmt = params.payment_method_types;
 	let paymentMethodTypes = ['card'];
@@ -442,9 +465,77 @@ const REFUND_PARAMS = new Set([
 ]);
 const REFUND_REASONS = new Set(['duplicate', 'fraudulent', 'requested_by_customer']);
 
+// ---- Connect: accounts and account links ----------------------------------------------------
+
+const ACCOUNT_PARAMS = new Set([
+	'type',
+	'country',
+	'email',
+	'default_currency',
+	'business_type',
+	'business_profile',
+	'metadata',
+	'expand',
+	// Accepted and ignored: the fake's accounts always ask for card payments and transfers.
+	'capabilities',
+	'controller'
+]);
+const BUSINESS_PROFILE_PARAMS = new Set(['name', 'url', 'mcc', 'product_description', 'support_email', 'support_url']);
+const BUSINESS_TYPES = new Set(['individual', 'company', 'non_profit', 'government_entity']);
+
+function parseCreateAccount(params: Params): CreateAccountInput {
+	checkKnown(params, ACCOUNT_PARAMS);
+	const type = str(params, 'type') ?? 'express';
+	if (type !== 'standard' && type !== 'express') {
+		throw err.invalid('type', `The Slateroom Stripe fake makes only standard and express accounts (got type '${type}').`);
+	}
+	const country = (str(params, 'country') ?? 'DE').toUpperCase();
+	if (!/^[A-Z]{2}$/.test(country)) throw err.invalid('country', `Invalid country: ${country}.`, 'country_unsupported');
+	const email = str(params, 'email');
+	if (email !== null && !/^[^@\s]+@[^@\s]+\.[^@\s]+$/.test(email)) {
+		throw err.invalid('email', `Invalid email address: ${email}`, 'email_invalid');
+	}
+	const currency = str(params, 'default_currency')?.toLowerCase() ?? null;
+	if (currency !== null && !/^[a-z]{3}$/.test(currency)) throw err.invalid('default_currency', `Invalid currency: ${currency}.`);
+	const businessType = str(params, 'business_type');
+	if (businessType !== null && !BUSINESS_TYPES.has(businessType)) {
+		throw err.invalid('business_type', `Invalid business_type: must be one of ${[...BUSINESS_TYPES].join(', ')}.`);
+	}
+	const bp = params.business_profile;
+	let businessProfile: CreateAccountInput['businessProfile'] = { name: null, url: null, mcc: null };
+	if (bp !== undefined && bp !== '') {
+		if (!isObject(bp)) throw err.invalid('business_profile', 'Invalid object: business_profile must be a hash.');
+		checkKnown(bp, BUSINESS_PROFILE_PARAMS, 'business_profile');
+		const mcc = str(bp, 'mcc', 'business_profile[mcc]');
+		if (mcc !== null && !/^\d{4}$/.test(mcc)) throw err.invalid('business_profile[mcc]', 'Invalid mcc: must be 4 digits.');
+		businessProfile = {
+			name: str(bp, 'name', 'business_profile[name]'),
+			url: str(bp, 'url', 'business_profile[url]'),
+			mcc
+		};
+	}
+	return {
+		type,
+		country,
+		email,
+		defaultCurrency: currency,
+		businessType,
+		businessProfile,
+		metadata: metadata(params.metadata, 'metadata')
+	};
+}
+
+/** Accounts and account links are the platform's: made and read without a Stripe-Account header. */
+function platformOnly(scope: string | null, what: string): void {
+	if (scope !== null) {
+		throw err.state(`${what} is a platform request: send it without a Stripe-Account header.`);
+	}
+}
+
 // ---- routing ---------------------------------------------------------------------------------
 
-type Handler = (state: StripeFakeState, params: Params, ctx: RequestContext, id: string) => object;
+/** `scope`: the connected account named by the Stripe-Account header, or null for the platform. */
+type Handler = (state: StripeFakeState, params: Params, ctx: RequestContext, id: string, scope: string | null) => object;
 interface Route {
 	method: 'GET' | 'POST';
 	pattern: RegExp;
@@ -478,16 +569,16 @@ const routes: Route[] = [
 	{
 		method: 'POST',
 		pattern: /^\/v1\/checkout\/sessions$/,
-		handler: (state, params) => {
+		handler: (state, params, _ctx, _id, scope) => {
 			const input = parseCreateSession(state, params);
 			const expand = expandFor(params, 'checkout.session');
-			return render(state, state.createSession(input), expand);
+			return render(state, scope, state.createSession(input, scope), expand);
 		}
 	},
 	{
 		method: 'GET',
 		pattern: /^\/v1\/checkout\/sessions$/,
-		handler: (state, params) => {
+		handler: (state, params, _ctx, _id, scope) => {
 			checkKnown(params, new Set([...LIST_PARAMS, 'payment_intent', 'status', 'client_reference_id', 'created']));
 			const pi = str(params, 'payment_intent');
 			const status = str(params, 'status');
@@ -496,63 +587,64 @@ const routes: Route[] = [
 			state.sweep();
 			const all = newestFirst([...state.sessions.values()].map((r) => r.session)).filter(
 				(s) =>
+					state.inScope(s.id, scope) &&
 					(pi === null || s.payment_intent === pi) &&
 					(status === null || s.status === status) &&
 					(ref === null || s.client_reference_id === ref) &&
 					inCreated(s.created)
 			);
-			return render(state, paginate(all, params, '/v1/checkout/sessions'), expandList(params));
+			return render(state, scope, paginate(all, params, '/v1/checkout/sessions'), expandList(params));
 		}
 	},
 	{
 		method: 'GET',
 		pattern: new RegExp(`^/v1/checkout/sessions/${ID}$`),
-		handler: (state, params, _ctx, id) => {
+		handler: (state, params, _ctx, id, scope) => {
 			checkKnown(params, RETRIEVE_PARAMS);
-			return render(state, state.requireSession(id).session, expandList(params));
+			return render(state, scope, state.requireSession(id, scope).session, expandList(params));
 		}
 	},
 	{
 		method: 'GET',
 		pattern: new RegExp(`^/v1/checkout/sessions/${ID}/line_items$`),
-		handler: (state, params, _ctx, id) => {
+		handler: (state, params, _ctx, id, scope) => {
 			checkKnown(params, new Set(LIST_PARAMS));
-			return render(state, lineItemsList(state, id, params), expandList(params));
+			return render(state, scope, lineItemsList(state, scope, id, params), expandList(params));
 		}
 	},
 	{
 		method: 'POST',
 		pattern: new RegExp(`^/v1/checkout/sessions/${ID}/expire$`),
-		handler: (state, params, ctx, id) => {
+		handler: (state, params, ctx, id, scope) => {
 			checkKnown(params, RETRIEVE_PARAMS);
 			const expand = expandFor(params, 'checkout.session');
-			return render(state, state.expireSession(id, ctx), expand);
+			return render(state, scope, state.expireSession(id, ctx, scope), expand);
 		}
 	},
 	{
 		method: 'GET',
 		pattern: new RegExp(`^/v1/payment_intents/${ID}$`),
-		handler: (state, params, _ctx, id) => {
+		handler: (state, params, _ctx, id, scope) => {
 			checkKnown(params, new Set(['expand', 'client_secret']));
-			const pi = state.paymentIntents.get(id);
+			const pi = state.scoped(state.paymentIntents, id, scope);
 			if (!pi) throw err.noSuch('payment_intent', id);
-			return render(state, pi, expandList(params));
+			return render(state, scope, pi, expandList(params));
 		}
 	},
 	{
 		method: 'GET',
 		pattern: new RegExp(`^/v1/charges/${ID}$`),
-		handler: (state, params, _ctx, id) => {
+		handler: (state, params, _ctx, id, scope) => {
 			checkKnown(params, RETRIEVE_PARAMS);
-			const charge = state.charges.get(id);
+			const charge = state.scoped(state.charges, id, scope);
 			if (!charge) throw err.noSuch('charge', id);
-			return render(state, charge, expandList(params));
+			return render(state, scope, charge, expandList(params));
 		}
 	},
 	{
 		method: 'POST',
 		pattern: /^\/v1\/refunds$/,
-		handler: (state, params, ctx) => {
+		handler: (state, params, ctx, _id, scope) => {
 			checkKnown(params, REFUND_PARAMS);
 			const paymentIntentId = str(params, 'payment_intent');
 			const chargeId = str(params, 'charge');
@@ -579,41 +671,47 @@ const routes: Route[] = [
 					chargeId,
 					amount,
 					metadata: metadata(params.metadata, 'metadata'),
-					reason
+					reason,
+					refundApplicationFee: bool(params, 'refund_application_fee') ?? false
 				},
-				ctx
+				ctx,
+				scope
 			);
-			return render(state, refund, expand);
+			return render(state, scope, refund, expand);
 		}
 	},
 	{
 		method: 'GET',
 		pattern: /^\/v1\/refunds$/,
-		handler: (state, params) => {
+		handler: (state, params, _ctx, _id, scope) => {
 			checkKnown(params, new Set([...LIST_PARAMS, 'payment_intent', 'charge', 'created']));
 			const pi = str(params, 'payment_intent');
 			const charge = str(params, 'charge');
 			const inCreated = createdFilter(params);
 			const all = newestFirst(state.refunds.values()).filter(
-				(r) => (pi === null || r.payment_intent === pi) && (charge === null || r.charge === charge) && inCreated(r.created)
+				(r) =>
+					state.inScope(r.id, scope) &&
+					(pi === null || r.payment_intent === pi) &&
+					(charge === null || r.charge === charge) &&
+					inCreated(r.created)
 			);
-			return render(state, paginate(all, params, '/v1/refunds'), expandList(params));
+			return render(state, scope, paginate(all, params, '/v1/refunds'), expandList(params));
 		}
 	},
 	{
 		method: 'GET',
 		pattern: new RegExp(`^/v1/refunds/${ID}$`),
-		handler: (state, params, _ctx, id) => {
+		handler: (state, params, _ctx, id, scope) => {
 			checkKnown(params, RETRIEVE_PARAMS);
-			const refund = state.refunds.get(id);
+			const refund = state.scoped(state.refunds, id, scope);
 			if (!refund) throw err.noSuch('refund', id);
-			return render(state, refund, expandList(params));
+			return render(state, scope, refund, expandList(params));
 		}
 	},
 	{
 		method: 'GET',
 		pattern: /^\/v1\/events$/,
-		handler: (state, params) => {
+		handler: (state, params, _ctx, _id, scope) => {
 			checkKnown(params, new Set([...LIST_PARAMS, 'type', 'types', 'created', 'delivery_success']));
 			const type = str(params, 'type');
 			const typesRaw = params.types;
@@ -631,6 +729,7 @@ const routes: Route[] = [
 			const inCreated = createdFilter(params);
 			const all = newestFirst(state.events).filter(
 				(e) =>
+					state.inScope(e.id, scope) &&
 					(type === null || eventMatches(e.type, type)) &&
 					(types === null || types.some((t) => eventMatches(e.type, t))) &&
 					inCreated(e.created)
@@ -641,11 +740,96 @@ const routes: Route[] = [
 	{
 		method: 'GET',
 		pattern: new RegExp(`^/v1/events/${ID}$`),
-		handler: (state, params, _ctx, id) => {
+		handler: (state, params, _ctx, id, scope) => {
 			checkKnown(params, RETRIEVE_PARAMS);
-			const event = state.eventsById.get(id);
+			const event = state.scoped(state.eventsById, id, scope);
 			if (!event) throw err.noSuch('event', id);
 			return structuredClone(event);
+		}
+	},
+	{
+		method: 'POST',
+		pattern: /^\/v1\/accounts$/,
+		handler: (state, params, _ctx, _id, scope) => {
+			platformOnly(scope, 'Creating a connected account');
+			const input = parseCreateAccount(params);
+			const expand = expandFor(params, 'account');
+			return render(state, scope, state.createAccount(input), expand);
+		}
+	},
+	{
+		method: 'GET',
+		pattern: /^\/v1\/accounts$/,
+		handler: (state, params, _ctx, _id, scope) => {
+			platformOnly(scope, 'Listing connected accounts');
+			checkKnown(params, new Set([...LIST_PARAMS, 'created']));
+			const inCreated = createdFilter(params);
+			const all = newestFirst(state.accounts.values()).filter((a) => inCreated(a.created));
+			return render(state, scope, paginate(all, params, '/v1/accounts'), expandList(params));
+		}
+	},
+	{
+		method: 'GET',
+		pattern: new RegExp(`^/v1/accounts/${ID}$`),
+		handler: (state, params, _ctx, id, scope) => {
+			checkKnown(params, RETRIEVE_PARAMS);
+			// With a header, an account can read only itself.
+			if (scope !== null && scope !== id) throw err.noSuch('account', id);
+			return render(state, scope, state.requireAccount(id), expandList(params));
+		}
+	},
+	{
+		method: 'GET',
+		pattern: /^\/v1\/account$/,
+		handler: (state, params, _ctx, _id, scope) => {
+			checkKnown(params, RETRIEVE_PARAMS);
+			if (scope === null) {
+				throw err.state(
+					'The Slateroom Stripe fake keeps no account for the platform itself: send a Stripe-Account header to read a connected account.'
+				);
+			}
+			return render(state, scope, state.requireAccount(scope), expandList(params));
+		}
+	},
+	{
+		method: 'POST',
+		pattern: /^\/v1\/account_links$/,
+		handler: (state, params, _ctx, _id, scope) => {
+			platformOnly(scope, 'Creating an account link');
+			checkKnown(params, new Set(['account', 'refresh_url', 'return_url', 'type', 'collect', 'collection_options', 'expand']));
+			const account = requiredStr(params, 'account');
+			const type = requiredStr(params, 'type');
+			if (type !== 'account_onboarding') {
+				throw err.invalid('type', `The Slateroom Stripe fake makes only account_onboarding links (got type '${type}').`);
+			}
+			const refreshUrl = url(params, 'refresh_url');
+			if (refreshUrl === null) throw err.missing('refresh_url');
+			const returnUrl = url(params, 'return_url');
+			if (returnUrl === null) throw err.missing('return_url');
+			return state.createAccountLink(account, refreshUrl, returnUrl);
+		}
+	},
+	{
+		method: 'GET',
+		pattern: /^\/v1\/application_fees$/,
+		handler: (state, params, _ctx, _id, scope) => {
+			checkKnown(params, new Set([...LIST_PARAMS, 'charge', 'created']));
+			const charge = str(params, 'charge');
+			const inCreated = createdFilter(params);
+			const all = newestFirst(state.applicationFees.values()).filter(
+				(f) => state.inScope(f.id, scope) && (charge === null || f.charge === charge) && inCreated(f.created)
+			);
+			return render(state, scope, paginate(all, params, '/v1/application_fees'), expandList(params));
+		}
+	},
+	{
+		method: 'GET',
+		pattern: new RegExp(`^/v1/application_fees/${ID}$`),
+		handler: (state, params, _ctx, id, scope) => {
+			checkKnown(params, RETRIEVE_PARAMS);
+			const fee = state.scoped(state.applicationFees, id, scope);
+			if (!fee) throw err.noSuch('application_fee', id);
+			return render(state, scope, fee, expandList(params));
 		}
 	}
 ];
@@ -687,6 +871,14 @@ export function handleApi(state: StripeFakeState, req: ApiRequest): ApiResponse 
 		return fail(new StripeApiError(401, 'invalid_request_error', message));
 	}
 
+	// Connect: the call is made on this connected account (Stripe documents the header; the 403 for
+	// an account the platform does not have is its answer as remembered).
+	const stripeAccount = header(req.headers, 'stripe-account') ?? null;
+	if (stripeAccount !== null) {
+		headers['Stripe-Account'] = stripeAccount;
+		if (!state.accounts.has(stripeAccount)) return fail(err.accountInvalid(redact(apiKey), stripeAccount));
+	}
+
 	let match: { route: Route; id: string } | null = null;
 	for (const route of routes) {
 		const m = route.pattern.exec(req.path);
@@ -725,7 +917,8 @@ export function handleApi(state: StripeFakeState, req: ApiRequest): ApiResponse 
 		throw e;
 	}
 
-	// Idempotency (POST only; Stripe ignores the header on GET). Keys are scoped to the API key.
+	// Idempotency (POST only; Stripe ignores the header on GET). Keys are scoped to the API key and
+	// to the account the call is made on: one key may be used once per connected account.
 	const idempotencyKey = req.method === 'POST' ? (header(req.headers, 'idempotency-key') ?? null) : null;
 	let storeKey: string | null = null;
 	let fingerprint = '';
@@ -743,7 +936,7 @@ export function handleApi(state: StripeFakeState, req: ApiRequest): ApiResponse 
 				)
 			);
 		}
-		storeKey = `${apiKey}\u0000${idempotencyKey}`;
+		storeKey = `${apiKey}\u0000${stripeAccount ?? ''}\u0000${idempotencyKey}`;
 		fingerprint = `${req.method} ${req.path} ${stableStringify(params)}`;
 		const saved = state.idempotency.get(storeKey);
 		if (saved && saved.createdAtMs >= state.nowMs() - 24 * 3600 * 1000) {
@@ -768,7 +961,7 @@ export function handleApi(state: StripeFakeState, req: ApiRequest): ApiResponse 
 	let response: ApiResponse;
 	let save = true;
 	try {
-		response = json(200, match.route.handler(state, params, ctx, match.id), headers);
+		response = json(200, match.route.handler(state, params, ctx, match.id, stripeAccount), headers);
 	} catch (e) {
 		if (e instanceof StripeApiError) {
 			save = e.saveIdempotent;

@@ -1,5 +1,6 @@
 /**
- * The Stripe fake's HTTP server: /v1 (the API), /pay (the hosted page) and /_control (test controls).
+ * The Stripe fake's HTTP server: /v1 (the API), /pay (the hosted page), /connect/onboard (the
+ * onboarding page of account links) and /_control (test controls).
  * Start it in-process with `startStripeFake({ port: 0, ... })`; server.ts is the CLI entry.
  */
 import http from 'node:http';
@@ -7,8 +8,9 @@ import type { AddressInfo } from 'node:net';
 import { handleApi } from './api.js';
 import { FormParseError, parseForm } from './form.js';
 import { DEFAULT_API_VERSION, NO_REQUEST, StripeApiError, err } from './objects.js';
+import { renderOnboardPage } from './onboardpage.js';
 import { type PayNotice, renderNotFound, renderPayPage } from './paypage.js';
-import { type PayMethod, type SessionRecord, StripeFakeState } from './state.js';
+import { ALL_ACCOUNTS, type PayMethod, type PutAccountInput, type SessionRecord, StripeFakeState } from './state.js';
 import { DEFAULT_RETRY_DELAYS_MS, WebhookDispatcher } from './webhooks.js';
 
 export interface StripeFakeOptions {
@@ -22,6 +24,10 @@ export interface StripeFakeOptions {
 	webhookUrl?: string | null;
 	/** Default 'whsec_slateroom_local'. */
 	webhookSecret?: string;
+	/** Where events of connected accounts are POSTed (the Connect endpoint); default null (recorded, not sent). */
+	connectWebhookUrl?: string | null;
+	/** Default 'whsec_slateroom_connect_local'. */
+	connectWebhookSecret?: string;
 	/** Delay before each retry of a failed delivery; default 0.5 s, 1 s, 2 s, ... 30 s (8 retries). */
 	retryDelaysMs?: number[];
 	/** Per-attempt timeout of a webhook delivery; default 10 s. */
@@ -124,6 +130,29 @@ function optionalNumber(body: Record<string, unknown>, key: string): number | un
 	return v;
 }
 
+function optionalString(body: Record<string, unknown>, key: string): string | null {
+	const v = body[key];
+	if (v === undefined || v === null) return null;
+	if (typeof v !== 'string' || v === '') throw new HttpError(400, `${key} must be a non-empty string`);
+	return v;
+}
+
+function putAccountInput(body: Record<string, unknown>): PutAccountInput {
+	const country = optionalString(body, 'country')?.toUpperCase() ?? null;
+	if (country !== null && !/^[A-Z]{2}$/.test(country)) throw new HttpError(400, 'country must be two letters');
+	const currency = optionalString(body, 'default_currency')?.toLowerCase() ?? null;
+	if (currency !== null && !/^[a-z]{3}$/.test(currency)) throw new HttpError(400, 'default_currency must be three letters');
+	const completed = body.completed;
+	if (completed !== undefined && typeof completed !== 'boolean') throw new HttpError(400, 'completed must be true or false');
+	return {
+		country,
+		email: optionalString(body, 'email'),
+		defaultCurrency: currency,
+		businessName: optionalString(body, 'business_name'),
+		completed: completed ?? null
+	};
+}
+
 export async function startStripeFake(options: StripeFakeOptions = {}): Promise<StripeFake> {
 	const host = options.host ?? '127.0.0.1';
 	const state = new StripeFakeState({
@@ -131,11 +160,13 @@ export async function startStripeFake(options: StripeFakeOptions = {}): Promise<
 		publicUrl: options.publicUrl ?? '',
 		apiVersion: options.apiVersion ?? DEFAULT_API_VERSION,
 		onEvent: (event) => dispatcher.enqueue(event),
-		willDeliver: (type) => dispatcher.willDeliver(type)
+		willDeliver: (type, account) => dispatcher.willDeliver(type, account)
 	});
 	const dispatcher: WebhookDispatcher = new WebhookDispatcher(state, {
 		url: options.webhookUrl === undefined ? 'http://127.0.0.1:3000/api/stripe/webhook' : options.webhookUrl || null,
 		secret: options.webhookSecret ?? 'whsec_slateroom_local',
+		connectUrl: options.connectWebhookUrl || null,
+		connectSecret: options.connectWebhookSecret ?? 'whsec_slateroom_connect_local',
 		retryDelaysMs: options.retryDelaysMs ?? DEFAULT_RETRY_DELAYS_MS,
 		timeoutMs: options.deliveryTimeoutMs ?? 10_000,
 		enabledEvents: options.enabledEvents ?? ['*']
@@ -153,7 +184,7 @@ export async function startStripeFake(options: StripeFakeOptions = {}): Promise<
 		if (!action) {
 			if (req.method !== 'GET' && req.method !== 'HEAD') return send(res, 405, '', { Allow: 'GET' });
 			const n = query.get('notice');
-			const notice: PayNotice = n === 'declined' || n === 'not-open' ? n : null;
+			const notice: PayNotice = n === 'declined' || n === 'not-open' || n === 'refused' ? n : null;
 			return sendHtml(res, 200, renderPayPage(rec, notice, successRedirect(rec)));
 		}
 		if (req.method !== 'POST') return send(res, 405, '', { Allow: 'POST' });
@@ -161,19 +192,45 @@ export async function startStripeFake(options: StripeFakeOptions = {}): Promise<
 		const email = typeof form.email === 'string' && form.email.includes('@') ? form.email : null;
 		if (rec.session.status !== 'open') return redirect(res, `${base}?notice=not-open`);
 		if (action === 'abandon') {
-			state.expireSession(id, NO_REQUEST);
+			state.expireSession(id, NO_REQUEST, ALL_ACCOUNTS);
 			return redirect(res, rec.session.cancel_url ?? base);
 		}
 		const method: PayMethod = action === 'decline' ? 'decline' : action === 'pay-later' ? 'delayed' : 'card';
-		state.pay(id, method, email);
+		try {
+			state.pay(id, method, email);
+		} catch (e) {
+			// The studio's account lost the right to take charges after the session was made.
+			if (e instanceof StripeApiError && e.code === 'charges_not_enabled') return redirect(res, `${base}?notice=refused`);
+			throw e;
+		}
 		if (method === 'decline') return redirect(res, `${base}?notice=declined`);
 		return redirect(res, successRedirect(rec) ?? base);
+	}
+
+	// ---- onboarding page of account links -----------------------------------------------------
+	async function handleOnboard(req: http.IncomingMessage, res: http.ServerResponse, path: string) {
+		const m = /^\/connect\/onboard\/([A-Za-z0-9]+)(?:\/(complete|leave))?$/.exec(path);
+		const token = m?.[1];
+		if (!m || !token || !state.accountLinks.has(token)) return sendHtml(res, 404, renderNotFound(path));
+		const action = m[2];
+		if (!action) {
+			if (req.method !== 'GET' && req.method !== 'HEAD') return send(res, 405, '', { Allow: 'GET' });
+			const opened = state.openAccountLink(token);
+			if (!opened) return sendHtml(res, 404, renderNotFound(path));
+			if (!opened.show) return redirect(res, opened.link.refreshUrl);
+			return sendHtml(res, 200, renderOnboardPage(state.requireAccount(opened.link.account), `/connect/onboard/${token}`));
+		}
+		if (req.method !== 'POST') return send(res, 405, '', { Allow: 'POST' });
+		await readBody(req);
+		const to = state.finishAccountLink(token, action === 'complete' ? 'complete' : 'leave');
+		if (!to) return sendHtml(res, 404, renderNotFound(path));
+		return redirect(res, to);
 	}
 
 	// ---- test controls ---------------------------------------------------------------------
 	async function handleControl(req: http.IncomingMessage, res: http.ServerResponse, path: string, query: URLSearchParams) {
 		if (!isLoopback(req.socket.remoteAddress)) throw new HttpError(403, 'Test controls answer on loopback only');
-		const body = req.method === 'POST' ? parseJsonBody(await readBody(req)) : {};
+		const body = req.method === 'POST' || req.method === 'PUT' ? parseJsonBody(await readBody(req)) : {};
 		const route = `${req.method} ${path}`;
 
 		if (route === 'GET /_control/health') return sendJson(res, 200, { ok: true });
@@ -185,13 +242,42 @@ export async function startStripeFake(options: StripeFakeOptions = {}): Promise<
 		if (route === 'GET /_control/deliveries') {
 			const event = query.get('event');
 			const type = query.get('type');
-			const data = state.deliveries.filter((d) => (!event || d.eventId === event) && (!type || d.type === type));
+			const endpoint = query.get('endpoint');
+			const data = state.deliveries.filter(
+				(d) => (!event || d.eventId === event) && (!type || d.type === type) && (!endpoint || d.endpoint === endpoint)
+			);
 			return sendJson(res, 200, { object: 'list', data, held: dispatcher.heldCount });
 		}
 		if (route === 'GET /_control/sessions') {
 			state.sweep();
-			const data = [...state.sessions.values()].reverse().map((r) => r.session);
+			const account = query.get('account');
+			const data = [...state.sessions.values()]
+				.reverse()
+				.map((r) => r.session)
+				.filter((s) => account === null || state.ownerOf(s.id) === (account === 'platform' ? null : account));
 			return sendJson(res, 200, { object: 'list', data });
+		}
+		if (route === 'GET /_control/accounts') {
+			return sendJson(res, 200, { object: 'list', data: [...state.accounts.values()].reverse() });
+		}
+		const accountRoute = /^(GET|PUT|POST) \/_control\/accounts\/([A-Za-z0-9_]+)(?:\/(complete|requirements))?$/.exec(route);
+		if (accountRoute?.[2]) {
+			const [, method, id, action] = accountRoute;
+			if (method === 'GET' && !action) return sendJson(res, 200, state.requireAccount(id));
+			if (method === 'PUT' && !action) {
+				if (!/^acct_[A-Za-z0-9]+$/.test(id)) throw new HttpError(400, 'An account id is acct_ followed by letters and digits');
+				const { account, created } = state.putAccount(id, putAccountInput(body));
+				return sendJson(res, created ? 201 : 200, account);
+			}
+			if (method === 'POST' && action === 'complete') return sendJson(res, 200, state.completeAccount(id));
+			if (method === 'POST' && action === 'requirements') {
+				const due = body.currently_due;
+				if (!Array.isArray(due) || !due.every((x): x is string => typeof x === 'string' && x !== '')) {
+					throw new HttpError(400, 'currently_due must be an array of requirement names');
+				}
+				return sendJson(res, 200, state.setRequirements(id, due));
+			}
+			throw new HttpError(404, `No control route ${route}`);
 		}
 		if (route === 'POST /_control/hold-deliveries') {
 			dispatcher.hold();
@@ -214,7 +300,8 @@ export async function startStripeFake(options: StripeFakeOptions = {}): Promise<
 		if (resend?.[1]) {
 			const event = state.eventsById.get(resend[1]);
 			if (!event) throw err.noSuch('event', resend[1]);
-			if (!dispatcher.url) throw new HttpError(409, 'No webhook URL is configured');
+			const endpoint = dispatcher.endpointOf(event);
+			if (!endpoint.url) throw new HttpError(409, `No ${endpoint.name} webhook URL is configured`);
 			const signature = body.signature === 'bad' ? 'bad' : 'valid';
 			const timestampOffsetSeconds = optionalNumber(body, 'timestampOffsetSeconds') ?? 0;
 			const delayMs = optionalNumber(body, 'delayMs') ?? 0;
@@ -232,25 +319,34 @@ export async function startStripeFake(options: StripeFakeOptions = {}): Promise<
 		if (sessionRoute?.[2]) {
 			const [, method, id, action] = sessionRoute;
 			const describe = (rec: SessionRecord, redirectUrl: string | null) => ({
+				account: state.ownerOf(rec.session.id),
 				session: rec.session,
 				line_items: rec.lineItems,
 				payment_intent: rec.session.payment_intent ? (state.paymentIntents.get(rec.session.payment_intent) ?? null) : null,
 				redirect_url: redirectUrl
 			});
-			if (method === 'GET' && !action) return sendJson(res, 200, describe(state.requireSession(id), null));
+			if (method === 'GET' && !action) return sendJson(res, 200, describe(state.requireSession(id, ALL_ACCOUNTS), null));
 			if (method !== 'POST' || !action) throw new HttpError(404, `No control route ${route}`);
 			const email = typeof body.email === 'string' ? body.email : null;
 			switch (action) {
 				case 'pay':
-					return sendJson(res, 200, describe(state.pay(id, 'card', email), successRedirect(state.requireSession(id))));
+					return sendJson(
+						res,
+						200,
+						describe(state.pay(id, 'card', email), successRedirect(state.requireSession(id, ALL_ACCOUNTS)))
+					);
 				case 'decline':
 					return sendJson(res, 200, describe(state.pay(id, 'decline', email), null));
 				case 'pay-later':
-					return sendJson(res, 200, describe(state.pay(id, 'delayed', email), successRedirect(state.requireSession(id))));
+					return sendJson(
+						res,
+						200,
+						describe(state.pay(id, 'delayed', email), successRedirect(state.requireSession(id, ALL_ACCOUNTS)))
+					);
 				case 'abandon':
 				case 'expire': {
-					state.expireSession(id, NO_REQUEST);
-					const rec = state.requireSession(id);
+					state.expireSession(id, NO_REQUEST, ALL_ACCOUNTS);
+					const rec = state.requireSession(id, ALL_ACCOUNTS);
 					return sendJson(res, 200, describe(rec, action === 'abandon' ? rec.session.cancel_url : null));
 				}
 				case 'settle': {
@@ -283,6 +379,7 @@ export async function startStripeFake(options: StripeFakeOptions = {}): Promise<
 				});
 			}
 			if (path === '/pay' || path.startsWith('/pay/')) return await handlePay(req, res, path, parsed.searchParams);
+			if (path.startsWith('/connect/onboard/')) return await handleOnboard(req, res, path);
 			if (path.startsWith('/_control/')) return await handleControl(req, res, path, parsed.searchParams);
 			throw err.noSuch('route', `${method} ${path}`);
 		} catch (e) {

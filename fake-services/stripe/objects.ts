@@ -131,8 +131,9 @@ export interface PaymentIntent {
 	amount: number;
 	amount_capturable: number;
 	amount_received: number;
-	application: null;
-	application_fee_amount: null;
+	/** The platform's Connect application, on a PaymentIntent that carries an application fee. */
+	application: string | null;
+	application_fee_amount: number | null;
 	automatic_payment_methods: null;
 	canceled_at: number | null;
 	cancellation_reason: 'abandoned' | null;
@@ -169,6 +170,9 @@ export interface Charge {
 	amount: number;
 	amount_captured: number;
 	amount_refunded: number;
+	application: string | null;
+	application_fee: string | null;
+	application_fee_amount: number | null;
 	balance_transaction: null;
 	billing_details: { address: null; email: string | null; name: null; phone: null };
 	captured: boolean;
@@ -214,11 +218,13 @@ export interface Refund {
 	transfer_reversal: null;
 }
 
-export type StripeObject = CheckoutSession | PaymentIntent | Charge | Refund | LineItem | StripeEvent;
+export type StripeObject = CheckoutSession | PaymentIntent | Charge | Refund | LineItem | StripeEvent | Account | ApplicationFee;
 
 export interface StripeEvent {
 	id: string;
 	object: 'event';
+	/** Only on events of a connected account (Connect webhooks); absent on the platform's own. */
+	account?: string;
 	api_version: string;
 	created: number;
 	data: { object: unknown; previous_attributes?: Record<string, unknown> };
@@ -226,6 +232,73 @@ export interface StripeEvent {
 	pending_webhooks: number;
 	request: { id: string | null; idempotency_key: string | null };
 	type: string;
+}
+
+// ---- Connect ---------------------------------------------------------------------------------
+
+export interface AccountRequirements {
+	alternatives: [];
+	current_deadline: number | null;
+	currently_due: string[];
+	disabled_reason: string | null;
+	errors: [];
+	eventually_due: string[];
+	past_due: string[];
+	pending_verification: string[];
+}
+
+export type CapabilityStatus = 'active' | 'inactive' | 'pending';
+
+export interface Account {
+	id: string;
+	object: 'account';
+	business_profile: {
+		mcc: string | null;
+		name: string | null;
+		product_description: null;
+		support_email: null;
+		support_phone: null;
+		support_url: null;
+		url: string | null;
+	};
+	business_type: string | null;
+	capabilities: { card_payments: CapabilityStatus; transfers: CapabilityStatus };
+	charges_enabled: boolean;
+	country: string;
+	created: number;
+	default_currency: string;
+	details_submitted: boolean;
+	email: string | null;
+	external_accounts: { object: 'list'; data: []; has_more: false; total_count: 0; url: string };
+	metadata: Metadata;
+	payouts_enabled: boolean;
+	requirements: AccountRequirements;
+	tos_acceptance: { date: number | null };
+	type: 'standard' | 'express';
+}
+
+export interface AccountLink {
+	object: 'account_link';
+	created: number;
+	expires_at: number;
+	url: string;
+}
+
+export interface ApplicationFee {
+	id: string;
+	object: 'application_fee';
+	account: string;
+	amount: number;
+	amount_refunded: number;
+	application: string;
+	balance_transaction: null;
+	charge: string;
+	created: number;
+	currency: string;
+	livemode: false;
+	originating_transaction: null;
+	refunded: boolean;
+	refunds: { object: 'list'; data: []; has_more: false; total_count: 0; url: string };
 }
 
 export interface ListObject<T> {
@@ -286,6 +359,19 @@ export const err = {
 		),
 	noSuch: (kind: string, id: string, param?: string) =>
 		new StripeApiError(param ? 400 : 404, 'invalid_request_error', `No such ${kind}: '${id}'`, 'resource_missing', param, false),
+	/**
+	 * A Stripe-Account header naming an account the platform does not have. The status, code and
+	 * wording follow what Stripe answers as remembered, not a documented contract.
+	 */
+	accountInvalid: (apiKey: string, account: string) =>
+		new StripeApiError(
+			403,
+			'invalid_request_error',
+			`The key ${apiKey} has no connected account '${account}' (it may not exist, or it is not connected to this platform).`,
+			'account_invalid',
+			undefined,
+			false
+		),
 	/** A request that was valid but cannot be carried out in the object's current state. */
 	state: (message: string, code?: string, param?: string) =>
 		new StripeApiError(400, 'invalid_request_error', message, code, param, true)

@@ -5,7 +5,7 @@
 import { formatAmount } from './objects.js';
 import type { SessionRecord } from './state.js';
 
-export type PayNotice = 'declined' | 'not-open' | null;
+export type PayNotice = 'declined' | 'not-open' | 'refused' | null;
 
 export function escapeHtml(value: string): string {
 	return value.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;').replace(/'/g, '&#39;');
@@ -36,17 +36,28 @@ dt { color: #5f6368; }
 dd { margin: 0; overflow-wrap: anywhere; }
 `;
 
-function page(title: string, body: string): string {
+export interface Banner {
+	heading: string;
+	tagline: string;
+}
+
+const PAYMENTS: Banner = {
+	heading: 'Slateroom test payments',
+	tagline: 'A local stand-in for the card payment step. No card is charged and no money moves.'
+};
+
+/** A page of the fake in its one plain style; the banner names which stand-in it is. */
+export function page(title: string, body: string, banner: Banner = PAYMENTS): string {
 	return `<!doctype html>
 <html lang="en-GB">
 <head>
 <meta charset="utf-8">
 <meta name="viewport" content="width=device-width, initial-scale=1">
-<title>${escapeHtml(title)} · Slateroom test payments</title>
+<title>${escapeHtml(title)} · ${escapeHtml(banner.heading)}</title>
 <style>${STYLE}</style>
 </head>
 <body>
-<header><h1>Slateroom test payments</h1><p>A local stand-in for the card payment step. No card is charged and no money moves.</p></header>
+<header><h1>${escapeHtml(banner.heading)}</h1><p>${escapeHtml(banner.tagline)}</p></header>
 <main>
 ${body}
 </main>
@@ -76,6 +87,11 @@ export function renderPayPage(rec: SessionRecord, notice: PayNotice, successUrl:
 	if (notice === 'declined' && s.status === 'open') {
 		notices.push(
 			'<div class="notice bad" role="alert"><strong>Card declined.</strong> The test card was declined (generic_decline). You can try again.</div>'
+		);
+	}
+	if (notice === 'refused' && s.status === 'open') {
+		notices.push(
+			'<div class="notice bad" role="alert"><strong>Payment refused.</strong> The studio’s payment account cannot take charges at the moment. Nothing was charged.</div>'
 		);
 	}
 	if (notice === 'not-open') {

@@ -6,6 +6,8 @@
  *   STRIPE_FAKE_PUBLIC_URL    base of Checkout Session urls; default http://<host>:<port>
  *   STRIPE_WEBHOOK_URL        default http://127.0.0.1:3000/api/stripe/webhook ('none' or '' sends nothing)
  *   STRIPE_WEBHOOK_SECRET     default whsec_slateroom_local
+ *   STRIPE_CONNECT_WEBHOOK_URL     events of connected accounts; default none (recorded, not sent)
+ *   STRIPE_CONNECT_WEBHOOK_SECRET  default whsec_slateroom_connect_local
  *   STRIPE_WEBHOOK_EVENTS     comma-separated event types to deliver, '*' (default) or 'prefix.*'
  *   STRIPE_FAKE_RETRY_DELAYS_MS  comma-separated retry delays, e.g. 500,1000,2000
  */
@@ -37,6 +39,8 @@ const webhookUrl =
 		: rawWebhook === '' || rawWebhook === 'none'
 			? null
 			: rawWebhook;
+const rawConnect = process.env.STRIPE_CONNECT_WEBHOOK_URL;
+const connectWebhookUrl = rawConnect === undefined || rawConnect === '' || rawConnect === 'none' ? null : rawConnect;
 const retryDelaysMs = listEnv('STRIPE_FAKE_RETRY_DELAYS_MS')?.map((s) => {
 	const n = Number(s);
 	if (!Number.isFinite(n) || n < 0) throw new Error(`STRIPE_FAKE_RETRY_DELAYS_MS has a bad delay '${s}'`);
@@ -49,12 +53,14 @@ const fake = await startStripeFake({
 	publicUrl: process.env.STRIPE_FAKE_PUBLIC_URL || undefined,
 	webhookUrl,
 	webhookSecret: process.env.STRIPE_WEBHOOK_SECRET || 'whsec_slateroom_local',
+	connectWebhookUrl,
+	connectWebhookSecret: process.env.STRIPE_CONNECT_WEBHOOK_SECRET || 'whsec_slateroom_connect_local',
 	enabledEvents: listEnv('STRIPE_WEBHOOK_EVENTS'),
 	retryDelaysMs
 });
 
 console.log(
-	`stripe fake listening on ${fake.url} (pay pages at ${fake.state.publicUrl}/pay/:id, webhooks to ${webhookUrl ?? 'nowhere'})`
+	`stripe fake listening on ${fake.url} (pay pages at ${fake.state.publicUrl}/pay/:id, webhooks to ${webhookUrl ?? 'nowhere'}, Connect webhooks to ${connectWebhookUrl ?? 'nowhere'})`
 );
 
 let stopping = false;

@@ -1,9 +1,18 @@
 /**
- * The fake's state and its business rules: Checkout Sessions, PaymentIntents, Charges, Refunds and
- * Events. Every mutation is synchronous, so one request's check-then-act can never interleave with
- * another's (Node runs one handler at a time).
+ * The fake's state and its business rules: Checkout Sessions, PaymentIntents, Charges, Refunds,
+ * Events, and Connect's accounts, account links and application fees. Every mutation is
+ * synchronous, so one request's check-then-act can never interleave with another's (Node runs one
+ * handler at a time).
+ *
+ * Connect (direct charges): every object made under a `Stripe-Account` header belongs to that
+ * account, and so do the objects that follow from it (a session's PaymentIntent, its charges,
+ * refunds and events). A request sees only the objects of its own scope.
  */
 import {
+	type Account,
+	type AccountLink,
+	type AccountRequirements,
+	type ApplicationFee,
 	type Charge,
 	type CheckoutSession,
 	type LineItem,
@@ -46,7 +55,46 @@ export interface CreateSessionInput {
 		metadata: Metadata;
 		description: string | null;
 		receiptEmail: string | null;
+		/** Only on a connected account's session (direct charge): the platform's cut, in minor units. */
+		applicationFeeAmount: number | null;
 	};
+}
+
+/**
+ * Whose objects a call may see: a connected account's id (the Stripe-Account header), null for the
+ * platform's own (no header), or ALL_ACCOUNTS for the test controls and the pay page, which see everything.
+ */
+export const ALL_ACCOUNTS: unique symbol = Symbol('all accounts');
+export type Scope = string | null | typeof ALL_ACCOUNTS;
+
+export interface CreateAccountInput {
+	type: Account['type'];
+	country: string;
+	email: string | null;
+	defaultCurrency: string | null;
+	businessType: string | null;
+	businessProfile: { name: string | null; url: string | null; mcc: string | null };
+	metadata: Metadata;
+}
+
+/** What `PUT /_control/accounts/:id` sets. */
+export interface PutAccountInput {
+	country: string | null;
+	email: string | null;
+	defaultCurrency: string | null;
+	businessName: string | null;
+	completed: boolean | null;
+}
+
+export interface AccountLinkRecord {
+	token: string;
+	account: string;
+	refreshUrl: string;
+	returnUrl: string;
+	created: number;
+	expiresAt: number;
+	/** fresh: never opened; opened: the page was shown; finished: a button was pressed. */
+	stage: 'fresh' | 'opened' | 'finished';
 }
 
 export interface CreateRefundInput {
@@ -55,6 +103,8 @@ export interface CreateRefundInput {
 	amount: number | null;
 	metadata: Metadata;
 	reason: string | null;
+	/** Gives back the same share of the charge's application fee (Stripe: `refund_application_fee`). */
+	refundApplicationFee: boolean;
 }
 
 export interface SessionRecord {
@@ -66,6 +116,8 @@ export interface SessionRecord {
 export interface DeliveryRecord {
 	eventId: string;
 	type: string;
+	/** platform: STRIPE_WEBHOOK_URL; connect: STRIPE_CONNECT_WEBHOOK_URL (events that carry `account`). */
+	endpoint: 'platform' | 'connect';
 	attempt: number;
 	/** 'initial' and 'retry' are automatic; 'resend' comes from /_control/events/:id/resend */
 	kind: 'initial' | 'retry' | 'resend';
@@ -99,11 +151,33 @@ export interface StateOptions {
 	apiVersion?: string;
 	/** Called for every new event, after it is stored. */
 	onEvent?: (event: StripeEvent) => void;
-	/** Whether an event of this type goes to the webhook endpoint (sets pending_webhooks). */
-	willDeliver?: (type: string) => boolean;
+	/** Whether an event of this type (of this account, or null) goes to an endpoint (sets pending_webhooks). */
+	willDeliver?: (type: string, account: string | null) => boolean;
 }
 
 const IDEMPOTENCY_TTL_MS = 24 * 60 * 60 * 1000;
+
+/** How long an account link can be opened. Stripe documents only that links expire after a few minutes. */
+export const ACCOUNT_LINK_TTL_SECONDS = 300;
+
+/** Default currencies of the countries a studio is likely in; anything else gets 'eur'. */
+const COUNTRY_CURRENCY: Record<string, string> = {
+	GB: 'gbp',
+	US: 'usd',
+	CH: 'chf',
+	NO: 'nok',
+	SE: 'sek',
+	DK: 'dkk',
+	PL: 'pln',
+	CZ: 'czk',
+	HU: 'huf',
+	CA: 'cad',
+	AU: 'aud',
+	JP: 'jpy'
+};
+export function defaultCurrencyOf(country: string): string {
+	return COUNTRY_CURRENCY[country] ?? 'eur';
+}
 
 function clone<T>(value: T): T {
 	return structuredClone(value);
@@ -121,6 +195,14 @@ export class StripeFakeState {
 	readonly deliveries: DeliveryRecord[] = [];
 	readonly idempotency = new Map<string, IdempotencyRecord>();
 	nextRefundFailure: RefundFailurePlan | null = null;
+	/** Connected accounts, oldest first. */
+	readonly accounts = new Map<string, Account>();
+	readonly accountLinks = new Map<string, AccountLinkRecord>();
+	readonly applicationFees = new Map<string, ApplicationFee>();
+	/** The connected account each session, PaymentIntent, charge, refund and event belongs to (absent: the platform). */
+	readonly owners = new Map<string, string>();
+	/** The platform's Connect application id, named on PaymentIntents and fees that carry an application fee. */
+	readonly application = newId('ca_', 16);
 
 	readonly apiVersion: string;
 	private readonly timers = new Set<NodeJS.Timeout>();
@@ -154,6 +236,10 @@ export class StripeFakeState {
 		this.deliveries.length = 0;
 		this.idempotency.clear();
 		this.nextRefundFailure = null;
+		this.accounts.clear();
+		this.accountLinks.clear();
+		this.applicationFees.clear();
+		this.owners.clear();
 	}
 
 	clearTimers(): void {
@@ -171,13 +257,34 @@ export class StripeFakeState {
 
 	// ---- lookups ---------------------------------------------------------------------------
 
-	/** Any stored object by id (used by `expand`). */
-	findById(id: string): StripeObject | undefined {
+	/** The connected account an object belongs to, or null for the platform's own. */
+	ownerOf(id: string): string | null {
+		return this.owners.get(id) ?? null;
+	}
+
+	/** Whether a call in `scope` may see the object with this id. */
+	inScope(id: string, scope: Scope): boolean {
+		return scope === ALL_ACCOUNTS || this.ownerOf(id) === scope;
+	}
+
+	/** One object of a map, if it is in scope: another account's object answers as if it did not exist. */
+	scoped<T>(map: ReadonlyMap<string, T>, id: string, scope: Scope): T | undefined {
+		return this.inScope(id, scope) ? map.get(id) : undefined;
+	}
+
+	private own(id: string, account: string | null): void {
+		if (account !== null) this.owners.set(id, account);
+	}
+
+	/** Any stored object by id, in scope (used by `expand`). */
+	findById(id: string, scope: Scope): StripeObject | undefined {
+		if (!this.inScope(id, scope)) return undefined;
 		if (id.startsWith('cs_')) return this.getSessionRecord(id)?.session;
 		if (id.startsWith('pi_')) return this.paymentIntents.get(id);
 		if (id.startsWith('ch_')) return this.charges.get(id);
 		if (id.startsWith('re_')) return this.refunds.get(id);
 		if (id.startsWith('evt_')) return this.eventsById.get(id);
+		if (id.startsWith('fee_')) return this.applicationFees.get(id);
 		return undefined;
 	}
 
@@ -190,37 +297,60 @@ export class StripeFakeState {
 		return rec;
 	}
 
-	requireSession(id: string): SessionRecord {
-		const rec = this.getSessionRecord(id);
+	requireSession(id: string, scope: Scope): SessionRecord {
+		const rec = this.inScope(id, scope) ? this.getSessionRecord(id) : undefined;
 		if (!rec) throw err.noSuch('checkout.session', id);
 		return rec;
 	}
 
 	// ---- events ----------------------------------------------------------------------------
 
+	/**
+	 * Stores and sends an event. An event about a connected account's object (or about the account
+	 * itself) belongs to that account and carries `account`, as Connect webhooks do.
+	 */
 	emit(type: string, object: StripeObject, ctx: RequestContext, previousAttributes?: Record<string, unknown>): StripeEvent {
+		const account = object.object === 'account' ? object.id : this.ownerOf(object.id);
 		const event: StripeEvent = {
 			id: newId('evt_'),
 			object: 'event',
+			...(account === null ? {} : { account }),
 			api_version: this.apiVersion,
 			created: this.nowSec(),
 			data: previousAttributes
 				? { object: clone(object), previous_attributes: clone(previousAttributes) }
 				: { object: clone(object) },
 			livemode: false,
-			pending_webhooks: this.options.willDeliver?.(type) ? 1 : 0,
+			pending_webhooks: this.options.willDeliver?.(type, account) ? 1 : 0,
 			request: { id: ctx.requestId, idempotency_key: ctx.idempotencyKey },
 			type
 		};
 		this.events.push(event);
 		this.eventsById.set(event.id, event);
+		this.own(event.id, account);
 		this.options.onEvent?.(event);
 		return event;
 	}
 
 	// ---- Checkout Sessions -----------------------------------------------------------------
 
-	createSession(input: CreateSessionInput): CheckoutSession {
+	/** A Checkout Session of the platform (account null) or of a connected account (a direct charge). */
+	createSession(input: CreateSessionInput, account: string | null): CheckoutSession {
+		if (account !== null) this.requireChargesEnabled(account);
+		const amountTotal = input.lineItems.reduce((sum, li) => sum + li.unitAmount * li.quantity, 0);
+		const fee = input.paymentIntentData.applicationFeeAmount;
+		if (fee !== null && account === null) {
+			throw err.invalid(
+				'payment_intent_data[application_fee_amount]',
+				'An application_fee_amount can only be set on a direct charge, made on a connected account with the Stripe-Account header.'
+			);
+		}
+		if (fee !== null && fee > amountTotal) {
+			throw err.invalid(
+				'payment_intent_data[application_fee_amount]',
+				`The application_fee_amount (${fee}) cannot be more than the session's total (${amountTotal}).`
+			);
+		}
 		const created = this.nowSec();
 		const id = newId('cs_test_', 58);
 		const lineItems: LineItem[] = input.lineItems.map((li) => {
@@ -304,11 +434,13 @@ export class StripeFakeState {
 			url: `${this.publicUrl}/pay/${id}`
 		};
 		this.sessions.set(id, { session, lineItems, paymentIntentData: input.paymentIntentData });
+		this.own(id, account);
+		for (const li of lineItems) this.own(li.id, account);
 		return session;
 	}
 
-	expireSession(id: string, ctx: RequestContext): CheckoutSession {
-		const rec = this.requireSession(id);
+	expireSession(id: string, ctx: RequestContext, scope: Scope): CheckoutSession {
+		const rec = this.requireSession(id, scope);
 		if (rec.session.status !== 'open') {
 			throw err.state(
 				`Only Checkout Sessions with a status in ["open"] can be expired. This session has status '${rec.session.status}'.`
@@ -341,11 +473,13 @@ export class StripeFakeState {
 
 	/** What the pay page's buttons do. Throws when the session is not open. */
 	pay(id: string, method: PayMethod, payerEmail: string | null, ctx: RequestContext = NO_REQUEST): SessionRecord {
-		const rec = this.requireSession(id);
+		const rec = this.requireSession(id, ALL_ACCOUNTS);
 		const s = rec.session;
 		if (s.status !== 'open') {
 			throw err.state(`This Checkout Session is ${s.status}; it can no longer be paid.`, 'checkout_session_not_open');
 		}
+		const account = this.ownerOf(id);
+		if (account !== null) this.requireChargesEnabled(account);
 		const pi = this.ensurePaymentIntent(rec, ctx);
 		const email = s.customer_email ?? payerEmail ?? 'payer@example.test';
 		pi.payment_method = newId('pm_');
@@ -379,6 +513,7 @@ export class StripeFakeState {
 		pi.latest_charge = charge.id;
 		pi.last_payment_error = null;
 		pi.payment_method_types = [delayed ? 'sepa_debit' : 'card'];
+		if (!delayed) this.takeApplicationFee(pi, charge, ctx);
 		s.status = 'complete';
 		s.url = null;
 		s.customer_details = {
@@ -406,7 +541,7 @@ export class StripeFakeState {
 
 	/** Ends a delayed ("pay later") payment: the bank settles it or it fails. */
 	settle(id: string, outcome: 'succeed' | 'fail', ctx: RequestContext = NO_REQUEST): SessionRecord {
-		const rec = this.requireSession(id);
+		const rec = this.requireSession(id, ALL_ACCOUNTS);
 		const s = rec.session;
 		const pi = s.payment_intent ? this.paymentIntents.get(s.payment_intent) : undefined;
 		const charge = pi?.latest_charge ? this.charges.get(pi.latest_charge) : undefined;
@@ -421,6 +556,7 @@ export class StripeFakeState {
 			pi.status = 'succeeded';
 			pi.amount_received = pi.amount;
 			s.payment_status = 'paid';
+			this.takeApplicationFee(pi, charge, ctx);
 			this.emit('charge.succeeded', charge, ctx);
 			this.emit('payment_intent.succeeded', pi, ctx);
 			this.emit('checkout.session.async_payment_succeeded', s, ctx);
@@ -453,8 +589,8 @@ export class StripeFakeState {
 			amount: s.amount_total,
 			amount_capturable: 0,
 			amount_received: 0,
-			application: null,
-			application_fee_amount: null,
+			application: rec.paymentIntentData.applicationFeeAmount === null ? null : this.application,
+			application_fee_amount: rec.paymentIntentData.applicationFeeAmount,
 			automatic_payment_methods: null,
 			canceled_at: null,
 			cancellation_reason: null,
@@ -486,6 +622,7 @@ export class StripeFakeState {
 			transfer_group: null
 		};
 		this.paymentIntents.set(id, pi);
+		this.own(id, this.ownerOf(s.id));
 		s.payment_intent = id;
 		this.emit('payment_intent.created', pi, ctx);
 		return pi;
@@ -499,6 +636,9 @@ export class StripeFakeState {
 			amount: pi.amount,
 			amount_captured: succeeded ? pi.amount : 0,
 			amount_refunded: 0,
+			application: pi.application,
+			application_fee: null,
+			application_fee_amount: null,
 			balance_transaction: null,
 			billing_details: { address: null, email, name: null, phone: null },
 			captured: succeeded,
@@ -527,21 +667,53 @@ export class StripeFakeState {
 			status
 		};
 		this.charges.set(charge.id, charge);
+		this.own(charge.id, this.ownerOf(pi.id));
 		return charge;
+	}
+
+	/**
+	 * When a direct charge with an application fee succeeds, the fee moves to the platform: Stripe
+	 * makes an `application_fee` object (the platform's, listed without a header) and names it on
+	 * the charge.
+	 */
+	private takeApplicationFee(pi: PaymentIntent, charge: Charge, ctx: RequestContext): void {
+		const account = this.ownerOf(pi.id);
+		if (account === null || pi.application_fee_amount === null || pi.application_fee_amount <= 0) return;
+		const id = newId('fee_');
+		const fee: ApplicationFee = {
+			id,
+			object: 'application_fee',
+			account,
+			amount: pi.application_fee_amount,
+			amount_refunded: 0,
+			application: this.application,
+			balance_transaction: null,
+			charge: charge.id,
+			created: this.nowSec(),
+			currency: charge.currency,
+			livemode: false,
+			originating_transaction: null,
+			refunded: false,
+			refunds: { object: 'list', data: [], has_more: false, total_count: 0, url: `/v1/application_fees/${id}/refunds` }
+		};
+		this.applicationFees.set(id, fee);
+		charge.application_fee = id;
+		charge.application_fee_amount = fee.amount;
+		this.emit('application_fee.created', fee, ctx);
 	}
 
 	// ---- Refunds ---------------------------------------------------------------------------
 
-	createRefund(input: CreateRefundInput, ctx: RequestContext): Refund {
+	createRefund(input: CreateRefundInput, ctx: RequestContext, scope: Scope): Refund {
 		let charge: Charge | undefined;
 		if (input.chargeId) {
-			charge = this.charges.get(input.chargeId);
+			charge = this.scoped(this.charges, input.chargeId, scope);
 			if (!charge) throw err.noSuch('charge', input.chargeId, 'charge');
 			if (input.paymentIntentId && charge.payment_intent !== input.paymentIntentId) {
 				throw err.state(`Charge ${charge.id} does not belong to PaymentIntent ${input.paymentIntentId}.`);
 			}
 		} else if (input.paymentIntentId) {
-			const pi = this.paymentIntents.get(input.paymentIntentId);
+			const pi = this.scoped(this.paymentIntents, input.paymentIntentId, scope);
 			if (!pi) throw err.noSuch('payment_intent', input.paymentIntentId, 'payment_intent');
 			charge = pi.latest_charge ? this.charges.get(pi.latest_charge) : undefined;
 			if (!charge || charge.status !== 'succeeded') {
@@ -584,6 +756,7 @@ export class StripeFakeState {
 		};
 		if (failure) refund.pending_reason = 'processing';
 		this.refunds.set(refund.id, refund);
+		this.own(refund.id, this.ownerOf(charge.id));
 		// Pending and succeeded refunds both count against what is left to refund.
 		charge.amount_refunded += amount;
 		charge.refunded = charge.amount_refunded >= charge.amount;
@@ -591,9 +764,21 @@ export class StripeFakeState {
 		if (failure) {
 			this.later(failure.delayMs, () => this.failRefund(refund.id, failure.failureReason));
 		} else {
+			if (input.refundApplicationFee) this.refundApplicationFee(charge, amount, ctx);
 			this.emit('charge.refunded', charge, ctx);
 		}
 		return refund;
+	}
+
+	/** The fee goes back in proportion to the part of the charge refunded (rounded to a minor unit). */
+	private refundApplicationFee(charge: Charge, refunded: number, ctx: RequestContext): void {
+		const fee = charge.application_fee ? this.applicationFees.get(charge.application_fee) : undefined;
+		if (!fee) return;
+		const share = Math.min(fee.amount - fee.amount_refunded, Math.round((fee.amount * refunded) / charge.amount));
+		if (share <= 0) return;
+		fee.amount_refunded += share;
+		fee.refunded = fee.amount_refunded >= fee.amount;
+		this.emit('application_fee.refunded', fee, ctx);
 	}
 
 	private failRefund(id: string, failureReason: string): void {
@@ -612,5 +797,250 @@ export class StripeFakeState {
 			pending_reason: 'processing'
 		});
 		this.emit('refund.failed', refund, NO_REQUEST);
+	}
+
+	// ---- Connect: accounts -------------------------------------------------------------------
+
+	requireAccount(id: string, param?: string): Account {
+		const account = this.accounts.get(id);
+		if (!account) throw err.noSuch('account', id, param);
+		return account;
+	}
+
+	/** A direct charge needs an account that can take charges (`charges_enabled`). */
+	requireChargesEnabled(id: string): Account {
+		const account = this.requireAccount(id);
+		if (!account.charges_enabled) {
+			throw err.state(
+				`The connected account ${id} cannot take charges yet: its set-up is not complete (requirements.disabled_reason: ${account.requirements.disabled_reason ?? 'none'}).`,
+				'charges_not_enabled'
+			);
+		}
+		return account;
+	}
+
+	/**
+	 * What a new account still has to give before it may take charges. Stripe decides this per
+	 * country and business type; the list here is the fake's own, written from memory.
+	 */
+	private initialRequirements(account: Account): AccountRequirements {
+		const due: string[] = [];
+		if (!account.business_profile.mcc) due.push('business_profile.mcc');
+		if (!account.business_profile.url) due.push('business_profile.url');
+		if (!account.business_type) due.push('business_type');
+		due.push('external_account');
+		if (account.business_type === 'company') {
+			due.push('company.address.city', 'company.address.line1', 'company.address.postal_code', 'company.name', 'company.tax_id');
+		} else {
+			due.push(
+				'individual.address.city',
+				'individual.address.line1',
+				'individual.dob.day',
+				'individual.first_name',
+				'individual.last_name'
+			);
+		}
+		due.push('tos_acceptance.date', 'tos_acceptance.ip');
+		return {
+			alternatives: [],
+			current_deadline: null,
+			currently_due: due,
+			disabled_reason: 'requirements.past_due',
+			errors: [],
+			eventually_due: [...due],
+			past_due: [...due],
+			pending_verification: []
+		};
+	}
+
+	private static doneRequirements(): AccountRequirements {
+		return {
+			alternatives: [],
+			current_deadline: null,
+			currently_due: [],
+			disabled_reason: null,
+			errors: [],
+			eventually_due: [],
+			past_due: [],
+			pending_verification: []
+		};
+	}
+
+	createAccount(input: CreateAccountInput, id: string = newId('acct_', 16)): Account {
+		const account: Account = {
+			id,
+			object: 'account',
+			business_profile: {
+				mcc: input.businessProfile.mcc,
+				name: input.businessProfile.name,
+				product_description: null,
+				support_email: null,
+				support_phone: null,
+				support_url: null,
+				url: input.businessProfile.url
+			},
+			business_type: input.businessType,
+			capabilities: { card_payments: 'inactive', transfers: 'inactive' },
+			charges_enabled: false,
+			country: input.country,
+			created: this.nowSec(),
+			default_currency: input.defaultCurrency ?? defaultCurrencyOf(input.country),
+			details_submitted: false,
+			email: input.email,
+			external_accounts: {
+				object: 'list',
+				data: [],
+				has_more: false,
+				total_count: 0,
+				url: `/v1/accounts/${id}/external_accounts`
+			},
+			metadata: input.metadata,
+			payouts_enabled: false,
+			requirements: StripeFakeState.doneRequirements(),
+			tos_acceptance: { date: null },
+			type: input.type
+		};
+		account.requirements = this.initialRequirements(account);
+		this.accounts.set(id, account);
+		return account;
+	}
+
+	/** The account as it is once onboarding is done: it takes charges and pays out. */
+	private markComplete(account: Account): void {
+		account.charges_enabled = true;
+		account.payouts_enabled = true;
+		account.details_submitted = true;
+		account.capabilities = { card_payments: 'active', transfers: 'active' };
+		account.requirements = StripeFakeState.doneRequirements();
+		account.tos_acceptance = { date: account.tos_acceptance.date ?? this.nowSec() };
+		account.business_type ??= 'individual';
+	}
+
+	/** Sends `account.updated` with the fields that changed, if any did. Returns whether it sent one. */
+	private changed(account: Account, before: Account, ctx: RequestContext): boolean {
+		const previous: Record<string, unknown> = {};
+		for (const key of Object.keys(account) as (keyof Account)[]) {
+			if (JSON.stringify(account[key]) !== JSON.stringify(before[key])) previous[key] = before[key];
+		}
+		if (Object.keys(previous).length === 0) return false;
+		this.emit('account.updated', account, ctx, previous);
+		return true;
+	}
+
+	completeAccount(id: string, ctx: RequestContext = NO_REQUEST): Account {
+		const account = this.requireAccount(id);
+		const before = clone(account);
+		this.markComplete(account);
+		this.changed(account, before, ctx);
+		return account;
+	}
+
+	/** New requirements are due now: the account can no longer take charges or pay out until they are met. */
+	setRequirements(id: string, currentlyDue: string[], ctx: RequestContext = NO_REQUEST): Account {
+		const account = this.requireAccount(id);
+		const before = clone(account);
+		const due = [...currentlyDue];
+		account.requirements = {
+			alternatives: [],
+			current_deadline: null,
+			currently_due: due,
+			disabled_reason: due.length > 0 ? 'requirements.past_due' : null,
+			errors: [],
+			eventually_due: [...due],
+			past_due: [...due],
+			pending_verification: []
+		};
+		if (due.length > 0) {
+			account.charges_enabled = false;
+			account.payouts_enabled = false;
+			account.capabilities = { card_payments: 'inactive', transfers: 'inactive' };
+		} else {
+			this.markComplete(account);
+		}
+		this.changed(account, before, ctx);
+		return account;
+	}
+
+	/**
+	 * Makes or updates the account with exactly this id (seeds and tests). A new account sends no
+	 * event; a change to an existing one sends `account.updated`, and the same PUT again sends nothing.
+	 */
+	putAccount(id: string, input: PutAccountInput): { account: Account; created: boolean } {
+		const existing = this.accounts.get(id);
+		const account =
+			existing ??
+			this.createAccount(
+				{
+					type: 'express',
+					country: input.country ?? 'DE',
+					email: input.email,
+					defaultCurrency: input.defaultCurrency,
+					businessType: null,
+					businessProfile: { name: input.businessName, url: null, mcc: null },
+					metadata: {}
+				},
+				id
+			);
+		const before = clone(account);
+		if (input.country !== null) account.country = input.country;
+		if (input.email !== null) account.email = input.email;
+		if (input.defaultCurrency !== null) account.default_currency = input.defaultCurrency;
+		else if (existing && input.country !== null) account.default_currency = defaultCurrencyOf(input.country);
+		if (input.businessName !== null) account.business_profile.name = input.businessName;
+		if (input.completed === true) this.markComplete(account);
+		if (input.completed === false && (existing === undefined || account.charges_enabled || account.details_submitted)) {
+			account.charges_enabled = false;
+			account.payouts_enabled = false;
+			account.details_submitted = false;
+			account.capabilities = { card_payments: 'inactive', transfers: 'inactive' };
+			account.requirements = this.initialRequirements(account);
+		}
+		if (existing) this.changed(account, before, NO_REQUEST);
+		return { account, created: !existing };
+	}
+
+	// ---- Connect: account links (onboarding) ------------------------------------------------
+
+	createAccountLink(account: string, refreshUrl: string, returnUrl: string): AccountLink {
+		this.requireAccount(account, 'account');
+		const token = randomToken(32);
+		const created = this.nowSec();
+		const rec: AccountLinkRecord = {
+			token,
+			account,
+			refreshUrl,
+			returnUrl,
+			created,
+			expiresAt: created + ACCOUNT_LINK_TTL_SECONDS,
+			stage: 'fresh'
+		};
+		this.accountLinks.set(token, rec);
+		return { object: 'account_link', created, expires_at: rec.expiresAt, url: `${this.publicUrl}/connect/onboard/${token}` };
+	}
+
+	/**
+	 * Opening a link uses it up: it shows the page once, and a later visit (or a visit after it
+	 * expired) goes to refresh_url, where the platform makes a new link.
+	 */
+	openAccountLink(token: string): { link: AccountLinkRecord; show: boolean } | undefined {
+		const link = this.accountLinks.get(token);
+		if (!link) return undefined;
+		if (link.stage !== 'fresh' || this.nowSec() >= link.expiresAt) return { link, show: false };
+		link.stage = 'opened';
+		return { link, show: true };
+	}
+
+	/**
+	 * A button on the page: "complete" finishes the set-up; "leave" changes nothing. Either ends the
+	 * link. Answers the URL to send the browser to: return_url, or refresh_url for a link already
+	 * finished (or never opened and expired).
+	 */
+	finishAccountLink(token: string, action: 'complete' | 'leave'): string | undefined {
+		const link = this.accountLinks.get(token);
+		if (!link) return undefined;
+		if (link.stage === 'finished' || (link.stage === 'fresh' && this.nowSec() >= link.expiresAt)) return link.refreshUrl;
+		link.stage = 'finished';
+		if (action === 'complete') this.completeAccount(link.account);
+		return link.returnUrl;
 	}
 }

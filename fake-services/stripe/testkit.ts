@@ -20,7 +20,7 @@ export interface Receiver {
 	close(): Promise<void>;
 }
 
-export async function startReceiver(): Promise<Receiver> {
+export async function startReceiver(path = '/api/stripe/webhook'): Promise<Receiver> {
 	const received: Received[] = [];
 	let plan: number[] = [];
 	const server = http.createServer((req, res) => {
@@ -42,7 +42,7 @@ export async function startReceiver(): Promise<Receiver> {
 	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
 	const { port } = server.address() as AddressInfo;
 	return {
-		url: `http://127.0.0.1:${port}/api/stripe/webhook`,
+		url: `http://127.0.0.1:${port}${path}`,
 		received,
 		respondWith(statuses) {
 			plan = [...statuses];
@@ -80,13 +80,21 @@ export const sleep = (ms: number) => new Promise<void>((r) => setTimeout(r, ms))
 // ---- a fake + receiver + real SDK client, for the specs ----------------------------------------
 
 export const WEBHOOK_SECRET = 'whsec_slateroom_spec';
+export const CONNECT_WEBHOOK_SECRET = 'whsec_slateroom_connect_spec';
 
 export interface Fixture {
 	fake: StripeFake;
+	/** The platform endpoint. */
 	receiver: Receiver;
+	/** The Connect endpoint (events of connected accounts). */
+	connect: Receiver;
 	stripe: Stripe;
 	/** Calls a /_control route with a JSON body; returns status and parsed JSON. */
-	control(method: 'GET' | 'POST', path: string, body?: unknown): Promise<{ status: number; json: Record<string, unknown> }>;
+	control(
+		method: 'GET' | 'POST' | 'PUT',
+		path: string,
+		body?: unknown
+	): Promise<{ status: number; json: Record<string, unknown> }>;
 	/** Deliveries (not resends) received for events of this type, in arrival order. */
 	receivedOf(type: string): Received[];
 	close(): Promise<void>;
@@ -104,10 +112,13 @@ export function sdk(port: number, key = 'sk_test_slateroom_spec'): Stripe {
 
 export async function startFixture(options: StripeFakeOptions = {}): Promise<Fixture> {
 	const receiver = await startReceiver();
+	const connect = await startReceiver('/api/stripe/connect-webhook');
 	const fake = await startStripeFake({
 		port: 0,
 		webhookUrl: receiver.url,
 		webhookSecret: WEBHOOK_SECRET,
+		connectWebhookUrl: connect.url,
+		connectWebhookSecret: CONNECT_WEBHOOK_SECRET,
 		retryDelaysMs: [20, 40, 80],
 		deliveryTimeoutMs: 60_000,
 		...options
@@ -115,6 +126,7 @@ export async function startFixture(options: StripeFakeOptions = {}): Promise<Fix
 	return {
 		fake,
 		receiver,
+		connect,
 		stripe: sdk(fake.port),
 		async control(method, path, body) {
 			const res = await fetch(`${fake.url}/_control${path}`, {
@@ -131,6 +143,7 @@ export async function startFixture(options: StripeFakeOptions = {}): Promise<Fix
 		async close() {
 			await fake.close();
 			await receiver.close();
+			await connect.close();
 		}
 	};
 }

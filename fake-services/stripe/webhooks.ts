@@ -1,6 +1,10 @@
 /**
  * Webhook delivery, as Stripe documents it: signed POSTs of the event JSON, at least once, in no
  * guaranteed order, retried with back-off on any non-2xx answer or connection error.
+ *
+ * Two endpoints, as a Connect platform has them: the platform's own (events of the platform's
+ * objects) and the Connect endpoint (events of connected accounts, which carry `account`), each
+ * with its own signing secret.
  */
 import http from 'node:http';
 import https from 'node:https';
@@ -11,9 +15,12 @@ import type { DeliveryRecord, StripeFakeState } from './state.js';
 export const DEFAULT_RETRY_DELAYS_MS = [500, 1000, 2000, 4000, 8000, 16000, 30000, 30000];
 
 export interface DispatcherOptions {
-	/** null: events are recorded but not sent anywhere. */
+	/** The platform endpoint; null: its events are recorded but not sent anywhere. */
 	url: string | null;
 	secret: string;
+	/** The Connect endpoint, for events of connected accounts; null: recorded, not sent. */
+	connectUrl: string | null;
+	connectSecret: string;
 	/** Delay before each automatic retry; its length bounds the retries (tries = length + 1). */
 	retryDelaysMs: number[];
 	/** How long one attempt may take before it counts as a connection error. */
@@ -58,24 +65,35 @@ export class WebhookDispatcher {
 		return this.options.url;
 	}
 
+	get connectUrl(): string | null {
+		return this.options.connectUrl;
+	}
+
+	/** The endpoint an event goes to: Connect for a connected account's event, else the platform's. */
+	endpointOf(event: Pick<StripeEvent, 'account'>): { name: DeliveryRecord['endpoint']; url: string | null; secret: string } {
+		return event.account === undefined
+			? { name: 'platform', url: this.options.url, secret: this.options.secret }
+			: { name: 'connect', url: this.options.connectUrl, secret: this.options.connectSecret };
+	}
+
 	get heldCount(): number {
 		return this.heldQueue.length;
 	}
 
-	willDeliver(type: string): boolean {
-		if (!this.options.url) return false;
+	willDeliver(type: string, account: string | null = null): boolean {
+		if (!this.endpointOf(account === null ? {} : { account }).url) return false;
 		return this.options.enabledEvents.some(
 			(p) => p === '*' || p === type || (p.endsWith('.*') && type.startsWith(p.slice(0, -1)))
 		);
 	}
 
 	enqueue(event: StripeEvent): void {
-		if (!this.willDeliver(event.type)) return;
+		if (!this.willDeliver(event.type, event.account ?? null)) return;
 		this.schedule(this.attempt(event, 'initial', true, 'valid', 0), 0);
 	}
 
 	resend(event: StripeEvent, opts: ResendOptions = {}): void {
-		if (!this.options.url) throw new Error('No webhook URL is configured');
+		if (!this.endpointOf(event).url) throw new Error(`No ${this.endpointOf(event).name} webhook URL is configured`);
 		this.schedule(
 			this.attempt(event, 'resend', false, opts.signature ?? 'valid', opts.timestampOffsetSeconds ?? 0),
 			Math.max(0, opts.delayMs ?? 0)
@@ -136,13 +154,14 @@ export class WebhookDispatcher {
 	}
 
 	private async send(a: Attempt): Promise<void> {
-		const url = this.options.url;
+		const endpoint = this.endpointOf(a.event);
+		const url = endpoint.url;
 		if (!url || a.generation !== this.generation) return;
 		const body = JSON.stringify(a.event, null, 2);
 		// Signatures use the real clock even when the fake runs on a test clock: the receiver
 		// checks the timestamp against its own clock (Stripe's default tolerance is 300 s).
 		const timestamp = Math.floor(Date.now() / 1000) + a.timestampOffsetSeconds;
-		const secret = a.signature === 'bad' ? `${this.options.secret}_wrong` : this.options.secret;
+		const secret = a.signature === 'bad' ? `${endpoint.secret}_wrong` : endpoint.secret;
 		const attemptNo = (this.attemptCounts.get(a.event.id) ?? 0) + 1;
 		this.attemptCounts.set(a.event.id, attemptNo);
 		const started = Date.now();
@@ -151,6 +170,7 @@ export class WebhookDispatcher {
 		const record: DeliveryRecord = {
 			eventId: a.event.id,
 			type: a.event.type,
+			endpoint: endpoint.name,
 			attempt: attemptNo,
 			kind: a.kind,
 			url,
