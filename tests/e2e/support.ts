@@ -119,6 +119,23 @@ export async function acceptSteps(
 	}
 }
 
+/**
+ * On the set-up's Get paid step or the Get paid page: goes to Stripe's onboarding (the Stripe
+ * fake's page), presses `finish` there ("Complete set-up" or "Leave unfinished") and is sent back
+ * to the return page.
+ */
+export async function getPaid(page: Page, finish: 'Complete set-up' | 'Leave unfinished' = 'Complete set-up') {
+	await page.getByRole('button', { name: /^(Set up payments with Stripe|Continue on Stripe)$/ }).click();
+	await page.getByRole('button', { name: finish }).click();
+	await expect(page).toHaveURL(/\/studio\/get-paid\/return$/);
+}
+
+/** On the set-up's Get paid step: leaves payments for later and goes on to the review. */
+export async function skipGetPaid(page: Page) {
+	await expect(page.getByRole('heading', { level: 1, name: 'Get paid' })).toBeVisible();
+	await page.getByRole('link', { name: 'Do this later and go on to the review' }).click();
+}
+
 /** On the set-up's last step: publishes the studio under its short name. */
 export async function publishStudio(page: Page, slug: string) {
 	await expect(page.getByRole('heading', { level: 1, name: 'Review and publish' })).toBeVisible();

@@ -270,6 +270,15 @@ const ENTRIES: Record<string, Entry> = {
 			publish: (b) => ({ studio: b.id })
 		}
 	},
+	'/studio/get-paid': {
+		path: () => '/studio/get-paid',
+		into: false,
+		form: { start: (b) => ({ studio: b.id, account: b.id }) },
+		skip: { start: 'it makes a payment account for the studio the walker works in, when it has none, and reads nothing posted' }
+	},
+	// Stripe sends the owner back to these two; both read and renew the walker's own studio's account only.
+	'/studio/get-paid/return': { path: () => '/studio/get-paid/return', into: false },
+	'/studio/get-paid/refresh': { path: () => '/studio/get-paid/refresh', into: false },
 	'/plan': {
 		path: () => `/plan?date=${B_DAY}`,
 		into: false,

@@ -213,7 +213,7 @@ describe('the set-up and publishing', () => {
 		]);
 
 		// The desk shows the set-up until the studio is published.
-		expect(await (await owner.fetch('/studio')).text()).toContain('Set-up: 1 of 7 done');
+		expect(await (await owner.fetch('/studio')).text()).toContain('Set-up: 1 of 8 done');
 		// A post without the button's word changes nothing.
 		expect((await owner.form('/studio/setup?/publish', {})).status).toBe(400);
 		expect(await slugs()).not.toContain('larch-cellar');

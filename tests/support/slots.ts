@@ -14,7 +14,8 @@ export interface Slot {
 
 /**
  * Tries `days` × `slots` in order with `tryHold` until one answers 201, and gives that answer's
- * body with its slot. A 409 (taken) tries the next; any other answer fails at once with its body.
+ * body with its slot. A 409 (taken) tries the next; any other answer (also 409 `bookings_not_open`)
+ * fails at once with its body.
  */
 export async function firstFree<T>(
 	days: readonly string[],
@@ -25,8 +26,9 @@ export async function firstFree<T>(
 		for (const [from, to] of slots) {
 			const slot = { day, start: `${day}T${from}`, end: `${day}T${to}` };
 			const res = await tryHold(slot);
-			if (res.status === 409) continue;
 			const body = await res.body();
+			// A studio that takes no bookings yet answers 409 too: no slot of it will ever be free.
+			if (res.status === 409 && (body as { error?: string } | null)?.error !== 'bookings_not_open') continue;
 			if (res.status !== 201) throw new Error(`holding ${slot.start}–${to} answered ${res.status}: ${JSON.stringify(body)}`);
 			return { ...(body as T), ...slot };
 		}

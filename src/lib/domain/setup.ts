@@ -2,8 +2,11 @@
 // booking references and the defaults a new studio starts from. Plain rules, no framework.
 import type { CancellationRung, OpeningHours } from './types';
 
-/** The set-up steps, in the order the owner meets them; publishing comes after the last. */
-export const SETUP_STEPS = ['address', 'vat', 'rooms', 'engineer', 'hours', 'rules', 'holidays'] as const;
+/**
+ * The set-up steps, in the order the owner meets them; publishing comes after the last. `payouts`
+ * (Get paid) is done when the studio's payment account can take charges, not when it is saved.
+ */
+export const SETUP_STEPS = ['address', 'vat', 'rooms', 'engineer', 'hours', 'rules', 'holidays', 'payouts'] as const;
 export type SetupStep = (typeof SETUP_STEPS)[number];
 
 export const SETUP_STEP_TITLES: Record<SetupStep, string> = {
@@ -13,7 +16,8 @@ export const SETUP_STEP_TITLES: Record<SetupStep, string> = {
 	engineer: 'Engineer rates',
 	hours: 'Opening hours',
 	rules: 'Booking rules',
-	holidays: 'Public holidays'
+	holidays: 'Public holidays',
+	payouts: 'Get paid'
 };
 
 export function isSetupStep(text: string): text is SetupStep {

@@ -118,7 +118,13 @@ export interface SetupState {
 export async function setupState(studioId: string): Promise<SetupState> {
 	const [[row], [rooms]] = await Promise.all([
 		db
-			.select({ done: studio.setupDone, published: studio.published, street: studio.street, city: studio.city })
+			.select({
+				done: studio.setupDone,
+				published: studio.published,
+				street: studio.street,
+				city: studio.city,
+				chargesEnabled: studio.chargesEnabled
+			})
 			.from(studio)
 			.where(eq(studio.id, studioId)),
 		db
@@ -127,7 +133,8 @@ export async function setupState(studioId: string): Promise<SetupState> {
 			.where(and(eq(room.studioId, studioId), eq(room.active, true)))
 	]);
 	if (!row) throw new Error(`no studio ${studioId}`);
-	const done = SETUP_STEPS.filter((s) => row.done.includes(s));
+	// Get paid is done by Stripe's word (the account takes charges), never by a saved step.
+	const done = SETUP_STEPS.filter((s) => (s === 'payouts' ? row.chargesEnabled : row.done.includes(s)));
 	const missing: string[] = [];
 	// Directive 2006/112/EC Article 226(5): an invoice states the supplier's address.
 	if (!row.street || !row.city) missing.push('the studio’s address (its invoices carry it)');

@@ -8,6 +8,7 @@ export const load: LayoutServerLoad = async ({ params, locals }) => {
 	const { studio, slug } = await pageStudio(params.studio, locals);
 	return {
 		studio: { name: studio.name, timeZone: studio.timeZone, currency: studio.currency, locale: studio.locale },
-		storefront: { id: studio.id, slug, published: studio.published }
+		// A studio takes bookings (and their deposits) only once its payment account can take charges.
+		storefront: { id: studio.id, slug, published: studio.published, bookingsOpen: studio.chargesEnabled }
 	};
 };

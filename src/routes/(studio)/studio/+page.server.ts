@@ -4,6 +4,7 @@ import { requireRole } from '$lib/server/guard';
 import { outstandingBalances, unresolvedFailedRefunds } from '$lib/server/invoices/month';
 import { staffActor } from '$lib/server/actor';
 import { setupState } from '$lib/server/studio-setup';
+import { payoutState } from '$lib/server/payouts';
 import { SETUP_STEPS } from '$lib/domain/setup';
 import type { PageServerLoad } from './$types';
 
@@ -11,12 +12,13 @@ export const load: PageServerLoad = async ({ locals }) => {
 	const owner = requireRole(locals, 'owner');
 	const { studioId } = staffActor(locals, null);
 	const now = new Date();
-	const [desk, owed, failedRefunds, setup] = await Promise.all([
+	const [desk, owed, failedRefunds, setup, payout] = await Promise.all([
 		bookings.ownerDesk({ studioId, role: owner.role }, now),
 		// What is owed and which refunds failed, whatever their month (the month report lists both too).
 		outstandingBalances(studioId, now),
 		unresolvedFailedRefunds(studioId),
-		setupState(studioId)
+		setupState(studioId),
+		payoutState(studioId)
 	]);
 	if (!desk) error(403, { error: 'forbidden', message: 'Your role does not give access to this.' });
 	const iso = <T extends { startsAt: Date; endsAt: Date }>(b: T) => ({
@@ -29,6 +31,8 @@ export const load: PageServerLoad = async ({ locals }) => {
 		counts: desk.counts,
 		// Until the studio is published, the desk leads back into its set-up.
 		setup: setup.published ? null : { done: setup.done.length, of: SETUP_STEPS.length },
+		// A studio whose account cannot take charges takes no bookings: the desk says what is missing.
+		payout: payout.status.state === 'ready' ? null : payout.status,
 		attention: { owed, failedRefunds, toClose: desk.toClose.map(iso) }
 	};
 };

@@ -5,6 +5,7 @@ import { listHireableGear } from '$lib/server/inventory';
 import * as bookings from '$lib/server/bookings';
 import { listRooms, publicRoom } from '$lib/server/studio';
 import { pageStudio } from '$lib/server/storefront';
+import { BOOKINGS_NOT_OPEN } from '$lib/server/payouts';
 import { bookPath, choicesFromQuery, YMD_RE } from '$lib/components/booking/choices';
 import { addDays, wallClock } from '$lib/domain/time';
 import type { AvailabilityBody } from '$lib/components/calendar/availability';
@@ -112,6 +113,8 @@ export const actions: Actions = {
 		// Actions run before any load: the studio of the address is looked up (and hidden) here too.
 		const { studio: found, slug } = await pageStudio(params.studio, locals);
 		const form = await superValidate<BookForm, BookMessage>(request, zod4(bookFormSchema));
+		// No deposit can be taken before the studio's payment account takes charges: no hold either.
+		if (!found.chargesEnabled) return message(form, { kind: 'error', text: BOOKINGS_NOT_OPEN }, { status: 409 });
 		// Signed out (a session that ended while choosing): keep every choice through sign-in.
 		if (!locals.user) {
 			// The choices ride along only when sign-in can follow them back (at most 500 characters).

@@ -6,6 +6,7 @@ import { staffActor } from '$lib/server/actor';
 import { listRooms, staffStudio } from '$lib/server/studio';
 import * as settings from '$lib/server/settings';
 import * as setup from '$lib/server/studio-setup';
+import * as payouts from '$lib/server/payouts';
 import { readFormData, formText } from '$lib/server/api';
 import { countryChoices, countryProblem } from '$lib/domain/studio-place';
 import { hasPublicHolidayCalendar } from '$lib/domain/holidays';
@@ -36,7 +37,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	const currency = studio.currency;
 	const blocks = { halfDayMinutes: studio.halfDayMinutes, fullDayMinutes: studio.fullDayMinutes };
 	const rooms = await listRooms(studio.id, { includeInactive: true });
-	const [address, policy, roomForms, newRoom] = await Promise.all([
+	const [address, policy, roomForms, newRoom, payout] = await Promise.all([
 		superValidate<AddressForm, Note>(
 			{ street: studio.street, postalCode: studio.postalCode, city: studio.city, country: studio.country, vatId: studio.vatId },
 			zod4(addressSchema),
@@ -53,7 +54,8 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 				})
 			)
 		),
-		superValidate<RoomForm, Note>({ ...NEW_ROOM }, zod4(roomSchema(currency, blocks)), { id: 'room-new', errors: false })
+		superValidate<RoomForm, Note>({ ...NEW_ROOM }, zod4(roomSchema(currency, blocks)), { id: 'room-new', errors: false }),
+		payouts.payoutState(studio.id)
 	]);
 	return {
 		step,
@@ -72,6 +74,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 		rooms: rooms.map((r) => ({ id: r.id, slug: r.slug, name: r.name, active: r.active, hourly: r.hourly })),
 		roomForms,
 		newRoom,
+		payout,
 		summary: {
 			street: studio.street,
 			postalCode: studio.postalCode,

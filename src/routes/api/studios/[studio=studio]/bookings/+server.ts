@@ -3,6 +3,7 @@ import * as bookings from '$lib/server/bookings';
 import { apiError, readJson } from '$lib/server/api';
 import { apiStudio } from '$lib/server/storefront';
 import { mayBook } from '$lib/roles';
+import { BOOKINGS_NOT_OPEN } from '$lib/server/payouts';
 import type { RequestHandler } from './$types';
 
 /** A hold at the studio of the address (its rooms and gear only), and the deposit's Checkout. */
@@ -11,6 +12,8 @@ export const POST: RequestHandler = async ({ params, request, locals, url, getCl
 	if (!found.ok) return found.response;
 	if (!locals.user) return apiError(401, 'unauthenticated', 'Please sign in to book.');
 	if (!mayBook(locals.user.role)) return apiError(403, 'forbidden', 'Your role reads the accounts; it does not book sessions.');
+	// No deposit can be taken before the studio's payment account takes charges: no hold either.
+	if (!found.at.studio.chargesEnabled) return apiError(409, 'bookings_not_open', BOOKINGS_NOT_OPEN);
 	const read = await readJson(request);
 	if (!read.ok) return read.response;
 	const parsed = bookings.parseBookingRequest(read.body);
