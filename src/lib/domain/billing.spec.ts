@@ -93,7 +93,14 @@ describe('billing details', () => {
 	});
 
 	it('need every line, on one line', () => {
-		const parsed = parseBilling({ kind: 'person', name: ' ', street: 'a\nb', postalCode: '', city: 'x'.repeat(101), country: 'FI' });
+		const parsed = parseBilling({
+			kind: 'person',
+			name: ' ',
+			street: 'a\nb',
+			postalCode: '',
+			city: 'x'.repeat(101),
+			country: 'FI'
+		});
 		expect(parsed.ok).toBe(false);
 		if (parsed.ok) return;
 		expect(Object.keys(parsed.fields).sort()).toEqual(['city', 'name', 'postalCode', 'street']);

@@ -201,7 +201,8 @@ export function vatIdProblem(raw: string, country: string): string | null {
 			: `A VAT ID from ${countryName(country)} begins with ${prefix}.`;
 	}
 	const result = checkVAT(id, [rules]);
-	if (!result.isValidFormat) return `That is not the form of a VAT ID from ${countryName(country)}: check it against your registration.`;
+	if (!result.isValidFormat)
+		return `That is not the form of a VAT ID from ${countryName(country)}: check it against your registration.`;
 	if (!result.isValid) return 'Its check digit does not match the rest: check it for a typing error.';
 	return null;
 }
@@ -265,9 +266,12 @@ export function checkVatIdOf(value: BillingShape, addIssue: (message: string) =>
 }
 
 /** Billing details as the account page, the booking form and the JSON API take them. */
-export const billingSchema = z.object(billingFields).superRefine((value, ctx) =>
-	checkVatIdOf(value, (message) => ctx.addIssue({ code: 'custom', path: ['vatId'], message }))
-);
+export const billingSchema = z
+	.object(billingFields)
+	.superRefine((value, ctx) => checkVatIdOf(value, (message) => ctx.addIssue({ code: 'custom', path: ['vatId'], message })));
+
+/** Billing details as a form holds them (a type alias, as superforms wants its data). */
+export type BillingForm = z.infer<typeof billingSchema>;
 
 /** Details the schema accepted, as they are kept: the VAT ID normalised, none for a person. */
 export function normaliseBilling(d: BillingDetails): BillingDetails {
