@@ -18,10 +18,11 @@ describe('navigationFor', () => {
 		expect(navigationFor('artist', 'hollow-pine').map((i) => i.href)).toEqual([
 			'/hollow-pine/book',
 			'/bookings',
+			'/account',
 			'/hollow-pine/rooms',
 			'/hollow-pine/calendar'
 		]);
-		expect(navigationFor('artist').map((i) => i.href)).toEqual(['/bookings']);
+		expect(navigationFor('artist').map((i) => i.href)).toEqual(['/bookings', '/account']);
 		// The accountant books nothing, in a storefront or not.
 		expect(navigationFor('accountant', 'hollow-pine').map((i) => i.href)).toEqual(['/accounts']);
 	});

@@ -56,7 +56,7 @@ export function navigationFor(role: Role | null, studio: string | null = null): 
 		case 'accountant':
 			return [{ href: '/accounts', label: 'Accounts' }];
 		case 'artist':
-			return [...book, { href: '/bookings', label: 'My bookings' }, ...common];
+			return [...book, { href: '/bookings', label: 'My bookings' }, { href: '/account', label: 'Billing details' }, ...common];
 		default:
 			return [...common, ...book];
 	}

@@ -26,13 +26,13 @@ const roles: { email: string; lands: string; nav: string[]; storefront: Record<s
 	{
 		email: 'artist@slateroom.test',
 		lands: '/bookings',
-		nav: ['My bookings'],
+		nav: ['My bookings', 'Billing details'],
 		storefront: { 'Book a session': '/hollow-pine/book', Calendar: '/hollow-pine/calendar' }
 	},
 	{
 		email: 'artist2@slateroom.test',
 		lands: '/bookings',
-		nav: ['My bookings'],
+		nav: ['My bookings', 'Billing details'],
 		storefront: { 'Book a session': '/hollow-pine/book' }
 	}
 ];

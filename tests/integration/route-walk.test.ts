@@ -191,6 +191,30 @@ const ENTRIES: Record<string, Entry> = {
 	},
 	// A person's own bookings, and one booking by its id.
 	'/bookings': { path: () => '/bookings', into: false },
+	// A person's own billing details: they name no studio. The walkers' writes are refused (a wrong
+	// VAT ID, a missing name), so the demo accounts keep having none.
+	'/account': {
+		path: () => '/account',
+		into: false,
+		form: {
+			default: (b) => ({ kind: 'organisation', name: '', street: b.slug, postalCode: '00100', city: 'Helsinki', country: 'FI' })
+		}
+	},
+	'/api/me/billing': {
+		path: () => '/api/me/billing',
+		into: false,
+		json: {
+			PUT: (b) => ({
+				kind: 'organisation',
+				name: b.slug,
+				street: 'x',
+				postalCode: '00100',
+				city: 'Helsinki',
+				country: 'FI',
+				vatId: 'FI12345672'
+			})
+		}
+	},
 	'/bookings/[id=uuid]': {
 		path: (b) => `/bookings/${b.booking}`,
 		into: true,

@@ -13,6 +13,7 @@ import {
 	type BookingChoices
 } from '$lib/components/booking/choices';
 import { addWallMinutes } from '$lib/domain/time';
+import { BUYER_KINDS, billingFields, billingSchema, checkVatIdOf } from '$lib/domain/billing';
 import { lineText, multilineText } from './input';
 
 /** The fields the form and the API share. */
@@ -27,17 +28,64 @@ const shared = {
 	notes: multilineText().trim().max(4000, { error: 'Keep notes under 4000 characters.' }).default('')
 };
 
-/** The JSON API's body: start and end as studio wall times or instants with an offset. */
+/**
+ * The JSON API's body: start and end as studio wall times or instants with an offset, and
+ * optionally whom to bill (absent or null: the artist's name alone).
+ */
 export const bookingRequestSchema = z.object({
 	...shared,
 	start: lineText({ error: 'Choose a start time.' }).trim().min(1, { error: 'Choose a start time.' }).max(40),
-	end: lineText({ error: 'Choose an end time.' }).trim().min(1, { error: 'Choose an end time.' }).max(40)
+	end: lineText({ error: 'Choose an end time.' }).trim().min(1, { error: 'Choose an end time.' }).max(40),
+	billing: billingSchema.nullish()
 });
 export type BookingRequest = z.infer<typeof bookingRequestSchema>;
 
+/** Whom the booking is billed to: the saved details, details typed for it, or the artist's name alone. */
+export const BILL_TO = ['name', 'saved', 'other'] as const;
+export type BillTo = (typeof BILL_TO)[number];
+
+/**
+ * The "other details" of the /book form as flat fields (the form works without the page's script,
+ * so no nested object), checked by the billing rules only when they are the ones chosen.
+ */
+const billFields = {
+	billTo: z.enum(BILL_TO, { error: 'Choose whom to bill.' }).default('name'),
+	billKind: z.enum(BUYER_KINDS, { error: 'Choose a person or an organisation.' }).default('person'),
+	billName: z.string().default(''),
+	billStreet: z.string().default(''),
+	billPostalCode: z.string().default(''),
+	billCity: z.string().default(''),
+	billCountry: z.string().default(''),
+	billVatId: z.string().default(''),
+	saveBilling: z.boolean().default(false)
+};
+const BILL_FIELD = {
+	name: 'billName',
+	street: 'billStreet',
+	postalCode: 'billPostalCode',
+	city: 'billCity',
+	country: 'billCountry',
+	vatId: 'billVatId'
+} as const;
+type BillFields = { [K in keyof typeof billFields]: z.infer<(typeof billFields)[K]> };
+
+/** The form's other details in the billing rules' names. */
+export function typedBilling(f: BillFields) {
+	return {
+		kind: f.billKind,
+		name: f.billName,
+		street: f.billStreet,
+		postalCode: f.billPostalCode,
+		city: f.billCity,
+		country: f.billCountry,
+		vatId: f.billKind === 'organisation' ? f.billVatId : ''
+	};
+}
+
 /** The /book form: a date, a start and a length (a block or hours) instead of two times. */
-export const bookFormSchema = z.object({
+const bookFormObject = z.object({
 	...shared,
+	...billFields,
 	kind: z.enum(BOOKING_KINDS, { error: 'Choose hourly, a half day or a full day.' }).default('half'),
 	date: z
 		.string({ error: 'Choose a date.' })
@@ -50,6 +98,17 @@ export const bookFormSchema = z.object({
 		.max(24, { error: 'Book at most 24 hours at a time.' })
 		.multipleOf(0.5, { error: 'Book in half-hour steps.' })
 		.default(2)
+});
+export const bookFormSchema = bookFormObject.superRefine((f, ctx) => {
+	if (f.billTo !== 'other') return;
+	// The billing rules, each message on the form's own field.
+	const typed = typedBilling(f);
+	for (const key of Object.keys(BILL_FIELD) as (keyof typeof BILL_FIELD)[]) {
+		const checked = billingFields[key].safeParse(typed[key]);
+		for (const issue of checked.error?.issues ?? [])
+			ctx.addIssue({ code: 'custom', path: [BILL_FIELD[key]], message: issue.message });
+	}
+	checkVatIdOf(typed, (message) => ctx.addIssue({ code: 'custom', path: ['billVatId'], message }));
 });
 export type BookForm = z.infer<typeof bookFormSchema>;
 

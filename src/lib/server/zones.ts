@@ -13,6 +13,7 @@ const ZONES: Zone[] = [
 	{ prefix: '/accounts', roles: ['owner', 'accountant'] },
 	{ prefix: '/studios', roles: 'signed-in' },
 	{ prefix: '/bookings', roles: 'signed-in' },
+	{ prefix: '/account', roles: 'signed-in' },
 	{ prefix: '/uploads', roles: 'signed-in' }
 ];
 

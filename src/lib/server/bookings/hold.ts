@@ -9,6 +9,7 @@ import { audit } from '../audit';
 import { pgCode } from '../payments/core';
 import { startCheckout } from '../payments/checkout';
 import { holdExpiry } from '$lib/domain/lifecycle';
+import { normaliseBilling } from '$lib/domain/billing';
 import type { Quote } from '$lib/domain/pricing';
 import { nearestStarts } from './availability';
 import type { PricingContext } from './context';
@@ -95,7 +96,9 @@ export async function createHold(
 						quote,
 						currency: quote.currency,
 						total: quote.total,
-						deposit: quote.deposit
+						deposit: quote.deposit,
+						// Whom to bill, as chosen at booking (the request's rules were checked when it was read).
+						billing: req.billing ? normaliseBilling(req.billing) : null
 					})
 					.returning();
 				if (gear.length) {

@@ -14,6 +14,7 @@ export { availability, rebookable, type AvailabilityResult } from './availabilit
 export { priceRequest, publicQuote, quoteFor, type Priced } from './quote';
 export { createHold, holdAndCheckout, type HoldOutcome, type HoldRefusal, type HeldWithCheckout } from './hold';
 export {
+	billedTo,
 	bookingJson,
 	canSeeAll,
 	getForViewer,

@@ -195,6 +195,7 @@ export async function getForViewer(actor: SessionUser, id: string) {
 			...summaryColumns,
 			quote: booking.quote,
 			notes: booking.notes,
+			billing: booking.billing,
 			actualEndsAt: booking.actualEndsAt,
 			cancelledAt: booking.cancelledAt,
 			cancelReason: booking.cancelReason,
@@ -239,6 +240,15 @@ export async function getForViewer(actor: SessionUser, id: string) {
 }
 
 export type BookingDetail = NonNullable<Awaited<ReturnType<typeof getForViewer>>>;
+
+/**
+ * Whom a booking is billed to, for those who deal with its money (its artist, the owner, the
+ * accountant): null means the artist's name alone. An engineer runs the session and is not shown
+ * the buyer's address (undefined).
+ */
+export function billedTo(b: Pick<BookingDetail, 'billing' | 'viewerRole'>) {
+	return b.viewerRole === 'engineer' ? undefined : b.billing;
+}
 type BookingSummary = Awaited<ReturnType<typeof listInStudio>>[number];
 
 /** The studio a booking is read through, as the JSON API names it. */

@@ -11,11 +11,16 @@ export { bookingRequestSchema, requestFromChoices, type BookingRequest };
 
 export type FieldErrors = Record<string, string[]>;
 
-/** A zod error as field messages, by the first part of each issue's path ('_' for the whole). */
+/**
+ * A zod error as field messages, by the first part of each issue's path ('_' for the whole); the
+ * billing object's fields by their own names under it ('billing.vatId').
+ */
 export function zodFieldErrors(error: z.ZodError): FieldErrors {
 	const fields: FieldErrors = {};
 	for (const issue of error.issues) {
-		const key = issue.path.length ? String(issue.path[0]) : '_';
+		const [first, second] = issue.path;
+		const key =
+			first === undefined ? '_' : first === 'billing' && second !== undefined ? `billing.${String(second)}` : String(first);
 		(fields[key] ??= []).push(issue.message);
 	}
 	return fields;

@@ -11,7 +11,9 @@ import type { AvailabilityBody } from '$lib/components/calendar/availability';
 import { mayBook } from '$lib/roles';
 import { studioPath } from '$lib/studio-paths';
 import { dateProblem } from '$lib/schemas/input';
-import { bookFormSchema, type BookForm, type BookMessage } from './schema';
+import * as billing from '$lib/server/billing';
+import { billingCountries, normaliseBilling, type BillingDetails } from '$lib/domain/billing';
+import { bookFormSchema, typedBilling, type BookForm, type BookMessage } from './schema';
 import type { Actions, PageServerLoad } from './$types';
 
 /** The accountant reads the accounts only: no booking page, no holds (OWASP ASVS 8.2.1). */
@@ -64,9 +66,14 @@ export const load: PageServerLoad = async ({ url, locals, parent }) => {
 	}
 
 	const today = wallClock(Date.now(), studio.timeZone).date;
+	const saved = locals.user ? await billing.get(locals.user) : null;
+	// Whom to bill: the saved details when there are some (a choice the artist can change).
+	if (saved) form.data.billTo = 'saved';
 	return {
 		form,
 		signedIn: !!locals.user,
+		savedBilling: saved,
+		countries: billingCountries(),
 		rooms: rooms.map(({ id: _id, ...r }) => r),
 		gear: gearRows.map(({ homeRoomId, ...g }) => ({ ...g, room: slugOf.get(homeRoomId!) ?? '' })),
 		open,
@@ -121,9 +128,25 @@ export const actions: Actions = {
 		refuseNonBookers(locals);
 		if (!form.valid) return fail(422, { form });
 
+		// Whom to bill: the saved details, the details typed here (checked by the schema), or the name alone.
+		let billTo: BillingDetails | null = null;
+		if (form.data.billTo === 'saved') {
+			billTo = await billing.get(locals.user);
+			if (!billTo) {
+				return message(
+					form,
+					{ kind: 'error', text: 'You have no billing details saved yet: enter them under “Other details”.' },
+					{ status: 422 }
+				);
+			}
+		} else if (form.data.billTo === 'other') {
+			billTo = normaliseBilling(typedBilling(form.data));
+		}
+
 		const ctx = await bookings.pricingContext(found.id);
 		const { studio } = ctx;
-		const outcome = await bookings.holdAndCheckout(locals.user, bookings.requestFromChoices(form.data, studio), {
+		const wish = { ...bookings.requestFromChoices(form.data, studio), billing: billTo };
+		const outcome = await bookings.holdAndCheckout(locals.user, wish, {
 			origin: url.origin,
 			ip: getClientAddress(),
 			ctx
@@ -154,6 +177,7 @@ export const actions: Actions = {
 			return message(form, { kind: 'error', text: general.join(' ') || outcome.message }, { status: 422 });
 		}
 
+		if (billTo && form.data.billTo === 'other' && form.data.saveBilling) await billing.save(locals.user, billTo);
 		redirect(303, outcome.checkoutUrl ?? `/bookings/${outcome.booking.id}`);
 	}
 };

@@ -88,6 +88,7 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 			artistName: b.artistName,
 			project: b.project,
 			notes: b.notes,
+			billedTo: bookings.billedTo(b),
 			cancelledAt: b.cancelledAt,
 			cancelReason: b.cancelReason,
 			durationMinutes: q.durationMinutes,

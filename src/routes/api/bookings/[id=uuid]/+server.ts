@@ -8,5 +8,7 @@ export const GET: RequestHandler = async ({ locals, params }) => {
 	const b = await bookings.getForViewer(locals.user, params.id);
 	// Another artist's booking, or another studio's, is a 404, not a 403: its existence is not theirs to know.
 	if (!b) return apiError(404, 'not_found', 'No such booking.');
-	return json(bookings.bookingJson(b, b.studio));
+	// `billing`: whom it is billed to (null: the artist's name alone), for all but its engineers.
+	const billing = bookings.billedTo(b);
+	return json({ ...bookings.bookingJson(b, b.studio), ...(billing === undefined ? {} : { billing }) });
 };
