@@ -7,6 +7,9 @@ const dir = process.argv[2];
 let passed = 0;
 let failed = 0;
 let skipped = 0;
+// A file that fails outside any test (its set-up throws, it cannot be loaded) counts no failed
+// test, so it is counted on its own: the closing line must never read "0 failed" when it did.
+let brokenFiles = 0;
 for (const name of ['vitest.json', 'outage.json']) {
 	const file = join(dir, name);
 	if (!existsSync(file)) continue;
@@ -14,6 +17,9 @@ for (const name of ['vitest.json', 'outage.json']) {
 	passed += r.numPassedTests ?? 0;
 	failed += r.numFailedTests ?? 0;
 	skipped += (r.numPendingTests ?? 0) + (r.numTodoTests ?? 0);
+	for (const f of r.testResults ?? []) {
+		if (f.status === 'failed' && !(f.assertionResults ?? []).some((a) => a.status === 'failed')) brokenFiles += 1;
+	}
 }
 const pw = join(dir, 'playwright.json');
 if (existsSync(pw)) {
@@ -21,6 +27,8 @@ if (existsSync(pw)) {
 	passed += s.expected ?? 0;
 	failed += (s.unexpected ?? 0) + (s.flaky ?? 0);
 	skipped += s.skipped ?? 0;
+	brokenFiles += (JSON.parse(readFileSync(pw, 'utf8')).errors ?? []).length;
 }
-console.log(`slateroom: ${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`);
-process.exit(failed > 0 || passed === 0 ? 1 : 0);
+const broken = brokenFiles ? `, ${brokenFiles} file${brokenFiles === 1 ? '' : 's'} failed outside any test` : '';
+console.log(`slateroom: ${passed} passed, ${failed} failed${broken}${skipped ? `, ${skipped} skipped` : ''}`);
+process.exit(failed > 0 || brokenFiles > 0 || passed === 0 ? 1 : 0);
