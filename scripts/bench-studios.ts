@@ -5,18 +5,28 @@
 import { sql } from 'drizzle-orm';
 import type { Database } from '../src/lib/server/db/client';
 
+const ACCOUNT_COLUMNS = [
+	'stripe_account_id',
+	'charges_enabled',
+	'payouts_enabled',
+	'details_submitted',
+	'account_requirements',
+	'account_event_at'
+];
+
 export async function seedBenchStudios(db: Database, total: number): Promise<{ studios: number; bookings: number }> {
 	const [{ n }] = (await db.execute(sql`select count(*)::int as n from studio`)) as unknown as [{ n: number }];
 	const add = total - n;
 	if (add <= 0) return { studios: 0, bookings: 0 };
-	// Every column of the first studio's row but its id and name: the new studios' settings.
+	// Every column of the first studio's row but its id, its name and its payment account (an
+	// account is one studio's alone): the new studios' settings.
 	const columns = (
 		(await db.execute(
 			sql`select column_name from information_schema.columns where table_name = 'studio' and table_schema = current_schema() order by ordinal_position`
 		)) as unknown as { column_name: string }[]
 	)
 		.map((c) => c.column_name)
-		.filter((c) => c !== 'id' && c !== 'name');
+		.filter((c) => !['id', 'name', ...ACCOUNT_COLUMNS].includes(c));
 	const list = columns.map((c) => `"${c}"`).join(', ');
 	const copied = columns.map((c) => `first."${c}"`).join(', ');
 	await db.transaction(async (tx) => {

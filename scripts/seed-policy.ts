@@ -1,6 +1,6 @@
 // What every demo studio's seed writes the same way: a policy's columns of the studio row and its
 // surcharge rules. Each studio's own seed adds its name, address and words.
-import { eq, sql } from 'drizzle-orm';
+import { and, eq, isNull, sql } from 'drizzle-orm';
 import type { Database } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
 import type { StudioPolicy } from '../src/lib/domain/types';
@@ -51,4 +51,23 @@ export async function seedSurcharges(db: Database, studioId: string, P: StudioPo
 			sortOrder: i + 1
 		}))
 	);
+}
+
+/**
+ * The studio's own connected payment account (Stripe Connect, direct charges), under a fixed id,
+ * set up as Stripe reports a finished onboarding: it takes charges and pays out, nothing is due.
+ * A studio that has an account already keeps it. The local Stripe fake keeps its accounts in
+ * memory, so npm start and npm test make them there once it runs (scripts/stripe-accounts.ts).
+ */
+export async function seedAccount(db: Database, studioId: string, accountId: string): Promise<void> {
+	await db
+		.update(t.studio)
+		.set({
+			stripeAccountId: accountId,
+			chargesEnabled: true,
+			payoutsEnabled: true,
+			detailsSubmitted: true,
+			accountRequirements: []
+		})
+		.where(and(eq(t.studio.id, studioId), isNull(t.studio.stripeAccountId)));
 }

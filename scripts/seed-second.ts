@@ -4,7 +4,7 @@
 import { eq, sql } from 'drizzle-orm';
 import type { Database } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
-import { policyColumns, seedSurcharges } from './seed-policy';
+import { policyColumns, seedAccount, seedSurcharges } from './seed-policy';
 import { SECOND_BOOKING_IDS, SECOND_POLICY as P, SECOND_ROOMS, SECOND_STUDIO, SECOND_TEAM } from '../src/lib/domain/demo-second';
 import { newReference } from '../src/lib/server/bookings/reference';
 import { quoteBooking } from '../src/lib/domain/pricing';
@@ -12,6 +12,9 @@ import { addDays, localDateOf, localToInstant, isoWeekday } from '../src/lib/dom
 import { isPublicHoliday } from '../src/lib/domain/holidays';
 
 type Person = { email: string; name: string };
+
+/** Tallbacken's connected payment account (invented; made on the local Stripe fake by scripts/stripe-accounts.ts). */
+export const SECOND_ACCOUNT_ID = 'acct_1TallbackenDemo0';
 
 async function seedStudio(db: Database): Promise<string> {
 	await db
@@ -42,6 +45,7 @@ async function seedStudio(db: Database): Promise<string> {
 		})
 		.onConflictDoNothing();
 	await seedSurcharges(db, studioId, P);
+	await seedAccount(db, studioId, SECOND_ACCOUNT_ID);
 	return studioId;
 }
 

@@ -5,7 +5,7 @@ import { eq, sql } from 'drizzle-orm';
 import { hashPassword } from 'better-auth/crypto';
 import { createDb } from '../src/lib/server/db/client';
 import * as t from '../src/lib/server/db/schema';
-import { policyColumns, seedSurcharges } from './seed-policy';
+import { policyColumns, seedAccount, seedSurcharges } from './seed-policy';
 import { seedDemoBookings } from './seed-bookings';
 import { seedSecondStudio } from './seed-second';
 import { DEMO_POLICY as P, DEMO_ROOMS } from '../src/lib/domain/demo';
@@ -16,6 +16,9 @@ if (!url) throw new Error('DATABASE_URL is not set');
 const { db, client } = createDb(url, { max: 2 });
 
 export const DEMO_PASSWORD = 'slateroom-demo';
+
+/** Hollow Pine's connected payment account (invented; made on the local Stripe fake by scripts/stripe-accounts.ts). */
+const DEMO_ACCOUNT_ID = 'acct_1HollowPineDemo';
 
 const people = [
 	{ email: 'owner@slateroom.test', name: 'Maija Kuusela', role: 'owner' },
@@ -51,11 +54,14 @@ async function seedStudio(): Promise<string> {
 			email: 'hello@hollowpine.test',
 			vatId: 'FI00000000',
 			locale: 'en-GB',
-			closedOnPublicHolidays: false
+			closedOnPublicHolidays: false,
+			// The platform keeps 2 % of each of this studio's charges (the second demo studio pays none).
+			platformFeeBp: 200
 		})
 		.onConflictDoNothing();
 
 	await seedSurcharges(db, studioId, P);
+	await seedAccount(db, studioId, DEMO_ACCOUNT_ID);
 	return studioId;
 }
 

@@ -17,6 +17,7 @@ DEV_AUTH_SECRET=slateroom-local-development-secret-change-me
 : "${BETTER_AUTH_SECRET:=$DEV_AUTH_SECRET}"
 : "${STRIPE_SECRET_KEY:=sk_test_slateroom_local}"
 : "${STRIPE_WEBHOOK_SECRET:=whsec_slateroom_local}"
+: "${STRIPE_CONNECT_WEBHOOK_SECRET:=whsec_slateroom_connect_local}"
 : "${STRIPE_API_BASE:=http://127.0.0.1:$STRIPE_FAKE_PORT}"
 : "${SMTP_URL:=smtp://127.0.0.1:$SMTP_PORT}"
 : "${SEED_DEMO:=1}"
@@ -29,7 +30,7 @@ if [ "$BETTER_AUTH_SECRET" = "$DEV_AUTH_SECRET" ]; then
 	esac
 fi
 export PG_PORT PORT HOST ORIGIN DATABASE_URL BETTER_AUTH_SECRET STRIPE_SECRET_KEY STRIPE_WEBHOOK_SECRET \
-	STRIPE_API_BASE SMTP_URL STRIPE_FAKE_PORT SMTP_PORT MAIL_WEB_PORT SEED_DEMO
+	STRIPE_CONNECT_WEBHOOK_SECRET STRIPE_API_BASE SMTP_URL STRIPE_FAKE_PORT SMTP_PORT MAIL_WEB_PORT SEED_DEMO
 export BETTER_AUTH_URL="${BETTER_AUTH_URL:-$ORIGIN}"
 export UPLOAD_DIR="${UPLOAD_DIR:-$ROOT/.data/uploads}"
 export UPLOAD_MAX_BYTES="${UPLOAD_MAX_BYTES:-52428800}"
@@ -75,8 +76,13 @@ if [ "$SEED_DEMO" = "1" ]; then
 fi
 
 if [ -z "${STRIPE_FAKE_OFF:-}" ] && [[ "$STRIPE_API_BASE" == http://127.0.0.1* ]]; then
-	STRIPE_WEBHOOK_URL="$ORIGIN/api/stripe/webhook" STRIPE_FAKE_PUBLIC_URL="$STRIPE_API_BASE" \
+	# The platform's events to its endpoint, the connected accounts' to the Connect endpoint.
+	STRIPE_WEBHOOK_URL="$ORIGIN/api/stripe/webhook" STRIPE_CONNECT_WEBHOOK_URL="$ORIGIN/api/stripe/connect-webhook" \
+		STRIPE_FAKE_PUBLIC_URL="$STRIPE_API_BASE" \
 		start_service stripe-fake node --import tsx fake-services/stripe/server.ts
+	# The fake keeps its state in memory: the studios' connected accounts are made again on it.
+	wait_http "$STRIPE_API_BASE/_control/health" 30
+	node --import tsx scripts/stripe-accounts.ts
 fi
 if [[ "$SMTP_URL" == smtp://127.0.0.1* ]]; then
 	start_service mail-catcher node_modules/.bin/maildev --ip 127.0.0.1 --web-ip 127.0.0.1 -s "$SMTP_PORT" -w "$MAIL_WEB_PORT" --silent

@@ -17,6 +17,8 @@ export STRIPE_SECRET_KEY="sk_test_slateroom_test"
 export STRIPE_WEBHOOK_SECRET="whsec_slateroom_test"
 export STRIPE_API_BASE="http://127.0.0.1:$STRIPE_FAKE_PORT"
 export STRIPE_WEBHOOK_URL="$ORIGIN/api/stripe/webhook"
+export STRIPE_CONNECT_WEBHOOK_SECRET="whsec_slateroom_connect_test"
+export STRIPE_CONNECT_WEBHOOK_URL="$ORIGIN/api/stripe/connect-webhook"
 export STRIPE_FAKE_PUBLIC_URL="$STRIPE_API_BASE"
 export SMTP_URL="smtp://127.0.0.1:$SMTP_PORT"
 export MAIL_API="http://127.0.0.1:$MAIL_WEB_PORT"
@@ -96,6 +98,10 @@ start_service stripe-fake node --import tsx fake-services/stripe/server.ts
 start_service mail-catcher node_modules/.bin/maildev --ip 127.0.0.1 --web-ip 127.0.0.1 -s "$SMTP_PORT" -w "$MAIL_WEB_PORT" --silent
 start_service app node build/index.js
 wait_port "$STRIPE_FAKE_PORT" 30
+wait_http "$STRIPE_API_BASE/_control/health" 30
+# The seed ran before the fake started, and the fake keeps its state in memory: the studios'
+# connected accounts are made on it now.
+node --import tsx scripts/stripe-accounts.ts
 wait_port "$MAIL_WEB_PORT" 30
 wait_http "$ORIGIN/api/health" 60
 

@@ -185,7 +185,9 @@ export async function startStripeFake(options: StripeFakeOptions = {}): Promise<
 			if (req.method !== 'GET' && req.method !== 'HEAD') return send(res, 405, '', { Allow: 'GET' });
 			const n = query.get('notice');
 			const notice: PayNotice = n === 'declined' || n === 'not-open' || n === 'refused' ? n : null;
-			return sendHtml(res, 200, renderPayPage(rec, notice, successRedirect(rec)));
+			const account = state.ownerOf(id);
+			const payee = account === null ? null : (state.accounts.get(account) ?? null);
+			return sendHtml(res, 200, renderPayPage(rec, notice, successRedirect(rec), payee));
 		}
 		if (req.method !== 'POST') return send(res, 405, '', { Allow: 'POST' });
 		const form = parseForm(await readBody(req));

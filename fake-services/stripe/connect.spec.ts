@@ -288,6 +288,9 @@ describe('an account that cannot take charges', () => {
 		const s = await fx.stripe.checkout.sessions.create(depositParams(), { stripeAccount: a });
 		await fx.control('POST', `/accounts/${a}/requirements`, { currently_due: ['external_account'] });
 
+		const shown = await fetch(s.url ?? '', { signal: AbortSignal.timeout(60_000) });
+		expect(await shown.text()).toContain(`Paid to</dt><dd>a connected account (<code>${a}</code>)`);
+
 		const viaControl = await fx.control('POST', `/sessions/${s.id}/pay`);
 		expect(viaControl.status).toBe(400);
 		expect(viaControl.json).toMatchObject({ error: { code: 'charges_not_enabled' } });
@@ -377,5 +380,259 @@ describe('Connect webhooks', () => {
 		} finally {
 			await fake.close();
 		}
+	});
+});
+
+describe('account links and the onboarding page', () => {
+	const refreshUrl = 'http://127.0.0.1:3000/studio/settings/get-paid/refresh';
+	const returnUrl = 'http://127.0.0.1:3000/studio/settings/get-paid/return';
+
+	async function newAccount(): Promise<string> {
+		const made = await fx.stripe.accounts.create({ type: 'express', country: 'DE', email: 'owner@reelroom.test' });
+		return made.id;
+	}
+
+	async function link(account: string): Promise<Stripe.AccountLink> {
+		return fx.stripe.accountLinks.create({
+			account,
+			refresh_url: refreshUrl,
+			return_url: returnUrl,
+			type: 'account_onboarding'
+		});
+	}
+
+	function get(url: string): Promise<Response> {
+		return fetch(url, { redirect: 'manual', signal: AbortSignal.timeout(60_000) });
+	}
+
+	/** Posts the page's form the way a browser would for the named button (its formaction, or the form's action). */
+	async function press(html: string, pageUrl: string, button: string): Promise<Response> {
+		const form = /<form method="post" action="([^"]+)">/.exec(html);
+		const tag = new RegExp(`<button[^>]*>${button}</button>`).exec(html)?.[0];
+		expect(form?.[1]).toBeDefined();
+		expect(tag).toBeDefined();
+		const target = /formaction="([^"]+)"/.exec(tag ?? '')?.[1] ?? form?.[1] ?? '';
+		return fetch(new URL(target, pageUrl), {
+			method: 'POST',
+			redirect: 'manual',
+			headers: { 'Content-Type': 'application/x-www-form-urlencoded' },
+			body: '',
+			signal: AbortSignal.timeout(60_000)
+		});
+	}
+
+	it('gives a single-use link whose "Complete set-up" readies the account and returns to return_url', async () => {
+		const account = await newAccount();
+		const made = await link(account);
+		expect(made).toMatchObject({ object: 'account_link' });
+		expect(made.expires_at).toBeGreaterThan(made.created);
+		expect(made.url).toMatch(new RegExp(`^${fx.fake.url}/connect/onboard/[A-Za-z0-9]+$`));
+
+		const page = await get(made.url);
+		expect(page.status).toBe(200);
+		const html = await page.text();
+		expect(html).toContain('Slateroom test payment accounts');
+		expect(html).toContain(account);
+		expect(html).toContain('external_account'); // what is still due
+
+		const done = await press(html, made.url, 'Complete set-up');
+		expect(done.status).toBe(303);
+		expect(done.headers.get('location')).toBe(returnUrl);
+		const ready = await fx.stripe.accounts.retrieve(account);
+		expect(ready).toMatchObject({
+			charges_enabled: true,
+			payouts_enabled: true,
+			details_submitted: true,
+			requirements: { currently_due: [], eventually_due: [], past_due: [], disabled_reason: null }
+		});
+		const updated = await waitFor(() => fx.connect.received.find((r) => r.event.type === 'account.updated'), 'account.updated');
+		expect(verifyConnect(updated)).toMatchObject({ account, data: { object: { id: account, charges_enabled: true } } });
+
+		// Used: opening it again, or pressing a button again, goes to refresh_url.
+		const reopened = await get(made.url);
+		expect(reopened.status).toBe(303);
+		expect(reopened.headers.get('location')).toBe(refreshUrl);
+		const again = await press(html, made.url, 'Complete set-up');
+		expect(again.headers.get('location')).toBe(refreshUrl);
+		expect(fx.fake.state.events.filter((e) => e.type === 'account.updated')).toHaveLength(1);
+
+		// The account can take charges now.
+		const s = await fx.stripe.checkout.sessions.create(depositParams(), { stripeAccount: account });
+		expect(s.status).toBe('open');
+	});
+
+	it('"Leave unfinished" returns to return_url with nothing completed and nothing sent', async () => {
+		const account = await newAccount();
+		const before = await fx.stripe.accounts.retrieve(account);
+		const made = await link(account);
+		const html = await (await get(made.url)).text();
+		const left = await press(html, made.url, 'Leave unfinished');
+		expect(left.status).toBe(303);
+		expect(left.headers.get('location')).toBe(returnUrl);
+		expect(await fx.stripe.accounts.retrieve(account)).toEqual(before);
+		expect(fx.fake.state.events).toHaveLength(0);
+		expect((await get(made.url)).headers.get('location')).toBe(refreshUrl);
+		// A new link starts over.
+		const fresh = await link(account);
+		expect((await get(fresh.url)).status).toBe(200);
+	});
+
+	it('validates a link request the way the API validates any other', async () => {
+		const account = await newAccount();
+		await expect(
+			fx.stripe.accountLinks.create({
+				account: 'acct_Nobody',
+				refresh_url: refreshUrl,
+				return_url: returnUrl,
+				type: 'account_onboarding'
+			})
+		).rejects.toMatchObject({ statusCode: 400, code: 'resource_missing', param: 'account' });
+		await expect(
+			fx.stripe.accountLinks.create({
+				account,
+				refresh_url: refreshUrl,
+				type: 'account_onboarding'
+			})
+		).rejects.toMatchObject({ statusCode: 400, code: 'parameter_missing', param: 'return_url' });
+		await expect(
+			fx.stripe.accountLinks.create({ account, refresh_url: refreshUrl, return_url: returnUrl, type: 'account_update' })
+		).rejects.toMatchObject({ statusCode: 400, param: 'type' });
+		await expect(
+			fx.stripe.accountLinks.create(
+				{ account, refresh_url: refreshUrl, return_url: returnUrl, type: 'account_onboarding' },
+				{ stripeAccount: account }
+			)
+		).rejects.toMatchObject({ statusCode: 400 });
+		expect((await get(`${fx.fake.url}/connect/onboard/NoSuchLink`)).status).toBe(404);
+	});
+
+	it('sends an expired link to refresh_url, but lets a page opened in time be finished', async () => {
+		let clock = Date.now();
+		const { startStripeFake } = await import('./app.js');
+		const fake = await startStripeFake({ port: 0, webhookUrl: null, now: () => clock });
+		try {
+			const stripe = new Stripe('sk_test_clock', { host: '127.0.0.1', port: fake.port, protocol: 'http' });
+			const account = (await stripe.accounts.create({ type: 'express' })).id;
+			const params = { account, refresh_url: refreshUrl, return_url: returnUrl, type: 'account_onboarding' } as const;
+			const unopened = await stripe.accountLinks.create(params);
+			const opened = await stripe.accountLinks.create(params);
+			const html = await (await get(opened.url)).text();
+			clock += (unopened.expires_at - unopened.created + 1) * 1000;
+
+			expect((await get(unopened.url)).headers.get('location')).toBe(refreshUrl);
+			// The page opened before expiry can still be finished.
+			const late = await press(html, opened.url, 'Complete set-up');
+			expect(late.headers.get('location')).toBe(returnUrl);
+			expect((await stripe.accounts.retrieve(account)).charges_enabled).toBe(true);
+			const stale = await fetch(`${unopened.url}/complete`, {
+				method: 'POST',
+				redirect: 'manual',
+				signal: AbortSignal.timeout(60_000)
+			});
+			expect(stale.headers.get('location')).toBe(refreshUrl);
+		} finally {
+			await fake.close();
+		}
+	});
+});
+
+describe('application fees on direct charges', () => {
+	async function sessionWithFee(account: string | null, fee: number): Promise<Stripe.Checkout.Session> {
+		return fx.stripe.checkout.sessions.create(
+			depositParams({
+				payment_intent_data: { application_fee_amount: fee, metadata: { bookingId: 'bk_1001' } }
+			}),
+			account ? { stripeAccount: account } : {}
+		);
+	}
+
+	it('carries the fee to the PaymentIntent and the charge, and lists the fee on the platform', async () => {
+		const a = await readyAccount('acct_FeeStudio');
+		const s = await sessionWithFee(a, 1150); // total 230.00: 5 % of it
+		const paid = await fx.control('POST', `/sessions/${s.id}/pay`);
+		const piId = (paid.json.session as { payment_intent: string }).payment_intent;
+		const pi = await fx.stripe.paymentIntents.retrieve(piId, { expand: ['latest_charge'] }, { stripeAccount: a });
+		expect(pi.application_fee_amount).toBe(1150);
+		expect(pi.application).toMatch(/^ca_/);
+		const charge = pi.latest_charge as Stripe.Charge;
+		expect(charge.application_fee).toMatch(/^fee_/);
+		expect(charge.application_fee_amount).toBe(1150);
+
+		const fees = await fx.stripe.applicationFees.list();
+		expect(fees.data).toHaveLength(1);
+		expect(fees.data[0]).toMatchObject({
+			id: charge.application_fee,
+			object: 'application_fee',
+			account: a,
+			amount: 1150,
+			amount_refunded: 0,
+			charge: charge.id,
+			currency: 'eur',
+			application: pi.application
+		});
+		expect((await fx.stripe.applicationFees.list({ charge: charge.id })).data).toHaveLength(1);
+		expect((await fx.stripe.applicationFees.list({ charge: 'ch_other' })).data).toHaveLength(0);
+		expect((await fx.stripe.applicationFees.retrieve(charge.application_fee as string)).amount).toBe(1150);
+		// The fee is the platform's: the account does not list it.
+		expect((await fx.stripe.applicationFees.list({}, { stripeAccount: a })).data).toEqual([]);
+
+		// application_fee.created is a platform event; the charge's own events carry the fee.
+		const created = await waitFor(
+			() => fx.receiver.received.find((r) => r.event.type === 'application_fee.created'),
+			'application_fee.created on the platform endpoint'
+		);
+		const feeEvent = fx.stripe.webhooks.constructEvent(created.body, String(created.headers['stripe-signature']), WEBHOOK_SECRET);
+		expect(feeEvent.account).toBeUndefined();
+		const succeeded = await waitFor(
+			() => fx.connect.received.find((r) => r.event.type === 'charge.succeeded'),
+			'charge.succeeded on the Connect endpoint'
+		);
+		expect(verifyConnect(succeeded).data.object).toMatchObject({
+			application_fee: charge.application_fee,
+			application_fee_amount: 1150
+		});
+	});
+
+	it('takes the fee when a delayed payment settles, not before', async () => {
+		const a = await readyAccount('acct_FeeLater');
+		const s = await sessionWithFee(a, 500);
+		await fx.control('POST', `/sessions/${s.id}/pay-later`);
+		expect((await fx.stripe.applicationFees.list()).data).toEqual([]);
+		await fx.control('POST', `/sessions/${s.id}/settle`);
+		expect((await fx.stripe.applicationFees.list()).data.map((f) => f.amount)).toEqual([500]);
+	});
+
+	it('gives back a share of the fee with refund_application_fee', async () => {
+		const a = await readyAccount('acct_FeeRefund');
+		const s = await sessionWithFee(a, 1000);
+		const paid = await fx.control('POST', `/sessions/${s.id}/pay`);
+		const pi = (paid.json.session as { payment_intent: string }).payment_intent;
+		await fx.stripe.refunds.create({ payment_intent: pi, amount: 11500 }, { stripeAccount: a }); // half of 230.00
+		expect((await fx.stripe.applicationFees.list()).data[0]).toMatchObject({ amount_refunded: 0, refunded: false });
+		await fx.stripe.refunds.create({ payment_intent: pi, amount: 5750, refund_application_fee: true }, { stripeAccount: a });
+		expect((await fx.stripe.applicationFees.list()).data[0]).toMatchObject({ amount_refunded: 250, refunded: false });
+	});
+
+	it('refuses a fee above the total, below zero, or without a Stripe-Account header', async () => {
+		const a = await readyAccount('acct_FeeRules');
+		await expect(sessionWithFee(a, 23001)).rejects.toMatchObject({
+			statusCode: 400,
+			param: 'payment_intent_data[application_fee_amount]'
+		});
+		await expect(sessionWithFee(a, -1)).rejects.toMatchObject({
+			statusCode: 400,
+			param: 'payment_intent_data[application_fee_amount]'
+		});
+		await expect(sessionWithFee(null, 100)).rejects.toMatchObject({
+			statusCode: 400,
+			param: 'payment_intent_data[application_fee_amount]'
+		});
+		expect(fx.fake.state.sessions.size).toBe(0);
+		const whole = await sessionWithFee(a, 23000); // the whole total is allowed
+		expect(whole.amount_total).toBe(23000);
+		const none = await fx.stripe.checkout.sessions.create(depositParams(), { stripeAccount: a });
+		const paid = await fx.control('POST', `/sessions/${none.id}/pay`);
+		expect((paid.json.payment_intent as { application_fee_amount: number | null }).application_fee_amount).toBeNull();
+		expect((await fx.stripe.applicationFees.list()).data).toEqual([]);
 	});
 });

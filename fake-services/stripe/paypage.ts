@@ -2,7 +2,7 @@
  * The fake's hosted payment page: a plain page of our own design (it does not imitate Stripe's),
  * with one button per outcome a test may want.
  */
-import { formatAmount } from './objects.js';
+import { type Account, formatAmount } from './objects.js';
 import type { SessionRecord } from './state.js';
 
 export type PayNotice = 'declined' | 'not-open' | 'refused' | null;
@@ -72,7 +72,13 @@ function utc(unixSeconds: number): string {
 		.replace(/\.\d+Z$/, ' UTC');
 }
 
-export function renderPayPage(rec: SessionRecord, notice: PayNotice, successUrl: string | null): string {
+/** `payee`: the connected account a direct charge pays, or null for the platform's own session. */
+export function renderPayPage(
+	rec: SessionRecord,
+	notice: PayNotice,
+	successUrl: string | null,
+	payee: Account | null = null
+): string {
 	const s = rec.session;
 	const rows = rec.lineItems
 		.map(
@@ -114,6 +120,14 @@ export function renderPayPage(rec: SessionRecord, notice: PayNotice, successUrl:
 
 	const details = [
 		['Amount due', escapeHtml(total)],
+		...(payee
+			? [
+					[
+						'Paid to',
+						`${escapeHtml(payee.business_profile.name ?? 'a connected account')} (<code>${escapeHtml(payee.id)}</code>)`
+					]
+				]
+			: []),
 		['Status', `${escapeHtml(s.status)} / ${escapeHtml(s.payment_status)}`],
 		...(s.client_reference_id ? [['Reference', escapeHtml(s.client_reference_id)]] : []),
 		...(s.customer_email ? [['E-mail', escapeHtml(s.customer_email)]] : []),

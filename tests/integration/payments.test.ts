@@ -11,7 +11,7 @@
 //   notice or more refunds the whole deposit, 48 hours to 7 days half.
 // - Directive 2006/112/EC Article 65 (deposit invoice on receipt), Article 219 and UNTDID 1001
 //   (credit note 381 referring to the invoice it corrects, EN 16931 BT-25).
-import { afterAll, afterEach, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import Stripe from 'stripe';
 import { Client, signedIn } from '../support/http';
@@ -23,13 +23,25 @@ import * as t from '../../src/lib/server/db/schema';
 import { addDays, studioInstant, studioToday, workdaysAhead } from '../support/dates';
 import { expectRefused } from '../support/refusal';
 import { holdFirstFree, payAndConfirm } from '../support/booking';
+import { accountOf } from '../support/stripe-fake';
 
 const { db, client } = testDb();
 afterAll(() => client.end());
 
 const WEBHOOK_SECRET = process.env.STRIPE_WEBHOOK_SECRET ?? 'whsec_slateroom_test';
+const CONNECT_WEBHOOK_SECRET = process.env.STRIPE_CONNECT_WEBHOOK_SECRET ?? 'whsec_slateroom_connect_test';
 const fakeUrl = new URL(STRIPE_API_BASE);
 const stripe = new Stripe('sk_test_payments_spec', { host: fakeUrl.hostname, port: Number(fakeUrl.port), protocol: 'http' });
+
+/**
+ * The demo studio's connected account: its deposits, events and refunds are made on it (direct
+ * charges), so they are looked up there (the Stripe-Account header).
+ */
+let demoAccount: string;
+beforeAll(async () => {
+	demoAccount = await accountOf(db, await studioIdOf(db));
+});
+const onDemo = () => ({ stripeAccount: demoAccount });
 
 // ---- helpers ---------------------------------------------------------------------------------
 
@@ -112,20 +124,25 @@ async function money(id: string) {
 /** The checkout.session.completed event of a session, as the fake recorded it. */
 async function completedEventOf(sessionId: string, type = 'checkout.session.completed'): Promise<Stripe.Event> {
 	return waitFor(async () => {
-		const list = await stripe.events.list({ type, limit: 100 });
+		const list = await stripe.events.list({ type, limit: 100 }, onDemo());
 		return list.data.find((e) => (e.data.object as { id?: string }).id === sessionId);
 	}, `${type} of ${sessionId}`);
 }
 
-/** Posts an event to the app signed as Stripe signs it (SDK generateTestHeaderString). */
+/**
+ * Posts an event to the app signed as Stripe signs it (SDK generateTestHeaderString), at the
+ * endpoint Stripe sends it to: a connected account's event (with `account`) to the Connect
+ * endpoint with its secret, the platform's own to the platform's.
+ */
 async function postSigned(event: unknown, opts: { secret?: string; timestamp?: number } = {}) {
 	const payload = JSON.stringify(event);
+	const connect = !!(event as { account?: string | null }).account;
 	const header = stripe.webhooks.generateTestHeaderString({
 		payload,
-		secret: opts.secret ?? WEBHOOK_SECRET,
+		secret: opts.secret ?? (connect ? CONNECT_WEBHOOK_SECRET : WEBHOOK_SECRET),
 		timestamp: opts.timestamp
 	});
-	const res = await fetch(`${APP_URL}/api/stripe/webhook`, {
+	const res = await fetch(`${APP_URL}/api/stripe/${connect ? 'connect-webhook' : 'webhook'}`, {
 		method: 'POST',
 		headers: { 'content-type': 'application/json', 'stripe-signature': header },
 		body: payload
@@ -452,7 +469,7 @@ describe('a deposit that arrives after the hold ran out', () => {
 		const m = await money(b.id);
 		expect(m.payments.map((p) => p.status)).toEqual(['paid']);
 		expect(m.invoices).toHaveLength(0); // never a sale: no deposit invoice, no credit note
-		const refunds = await stripe.refunds.list({ payment_intent: m.payments[0]!.paymentIntentId! });
+		const refunds = await stripe.refunds.list({ payment_intent: m.payments[0]!.paymentIntentId! }, onDemo());
 		expect(refunds.data.map((r) => [r.amount, r.status])).toEqual([[5000, 'succeeded']]);
 	});
 });
@@ -534,7 +551,7 @@ describe('cancellation', () => {
 		expect(refund.amount).toBe(b.quote.deposit);
 		const m = await money(b.id);
 		expect(m.refunds).toHaveLength(1);
-		const atStripe = await stripe.refunds.list({ payment_intent: m.payments[0]!.paymentIntentId! });
+		const atStripe = await stripe.refunds.list({ payment_intent: m.payments[0]!.paymentIntentId! }, onDemo());
 		expect(atStripe.data).toHaveLength(1);
 
 		const credit = await waitFor(async () => (await money(b.id)).invoices.find((i) => i.typeCode === 381), 'credit note');
@@ -777,7 +794,7 @@ describe('a refund whose Idempotency-Key Stripe refuses', () => {
 		});
 		await appStripe.refunds.create(
 			{ payment_intent: paid!.paymentIntentId!, amount: 100 },
-			{ idempotencyKey: `slateroom-refund-${b.id}-${paid!.id}-1` }
+			{ idempotencyKey: `slateroom-refund-${b.id}-${paid!.id}-1`, stripeAccount: demoAccount }
 		);
 
 		expect((await artist.json(`/api/bookings/${b.id}/cancel`, {})).status).toBe(200);
@@ -793,7 +810,7 @@ describe('a refund whose Idempotency-Key Stripe refuses', () => {
 			failedRefunds: { id: string }[];
 		};
 		expect(report.failedRefunds.map((r) => r.id)).toContain(failed.id);
-		const atStripe = await stripe.refunds.list({ payment_intent: paid!.paymentIntentId! });
+		const atStripe = await stripe.refunds.list({ payment_intent: paid!.paymentIntentId! }, onDemo());
 		expect(atStripe.data.map((r) => r.amount)).toEqual([100]);
 	});
 });
@@ -838,7 +855,7 @@ describe('cancelling a booking whose bank payment is still on its way', () => {
 		const m = await money(b.id);
 		expect(m.payments.map((p) => p.status)).toEqual(['paid']);
 		expect(m.refunds).toHaveLength(1);
-		const atStripe = await stripe.refunds.list({ payment_intent: m.payments[0]!.paymentIntentId! });
+		const atStripe = await stripe.refunds.list({ payment_intent: m.payments[0]!.paymentIntentId! }, onDemo());
 		expect(atStripe.data.map((r) => r.amount)).toEqual([b.quote.deposit / 2]);
 		// The deposit kept is a payment on account (Article 65); the half returned is credited (Article 219).
 		const deposit = m.invoices.find((i) => i.typeCode === 386)!;

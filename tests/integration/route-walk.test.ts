@@ -291,6 +291,18 @@ const ENTRIES: Record<string, Entry> = {
 		into: false,
 		// Unsigned: the provider's signature is what lets an event in, and nothing of a person's role.
 		json: { POST: (b) => ({ type: 'checkout.session.completed', data: { object: { metadata: { bookingId: b.booking } } } }) }
+	},
+	'/api/stripe/connect-webhook': {
+		path: () => '/api/stripe/connect-webhook',
+		into: false,
+		// The Connect endpoint alike: unsigned, nothing gets in.
+		json: {
+			POST: (b) => ({
+				type: 'checkout.session.completed',
+				account: 'acct_walk',
+				data: { object: { metadata: { bookingId: b.booking } } }
+			})
+		}
 	}
 };
 

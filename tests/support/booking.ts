@@ -39,6 +39,8 @@ export interface HoldWish {
 	slots: SlotTimes;
 	/** More fields of the request, e.g. `{ engineer: true, project: '…' }`. */
 	extra?: Record<string, unknown>;
+	/** The studio's short name; the demo studio's (hollow-pine) when left out. */
+	studio?: string;
 }
 
 /** The Checkout Session id at the end of a booking's checkout address ('…/pay/cs_test_…'). */
@@ -55,7 +57,12 @@ function held(body: Omit<Held, 'sessionId'>): Held {
 /** Holds the first free slot of the wish as `who`; taken slots are passed over, anything else fails. */
 export async function holdFirstFree(who: Client, wish: HoldWish): Promise<Held> {
 	const body = await firstFree<Omit<Held, 'sessionId' | keyof Slot>>(wish.days, wish.slots, async ({ start, end }) => {
-		const res = await who.json('/api/studios/hollow-pine/bookings', { room: wish.room, start, end, ...wish.extra });
+		const res = await who.json(`/api/studios/${wish.studio ?? 'hollow-pine'}/bookings`, {
+			room: wish.room,
+			start,
+			end,
+			...wish.extra
+		});
 		return { status: res.status, body: () => res.json() };
 	});
 	return held(body);

@@ -13,6 +13,8 @@ export interface TestStudio {
 	name: string;
 	slug: string;
 	room: string;
+	/** The room's short name, as bookings name it. */
+	roomSlug: string;
 }
 
 export async function makeStudio(db: Database, name: string): Promise<TestStudio> {
@@ -36,7 +38,7 @@ export async function makeStudio(db: Database, name: string): Promise<TestStudio
 			fullDay: 5000
 		})
 		.returning();
-	return { id, name, slug, room: room!.id };
+	return { id, name, slug, room: room!.id, roomSlug: room!.slug };
 }
 
 type StudioRow = typeof t.studio.$inferSelect;
@@ -84,7 +86,7 @@ export async function connectStudio(db: Database, studioId: string, completed = 
 		headers: { 'content-type': 'application/json' },
 		body: JSON.stringify({
 			country: row.country,
-			email: row.email || `studio-${studioId.slice(0, 8)}@slateroom.test`,
+			...(row.email ? { email: row.email } : {}),
 			default_currency: row.currency.toLowerCase(),
 			completed
 		})

@@ -48,6 +48,7 @@ describe('judgeRequestOrigin', () => {
 		expect(judgeRequestOrigin({ ...base, method: 'HEAD', origin: other }).ok).toBe(true);
 		expect(judgeRequestOrigin({ ...base, pathname: '/apiary', origin: other }).ok).toBe(true);
 		expect(judgeRequestOrigin({ ...base, pathname: '/api/stripe/webhook', origin: other }).ok).toBe(true);
+		expect(judgeRequestOrigin({ ...base, pathname: '/api/stripe/connect-webhook', origin: other }).ok).toBe(true);
 	});
 
 	it('lets a program that sends neither header through (it holds the cookie itself)', () => {

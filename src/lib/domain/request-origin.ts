@@ -8,8 +8,10 @@ const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 /** Routes called by other servers rather than browsers; each proves itself another way. */
 const EXEMPT_PATHS = new Set([
-	// Stripe signs every event (Stripe-Signature), and its servers send no Origin.
-	'/api/stripe/webhook'
+	// Stripe signs every event (Stripe-Signature), and its servers send no Origin: the platform's
+	// endpoint and the Connect endpoint alike.
+	'/api/stripe/webhook',
+	'/api/stripe/connect-webhook'
 ]);
 
 export type OriginVerdict = { ok: true } | { ok: false; message: string };

@@ -7,6 +7,8 @@ import { and, eq, isNull, lte, or } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import { db } from '../db';
 import { studio } from '../db/schema';
+import { stripe } from './stripe';
+import type { Tx } from '../invoices/issue';
 
 export interface AccountFacts {
 	chargesEnabled: boolean;
@@ -15,14 +17,23 @@ export interface AccountFacts {
 	requirements: string[];
 }
 
+/** A requirement's name as Stripe writes them ("individual.verification.document"): printable, short. */
+const REQUIREMENT_NAME = /^[\x21-\x7e]{1,200}$/;
+
+/** `requirements.currently_due` as a list of names; anything else in its place is no list. */
+function dueList(requirements: unknown): string[] {
+	const due = (requirements as { currently_due?: unknown } | null | undefined)?.currently_due;
+	return Array.isArray(due) ? due.filter((d): d is string => typeof d === 'string' && REQUIREMENT_NAME.test(d)) : [];
+}
+
 export function accountFacts(
-	account: Pick<Stripe.Account, 'charges_enabled' | 'payouts_enabled' | 'details_submitted' | 'requirements'>
+	account: Partial<Pick<Stripe.Account, 'charges_enabled' | 'payouts_enabled' | 'details_submitted' | 'requirements'>>
 ): AccountFacts {
 	return {
 		chargesEnabled: account.charges_enabled === true,
 		payoutsEnabled: account.payouts_enabled === true,
 		detailsSubmitted: account.details_submitted === true,
-		requirements: [...(account.requirements?.currently_due ?? [])]
+		requirements: dueList(account.requirements)
 	};
 }
 
@@ -32,8 +43,13 @@ export function accountFacts(
  * or the time of a look-up. Returns the owning studio's id, or null when no studio owns the
  * account (then nothing changes).
  */
-export async function applyAccountState(accountId: string, facts: AccountFacts, seenAt: Date): Promise<string | null> {
-	const updated = await db
+export async function applyAccountState(
+	accountId: string,
+	facts: AccountFacts,
+	seenAt: Date,
+	q: Pick<Tx, 'update' | 'select'> = db
+): Promise<string | null> {
+	const updated = await q
 		.update(studio)
 		.set({
 			chargesEnabled: facts.chargesEnabled,
@@ -45,6 +61,21 @@ export async function applyAccountState(accountId: string, facts: AccountFacts, 
 		.where(and(eq(studio.stripeAccountId, accountId), or(isNull(studio.accountEventAt), lte(studio.accountEventAt, seenAt))))
 		.returning({ id: studio.id });
 	if (updated[0]) return updated[0].id;
-	const [owner] = await db.select({ id: studio.id }).from(studio).where(eq(studio.stripeAccountId, accountId));
+	const [owner] = await q.select({ id: studio.id }).from(studio).where(eq(studio.stripeAccountId, accountId));
 	return owner?.id ?? null;
+}
+
+/**
+ * Asks Stripe how an account stands now and copies that onto its studio (dated now, so an older
+ * event arriving later changes nothing). Used when Stripe refuses a charge on the account: the
+ * studio's copy was out of date. A look-up that fails leaves the studio as it was.
+ */
+export async function refreshAccountState(accountId: string): Promise<string | null> {
+	try {
+		const account = await stripe().accounts.retrieve(accountId);
+		return await applyAccountState(accountId, accountFacts(account), new Date());
+	} catch (e) {
+		console.warn(`[payments] could not look up account ${accountId}:`, (e as Error).message);
+		return null;
+	}
 }

@@ -10,13 +10,22 @@
 // may outlive a 30-minute hold by a few seconds to a minute. The payments job expires the sessions
 // of holds that ran out, and a payment that still slips through is handled in state.ts: confirmed
 // if the slot is still free, refunded in full if not.
+//
+// Direct charges (Stripe Connect): every session is made on the booking's studio's own connected
+// account (the Stripe-Account header), so the studio is the merchant of record and the money lands
+// in its balance; the platform's fee (the studio's platformFeeBp, src/lib/domain/platform-fee.ts)
+// is asked as payment_intent_data.application_fee_amount. The account and the fee are fixed on the
+// payment row with the other parameters. A studio without an account that can take charges cannot
+// start a checkout (PaymentsNotReadyError).
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import { db } from '../db';
 import { booking, invoice, payment, room, studio, user } from '../db/schema';
 import { inTransaction, lockBooking, paymentsOf, type PaymentRow } from './core';
-import { stripe } from './stripe';
+import { refreshAccountState } from './accounts';
+import { onAccount, stripe } from './stripe';
 import { isExactStripeAmount, toStripeAmount } from '$lib/domain/money';
+import { platformFee } from '$lib/domain/platform-fee';
 import { formatDate, formatTimes } from '$lib/domain/time';
 import { formatMoney } from '$lib/domain/money';
 import { holdLive } from '$lib/domain/lifecycle';
@@ -25,10 +34,23 @@ export type CheckoutKind = 'deposit' | 'balance';
 
 export class CheckoutError extends Error {
 	constructor(
-		readonly code: 'not_found' | 'not_payable' | 'nothing_due' | 'stripe_unavailable',
+		readonly code: 'not_found' | 'not_payable' | 'nothing_due' | 'stripe_unavailable' | 'payments_not_ready',
 		message: string
 	) {
 		super(message);
+	}
+}
+
+export const PAYMENTS_NOT_READY = 'payments_not_ready';
+
+/**
+ * The studio cannot take payments: it has no connected account yet, or Stripe says its account
+ * cannot take charges now (set-up unfinished, or Stripe needs more from the owner). Nothing was
+ * charged; the routes answer 409 with this code.
+ */
+export class PaymentsNotReadyError extends CheckoutError {
+	constructor(message = 'This studio cannot take payments yet. Please try again later, or contact the studio.') {
+		super(PAYMENTS_NOT_READY, message);
 	}
 }
 
@@ -53,7 +75,7 @@ interface Prepared {
 }
 
 async function prepare(bookingId: string, kind: CheckoutKind, origin: string, now: Date): Promise<Prepared> {
-	return inTransaction(async (tx) => {
+	return inTransaction(async (tx, after) => {
 		const b = await lockBooking(tx, bookingId);
 		if (!b) throw new CheckoutError('not_found', 'No such booking.');
 		const payments = await paymentsOf(tx, b.id);
@@ -87,6 +109,12 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 		if (!isExactStripeAmount(amount, b.currency)) {
 			throw new CheckoutError('not_payable', `Stripe cannot take exactly ${formatMoney(amount, b.currency)}.`);
 		}
+		const [merchant] = await tx
+			.select({ accountId: studio.stripeAccountId, chargesEnabled: studio.chargesEnabled, feeBp: studio.platformFeeBp })
+			.from(studio)
+			.where(eq(studio.id, b.studioId));
+		if (!merchant?.accountId || !merchant.chargesEnabled) throw new PaymentsNotReadyError();
+		const accountId = merchant.accountId;
 
 		// Sessions that ran out without a webhook telling us are closed here, so they are not handed out.
 		// A row whose session was never made is only reused while Stripe would still take its expires_at.
@@ -108,12 +136,41 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 					)
 				);
 		}
-		let row = mine.find((p) => p.status === 'open' && !stale.includes(p) && p.amount === amount);
+		// A checkout opened on another account (the platform's, before Connect, or an account the
+		// studio no longer uses) is not handed out again: it ends here and its session at Stripe.
+		const elsewhere = mine.filter((p) => p.status === 'open' && !stale.includes(p) && p.stripeAccountId !== accountId);
+		if (elsewhere.length) {
+			await tx
+				.update(payment)
+				.set({ status: 'expired', failureReason: 'Superseded by a checkout on the studio’s payment account.' })
+				.where(
+					inArray(
+						payment.id,
+						elsewhere.map((p) => p.id)
+					)
+				);
+			for (const p of elsewhere) {
+				const sessionId = p.checkoutSessionId;
+				if (sessionId) after.push(() => expireSession(sessionId, p.stripeAccountId));
+			}
+		}
+		let row = mine.find((p) => p.status === 'open' && !stale.includes(p) && !elsewhere.includes(p) && p.amount === amount);
 		if (!row) {
 			const attempt = mine.reduce((m, p) => Math.max(m, p.attempt), 0) + 1;
 			[row] = await tx
 				.insert(payment)
-				.values({ studioId: b.studioId, bookingId: b.id, kind, amount, currency: b.currency, status: 'open', attempt, expiresAt })
+				.values({
+					studioId: b.studioId,
+					bookingId: b.id,
+					kind,
+					amount,
+					currency: b.currency,
+					status: 'open',
+					attempt,
+					expiresAt,
+					stripeAccountId: accountId,
+					applicationFee: platformFee(amount, merchant.feeBp, b.currency)
+				})
 				.returning();
 		}
 		const [details] = await tx
@@ -146,7 +203,12 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 			client_reference_id: b.id,
 			metadata,
 			// Charges and refunds copy the PaymentIntent's metadata, not the session's (fake-services/stripe/README.md).
-			payment_intent_data: { metadata, description: `${label}, booking ${b.reference}` },
+			payment_intent_data: {
+				metadata,
+				description: `${label}, booking ${b.reference}`,
+				// Stripe refuses a fee of 0 on some accounts and a fee without an account: left out then.
+				...(row!.applicationFee > 0 ? { application_fee_amount: toStripeAmount(row!.applicationFee, b.currency) } : {})
+			},
 			success_url: `${origin}/bookings/${b.id}?paid=1`,
 			cancel_url: `${origin}/bookings/${b.id}`,
 			expires_at: Math.floor((row!.expiresAt ?? expiresAt).getTime() / 1000)
@@ -172,17 +234,24 @@ export async function startCheckout(
 		const prepared = await prepare(bookingId, kind, origin, now);
 		if (prepared.reuse) return prepared.reuse;
 		let session: Stripe.Checkout.Session;
+		const p = prepared.payment;
 		try {
-			session = await stripe().checkout.sessions.create(prepared.params, { idempotencyKey: idempotencyKey(prepared.payment) });
+			session = await stripe().checkout.sessions.create(
+				prepared.params,
+				onAccount(p.stripeAccountId, { idempotencyKey: idempotencyKey(p) })
+			);
 		} catch (e) {
 			const err = e as { type?: string; code?: string; message?: string };
 			if (err.type === 'StripeIdempotencyError' || err.code === 'idempotency_error') {
 				// The saved request had other parameters (another origin, a changed e-mail): start a new attempt.
-				await db
-					.update(payment)
-					.set({ status: 'expired', failureReason: 'Superseded by a new checkout.' })
-					.where(and(eq(payment.id, prepared.payment.id), eq(payment.status, 'open')));
+				await supersede(p.id, 'Superseded by a new checkout.');
 				continue;
+			}
+			if (p.stripeAccountId && accountRefused(err)) {
+				// Stripe saves this answer under the key: a later try, once the account is ready, needs a new one.
+				await supersede(p.id, 'The studio’s payment account could not take charges.');
+				await refreshAccountState(p.stripeAccountId);
+				throw new PaymentsNotReadyError();
 			}
 			console.warn('[payments] Stripe did not create the checkout:', err.message);
 			throw new CheckoutError(
@@ -200,10 +269,30 @@ export async function startCheckout(
 	throw new CheckoutError('stripe_unavailable', 'The payment service refused the checkout.');
 }
 
-/** Expires an open session (a hold that ran out, a cancelled booking); quiet when it is no longer open. */
-export async function expireSession(sessionId: string): Promise<void> {
+async function supersede(paymentId: string, reason: string): Promise<void> {
+	await db
+		.update(payment)
+		.set({ status: 'expired', failureReason: reason })
+		.where(and(eq(payment.id, paymentId), eq(payment.status, 'open')));
+}
+
+/**
+ * Stripe refuses a charge on the connected account itself: an account it does not know or that
+ * was disconnected (403 account_invalid, Stripe docs "Error codes"), or one that cannot take
+ * charges yet (400 charges_not_enabled; fake-services/stripe/README.md, "Connect").
+ */
+export function accountRefused(err: { type?: string; code?: string; statusCode?: number }): boolean {
+	return (
+		err.code === 'account_invalid' ||
+		err.code === 'charges_not_enabled' ||
+		(err.statusCode === 403 && err.type === 'StripePermissionError')
+	);
+}
+
+/** Expires an open session (a hold that ran out, a cancelled booking) on the account it was made on; quiet when it is no longer open. */
+export async function expireSession(sessionId: string, accountId: string | null): Promise<void> {
 	try {
-		await stripe().checkout.sessions.expire(sessionId);
+		await stripe().checkout.sessions.expire(sessionId, {}, onAccount(accountId));
 	} catch (e) {
 		const err = e as { statusCode?: number; message?: string };
 		if (err.statusCode && err.statusCode >= 400 && err.statusCode < 500) return; // already complete or expired

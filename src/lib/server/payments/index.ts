@@ -8,10 +8,11 @@ export async function startDepositCheckout(bookingId: string, origin: string): P
 	return startCheckout(bookingId, 'deposit', origin);
 }
 
-export { startCheckout, CheckoutError, type CheckoutKind } from './checkout';
+export { startCheckout, CheckoutError, PaymentsNotReadyError, PAYMENTS_NOT_READY, type CheckoutKind } from './checkout';
 export { loadMoneyPanel } from './panel';
 export { cancelBooking, previewCancellation, retryFailedRefunds, cancelAccess, type CancellationFact } from './refunds';
 export { closeBooking } from './close';
 export { cancel, pay, payable, type MoneyRefusal } from './actions';
 export { processStripeEvent } from './webhook';
+export { receiveWebhook } from './receive';
 export type { MoneyPanelData } from '$lib/types/money';

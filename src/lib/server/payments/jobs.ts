@@ -6,6 +6,8 @@
 //
 // Checkouts and refunds are two separate jobs, and each item is tried on its own: one session or
 // refund Stripe will not answer for is logged and left for a later tick, never blocking the rest.
+// Every call runs on the account the payment was made on (payment.stripeAccountId; null is the
+// platform's own, for payments made before Connect): another account cannot see the session.
 import { and, asc, eq, inArray, isNotNull, isNull, lt, or, sql } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import { db } from '../db';
@@ -14,7 +16,7 @@ import { holdLapsedSql } from '../bookings/occupancy';
 import { BOOKING_STATUSES, awaitsDeposit } from '$lib/domain/lifecycle';
 import { eachIsolated, inTransaction, isMissing } from './core';
 import { applySession } from './state';
-import { stripe } from './stripe';
+import { onAccount, stripe } from './stripe';
 
 /** How long the job leaves a checkout it has asked about before asking again. */
 export const RECHECK_AFTER_MS = 10 * 60_000;
@@ -24,11 +26,15 @@ const BATCH = 20;
  * When the money was paid: the successful charge's time, else now. (A webhook carries its event's
  * `created`; this is for the job, which learns of a payment without an event.)
  */
-async function paymentTime(session: Stripe.Checkout.Session): Promise<Date | undefined> {
+async function paymentTime(session: Stripe.Checkout.Session, accountId: string | null): Promise<Date | undefined> {
 	const pi = session.payment_intent;
 	if (!pi || session.payment_status !== 'paid') return undefined;
 	try {
-		const intent = await stripe().paymentIntents.retrieve(typeof pi === 'string' ? pi : pi.id, { expand: ['latest_charge'] });
+		const intent = await stripe().paymentIntents.retrieve(
+			typeof pi === 'string' ? pi : pi.id,
+			{ expand: ['latest_charge'] },
+			onAccount(accountId)
+		);
 		const charge = intent.latest_charge;
 		if (charge && typeof charge !== 'string' && charge.status === 'succeeded') return new Date(charge.created * 1000);
 		return new Date(intent.created * 1000);
@@ -37,11 +43,11 @@ async function paymentTime(session: Stripe.Checkout.Session): Promise<Date | und
 	}
 }
 
-/** Applies a session's state as Stripe reports it now (the same rules as its webhook events). */
-export async function reconcileSession(session: Stripe.Checkout.Session): Promise<string> {
+/** Applies a session's state as Stripe reports it now, on the account it was read from (the same rules as its webhook events). */
+export async function reconcileSession(session: Stripe.Checkout.Session, accountId: string | null): Promise<string> {
 	if (session.status === 'expired') return inTransaction((tx, after) => applySession(tx, session, 'expired', after));
 	if (session.status === 'complete') {
-		const paidAt = await paymentTime(session);
+		const paidAt = await paymentTime(session, accountId);
 		return inTransaction((tx, after) => applySession(tx, session, 'completed', after, paidAt));
 	}
 	return 'open';
@@ -63,10 +69,10 @@ export async function forgetSession(sessionId: string): Promise<string> {
 	return outcome;
 }
 
-/** Retrieves a session; null when Stripe answers that it does not exist. */
-async function retrieveSession(sessionId: string): Promise<Stripe.Checkout.Session | null> {
+/** Retrieves a session on its account; null when Stripe answers that it does not exist there. */
+async function retrieveSession(sessionId: string, accountId: string | null): Promise<Stripe.Checkout.Session | null> {
 	try {
-		return await stripe().checkout.sessions.retrieve(sessionId);
+		return await stripe().checkout.sessions.retrieve(sessionId, {}, onAccount(accountId));
 	} catch (e) {
 		if (isMissing(e)) return null;
 		throw e;
@@ -74,22 +80,22 @@ async function retrieveSession(sessionId: string): Promise<Stripe.Checkout.Sessi
 }
 
 /** Expires a session and applies the answer at once; a session that is no longer open is looked up instead. */
-export async function expireAndReconcile(sessionId: string): Promise<void> {
+export async function expireAndReconcile(sessionId: string, accountId: string | null): Promise<void> {
 	let session: Stripe.Checkout.Session | null;
 	try {
-		session = await stripe().checkout.sessions.expire(sessionId);
+		session = await stripe().checkout.sessions.expire(sessionId, {}, onAccount(accountId));
 	} catch (e) {
 		const status = (e as { statusCode?: number }).statusCode ?? 0;
 		if (status < 400 || status >= 500) throw e;
-		session = await retrieveSession(sessionId);
+		session = await retrieveSession(sessionId, accountId);
 	}
-	if (session) await reconcileSession(session);
+	if (session) await reconcileSession(session, accountId);
 	else await forgetSession(sessionId);
 }
 
 export async function sweepCheckouts(now = new Date()): Promise<void> {
 	const orphans = await db
-		.select({ id: payment.id, sessionId: payment.checkoutSessionId })
+		.select({ id: payment.id, sessionId: payment.checkoutSessionId, accountId: payment.stripeAccountId })
 		.from(payment)
 		.innerJoin(booking, eq(booking.id, payment.bookingId))
 		.where(
@@ -112,14 +118,14 @@ export async function sweepCheckouts(now = new Date()): Promise<void> {
 	await eachIsolated(orphans, 'could not close checkout', async (o) => {
 		// Marked first: one Stripe keeps refusing goes behind the others on the next tick.
 		await db.update(payment).set({ lastCheckedAt: now }).where(eq(payment.id, o.id));
-		await expireAndReconcile(o.sessionId!);
+		await expireAndReconcile(o.sessionId!, o.accountId);
 	});
 
 	// Past their end and still not final here: the oldest-checked first, each asked again only
 	// after RECHECK_AFTER_MS (a delayed payment can stay processing for days), so a few slow ones
 	// never starve the rest.
 	const overdue = await db
-		.select({ id: payment.id, sessionId: payment.checkoutSessionId })
+		.select({ id: payment.id, sessionId: payment.checkoutSessionId, accountId: payment.stripeAccountId })
 		.from(payment)
 		.where(
 			and(
@@ -134,9 +140,9 @@ export async function sweepCheckouts(now = new Date()): Promise<void> {
 	await eachIsolated(overdue, 'could not reconcile checkout', async (o) => {
 		// Marked first: a session that keeps failing waits its turn like the others.
 		await db.update(payment).set({ lastCheckedAt: now }).where(eq(payment.id, o.id));
-		const session = await retrieveSession(o.sessionId!);
+		const session = await retrieveSession(o.sessionId!, o.accountId);
 		if (!session) await forgetSession(o.sessionId!);
 		// Only a final answer changes anything.
-		else if (session.status !== 'open') await reconcileSession(session);
+		else if (session.status !== 'open') await reconcileSession(session, o.accountId);
 	});
 }

@@ -6,6 +6,10 @@
 // Stripe may answer `pending` and fail later (refund.failed): the refund row follows what Stripe
 // says (state.ts), a credit note is issued only once the money has gone back, and a failed refund
 // stays visible to the owner and the accountant until someone tries again.
+//
+// A refund comes out of the account its payment was made on (payment.stripeAccountId: the
+// studio's connected account; null, the platform's own, for payments made before Connect), and
+// every call about it runs there.
 import { and, asc, eq, isNull, isNotNull, lt } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import { db } from '../db';
@@ -27,7 +31,7 @@ import {
 } from './core';
 import { applyRefundObject, auditTx, queueRefund, unresolvedFailures } from './state';
 import { expireSession } from './checkout';
-import { stripe } from './stripe';
+import { onAccount, stripe } from './stripe';
 import { queueCancellation } from '../mail';
 import { refundForCancellation } from '$lib/domain/pricing';
 import { isCancellable } from '$lib/domain/lifecycle';
@@ -204,7 +208,7 @@ export async function cancelBooking(
 		for (const p of state.payments) {
 			if (p.status === 'open' && p.checkoutSessionId) {
 				const id = p.checkoutSessionId;
-				after.push(() => expireSession(id));
+				after.push(() => expireSession(id, p.stripeAccountId));
 			}
 		}
 		await auditTx(
@@ -282,17 +286,23 @@ export function isStripeRequestError(e: unknown): e is { type: string; statusCod
 /** Sends one recorded refund to Stripe (idempotent); the payments job retries what could not be sent. */
 export async function sendRefund(refundId: string): Promise<void> {
 	const [row] = await db
-		.select({ refund, paymentIntentId: payment.paymentIntentId, sessionId: payment.checkoutSessionId })
+		.select({
+			refund,
+			paymentIntentId: payment.paymentIntentId,
+			sessionId: payment.checkoutSessionId,
+			accountId: payment.stripeAccountId
+		})
 		.from(refund)
 		.innerJoin(payment, eq(payment.id, refund.paymentId))
 		.where(eq(refund.id, refundId));
 	if (!row || row.refund.stripeRefundId || row.refund.status !== 'pending') return;
 	const r = row.refund;
+	const account = row.accountId;
 	let paymentIntent = row.paymentIntentId;
 	try {
 		if (!paymentIntent && row.sessionId) {
 			// payment_intent is null on a session until it is paid; the paid session names it.
-			const s = await stripe().checkout.sessions.retrieve(row.sessionId);
+			const s = await stripe().checkout.sessions.retrieve(row.sessionId, {}, onAccount(account));
 			paymentIntent = typeof s.payment_intent === 'string' ? s.payment_intent : (s.payment_intent?.id ?? null);
 		}
 		if (!paymentIntent) {
@@ -306,7 +316,7 @@ export async function sendRefund(refundId: string): Promise<void> {
 				reason: r.reason === 'duplicate' ? 'duplicate' : 'requested_by_customer',
 				metadata: { bookingId: r.bookingId, refundId: r.id, paymentId: r.paymentId ?? '', reason: r.reason }
 			},
-			{ idempotencyKey: r.idempotencyKey ?? `slateroom-refund-${r.id}` }
+			onAccount(account, { idempotencyKey: r.idempotencyKey ?? `slateroom-refund-${r.id}` })
 		);
 		await inTransaction((tx) => applyRefundObject(tx, created));
 	} catch (e) {
@@ -349,7 +359,7 @@ export async function sweepRefunds(now = new Date()): Promise<void> {
 	// Each refund on its own: one Stripe will not take never keeps the others from going out.
 	await eachIsolated(unsent, 'could not send refund', ({ id }) => sendRefund(id));
 	const quiet = await db
-		.select({ stripeRefundId: refund.stripeRefundId })
+		.select({ stripeRefundId: refund.stripeRefundId, accountId: refund.stripeAccountId })
 		.from(refund)
 		.where(
 			and(
@@ -360,7 +370,7 @@ export async function sweepRefunds(now = new Date()): Promise<void> {
 		)
 		.orderBy(asc(refund.updatedAt))
 		.limit(20);
-	await eachIsolated(quiet, 'could not look up refund', async ({ stripeRefundId }) => {
+	await eachIsolated(quiet, 'could not look up refund', async ({ stripeRefundId, accountId }) => {
 		// Asked about now: asked again in five minutes, not on every tick, whatever Stripe answers.
 		await db
 			.update(refund)
@@ -368,7 +378,7 @@ export async function sweepRefunds(now = new Date()): Promise<void> {
 			.where(and(eq(refund.stripeRefundId, stripeRefundId!), eq(refund.status, 'pending')));
 		let r: Stripe.Refund;
 		try {
-			r = await stripe().refunds.retrieve(stripeRefundId!);
+			r = await stripe().refunds.retrieve(stripeRefundId!, {}, onAccount(accountId));
 		} catch (e) {
 			if (!isMissing(e)) throw e;
 			await markUnknownRefundFailed(stripeRefundId!);

@@ -92,20 +92,35 @@ export function amountMismatch(
 }
 
 /**
+ * An event changes a payment or refund only when it comes from the account that payment was made
+ * on (Stripe docs, "Connect webhooks": a connected account's event carries `account`; the
+ * platform's own carry none, and match payments made before Connect). `eventAccount` is undefined
+ * when the object was looked up on the payment's own account rather than delivered.
+ */
+function fromOtherAccount(rowAccount: string | null, eventAccount: string | null | undefined): boolean {
+	return eventAccount !== undefined && (rowAccount ?? null) !== eventAccount;
+}
+
+export const OTHER_ACCOUNT = 'other_account';
+
+/**
  * Applies what a Checkout Session event says; returns a word for the log and the webhook's answer.
  * `paidAt` is when Stripe took the money (the event's `created`, or the charge's time), not when
  * we heard of it: deliveries can be late by days, and the deposit invoice states the date of the
- * payment on account (Directive 2006/112/EC, Article 226(7)).
+ * payment on account (Directive 2006/112/EC, Article 226(7)). `eventAccount`: the event's
+ * account (null for the platform's), when the session came in an event.
  */
 export async function applySession(
 	tx: Tx,
 	session: Stripe.Checkout.Session,
 	fact: SessionFact,
 	after: AfterCommit,
-	paidAt?: Date
+	paidAt?: Date,
+	eventAccount?: string | null
 ): Promise<string> {
 	const found = await paymentForSession(tx, session);
 	if (!found) return 'unknown_session';
+	if (fromOtherAccount(found.stripeAccountId, eventAccount)) return OTHER_ACCOUNT;
 	const b = await lockBooking(tx, found.bookingId);
 	if (!b) return 'unknown_booking';
 	const [p] = await tx.select().from(payment).where(eq(payment.id, found.id)).for('update');
@@ -222,7 +237,7 @@ async function confirmed(tx: Tx, b: BookingRow, p: PaymentRow, after: AfterCommi
 	for (const other of await paymentsOf(tx, b.id)) {
 		if (other.kind === 'deposit' && other.status === 'open' && other.checkoutSessionId && other.id !== p.id) {
 			const id = other.checkoutSessionId;
-			after.push(() => expireAndReconcile(id));
+			after.push(() => expireAndReconcile(id, other.stripeAccountId));
 		}
 	}
 }
@@ -320,6 +335,8 @@ export interface QueueRefund {
  * refund at Stripe; a deliberate new attempt (after a failure) makes a new one.
  */
 export async function queueRefund(tx: Tx, after: AfterCommit, r: QueueRefund): Promise<RefundRow> {
+	// A refund comes out of the account its payment was made on.
+	const [paid] = await tx.select({ accountId: payment.stripeAccountId }).from(payment).where(eq(payment.id, r.payment.id));
 	const [{ n } = { n: 0 }] = await tx
 		.select({ n: sql<number>`count(*)::int` })
 		.from(refund)
@@ -335,6 +352,7 @@ export async function queueRefund(tx: Tx, after: AfterCommit, r: QueueRefund): P
 			status: 'pending',
 			reason: r.reason,
 			requestedBy: r.requestedBy ?? null,
+			stripeAccountId: paid?.accountId ?? null,
 			idempotencyKey: `slateroom-refund-${r.booking.id}-${r.payment.id}-${n + 1}`
 		})
 		.returning();
@@ -342,10 +360,14 @@ export async function queueRefund(tx: Tx, after: AfterCommit, r: QueueRefund): P
 	return row!;
 }
 
-/** Applies what Stripe says about a refund (its create answer, refund.created/updated/failed). */
+/**
+ * Applies what Stripe says about a refund (its create answer, a look-up, refund.created/updated/
+ * failed). `eventAccount` as for applySession: an event from another account changes nothing.
+ */
 export async function applyRefundObject(
 	tx: Tx,
-	r: Pick<Stripe.Refund, 'id' | 'status' | 'metadata' | 'failure_reason'>
+	r: Pick<Stripe.Refund, 'id' | 'status' | 'metadata' | 'failure_reason'>,
+	eventAccount?: string | null
 ): Promise<string> {
 	let [row] = await tx.select().from(refund).where(eq(refund.stripeRefundId, r.id));
 	if (!row) {
@@ -357,6 +379,7 @@ export async function applyRefundObject(
 			.where(and(eq(refund.id, refundId), isNull(refund.stripeRefundId)));
 		if (!row) return 'unknown_refund';
 	}
+	if (fromOtherAccount(row.stripeAccountId, eventAccount)) return OTHER_ACCOUNT;
 	await lockBooking(tx, row.bookingId);
 	const [cur] = await tx.select().from(refund).where(eq(refund.id, row.id)).for('update');
 	if (!cur) return 'unknown_refund';

@@ -27,10 +27,24 @@ export function stripe(): Stripe {
 	return client;
 }
 
-export function webhookSecret(): string {
-	const secret = env.STRIPE_WEBHOOK_SECRET;
-	if (!secret) throw new Error('STRIPE_WEBHOOK_SECRET is not set (see .env.example)');
+/** Where an event came in: the platform's own endpoint, or the Connect endpoint (connected accounts' events). */
+export type WebhookEndpoint = 'platform' | 'connect';
+
+/** The signing secret of an endpoint (each endpoint at Stripe has its own). */
+export function webhookSecret(endpoint: WebhookEndpoint = 'platform'): string {
+	const name = endpoint === 'connect' ? 'STRIPE_CONNECT_WEBHOOK_SECRET' : 'STRIPE_WEBHOOK_SECRET';
+	const secret = env[name];
+	if (!secret) throw new Error(`${name} is not set (see .env.example)`);
 	return secret;
+}
+
+/**
+ * The request options that run a call on a connected account (Stripe docs, "Making API calls for
+ * connected accounts": the Stripe-Account header). A null account is the platform's own, as every
+ * payment made before Connect was.
+ */
+export function onAccount(accountId: string | null, options: Stripe.RequestOptions = {}): Stripe.RequestOptions {
+	return accountId ? { ...options, stripeAccount: accountId } : options;
 }
 
 export { Stripe };
