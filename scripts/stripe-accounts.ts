@@ -22,6 +22,7 @@ if (!local) {
 		const studios = await db
 			.select({
 				accountId: t.studio.stripeAccountId,
+				name: t.studio.name,
 				country: t.studio.country,
 				email: t.studio.email,
 				currency: t.studio.currency,
@@ -36,6 +37,7 @@ if (!local) {
 				body: JSON.stringify({
 					country: s.country,
 					...(s.email ? { email: s.email } : {}),
+					business_name: s.name,
 					default_currency: s.currency.toLowerCase(),
 					completed: s.chargesEnabled
 				})

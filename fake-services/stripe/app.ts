@@ -216,7 +216,8 @@ export async function startStripeFake(options: StripeFakeOptions = {}): Promise<
 		if (!m || !token || !state.accountLinks.has(token)) return sendHtml(res, 404, renderNotFound(path));
 		const action = m[2];
 		if (!action) {
-			if (req.method !== 'GET' && req.method !== 'HEAD') return send(res, 405, '', { Allow: 'GET' });
+			// Only GET: opening uses the link up, so a HEAD must not.
+			if (req.method !== 'GET') return send(res, 405, '', { Allow: 'GET' });
 			const opened = state.openAccountLink(token);
 			if (!opened) return sendHtml(res, 404, renderNotFound(path));
 			if (!opened.show) return redirect(res, opened.link.refreshUrl);

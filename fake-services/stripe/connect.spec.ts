@@ -504,6 +504,11 @@ describe('account links and the onboarding page', () => {
 			)
 		).rejects.toMatchObject({ statusCode: 400 });
 		expect((await get(`${fx.fake.url}/connect/onboard/NoSuchLink`)).status).toBe(404);
+		// Only a GET opens (and uses up) a link.
+		const made = await link(account);
+		const head = await fetch(made.url, { method: 'HEAD', signal: AbortSignal.timeout(60_000) });
+		expect(head.status).toBe(405);
+		expect((await get(made.url)).status).toBe(200);
 	});
 
 	it('sends an expired link to refresh_url, but lets a page opened in time be finished', async () => {

@@ -9,6 +9,7 @@ import { and, eq, inArray, sql } from 'drizzle-orm';
 import { studioIdOf, testDb } from '../support/db';
 import { DATABASE_URL, DEMO } from '../support/env';
 import { signedIn } from '../support/http';
+import { settingsOf } from '../support/team';
 import { createDb } from '../../src/lib/server/db/client';
 import * as t from '../../src/lib/server/db/schema';
 import { issueDocument } from '../../src/lib/server/invoices/issue';
@@ -90,9 +91,8 @@ async function secondStudio(): Promise<string> {
 		.select()
 		.from(t.studio)
 		.where(eq(t.studio.id, await studioIdOf(db)));
-	const { id: _id, updatedAt: _u, ...settings } = demo!;
-	// Not published: nobody outside its team would see it.
-	await db.insert(t.studio).values({ ...settings, id, name: 'Walls Test Studio', published: false });
+	// Not published: nobody outside its team would see it. No payment account: nothing here is paid.
+	await db.insert(t.studio).values({ ...settingsOf(demo!), id, name: 'Walls Test Studio', published: false });
 	return id;
 }
 

@@ -76,7 +76,7 @@ const PLATFORM_KEY = process.env.STRIPE_SECRET_KEY ?? 'sk_test_slateroom_test';
  */
 export async function connectStudio(db: Database, studioId: string, completed = true): Promise<string> {
 	const [row] = await db
-		.select({ country: t.studio.country, email: t.studio.email, currency: t.studio.currency })
+		.select({ name: t.studio.name, country: t.studio.country, email: t.studio.email, currency: t.studio.currency })
 		.from(t.studio)
 		.where(eq(t.studio.id, studioId));
 	if (!row) throw new Error(`no studio ${studioId}`);
@@ -87,6 +87,7 @@ export async function connectStudio(db: Database, studioId: string, completed = 
 		body: JSON.stringify({
 			country: row.country,
 			...(row.email ? { email: row.email } : {}),
+			business_name: row.name,
 			default_currency: row.currency.toLowerCase(),
 			completed
 		})
