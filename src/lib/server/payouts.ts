@@ -86,15 +86,13 @@ export async function refreshAccount(studioId: string): Promise<boolean> {
 			chargesEnabled: studio.chargesEnabled,
 			payoutsEnabled: studio.payoutsEnabled,
 			detailsSubmitted: studio.detailsSubmitted,
-			requirements: studio.accountRequirements,
-			seenAt: studio.accountEventAt
+			requirements: studio.accountRequirements
 		})
 		.from(studio)
 		.where(eq(studio.id, studioId));
 	if (!row?.account) return false;
 	const facts = accountFacts(await stripe().accounts.retrieve(row.account));
 	const same =
-		row.seenAt !== null &&
 		facts.chargesEnabled === row.chargesEnabled &&
 		facts.payoutsEnabled === row.payoutsEnabled &&
 		facts.detailsSubmitted === row.detailsSubmitted &&
