@@ -322,13 +322,7 @@ describe('a studio’s account state', () => {
 	});
 
 	it('refuses a checkout with 409 payments_not_ready while Stripe says the account cannot take charges, and takes it again once it can', async () => {
-		// The fake sends account.updated to the Connect endpoint (fake-services/stripe/README.md).
-		expect((await fakeControl(`/accounts/${account}/requirements`, { currently_due: ['external_account'] })).status).toBe(200);
-		await waitFor(async () => ((await stateOf()).charges ? undefined : true), 'the account can no longer take charges');
-		expect((await stateOf()).due).toEqual(['external_account']);
-
 		const artistHere = await signedIn(DEMO.artist);
-		// The hold stands without a checkout (the booking page offers the payment again).
 		const hold = await firstFree<{ id: string; status: string; checkoutUrl: string | null }>(DAYS, SLOTS, async (slot) => {
 			const res = await artistHere.json(`/api/studios/${studio.slug}/bookings`, {
 				room: studio.roomSlug,
@@ -337,8 +331,21 @@ describe('a studio’s account state', () => {
 			});
 			return { status: res.status, body: () => res.json() };
 		});
-		expect([hold.status, hold.checkoutUrl]).toEqual(['held', null]);
-		expect(await db.select().from(t.payment).where(eq(t.payment.bookingId, hold.id))).toEqual([]);
+		expect(hold.status).toBe('held');
+
+		// The fake sends account.updated to the Connect endpoint (fake-services/stripe/README.md).
+		expect((await fakeControl(`/accounts/${account}/requirements`, { currently_due: ['external_account'] })).status).toBe(200);
+		await waitFor(async () => ((await stateOf()).charges ? undefined : true), 'the account can no longer take charges');
+		expect((await stateOf()).due).toEqual(['external_account']);
+
+		// No new hold while the studio cannot take charges; the hold made before asks for its payment again.
+		const another = await artistHere.json(`/api/studios/${studio.slug}/bookings`, {
+			room: studio.roomSlug,
+			start: `${DAYS.at(-1)}T10:00`,
+			end: `${DAYS.at(-1)}T11:00`
+		});
+		expect(another.status).toBe(409);
+		expect(((await another.json()) as { error: string }).error).toBe('bookings_not_open');
 		const refused = await artistHere.json(`/api/bookings/${hold.id}/pay`, { kind: 'deposit' });
 		expect(refused.status).toBe(409);
 		expect(((await refused.json()) as { error: string }).error).toBe('payments_not_ready');

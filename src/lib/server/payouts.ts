@@ -75,14 +75,29 @@ async function onboardingLink(account: string, origin: string): Promise<string> 
 
 /**
  * Looks the studio's account up and copies its state onto the studio (the return from onboarding
- * says nothing about the outcome: Stripe's guide asks to check the account itself). Returns
- * whether the studio has an account at all.
+ * says nothing about the outcome: Stripe's guide asks to check the account itself). A state the
+ * studio already holds is not written again, so opening the return page twice changes nothing.
+ * Returns whether the studio has an account at all.
  */
 export async function refreshAccount(studioId: string): Promise<boolean> {
-	const [row] = await db.select({ account: studio.stripeAccountId }).from(studio).where(eq(studio.id, studioId));
+	const [row] = await db
+		.select({
+			account: studio.stripeAccountId,
+			chargesEnabled: studio.chargesEnabled,
+			payoutsEnabled: studio.payoutsEnabled,
+			detailsSubmitted: studio.detailsSubmitted,
+			requirements: studio.accountRequirements
+		})
+		.from(studio)
+		.where(eq(studio.id, studioId));
 	if (!row?.account) return false;
-	const account = await stripe().accounts.retrieve(row.account);
-	await applyAccountState(row.account, accountFacts(account), new Date());
+	const facts = accountFacts(await stripe().accounts.retrieve(row.account));
+	const same =
+		facts.chargesEnabled === row.chargesEnabled &&
+		facts.payoutsEnabled === row.payoutsEnabled &&
+		facts.detailsSubmitted === row.detailsSubmitted &&
+		facts.requirements.join('\n') === row.requirements.join('\n');
+	if (!same) await applyAccountState(row.account, facts, new Date());
 	return true;
 }
 
