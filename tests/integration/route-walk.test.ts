@@ -197,16 +197,23 @@ const ENTRIES: Record<string, Entry> = {
 		path: () => '/account',
 		into: false,
 		form: {
-			default: (b) => ({ kind: 'organisation', name: '', street: b.slug, postalCode: '00100', city: 'Helsinki', country: 'FI' })
+			default: () => ({
+				kind: 'organisation',
+				name: '',
+				street: 'Walk street 1',
+				postalCode: '00100',
+				city: 'Helsinki',
+				country: 'FI'
+			})
 		}
 	},
 	'/api/me/billing': {
 		path: () => '/api/me/billing',
 		into: false,
 		json: {
-			PUT: (b) => ({
+			PUT: () => ({
 				kind: 'organisation',
-				name: b.slug,
+				name: 'Walk Oy',
 				street: 'x',
 				postalCode: '00100',
 				city: 'Helsinki',
