@@ -78,6 +78,27 @@ export async function updatePolicy(actor: Actor, values: PolicyValues): Promise<
 	return changed;
 }
 
+/**
+ * The owner's choice to invoice EU business buyers abroad under reverse charge
+ * ($lib/domain/vat-treatment.ts). Only bookings made after the change follow it: a booking keeps
+ * the treatment of its quote. Returns whether anything changed.
+ */
+export async function setReverseChargeAbroad(actor: Actor, on: boolean): Promise<boolean> {
+	const before = await getStudio(actor.studioId);
+	if (before.reverseChargeAbroad === on) return false;
+	await db.update(studio).set({ reverseChargeAbroad: on }).where(eq(studio.id, actor.studioId));
+	await audit({
+		studioId: actor.studioId,
+		actorId: actor.user.id,
+		action: 'studio.reverse_charge_changed',
+		entity: 'studio',
+		entityId: actor.studioId,
+		data: { reverseChargeAbroad: { from: before.reverseChargeAbroad, to: on } },
+		ip: actor.ip
+	});
+	return true;
+}
+
 /** Saves one surcharge rule; false when there is no such rule. */
 export async function updateSurcharge(actor: Actor, id: string, values: SurchargeValues): Promise<boolean> {
 	const [before] = await db

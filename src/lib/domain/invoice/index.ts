@@ -28,4 +28,4 @@ export {
 	type DocumentTotals,
 	type TotalsOptions
 } from './totals';
-export { vatLedger, type LedgerDocument, type LedgerRow, type VatRow } from './ledger';
+export { vatCategoryOf, vatLedger, type LedgerDocument, type LedgerRow, type VatCategory, type VatRow } from './ledger';

@@ -1,5 +1,8 @@
 /**
- * A month's VAT by rate, across the documents issued in it (what the accountant declares).
+ * A month's VAT by category and rate, across the documents issued in it (what the accountant
+ * declares). Reverse-charged supplies (VAT category AE, UNTDID 5305) are a row of their own, apart
+ * from anything zero-rated: they are declared differently (Directive 2006/112/EC, Article 262,
+ * the recapitulative statement).
  *
  * - a deposit invoice (386) makes VAT chargeable when the payment on account is received
  *   (Directive 2006/112/EC, Article 65): its base and VAT count in full;
@@ -15,6 +18,15 @@ export interface VatRow {
 	rateBp: number;
 	base: Minor;
 	amount: Minor;
+	/** BT-118 when it is not read from the rate: 'AE', reverse charge. */
+	category?: 'AE';
+}
+
+/** BT-118 VAT category code (UNTDID 5305): 'AE' reverse charge, else 'S' above 0 % and 'Z' at 0 %. */
+export type VatCategory = 'S' | 'Z' | 'AE';
+export function vatCategoryOf(row: Pick<VatRow, 'rateBp' | 'category'>): VatCategory {
+	if (row.category === 'AE') return 'AE';
+	return row.rateBp > 0 ? 'S' : 'Z';
 }
 
 export interface LedgerDocument {
@@ -25,6 +37,7 @@ export interface LedgerDocument {
 }
 
 export interface LedgerRow {
+	category: VatCategory;
 	rateBp: number;
 	ratePercent: string;
 	/** Taxable amount to declare at this rate (may be negative in a month of credit notes). */
@@ -32,22 +45,33 @@ export interface LedgerRow {
 	vat: Minor;
 }
 
+/** Standard rates first, highest rate first; then zero rated; reverse charge last. */
+const CATEGORY_ORDER: Record<VatCategory, number> = { S: 0, Z: 1, AE: 2 };
+
 export function vatLedger(docs: readonly LedgerDocument[]): LedgerRow[] {
-	const rows = new Map<number, { base: Minor; vat: Minor }>();
-	const add = (rateBp: number, base: Minor, vat: Minor) => {
-		const row = rows.get(rateBp) ?? { base: 0, vat: 0 };
-		row.base += base;
-		row.vat += vat;
-		rows.set(rateBp, row);
+	const rows = new Map<string, { category: VatCategory; rateBp: number; base: Minor; vat: Minor }>();
+	const add = (g: VatRow, sign: number) => {
+		const category = vatCategoryOf(g);
+		const key = `${category}:${g.rateBp}`;
+		const row = rows.get(key) ?? { category, rateBp: g.rateBp, base: 0, vat: 0 };
+		row.base += sign * g.base;
+		row.vat += sign * g.amount;
+		rows.set(key, row);
 	};
 	for (const doc of docs) {
 		const sign = doc.typeCode === DOCUMENT_TYPE.creditNote ? -1 : 1;
-		for (const g of doc.vat) add(g.rateBp, sign * g.base, sign * g.amount);
+		for (const g of doc.vat) add(g, sign);
 		if (doc.typeCode === DOCUMENT_TYPE.invoice) {
-			for (const g of doc.prepaidVat ?? []) add(g.rateBp, -g.base, -g.amount);
+			for (const g of doc.prepaidVat ?? []) add(g, -1);
 		}
 	}
-	return [...rows.entries()]
-		.sort(([a], [b]) => b - a)
-		.map(([rateBp, r]) => ({ rateBp, ratePercent: basisPointsToPercent(rateBp), base: r.base, vat: r.vat }));
+	return [...rows.values()]
+		.sort((a, b) => CATEGORY_ORDER[a.category] - CATEGORY_ORDER[b.category] || b.rateBp - a.rateBp)
+		.map((r) => ({
+			category: r.category,
+			rateBp: r.rateBp,
+			ratePercent: basisPointsToPercent(r.rateBp),
+			base: r.base,
+			vat: r.vat
+		}));
 }

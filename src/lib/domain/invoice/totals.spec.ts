@@ -450,3 +450,49 @@ describe('the edges of the totals, the rule checks and the lump-sum lines', () =
 		]);
 	});
 });
+
+describe('reverse-charged documents (VAT category AE; EN 16931 BR-AE-01, -05, -08, -09)', () => {
+	const reverse = () =>
+		quoteBooking({
+			start: at('2027-03-02', '10:00'),
+			end: at('2027-03-02', '15:00'),
+			room: LIVE_ROOM,
+			engineer: false,
+			gear: [],
+			policy: DEMO_POLICY,
+			holidays: noHolidays,
+			vatTreatment: 'reverse-charge'
+		});
+
+	it('a final invoice from a reverse-charged quote has the quote’s nets, one AE group and no VAT', () => {
+		const q = reverse();
+		const t = documentTotals(linesFromPriceLines(q.lines), {
+			currency: 'EUR',
+			amountsIncludeVat: q.pricesIncludeVat,
+			prepaid: q.deposit,
+			vatCategory: 'AE'
+		});
+		expect(t.vat).toEqual([{ ratePercent: '0', rateBp: 0, base: 16335, amount: 0, category: 'AE' }]);
+		expect([t.gross, t.vatTotal, t.amountDue]).toEqual([16335, 0, 16335 - q.deposit]);
+		expect(documentViolations(t)).toEqual([]);
+	});
+
+	it('a deposit on account of it is one AE line at 0 %', () => {
+		const q = reverse();
+		const t = documentTotals(lumpSumLines(q.deposit, 'deposit', 'Deposit', grossByRate(q.vat)), {
+			...EUR,
+			prepaid: q.deposit,
+			vatCategory: 'AE'
+		});
+		expect(t.lines.map((l) => [l.vatRateBp, l.net])).toEqual([[0, q.deposit]]);
+		expect(documentViolations(t)).toEqual([]);
+	});
+
+	it('finds a reverse-charged document with a rate, with VAT, or beside another group', () => {
+		const t = documentTotals([line(5000, 0)], { ...EUR, vatCategory: 'AE' });
+		expect(documentViolations({ ...t, lines: t.lines.map((l) => ({ ...l, vatRateBp: 2550 })) })).toContain('BR-AE-05');
+		expect(documentViolations({ ...t, vat: t.vat.map((g) => ({ ...g, amount: 1 })) })).toContain('BR-AE-09');
+		const mixed = documentTotals([line(5000, 0), line(1000, 2550)], { ...EUR, vatCategory: 'AE' });
+		expect(documentViolations(mixed)).toEqual(expect.arrayContaining(['BR-AE-01', 'BR-AE-05', 'BR-AE-09']));
+	});
+});

@@ -81,6 +81,8 @@ export interface TotalsOptions {
 	amountsIncludeVat: boolean;
 	/** BT-113; default 0. */
 	prepaid?: Minor;
+	/** 'AE': a reverse-charged document (../vat-treatment.ts), its lines at 0 % and its one VAT group of category AE. */
+	vatCategory?: 'AE';
 }
 
 export function documentTotals(inputs: readonly DocumentLineInput[], options: TotalsOptions): DocumentTotals {
@@ -94,7 +96,13 @@ export function documentTotals(inputs: readonly DocumentLineInput[], options: To
 	for (const line of lines) bases.set(line.vatRateBp, (bases.get(line.vatRateBp) ?? 0) + line.net);
 	const vat: VatGroup[] = [...bases.entries()]
 		.sort(([a], [b]) => b - a)
-		.map(([rateBp, base]) => ({ ratePercent: basisPointsToPercent(rateBp), rateBp, base, amount: vatOf(base, rateBp) }));
+		.map(([rateBp, base]) => ({
+			ratePercent: basisPointsToPercent(rateBp),
+			rateBp,
+			base,
+			amount: vatOf(base, rateBp),
+			...(options.vatCategory ? { category: options.vatCategory } : {})
+		}));
 
 	const lineNetTotal = sumMinor(lines.map((l) => l.net)); // BR-CO-10
 	const allowances = 0;
@@ -168,6 +176,14 @@ export function documentViolations(t: DocumentTotals): string[] {
 		broken.push('advertised total: BT-112 + BT-114 = Σ line amounts incl. VAT');
 	}
 	if (!t.amountsIncludeVat && t.rounding !== 0) broken.push('no rounding amount when amounts exclude VAT');
+	// Reverse charge: BR-AE-01 exactly one VAT group, of category AE, and no other category beside
+	// it; BR-AE-05 every line at 0 %; BR-AE-08 its base is the sum of the line nets (BR-S-08 above
+	// checks that per rate); BR-AE-09 no VAT in it.
+	if (t.vat.some((g) => g.category === 'AE')) {
+		if (t.vat.length !== 1) broken.push('BR-AE-01');
+		if (t.lines.some((l) => l.vatRateBp !== 0)) broken.push('BR-AE-05');
+		if (t.vat.some((g) => g.rateBp !== 0 || g.amount !== 0)) broken.push('BR-AE-09');
+	}
 	return broken;
 }
 

@@ -23,7 +23,7 @@ export {
 } from './validation';
 export { cheapestCover, hourlyAmount, type BlockCover } from './blocks';
 export { surchargeShares, surchargeAmount, surchargeSplit, surchargeWeight, type SurchargeShare } from './surcharges';
-export { summariseCharges, lineNet, vatOf, en16931Violations, type ChargeItem } from './vat';
+export { chargeTotals, reverseChargeItems, summariseCharges, lineNet, vatOf, en16931Violations, type ChargeItem } from './vat';
 export { depositFor, depositAndBalance } from './deposit';
 export { decimalHours, formatPercent } from './labels';
 export type { ChargeTotals, LineKind, OvertimeCharge, PriceLine, Quote, SurchargeMinutes, VatGroup } from './types';

@@ -17,7 +17,8 @@ import { formatDuration } from '../time';
 import { engineerResource, holidayCheckerFor, roomResource, surchargeLines, surchargeSummary, type Resource } from './lines';
 import { surchargeShares } from './surcharges';
 import type { OvertimeCharge } from './types';
-import { summariseCharges, type ChargeItem } from './vat';
+import type { VatTreatment } from '../vat-treatment';
+import { chargeTotals, type ChargeItem } from './vat';
 
 export interface OvertimeInput {
 	bookedEnd: Date;
@@ -26,6 +27,8 @@ export interface OvertimeInput {
 	engineer: boolean;
 	policy: StudioPolicy;
 	holidays?: (ymd: string) => boolean;
+	/** The booking's treatment (its quote's): reverse charge bills overtime without VAT too. */
+	vatTreatment?: VatTreatment;
 }
 
 export function overtimeCharge(input: OvertimeInput): OvertimeCharge {
@@ -71,7 +74,7 @@ export function overtimeCharge(input: OvertimeInput): OvertimeCharge {
 	}
 
 	return {
-		...summariseCharges(items, policy.currency, policy.pricesIncludeVat),
+		...chargeTotals(items, policy.currency, policy.pricesIncludeVat, input.vatTreatment),
 		overtimeMinutes,
 		increments,
 		billedMinutes,

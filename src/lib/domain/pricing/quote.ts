@@ -16,7 +16,9 @@
  *    160.00 × 25 % × 120/240 = 20.00.
  * 5. Gear hire: the fee per booking, a line per item.
  * 6. VAT and totals per EN 16931 (vat.ts); the rounding amount BT-114 keeps the total equal to
- *    the advertised gross when prices include VAT.
+ *    the advertised gross when prices include VAT. Under reverse charge (../vat-treatment.ts) the
+ *    lines carry no VAT and, with prices incl. VAT, cost their net amounts (vat.ts
+ *    `reverseChargeItems`); the monotonicity below is shown for the standard treatment.
  * 7. Deposit and balance (deposit.ts).
  *
  * Why the total never decreases when a booking gets longer (at either end). Let booking B lie
@@ -47,7 +49,8 @@ import {
 } from './lines';
 import { surchargeShares, surchargeWeight } from './surcharges';
 import type { Quote } from './types';
-import { summariseCharges, type ChargeItem } from './vat';
+import type { VatTreatment } from '../vat-treatment';
+import { chargeTotals, type ChargeItem } from './vat';
 
 export interface QuoteInput {
 	start: Date;
@@ -58,6 +61,8 @@ export interface QuoteInput {
 	policy: StudioPolicy;
 	/** Is this local date 'YYYY-MM-DD' a public holiday? Defaults to date-holidays for policy.country. */
 	holidays?: (ymd: string) => boolean;
+	/** 'reverse-charge' prices the booking without VAT (vat.ts `chargeTotals`); default 'standard'. */
+	vatTreatment?: VatTreatment;
 }
 
 export function quoteBooking(input: QuoteInput): Quote {
@@ -85,7 +90,7 @@ export function quoteBooking(input: QuoteInput): Quote {
 	items.push(...surchargeLines(surchargeBases, shares, vatRateBp));
 	items.push(...gearLines(gear, vatRateBp));
 
-	const totals = summariseCharges(items, policy.currency, policy.pricesIncludeVat);
+	const totals = chargeTotals(items, policy.currency, policy.pricesIncludeVat, input.vatTreatment);
 	return {
 		...totals,
 		...depositAndBalance(totals.total, policy),

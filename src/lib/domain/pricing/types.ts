@@ -3,6 +3,7 @@
  * The totals follow the EN 16931-1 semantic model (business terms named beside each field).
  */
 import type { Minor } from '../types';
+import type { VatTreatment } from '../vat-treatment';
 import type { BlockCover } from './blocks';
 
 export type LineKind = 'room' | 'engineer' | 'surcharge' | 'gear' | 'overtime';
@@ -36,11 +37,19 @@ export interface VatGroup {
 	base: Minor;
 	/** BT-117 = round(base × rate / 100) to minor units (BR-CO-17). */
 	amount: Minor;
+	/**
+	 * BT-118 VAT category code (UNTDID 5305) when it is not read from the rate: 'AE', VAT reverse
+	 * charge. Absent: 'S' above 0 %, 'Z' at 0 %.
+	 */
+	category?: 'AE';
 }
 
 export interface ChargeTotals {
 	currency: string;
+	/** Whether the line amounts include VAT; false after reverse charge (the amounts are nets, no VAT is in them). */
 	pricesIncludeVat: boolean;
+	/** 'reverse-charge': priced without VAT, the buyer accounts for it (vat-treatment.ts). Absent on quotes made before treatments were kept: 'standard'. */
+	vatTreatment?: VatTreatment;
 	lines: PriceLine[];
 	/** BT-106 sum of line nets (BR-CO-10) = BT-109 taxable total (BR-CO-13, no document allowances or charges). */
 	net: Minor;

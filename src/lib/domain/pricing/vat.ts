@@ -18,6 +18,7 @@
  */
 import { basisPointsToPercent, mulDivRoundHalfUp, sumMinor } from '../money';
 import type { Minor } from '../types';
+import type { VatTreatment } from '../vat-treatment';
 import type { ChargeTotals, PriceLine, VatGroup } from './types';
 
 export type ChargeItem = Omit<PriceLine, 'net'>;
@@ -69,6 +70,39 @@ export function summariseCharges(items: readonly ChargeItem[], currency: string,
 }
 
 /**
+ * The items of a reverse-charged booking (vat-treatment.ts): the same services at 0 %, VAT
+ * category AE. What the buyer pays, our rule: when the rate card includes VAT, each line's amount
+ * becomes its net amount (BT-131), exactly as a standard invoice of the same booking would state
+ * it (lineNet: amount ÷ (1 + rate), rounded half-up); a rate card before VAT keeps its amounts. So
+ * the studio keeps the same revenue net of VAT whoever buys, and the buyer's own VAT on the net
+ * (which they account for under Article 196) replaces the studio's: nobody pays the studio VAT it
+ * does not owe. Unit prices go net the same way.
+ */
+export function reverseChargeItems(items: readonly ChargeItem[], pricesIncludeVat: boolean): ChargeItem[] {
+	return items.map((item) => ({
+		...item,
+		amount: lineNet(item.amount, item.vatRateBp, pricesIncludeVat),
+		...(item.unitAmount === undefined ? {} : { unitAmount: lineNet(item.unitAmount, item.vatRateBp, pricesIncludeVat) }),
+		vatRateBp: 0
+	}));
+}
+
+/**
+ * Totals of priced items under a booking's VAT treatment: the studio's VAT, or none at all
+ * (reverse charge: lines at 0 %, one VAT group of category AE, amounts without VAT).
+ */
+export function chargeTotals(
+	items: readonly ChargeItem[],
+	currency: string,
+	pricesIncludeVat: boolean,
+	treatment: VatTreatment = 'standard'
+): ChargeTotals {
+	if (treatment !== 'reverse-charge') return { ...summariseCharges(items, currency, pricesIncludeVat), vatTreatment: 'standard' };
+	const totals = summariseCharges(reverseChargeItems(items, pricesIncludeVat), currency, false);
+	return { ...totals, vat: totals.vat.map((g) => ({ ...g, category: 'AE' as const })), vatTreatment: 'reverse-charge' };
+}
+
+/**
  * The EN 16931 totals rules this engine promises, checked on a finished set of totals; returns
  * the rules broken (empty when all hold). Cheap enough to run before issuing any document.
  */
@@ -101,5 +135,13 @@ export function en16931Violations(totals: ChargeTotals): string[] {
 		broken.push('advertised gross: total = sum of the gross line amounts');
 	}
 	if (!totals.pricesIncludeVat && totals.rounding !== 0) broken.push('no rounding when prices exclude VAT');
+	// BR-AE-01: reverse charge is one VAT group of category AE; BR-AE-05: its lines at 0 %;
+	// BR-AE-09: no VAT in it.
+	const reverse = totals.vat.filter((g) => g.category === 'AE');
+	if (reverse.length > 0 || totals.vatTreatment === 'reverse-charge') {
+		if (reverse.length !== 1 || totals.vat.length !== 1) broken.push('BR-AE-01');
+		if (totals.lines.some((l) => l.vatRateBp !== 0)) broken.push('BR-AE-05');
+		if (reverse.some((g) => g.rateBp !== 0 || g.amount !== 0)) broken.push('BR-AE-09');
+	}
 	return broken;
 }

@@ -455,6 +455,8 @@ export interface VatBreakdownRow {
 	rateBp: number;
 	base: number;
 	amount: number;
+	/** EN 16931 BT-118 when the rate does not say it: 'AE', reverse charge ($lib/domain/invoice vatCategoryOf). */
+	category?: 'AE';
 }
 
 export const invoice = pgTable(

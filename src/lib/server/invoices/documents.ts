@@ -11,6 +11,13 @@
 //
 // Each is issued once per business fact (invoice.source_key), so a webhook delivered twice or two
 // events carrying one payment never make a second document.
+//
+// The buyer is the booking's billing details when the artist gave them (name, postal address,
+// country, an organisation's VAT ID), else the artist by name and e-mail; each document keeps a
+// copy of the buyer as it was when issued, and a credit note keeps its invoice's. Every document
+// of a booking follows the VAT treatment its quote was made with ($lib/domain/vat-treatment.ts):
+// a reverse-charged booking's deposit invoice, final invoice and credit notes carry no VAT,
+// category AE, and say "Reverse charge" (Directive 2006/112/EC, Article 226(11a)).
 import { and, eq, inArray } from 'drizzle-orm';
 import { booking, invoice, payment, refund, room, studio, user } from '../db/schema';
 import { findBySource, issueDocument, type InvoiceRow, type Party, type Tx } from './issue';
@@ -21,12 +28,15 @@ import {
 	linesFromPriceLines,
 	lumpSumLines,
 	payableTotal,
+	vatCategoryOf,
 	type DocumentLineInput,
 	type VatRow
 } from '$lib/domain/invoice';
 import type { PriceLine, Quote } from '$lib/domain/pricing';
 import { formatDate, formatTimes, localDateOf } from '$lib/domain/time';
 import { formatMoney } from '$lib/domain/money';
+import type { BillingDetails } from '$lib/domain/billing';
+import { REVERSE_CHARGE_WORDS, treatmentOf, type VatTreatment } from '$lib/domain/vat-treatment';
 
 type StudioRow = typeof studio.$inferSelect;
 
@@ -53,7 +63,34 @@ export interface BookingForDocuments {
 	quote: Quote;
 	roomName: string;
 	customer: Party;
+	/** Fixed when the booking was made (its quote): every document of the booking follows it. */
+	vatTreatment: VatTreatment;
 }
+
+/**
+ * The buyer as a document names them (Article 226(5); EN 16931 BG-7): the billing details when the
+ * artist gave them, with the artist's e-mail as the buyer's electronic address (BT-49); else the
+ * artist's full name and e-mail, and no address (none is invented).
+ */
+export function buyerOf(billing: BillingDetails | null | undefined, artist: { name: string; email: string }): Party {
+	if (!billing) return { name: artist.name, email: artist.email };
+	return {
+		name: billing.name,
+		street: billing.street,
+		postalCode: billing.postalCode,
+		city: billing.city,
+		country: billing.country,
+		...(billing.kind === 'organisation' && billing.vatId ? { vatId: billing.vatId } : {}),
+		email: artist.email
+	};
+}
+
+const REVERSE_CHARGE_NOTE =
+	`${REVERSE_CHARGE_WORDS}: no VAT is charged; the customer accounts for the VAT ` +
+	'(Council Directive 2006/112/EC, Articles 44 and 196). ';
+
+/** The VAT category a booking's documents carry beside the rate: 'AE' under reverse charge. */
+const categoryOf = (treatment: VatTreatment) => (treatment === 'reverse-charge' ? ('AE' as const) : undefined);
 
 export async function bookingForDocuments(tx: Tx, bookingId: string): Promise<BookingForDocuments> {
 	const [row] = await tx
@@ -66,6 +103,7 @@ export async function bookingForDocuments(tx: Tx, bookingId: string): Promise<Bo
 			currency: booking.currency,
 			quote: booking.quote,
 			roomName: room.name,
+			billing: booking.billing,
 			artistName: user.name,
 			artistEmail: user.email
 		})
@@ -75,11 +113,13 @@ export async function bookingForDocuments(tx: Tx, bookingId: string): Promise<Bo
 		.innerJoin(user, eq(user.id, booking.artistId))
 		.where(eq(booking.id, bookingId));
 	if (!row) throw new Error(`no booking ${bookingId}`);
+	const { billing, artistName, artistEmail, ...rest } = row;
+	const quote = row.quote as Quote;
 	return {
-		...row,
-		quote: row.quote as Quote,
-		// Article 226(5): the customer's full name; Slateroom keeps no postal address of artists.
-		customer: { name: row.artistName, email: row.artistEmail }
+		...rest,
+		quote,
+		customer: buyerOf(billing, { name: artistName, email: artistEmail }),
+		vatTreatment: treatmentOf(quote)
 	};
 }
 
@@ -104,7 +144,12 @@ export async function issueDepositInvoice(tx: Tx, input: { paymentId: string; is
 	const paidAt = pay.paidAt ?? new Date();
 	const lines = lumpSumLines(pay.amount, 'deposit', `Deposit on account for ${sessionWords(b, tz)}`, grossByRate(b.quote.vat));
 	// Money received is an amount incl. VAT; it is paid in full, so nothing is due (BR-CO-16).
-	const totals = documentTotals(lines, { currency: pay.currency, amountsIncludeVat: true, prepaid: pay.amount });
+	const totals = documentTotals(lines, {
+		currency: pay.currency,
+		amountsIncludeVat: true,
+		prepaid: pay.amount,
+		vatCategory: categoryOf(b.vatTreatment)
+	});
 	const { invoice: row } = await issueDocument(tx, {
 		typeCode: DOCUMENT_TYPE.prepayment,
 		issuedAt: input.issuedAt,
@@ -118,6 +163,7 @@ export async function issueDepositInvoice(tx: Tx, input: { paymentId: string; is
 		sourceKey,
 		totals,
 		note:
+			(b.vatTreatment === 'reverse-charge' ? REVERSE_CHARGE_NOTE : '') +
 			`Payment on account of ${formatMoney(pay.amount, pay.currency)} received on ${formatDate(paidAt, tz)} by card. ` +
 			'VAT is due on a payment on account when it is received (Directive 2006/112/EC, Article 65); ' +
 			'the invoice issued after the session deducts it.'
@@ -139,13 +185,15 @@ async function prepaidOf(tx: Tx, bookingId: string) {
 		(d) => d.typeCode === DOCUMENT_TYPE.creditNote && d.precedingInvoiceId && depositIds.has(d.precedingInvoiceId)
 	);
 	let amount = 0;
-	const vat = new Map<number, VatRow>();
+	// By category and rate: a reverse-charged deposit (AE, 0 %) is deducted as AE, not as zero rated.
+	const vat = new Map<string, VatRow>();
 	const add = (rows: readonly VatRow[], sign: number) => {
 		for (const g of rows) {
-			const r = vat.get(g.rateBp) ?? { rateBp: g.rateBp, base: 0, amount: 0 };
+			const key = `${vatCategoryOf(g)}:${g.rateBp}`;
+			const r = vat.get(key) ?? { rateBp: g.rateBp, base: 0, amount: 0, ...(g.category ? { category: g.category } : {}) };
 			r.base += sign * g.base;
 			r.amount += sign * g.amount;
-			vat.set(g.rateBp, r);
+			vat.set(key, r);
 		}
 	};
 	for (const d of deposits) {
@@ -185,7 +233,8 @@ export async function issueFinalInvoice(tx: Tx, input: FinalInvoiceInput): Promi
 	const totals = documentTotals(lines, {
 		currency: b.currency,
 		amountsIncludeVat: b.quote.pricesIncludeVat,
-		prepaid: prepaid.amount
+		prepaid: prepaid.amount,
+		vatCategory: categoryOf(b.vatTreatment)
 	});
 	const depositWords = prepaid.deposits.length
 		? `Paid on account: ${prepaid.deposits.map((d) => `${d.displayNumber} (${formatMoney(payableTotal(d), d.currency)})`).join(', ')}; ` +
@@ -204,7 +253,9 @@ export async function issueFinalInvoice(tx: Tx, input: FinalInvoiceInput): Promi
 		sourceKey,
 		totals,
 		prepaidVat: prepaid.vat,
-		note: `Session: ${sessionWords(b, tz)}. ${depositWords}Amount due: ${formatMoney(totals.amountDue, b.currency)}.`
+		note:
+			(b.vatTreatment === 'reverse-charge' ? REVERSE_CHARGE_NOTE : '') +
+			`Session: ${sessionWords(b, tz)}. ${depositWords}Amount due: ${formatMoney(totals.amountDue, b.currency)}.`
 	});
 	return row;
 }
@@ -250,8 +301,15 @@ export async function issueCreditNote(tx: Tx, input: { refundId: string; issuedA
 		`${what.charAt(0).toUpperCase()}${what.slice(1)}, ${sessionWords(b, tz)}`,
 		grossByRate(preceding.vatBreakdown)
 	);
-	// The refund has been paid out already: shown as paid, nothing left to settle (BR-CO-16).
-	const totals = documentTotals(lines, { currency: r.currency, amountsIncludeVat: true, prepaid: r.amount });
+	// The refund has been paid out already: shown as paid, nothing left to settle (BR-CO-16). It
+	// corrects the invoice under that invoice's VAT treatment, whatever the booking says now.
+	const reverseCharged = preceding.vatBreakdown.some((g) => vatCategoryOf(g) === 'AE');
+	const totals = documentTotals(lines, {
+		currency: r.currency,
+		amountsIncludeVat: true,
+		prepaid: r.amount,
+		vatCategory: reverseCharged ? 'AE' : undefined
+	});
 	const { invoice: row } = await issueDocument(tx, {
 		typeCode: DOCUMENT_TYPE.creditNote,
 		issuedAt,
@@ -267,6 +325,7 @@ export async function issueCreditNote(tx: Tx, input: { refundId: string; issuedA
 		sourceKey,
 		totals,
 		note:
+			(reverseCharged ? REVERSE_CHARGE_NOTE : '') +
 			`Credit note for ${preceding.displayNumber} of ${formatDate(preceding.issuedAt, tz)}: ${formatMoney(r.amount, r.currency)} ` +
 			'refunded to the card that paid. It reduces the taxable amount of that invoice (Directive 2006/112/EC, Articles 90 and 219).'
 	});

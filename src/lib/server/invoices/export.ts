@@ -1,6 +1,8 @@
 // The month for the accountant, as files: CSV registers (RFC 4180, see $lib/domain/csv) of the
 // documents, payments, refunds and VAT by rate, and ZIP archives of those registers with every
-// document's PDF and EN 16931 e-invoice (ubl.ts). Amounts are exact decimal text in the currency's ISO 4217 minor unit; credit
+// document's PDF and EN 16931 e-invoice (ubl.ts). The documents register names each buyer with
+// their VAT ID and country when the document has them; the VAT register has a row per category
+// and rate, reverse charge apart. Amounts are exact decimal text in the currency's ISO 4217 minor unit; credit
 // notes and refunds count negatively, so each amount column adds up to the month's figure.
 import { zipSync, strToU8 } from 'fflate';
 import { toDecimalString } from '$lib/domain/money';
@@ -28,6 +30,8 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 		{ header: 'Issue date', kind: 'date', value: (d) => localDateOf(d.issuedAt, timeZone) },
 		{ header: 'Booking', kind: 'text', value: (d) => d.bookingReference ?? '' },
 		{ header: 'Customer', kind: 'text', value: (d) => d.customer },
+		{ header: 'Customer VAT ID', kind: 'text', value: (d) => d.customerVatId },
+		{ header: 'Customer country', kind: 'text', value: (d) => d.customerCountry },
 		{ header: 'Refers to', kind: 'text', value: (d) => d.precedingNumber ?? '' },
 		{ header: 'Net', kind: 'number', value: (d) => amount(signOf(d) * d.net) },
 		{ header: 'VAT', kind: 'number', value: (d) => amount(signOf(d) * d.vat) },
@@ -56,6 +60,8 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 		{ header: 'Currency', kind: 'text', value: (r) => r.currency }
 	];
 	const vat: CsvColumn<Vat>[] = [
+		// UNTDID 5305, as EN 16931 BT-118: S standard rate, Z zero rated, AE reverse charge.
+		{ header: 'VAT category', kind: 'text', value: (v) => v.category },
 		{ header: 'VAT rate %', kind: 'number', value: (v) => v.ratePercent },
 		{ header: 'Taxable amount', kind: 'number', value: (v) => amount(v.base) },
 		{ header: 'VAT', kind: 'number', value: (v) => amount(v.vat) },

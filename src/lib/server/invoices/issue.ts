@@ -24,8 +24,13 @@ export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0];
 export type InvoiceRow = typeof invoice.$inferSelect;
 export type InvoiceLineRow = typeof invoiceLine.$inferSelect;
 
-/** A party as printed on the document (Article 226(3)–(5)). */
+/**
+ * A party as printed on the document (Article 226(3)–(5)), copied onto it when it is issued and
+ * never changed after (drizzle/0003). The buyer's address and VAT ID are there when the artist
+ * gave billing details; a document issued before that keeps only a name and an e-mail.
+ */
 export interface Party {
+	/** EN 16931 BT-27 / BT-44. */
 	name: string;
 	/** EN 16931 BT-35 / BT-50. */
 	street?: string;
@@ -35,8 +40,11 @@ export interface Party {
 	city?: string;
 	/** The address of documents issued before the address had its own fields (their text never changes). */
 	addressLines?: string[];
+	/** ISO 3166-1 alpha-2, BT-40 / BT-55. */
 	country?: string;
+	/** BT-31 / BT-48, with its country prefix. */
 	vatId?: string;
+	/** BT-34 / BT-49. */
 	email?: string;
 }
 
@@ -117,7 +125,12 @@ export async function issueDocument(tx: Tx, draft: DocumentDraft): Promise<{ inv
 			rounding: t.rounding,
 			amountsIncludeVat: t.amountsIncludeVat,
 			amountDue: t.amountDue,
-			vatBreakdown: t.vat.map((g) => ({ rateBp: g.rateBp, base: g.base, amount: g.amount })),
+			vatBreakdown: t.vat.map((g) => ({
+				rateBp: g.rateBp,
+				base: g.base,
+				amount: g.amount,
+				...(g.category ? { category: g.category } : {})
+			})),
 			prepaidVatBreakdown: draft.prepaidVat ?? [],
 			sourceKey: draft.sourceKey ?? null,
 			paymentId: draft.paymentId ?? null,

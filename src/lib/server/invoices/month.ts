@@ -1,11 +1,12 @@
 // A month of the books, for the accountant and the owner: the documents issued in it, the
 // payments received and refunds made in it, what is still owed, refunds that failed, and VAT by
-// rate (ledger.ts). Months are calendar months in the studio's zone.
+// category and rate (ledger.ts: reverse charge apart). Months are calendar months in the studio's zone.
 import { and, asc, eq, gte, inArray, lt } from 'drizzle-orm';
 import { db } from '../db';
 import { booking, invoice, payment, refund, user } from '../db/schema';
 import { documentKindLabel, payableTotal, vatLedger, type LedgerRow } from '$lib/domain/invoice';
 import { unresolvedFailures } from '../payments/state';
+import type { Party } from './issue';
 import { addMonths, localDateOf, localToInstant } from '$lib/domain/time';
 
 export const MONTH_PATTERN = /^\d{4}-(0[1-9]|1[0-2])$/;
@@ -36,6 +37,9 @@ export interface MonthReport {
 		bookingId: string | null;
 		bookingReference: string | null;
 		customer: string;
+		/** The buyer's VAT ID (EN 16931 BT-48) and country (BT-55) as the document keeps them; '' when it has none. */
+		customerVatId: string;
+		customerCountry: string;
 		precedingNumber: string | null;
 		net: number;
 		vat: number;
@@ -215,7 +219,9 @@ export async function monthReport(studioId: string, month: string, timeZone: str
 		issuedAt: d.issuedAt.toISOString(),
 		bookingId: d.bookingId,
 		bookingReference: reference,
-		customer: (d.customer as { name?: string }).name ?? '',
+		customer: (d.customer as Party).name ?? '',
+		customerVatId: (d.customer as Party).vatId ?? '',
+		customerCountry: (d.customer as Party).country ?? '',
 		precedingNumber: d.precedingInvoiceId ? (byId.get(d.precedingInvoiceId) ?? null) : null,
 		net: d.net,
 		vat: d.vatTotal,

@@ -3,13 +3,17 @@
 // VAT id (3), names and addresses (5), nature and extent of the services (6), date of supply or of
 // the payment on account (7), taxable amount per rate, unit price excl. VAT (8), the rate (9) and
 // the VAT payable (10); a credit note names the invoice it corrects (Article 219). Totals carry
-// EN 16931's: sum of lines, VAT per rate, total with VAT, rounding, paid, amount due.
+// EN 16931's: sum of lines, VAT per rate, total with VAT, rounding, paid, amount due. The buyer
+// block prints the buyer as the document keeps them: name, address lines, country and VAT ID
+// when billing details were given (Article 226(4) and (5)). A reverse-charged document says
+// "Reverse charge" (Article 226(11a)) beside its VAT.
 import { createRequire } from 'node:module';
 import type PDFKit from 'pdfkit';
 import type { InvoiceLineRow, InvoiceRow, Party } from './issue';
 import { invoiceFonts } from './fonts';
 import { basisPointsToPercent, formatMoney } from '$lib/domain/money';
-import { payableTotal } from '$lib/domain/invoice';
+import { payableTotal, vatCategoryOf } from '$lib/domain/invoice';
+import { REVERSE_CHARGE_WORDS } from '$lib/domain/vat-treatment';
 import { formatCalendarDate, localDateOf } from '$lib/domain/time';
 import { postalLines } from '$lib/domain/setup';
 
@@ -218,6 +222,19 @@ export function renderInvoicePdf(input: PdfInput): Promise<Buffer> {
 			.fontSize(8.5)
 			.fillColor(INK)
 			.text(`${basisPointsToPercent(g.rateBp)} % on ${money(g.base)}: ${money(g.amount)}`, left, y, { width: width * 0.45 });
+		y = doc.y + 2;
+	}
+	if (inv.vatBreakdown.some((g) => vatCategoryOf(g) === 'AE')) {
+		doc
+			.font('monoBold')
+			.fontSize(9)
+			.fillColor(INK)
+			.text(REVERSE_CHARGE_WORDS, left, y + 4, { width: width * 0.45 });
+		doc
+			.font('text')
+			.fontSize(8)
+			.fillColor(SOFT)
+			.text('The customer accounts for the VAT (Directive 2006/112/EC, Article 196).', { width: width * 0.45 });
 		y = doc.y + 2;
 	}
 	const vatEnd = y;

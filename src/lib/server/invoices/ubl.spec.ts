@@ -1,12 +1,13 @@
 // The UBL e-invoice checked, after parsing it back with fast-xml-parser, against EN 16931-1's
 // business rules as published with the CEN validation artefacts (ConnectingEurope/eInvoicing-
-// EN16931): the mandatory terms BR-01 to BR-26, the totals BR-CO-10 to BR-CO-17, BR-S-02 and the
-// BR-DEC limits of two decimals; sums and the rate multiplication in decimal.js (ROUND_HALF_UP).
+// EN16931): the mandatory terms BR-01 to BR-26, the buyer's BR-07/10/11, BR-CO-09, the totals
+// BR-CO-10 to BR-CO-17, BR-S-02, reverse charge BR-AE-01 to BR-AE-10 and the BR-DEC limits of two
+// decimals; sums and the rate multiplication in decimal.js (ROUND_HALF_UP).
 import { describe, expect, it } from 'vitest';
-import { brokenRules, parser, text, type Node } from '../../../../tests/support/en16931';
+import { brokenRules, knownGaps, parser, text, type Node } from '../../../../tests/support/en16931';
 import { documentTotals, type DocumentLineInput } from '$lib/domain/invoice/totals';
 import { documentAsUbl } from './ubl';
-import type { InvoiceLineRow, InvoiceRow } from './issue';
+import type { InvoiceLineRow, InvoiceRow, Party } from './issue';
 
 const supplier = {
 	name: 'Hollow Pine Studio',
@@ -19,15 +20,27 @@ const supplier = {
 };
 const customer = { name: 'Noa Virta (The Lantern Static)', email: 'artist@slateroom.test' };
 
+/** An invented organisation in Germany with an invented VAT ID whose check digit is valid. */
+const organisation = {
+	name: 'Nachtfalter Tonträger GmbH',
+	street: 'Lindenhof 7',
+	postalCode: '50667',
+	city: 'Köln',
+	country: 'DE',
+	vatId: 'DE294817367',
+	email: 'artist@slateroom.test'
+};
+
 function document(
 	typeCode: 380 | 381 | 386,
 	inputs: DocumentLineInput[],
-	opts: { incl?: boolean; prepaid?: number; currency?: string } = {}
+	opts: { incl?: boolean; prepaid?: number; currency?: string; buyer?: Party; reverseCharge?: boolean } = {}
 ) {
 	const t = documentTotals(inputs, {
 		currency: opts.currency ?? 'EUR',
 		amountsIncludeVat: opts.incl ?? true,
-		prepaid: opts.prepaid
+		prepaid: opts.prepaid,
+		vatCategory: opts.reverseCharge ? 'AE' : undefined
 	});
 	const id = '0e0c7f43-2f7a-4b9e-8d55-1f2a3b4c5d6e';
 	const studioId = 'a3c1e2f0-5d4b-4c3a-9e8f-7a6b5c4d3e2f';
@@ -44,7 +57,7 @@ function document(
 		issuedAt: new Date('2027-03-27T22:30:00Z'), // 28 March 00:30 in Helsinki: the local date is the issue date
 		supplyDate: '2027-03-28',
 		supplier,
-		customer,
+		customer: opts.buyer ?? customer,
 		currency: t.currency,
 		net: t.taxable,
 		vatTotal: t.vatTotal,
@@ -53,7 +66,12 @@ function document(
 		rounding: t.rounding,
 		amountsIncludeVat: t.amountsIncludeVat,
 		amountDue: t.amountDue,
-		vatBreakdown: t.vat.map((g) => ({ rateBp: g.rateBp, base: g.base, amount: g.amount })),
+		vatBreakdown: t.vat.map((g) => ({
+			rateBp: g.rateBp,
+			base: g.base,
+			amount: g.amount,
+			...(g.category ? { category: g.category } : {})
+		})),
 		prepaidVatBreakdown: [],
 		lineNetTotal: t.lineNetTotal,
 		sourceKey: null,
@@ -188,5 +206,132 @@ describe('UBL e-invoices (EN 16931)', () => {
 			'<cbc:PayableAmount currencyID="EUR">1.00<'
 		);
 		expect(brokenRules(xml)).toContain('BR-CO-16');
+	});
+});
+
+const ublOf = (d: ReturnType<typeof document>, preceding: { number: string; issuedAt: Date } | null = null) =>
+	documentAsUbl({ ...d, preceding, timeZone: 'Europe/Helsinki' });
+const buyerOf = (xml: string) => {
+	const parsed = parser.parse(xml) as Node;
+	return (((parsed.Invoice ?? parsed.CreditNote) as Node).AccountingCustomerParty as Node).Party as Node;
+};
+
+describe('the buyer in UBL (EN 16931 BG-7, BG-8, BT-48)', () => {
+	it('names an organisation with its address, its own country and its VAT ID, on an invoice and a credit note', () => {
+		for (const typeCode of [380, 381] as const) {
+			const xml = ublOf(document(typeCode, [line('Live room, half day (4 h)', 16000)], { buyer: organisation }));
+			expect(brokenRules(xml)).toEqual([]);
+			expect(knownGaps(xml)).toEqual([]);
+			const buyer = buyerOf(xml);
+			expect((buyer.PartyLegalEntity as Node).RegistrationName).toBe('Nachtfalter Tonträger GmbH'); // BT-44
+			const address = buyer.PostalAddress as Node;
+			expect([address.StreetName, address.CityName, String(address.PostalZone)]).toEqual(['Lindenhof 7', 'Köln', '50667']); // BT-50, 52, 53
+			expect((address.Country as Node).IdentificationCode).toBe('DE'); // BT-55: the buyer's, not the studio's FI
+			const tax = buyer.PartyTaxScheme as Node;
+			expect([tax.CompanyID, (tax.TaxScheme as Node).ID]).toEqual(['DE294817367', 'VAT']); // BT-48
+		}
+	});
+
+	it('names a person with an address and no VAT ID', () => {
+		const person = { name: 'Ilona Saarinen', street: 'Rantakatu 3 B 12', postalCode: '90100', city: 'Oulu', country: 'FI' };
+		const xml = ublOf(document(380, [line('Vocal booth, 2 h', 9000)], { buyer: person }));
+		expect(brokenRules(xml)).toEqual([]);
+		const buyer = buyerOf(xml);
+		expect(((buyer.PostalAddress as Node).Country as Node).IdentificationCode).toBe('FI');
+		expect(buyer.PartyTaxScheme).toBeUndefined();
+	});
+
+	it('invents no address for a buyer who gave none: no BG-8, and BR-10 is the one rule left open', () => {
+		const xml = ublOf(document(380, [line('Room', 16000)]));
+		expect(brokenRules(xml)).toEqual([]);
+		expect(buyerOf(xml).PostalAddress).toBeUndefined();
+		expect(knownGaps(xml)).toEqual(['BR-10']);
+		// The studio's country is still its own address's.
+		expect(xml.match(/<cbc:IdentificationCode>/g)?.length).toBe(1);
+	});
+
+	it('finds a buyer without a name (BR-07), an address without its country (BR-11) and a VAT ID without a state prefix (BR-CO-09)', () => {
+		const xml = ublOf(document(380, [line('Room', 16000)], { buyer: organisation }));
+		expect(brokenRules(xml.replace('<cbc:RegistrationName>Nachtfalter Tonträger GmbH<', '<cbc:RegistrationName> <'))).toContain(
+			'BR-07'
+		);
+		expect(brokenRules(xml.replace('<cbc:IdentificationCode>DE</cbc:IdentificationCode>', ''))).toContain('BR-11');
+		expect(brokenRules(xml.replace('<cbc:IdentificationCode>DE<', '<cbc:IdentificationCode>Germany<'))).toContain('BR-11');
+		expect(brokenRules(xml.replace('>DE294817367<', '>294817367<'))).toContain('BR-CO-09');
+		expect(brokenRules(xml.replace('>DE294817367<', '>QQ294817367<'))).toContain('BR-CO-09');
+		expect(brokenRules(xml.replace('>DE294817367<', '>EL094014201<'))).toEqual([]); // Greece's own prefix
+	});
+});
+
+describe('reverse charge in UBL (VAT category AE)', () => {
+	// 160.00 + 45.00 at 0 %: what a studio with prices incl. VAT asks of a reverse-charged buyer is the nets.
+	const lines = [line('Live room, half day (4 h)', 12749, 0), line('Live room, 1 h', 3586, 0)];
+
+	it('writes an invoice whose lines and VAT breakdown are AE at 0 %, with the reason, and both VAT IDs', () => {
+		const xml = ublOf(document(380, lines, { incl: false, buyer: organisation, reverseCharge: true }));
+		expect(brokenRules(xml)).toEqual([]);
+		const doc = (parser.parse(xml) as Node).Invoice as Node;
+		const sub = ((doc.TaxTotal as Node).TaxSubtotal as Node[])[0]!;
+		const cat = sub.TaxCategory as Node;
+		expect([cat.ID, String(cat.Percent), cat.TaxExemptionReasonCode, cat.TaxExemptionReason]).toEqual([
+			'AE',
+			'0',
+			'VATEX-EU-AE',
+			'Reverse charge'
+		]);
+		expect([text(sub.TaxableAmount), text(sub.TaxAmount)]).toEqual(['163.35', '0.00']);
+		for (const l of doc.InvoiceLine as Node[]) {
+			const c = (l.Item as Node).ClassifiedTaxCategory as Node;
+			expect([c.ID, String(c.Percent)]).toEqual(['AE', '0']);
+		}
+		expect(text((doc.LegalMonetaryTotal as Node).PayableAmount)).toBe('163.35');
+		// UBL 2.1's TaxCategoryType order: ID, Percent, TaxExemptionReasonCode, TaxExemptionReason, TaxScheme.
+		expect(xml.indexOf('<cbc:TaxExemptionReasonCode>')).toBeLessThan(xml.indexOf('<cbc:TaxExemptionReason>'));
+	});
+
+	it('writes a credit note of a reverse-charged invoice as AE too', () => {
+		const xml = ublOf(
+			document(381, [line('Refund of the deposit', 5000, 0)], { prepaid: 5000, buyer: organisation, reverseCharge: true }),
+			{
+				number: 'DEP-2027-0003',
+				issuedAt: new Date('2027-03-01T10:00:00Z')
+			}
+		);
+		expect(brokenRules(xml)).toEqual([]);
+		expect(xml).toContain('<cbc:ID>AE</cbc:ID>');
+	});
+
+	it('finds each broken reverse-charge rule', () => {
+		const xml = ublOf(document(380, lines, { incl: false, buyer: organisation, reverseCharge: true }));
+		// BR-AE-02: no buyer VAT ID.
+		expect(
+			brokenRules(xml.replace(/<cac:PartyTaxScheme>\s*<cbc:CompanyID>DE294817367[\s\S]*?<\/cac:PartyTaxScheme>/, ''))
+		).toContain('BR-AE-02');
+		// BR-AE-05: a line at a rate above 0.
+		expect(
+			brokenRules(xml.replace(/(<cac:ClassifiedTaxCategory>\s*<cbc:ID>AE<\/cbc:ID>\s*<cbc:Percent>)0</, '$125.5<'))
+		).toContain('BR-AE-05');
+		// BR-AE-08 and BR-AE-09: the breakdown's base and VAT.
+		expect(
+			brokenRules(xml.replace('<cbc:TaxableAmount currencyID="EUR">163.35<', '<cbc:TaxableAmount currencyID="EUR">160.00<'))
+		).toContain('BR-AE-08');
+		expect(
+			brokenRules(
+				xml
+					.replace(/<cbc:TaxAmount currencyID="EUR">0.00</g, '<cbc:TaxAmount currencyID="EUR">1.00<')
+					.replace(/(<cbc:TaxInclusiveAmount currencyID="EUR">)163.35/, '$1164.35')
+			)
+		).toContain('BR-AE-09');
+		// BR-AE-10: no reason.
+		expect(
+			brokenRules(
+				xml.replace(
+					/<cbc:TaxExemptionReasonCode>[^<]*<\/cbc:TaxExemptionReasonCode>\s*<cbc:TaxExemptionReason>[^<]*<\/cbc:TaxExemptionReason>/,
+					''
+				)
+			)
+		).toContain('BR-AE-10');
+		// BR-AE-01: lines under reverse charge with a breakdown that is not AE.
+		expect(brokenRules(xml.replace(/(<cac:TaxSubtotal>[\s\S]*?<cac:TaxCategory>\s*<cbc:ID>)AE</, '$1Z<'))).toContain('BR-AE-01');
 	});
 });

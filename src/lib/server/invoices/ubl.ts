@@ -5,14 +5,23 @@
 // written with two decimals (BR-DEC rules), so BR-CO-10 to BR-CO-17 hold here because they held
 // when the document was issued ($lib/domain/invoice/totals.ts).
 //
-// Slateroom keeps no postal address of artists; EN 16931 asks for the buyer's country (BT-55), so
-// the studio's country stands in for it (an artist who books a home studio in person is taken to
-// be local: our assumption, shown to the accountant in the export's README line).
+// The buyer (BG-7) is the document's own copy of it: name (BT-44), postal address (BG-8: BT-50
+// street, BT-52 city, BT-53 postal code, BT-55 country) and VAT identifier (BT-48) when the artist
+// gave billing details. A document whose buyer has no address (issued before billing details
+// existed, or for an artist who gave none) carries no BG-8: no country is made up for it, the
+// studio's least of all. That leaves EN 16931's BR-10 unmet for those documents, knowingly: we
+// print what the buyer told us and nothing else.
+//
+// Reverse charge (VAT category AE, $lib/domain/vat-treatment.ts): lines and the VAT breakdown
+// carry category AE at 0 %; the breakdown also carries the exemption reason code VATEX-EU-AE
+// (BT-121) and the text "Reverse charge" (BT-120), which EN 16931 has only at breakdown level.
 import { create } from 'xmlbuilder2';
 import type { XMLBuilder } from 'xmlbuilder2/lib/interfaces';
 import { toDecimalString } from '$lib/domain/money';
 import { localDateOf } from '$lib/domain/time';
 import { DOCUMENT_TYPE } from '$lib/domain/invoice/numbering';
+import { vatCategoryOf } from '$lib/domain/invoice/ledger';
+import { REVERSE_CHARGE_REASON_CODE, REVERSE_CHARGE_WORDS } from '$lib/domain/vat-treatment';
 import type { InvoiceLineRow, InvoiceRow, Party } from './issue';
 
 const NS = {
@@ -31,28 +40,29 @@ export interface UblInput {
 	timeZone: string;
 }
 
-/** BT-118/BT-151 VAT category: S (standard rate) for a rate above zero, Z (zero rated) for 0 %. */
-const category = (rateBp: number) => (rateBp > 0 ? 'S' : 'Z');
 const percent = (rateBp: number) => (rateBp / 100).toFixed(2).replace(/\.?0+$/, '');
 
-function party(node: XMLBuilder, p: Party, fallbackCountry: string) {
+/** Whether a party's copy holds any part of a postal address. */
+const hasAddress = (p: Party) =>
+	p.street !== undefined || p.postalCode !== undefined || p.city !== undefined || !!p.addressLines?.length || !!p.country;
+
+function party(node: XMLBuilder, p: Party) {
 	const partyNode = node.ele('cac:Party');
 	if (p.email) partyNode.ele('cbc:EndpointID', { schemeID: 'EM' }).txt(p.email);
-	const address = partyNode.ele('cac:PostalAddress');
-	if (p.street !== undefined || p.postalCode !== undefined || p.city !== undefined) {
-		if (p.street) address.ele('cbc:StreetName').txt(p.street); // BT-35 / BT-50
-		if (p.city) address.ele('cbc:CityName').txt(p.city); // BT-37 / BT-52
-		if (p.postalCode) address.ele('cbc:PostalZone').txt(p.postalCode); // BT-38 / BT-53
-	} else {
-		// A document issued before the address had its own fields: its lines as they were printed.
-		const [street, ...rest] = p.addressLines ?? [];
-		if (street) address.ele('cbc:StreetName').txt(street); // BT-35 / BT-50
-		if (rest.length) address.ele('cbc:AdditionalStreetName').txt(rest.join(', ')); // BT-36 / BT-51
+	if (hasAddress(p)) {
+		const address = partyNode.ele('cac:PostalAddress');
+		if (p.street !== undefined || p.postalCode !== undefined || p.city !== undefined) {
+			if (p.street) address.ele('cbc:StreetName').txt(p.street); // BT-35 / BT-50
+			if (p.city) address.ele('cbc:CityName').txt(p.city); // BT-37 / BT-52
+			if (p.postalCode) address.ele('cbc:PostalZone').txt(p.postalCode); // BT-38 / BT-53
+		} else {
+			// A document issued before the address had its own fields: its lines as they were printed.
+			const [street, ...rest] = p.addressLines ?? [];
+			if (street) address.ele('cbc:StreetName').txt(street); // BT-35 / BT-50
+			if (rest.length) address.ele('cbc:AdditionalStreetName').txt(rest.join(', ')); // BT-36 / BT-51
+		}
+		if (p.country) address.ele('cac:Country').ele('cbc:IdentificationCode').txt(p.country); // BT-40 / BT-55
 	}
-	address
-		.ele('cac:Country')
-		.ele('cbc:IdentificationCode')
-		.txt(p.country || fallbackCountry); // BT-40 / BT-55
 	if (p.vatId) {
 		const tax = partyNode.ele('cac:PartyTaxScheme');
 		tax.ele('cbc:CompanyID').txt(p.vatId); // BT-31 / BT-48
@@ -88,9 +98,13 @@ export function documentAsUbl({ invoice: d, lines, preceding, timeZone }: UblInp
 		ref.ele('cbc:ID').txt(preceding.number);
 		ref.ele('cbc:IssueDate').txt(localDateOf(preceding.issuedAt, timeZone));
 	}
-	party(root.ele('cac:AccountingSupplierParty'), supplier, supplier.country ?? '');
-	party(root.ele('cac:AccountingCustomerParty'), customer, supplier.country ?? '');
+	party(root.ele('cac:AccountingSupplierParty'), supplier);
+	party(root.ele('cac:AccountingCustomerParty'), customer);
 	if (d.supplyDate) root.ele('cac:Delivery').ele('cbc:ActualDeliveryDate').txt(String(d.supplyDate)); // BT-72
+
+	// BT-118 and BT-151: a line's category is its rate's in the document's VAT breakdown.
+	const categoryByRate = new Map(d.vatBreakdown.map((g) => [g.rateBp, vatCategoryOf(g)]));
+	const category = (rateBp: number) => categoryByRate.get(rateBp) ?? vatCategoryOf({ rateBp });
 
 	const taxTotal = root.ele('cac:TaxTotal');
 	amount(taxTotal, 'cbc:TaxAmount', d.vatTotal); // BT-110
@@ -99,8 +113,13 @@ export function documentAsUbl({ invoice: d, lines, preceding, timeZone }: UblInp
 		amount(sub, 'cbc:TaxableAmount', g.base); // BT-116
 		amount(sub, 'cbc:TaxAmount', g.amount); // BT-117
 		const cat = sub.ele('cac:TaxCategory');
-		cat.ele('cbc:ID').txt(category(g.rateBp)); // BT-118
+		const code = vatCategoryOf(g);
+		cat.ele('cbc:ID').txt(code); // BT-118
 		cat.ele('cbc:Percent').txt(percent(g.rateBp)); // BT-119
+		if (code === 'AE') {
+			cat.ele('cbc:TaxExemptionReasonCode').txt(REVERSE_CHARGE_REASON_CODE); // BT-121
+			cat.ele('cbc:TaxExemptionReason').txt(REVERSE_CHARGE_WORDS); // BT-120
+		}
 		cat.ele('cac:TaxScheme').ele('cbc:ID').txt('VAT');
 	}
 

@@ -15,6 +15,8 @@ import { overtimeCharge, quoteBooking, type OvertimeCharge, type Quote } from '$
 import { parseBookingInstant, TimeInputError } from '$lib/domain/time';
 import { publicHolidayChecker } from '$lib/domain/holidays';
 import { closeRefusal } from '$lib/domain/lifecycle';
+// A reverse-charged booking's overtime and gear added on the day carry no VAT either.
+import { treatmentOf } from '$lib/domain/vat-treatment';
 
 export const closeSchema = z.object({
 	actualEnd: z
@@ -103,7 +105,8 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 					room: roomRates(roomRow!),
 					engineer: !!b.engineerId,
 					policy,
-					holidays
+					holidays,
+					vatTreatment: treatmentOf(b.quote as Quote)
 				});
 			}
 
@@ -142,7 +145,8 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 						engineer: false,
 						gear: hired.map((g) => ({ id: g.id, label: `${g.name} (added on the day)`, fee: g.hireFee })),
 						policy,
-						holidays
+						holidays,
+						vatTreatment: treatmentOf(b.quote as Quote)
 					});
 					extraLines = q.lines.filter((l) => l.kind === 'gear');
 				}

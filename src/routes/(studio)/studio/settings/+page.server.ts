@@ -8,6 +8,7 @@ import * as settings from '$lib/server/settings';
 import * as setup from '$lib/server/studio-setup';
 import { formText, readFormData } from '$lib/server/api';
 import { blockRateFindings, surchargeFindings } from '$lib/schemas/rate-card';
+import { isEuMemberState } from '$lib/domain/vat-treatment';
 import {
 	engineerRates,
 	policyValuesFrom,
@@ -61,7 +62,16 @@ export const load: PageServerLoad = async ({ locals }) => {
 		currency: studio.currency,
 		blocks,
 		updatedAt: studio.updatedAt.toISOString(),
-		published: studio.published
+		published: studio.published,
+		reverseCharge: {
+			on: studio.reverseChargeAbroad,
+			// What keeps the setting from applying to this studio at all, in words; null when nothing does.
+			blocked: !isEuMemberState(studio.country)
+				? 'Your studio is not in an EU member state, so this does not apply to it.'
+				: !studio.vatId.trim()
+					? 'Your studio has no VAT ID yet: add it in the set-up’s address step first.'
+					: null
+		}
 	};
 };
 
@@ -103,6 +113,15 @@ export const actions: Actions = {
 		form.data = { ...NEW_SURCHARGE_VALUES };
 		return message(form, { kind: 'saved', text: `${label} added.${odd}` });
 	},
+	reverseCharge: async ({ request, locals, getClientAddress }) => {
+		requireRole(locals, 'owner');
+		const fd = await readFormData(request);
+		if (!fd) return fail(400, { reverseCharge: 'error' as const });
+		const on = formText(fd.get('reverseChargeAbroad')) === 'on';
+		const changed = await settings.setReverseChargeAbroad(staffActor(locals, getClientAddress()), on);
+		return { reverseCharge: changed ? ('saved' as const) : ('unchanged' as const) };
+	},
+
 	unpublish: async ({ request, locals, getClientAddress }) => {
 		requireRole(locals, 'owner');
 		// The button says what it does; a post without its word changes nothing.
