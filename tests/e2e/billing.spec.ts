@@ -1,8 +1,9 @@
 import { expect, signUp, test } from './support';
 import { workdaysAhead } from '../support/dates';
+import { pdfRows } from '../support/pdf-text';
 
 // An artist keeps an organisation's billing details in their account and books with them: the
-// booking page says whom it is billed to. FI12345671 follows Finland's check digit rule, worked
+// booking page says whom it is billed to, and the deposit invoice's PDF names them. FI12345671 follows Finland's check digit rule, worked
 // out by hand in src/lib/domain/billing.spec.ts; FI12345672 is one off.
 
 const DAYS = workdaysAhead(51, 6);
@@ -75,5 +76,14 @@ test('an artist saves organisation billing details and books with them', async (
 	await expect(billed).toContainText('33200 Tampere, Finland');
 	await expect(billed).toContainText('VAT ID FI12345671');
 	const panel = page.getByTestId('money-panel');
-	await expect(panel.getByTestId('invoices').locator('li[data-type="386"]')).toContainText(/DEP-\d{4}-\d{4}/);
+	const deposit = panel.getByTestId('invoices').locator('li[data-type="386"]');
+	await expect(deposit).toContainText(/DEP-\d{4}-\d{4}/);
+
+	// 4. The deposit invoice's PDF is made out to them.
+	const pdf = await page.request.get((await deposit.locator('a').getAttribute('href')) ?? '');
+	expect(pdf.headers()['content-type']).toBe('application/pdf');
+	const text = (await pdfRows(new Uint8Array(await pdf.body()))).map((r) => r.text).join('\n');
+	for (const words of ['Billed to', 'Orchard Tapes Oy', 'Satamakatu 4', '33200 Tampere', 'Finland', 'VAT ID FI12345671']) {
+		expect(text, words).toContain(words);
+	}
 });
