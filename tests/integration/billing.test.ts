@@ -92,6 +92,7 @@ describe('GET and PUT /api/me/billing', () => {
 			kind: 'person',
 			name: '',
 			street: 'x\u0000',
+			city: '',
 			postalCode: '?',
 			country: 'Finland',
 			vatId: 'FI12345671'

@@ -9,9 +9,10 @@ import { and, eq } from 'drizzle-orm';
 import { unzipSync, strFromU8 } from 'fflate';
 import { signedIn, type Client } from '../support/http';
 import { DEMO } from '../support/env';
-import { testDb } from '../support/db';
+import { studioIdOf, testDb } from '../support/db';
 import { waitFor } from '../support/wait';
-import { holdFirstFree, payAndConfirm, type Held } from '../support/booking';
+import { holdFirstFree, payAndConfirm, type ApiQuote, type Held } from '../support/booking';
+import { moveIntoPast } from '../support/started';
 import { workdaysAhead, ymdInZone } from '../support/dates';
 import { brokenRules, knownGaps, parser, text, type Node } from '../support/en16931';
 import { pdfRows } from '../support/pdf-text';
@@ -33,6 +34,16 @@ const swedishLabel: BillingDetails = {
 	city: 'Falun',
 	country: 'SE',
 	vatId: 'SE559218473201'
+};
+/** An invented German label: another EU member state than the studio's Finland. */
+const germanLabel: BillingDetails = {
+	kind: 'organisation',
+	name: 'Nachtfalter Tonträger GmbH',
+	street: 'Lindenhof 7',
+	postalCode: '50667',
+	city: 'Köln',
+	country: 'DE',
+	vatId: 'DE294817367'
 };
 const person: BillingDetails = {
 	kind: 'person',
@@ -182,5 +193,130 @@ describe('the buyer on documents', () => {
 		expect(buyerIn(xml).PostalAddress).toBeUndefined();
 		expect(knownGaps(xml)).toEqual(['BR-10']);
 		expect(await pdfText(artist, deposit.id)).not.toContain('Grankotte');
+	});
+});
+
+/** Holds a slot of this file's as `who` with the billing details chosen at booking (the JSON API's `billing`). */
+const holdBilledTo = (who: Client, billing: BillingDetails) =>
+	holdFirstFree(who, { room: 'control-room', days: DAYS, slots: [['14:00', '16:00']], extra: { billing } });
+
+/** The owner's reverse-charge setting, through the Rates & policy page's form as the owner uses it. */
+async function setReverseCharge(owner: Client, on: boolean) {
+	const res = await owner.form('/studio/settings?/reverseCharge', on ? { reverseChargeAbroad: 'on' } : {});
+	expect(res.status).toBe(200);
+	const [row] = await db
+		.select({ on: t.studio.reverseChargeAbroad })
+		.from(t.studio)
+		.where(eq(t.studio.id, await studioIdOf(db)));
+	expect(row!.on).toBe(on);
+}
+
+describe('reverse charge for an EU business buyer abroad (Directive 2006/112/EC, Articles 44 and 196)', () => {
+	it('is the owner’s setting alone, explained on Rates & policy', async () => {
+		const owner = await signedIn(DEMO.owner);
+		const html = await (await owner.fetch('/studio/settings', { headers: { accept: 'text/html' } })).text();
+		expect(html).toContain('Reverse charge for business buyers abroad');
+		expect(html).toContain('for your tax adviser to say');
+		for (const who of [DEMO.accountant, DEMO.engineer, DEMO.artist]) {
+			const res = await (await signedIn(who)).form('/studio/settings?/reverseCharge', { reverseChargeAbroad: 'on' });
+			expect([303, 403], who).toContain(res.status);
+		}
+		const [row] = await db
+			.select({ on: t.studio.reverseChargeAbroad })
+			.from(t.studio)
+			.where(eq(t.studio.id, await studioIdOf(db)));
+		expect(row!.on).toBe(false);
+	});
+
+	it('prices the booking without VAT and every document of it follows: deposit invoice, final invoice, credit note', async () => {
+		// The demo studio's setting is on only while these bookings are made (other specs book with no
+		// billing details, or a Finnish buyer, whom it never touches).
+		const owner = await signedIn(DEMO.owner);
+		const artist = await signedIn(DEMO.artist);
+		let first: Held;
+		let second: Held;
+		const quote = async (billing?: BillingDetails) => {
+			const res = await artist.json('/api/studios/hollow-pine/quote', {
+				room: 'control-room',
+				start: `${DAYS[0]}T14:00`,
+				end: `${DAYS[0]}T16:00`,
+				billing
+			});
+			expect(res.status).toBe(200);
+			return (await res.json()) as ApiQuote;
+		};
+		const standard = await quote();
+		await setReverseCharge(owner, true);
+		try {
+			// The quote shown before booking already says what the buyer will pay.
+			expect((await quote(germanLabel)).vatTotal).toBe(0);
+			// A buyer in the studio's own country pays its VAT.
+			const finnish = {
+				...germanLabel,
+				name: 'Kuusikko Äänite Oy',
+				country: 'FI',
+				postalCode: '33100',
+				city: 'Tampere',
+				vatId: 'FI28471939'
+			};
+			expect((await quote(finnish)).total).toBe(standard.total);
+			first = await holdBilledTo(artist, germanLabel);
+			second = await holdBilledTo(artist, germanLabel);
+		} finally {
+			await setReverseCharge(owner, false);
+		}
+		// Once it is off, the same buyer pays VAT on a new quote.
+		expect((await quote(germanLabel)).total).toBe(standard.total);
+		const standardNet = standard.net;
+		// Prices include 25.5 % VAT: the buyer pays the nets, no VAT (vat.ts reverseChargeItems).
+		expect(first.quote.vatTotal).toBe(0);
+		expect(first.quote.total).toBe(standardNet);
+		expect(first.quote.vat).toEqual([{ ratePercent: '0', base: standardNet, amount: 0 }]);
+		const [kept] = await db.select().from(t.booking).where(eq(t.booking.id, first.id));
+		expect((kept!.quote as { vatTreatment?: string }).vatTreatment).toBe('reverse-charge');
+		expect(kept!.billing).toEqual(germanLabel);
+
+		// The setting is off again; the bookings keep the treatment they were made with.
+		await payAndConfirm(db, first);
+		await payAndConfirm(db, second);
+		const deposit = await docOf(first.id, 386);
+		expect(deposit.vatBreakdown).toEqual([{ rateBp: 0, base: first.quote.deposit, amount: 0, category: 'AE' }]);
+		expect(deposit.customer).toMatchObject({ name: germanLabel.name, country: 'DE', vatId: 'DE294817367' });
+		expect(deposit.note).toMatch(/^Reverse charge/);
+
+		const held = await moveIntoPast(db, first.id);
+		const closed = await owner.json(`/api/bookings/${first.id}/close`, { actualEnd: held.end.replace('T16:00', 'T16:20') });
+		expect(closed.status).toBe(200);
+		const final = await docOf(first.id, 380);
+		// Overtime is billed without VAT too: every line at 0 %, one AE group, nothing but the nets.
+		expect(final.vatBreakdown.map((g) => [g.rateBp, g.amount, g.category])).toEqual([[0, 0, 'AE']]);
+		expect(final.vatTotal).toBe(0);
+		expect(final.prepaidVatBreakdown).toEqual(deposit.vatBreakdown);
+		expect(final.lineNetTotal).toBeGreaterThan(first.quote.total); // the overtime's net on top
+
+		const credit = await cancelForCreditNote(artist, second.id);
+		expect(credit.vatBreakdown.map((g) => g.category)).toEqual(['AE']);
+		expect(credit.customer).toEqual((await docOf(second.id, 386)).customer);
+
+		for (const doc of [deposit, final, credit]) {
+			const xml = (await ublOfMonth(doc.issuedAt))[doc.displayNumber]!;
+			expect(brokenRules(xml), doc.displayNumber).toEqual([]);
+			expect(knownGaps(xml), doc.displayNumber).toEqual([]);
+			expect(xml).toContain('<cbc:TaxExemptionReasonCode>VATEX-EU-AE</cbc:TaxExemptionReasonCode>');
+			expect(xml).not.toMatch(/<cbc:ID>[SZ]<\/cbc:ID>/);
+			expect((buyerIn(xml).PartyTaxScheme as Node).CompanyID).toBe('DE294817367'); // BR-AE-02
+			const rows = await pdfText(artist, doc.id);
+			for (const words of ['Reverse charge', 'VAT ID DE294817367', 'VAT ID FI00000000', 'Germany'])
+				expect(rows, words).toContain(words);
+		}
+
+		// The month's VAT keeps the reverse-charged supplies apart.
+		const accountant = await signedIn(DEMO.accountant);
+		const month = ymdInZone(deposit.issuedAt).slice(0, 7);
+		const vat = parse<Record<string, string>>(
+			await (await accountant.fetch(`/api/studios/hollow-pine/invoices/export?month=${month}&format=csv&register=vat`)).text(),
+			{ columns: true }
+		);
+		expect(vat.find((r) => r['VAT category'] === 'AE')).toMatchObject({ 'VAT rate %': '0', VAT: '0.00' });
 	});
 });

@@ -105,6 +105,7 @@ describe('billing details', () => {
 		if (parsed.ok) return;
 		expect(Object.keys(parsed.fields).sort()).toEqual(['city', 'name', 'postalCode', 'street']);
 		expect(parsed.fields.street?.[0]).toMatch(/one line/);
+		expect(parsed.fields.postalCode).toEqual(['Enter the postal code.']);
 	});
 
 	it('refuse an unknown kind or country, and a postal code that is not one', () => {

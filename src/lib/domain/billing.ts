@@ -235,7 +235,8 @@ export const billingFields = {
 		.trim()
 		.min(1, { error: 'Enter the postal code.' })
 		.max(BILLING_MAX.postalCode, { error: `A postal code has at most ${BILLING_MAX.postalCode} characters.` })
-		.regex(/^[A-Za-z0-9](?:[A-Za-z0-9 -]*[A-Za-z0-9])?$/, {
+		// Empty is the message above alone.
+		.regex(/^(?:[A-Za-z0-9](?:[A-Za-z0-9 -]*[A-Za-z0-9])?)?$/, {
 			error: 'A postal code has letters, digits, spaces and hyphens only.'
 		}),
 	city: line('city', 'Enter the town or city.'),

@@ -90,7 +90,7 @@ export async function setReverseChargeAbroad(actor: Actor, on: boolean): Promise
 	await audit({
 		studioId: actor.studioId,
 		actorId: actor.user.id,
-		action: 'studio.policy_changed',
+		action: 'studio.reverse_charge_changed',
 		entity: 'studio',
 		entityId: actor.studioId,
 		data: { reverseChargeAbroad: { from: before.reverseChargeAbroad, to: on } },

@@ -5,6 +5,8 @@ import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from 
 import { closedDays } from './availability';
 import { hireableGear, type GearRow } from './resources';
 import type { PricingContext } from './context';
+import { normaliseBilling } from '$lib/domain/billing';
+import { vatTreatmentFor } from '$lib/domain/vat-treatment';
 import {
 	invalidRequest,
 	localDays,
@@ -17,7 +19,12 @@ import {
 
 export type Priced = { ok: true; quote: Quote; room: RoomRow; start: Date; end: Date; gear: GearRow[] } | InvalidRequest;
 
-/** Checks a parsed request against the room, the policy and the calendar, and prices it. */
+/**
+ * Checks a parsed request against the room, the policy and the calendar, and prices it, with the
+ * VAT treatment the studio gives the request's billing details (standard VAT, or reverse charge for
+ * an EU business buyer abroad when the studio has opted in: $lib/domain/vat-treatment.ts). The
+ * quote keeps the treatment, so the booking made from it does.
+ */
 export async function priceRequest(req: BookingRequest, ctx: PricingContext, now = new Date()): Promise<Priced> {
 	const tz = ctx.policy.timeZone;
 	const roomRow = await getRoomBySlug(ctx.studio.id, req.room);
@@ -51,7 +58,8 @@ export async function priceRequest(req: BookingRequest, ctx: PricingContext, now
 		engineer: req.engineer,
 		gear: gear.map((g) => ({ id: g.id, label: g.name, fee: g.hireFee })),
 		policy: ctx.policy,
-		holidays: ctx.holidays
+		holidays: ctx.holidays,
+		vatTreatment: vatTreatmentFor(ctx.studio, req.billing ? normaliseBilling(req.billing) : null)
 	});
 	return { ok: true, quote, room: roomRow, start, end, gear };
 }
