@@ -249,7 +249,11 @@ describe('reverse charge for an EU business buyer abroad (Directive 2006/112/EC,
 		await setReverseCharge(owner, true);
 		try {
 			// The quote shown before booking already says what the buyer will pay.
-			expect((await quote(germanLabel)).vatTotal).toBe(0);
+			const reverse = await quote(germanLabel);
+			expect(reverse.vatTotal).toBe(0);
+			// The answer says why there is no VAT, so the booking form can say it too.
+			expect(reverse.vatTreatment).toBe('reverse-charge');
+			expect(standard.vatTreatment).toBe('standard');
 			// A buyer in the studio's own country pays its VAT.
 			const finnish = {
 				...germanLabel,

@@ -19,6 +19,7 @@ export interface ApiQuote {
 	total: number;
 	deposit: number;
 	balance: number;
+	vatTreatment: 'standard' | 'reverse-charge';
 }
 
 /** A hold made through POST /api/bookings, with the slot it was made for. */

@@ -8,4 +8,6 @@ export interface QuoteView {
 	total: number;
 	deposit: number;
 	balance: number;
+	/** Absent on quotes kept before reverse charge existed: those are standard. */
+	vatTreatment?: 'standard' | 'reverse-charge';
 }

@@ -85,6 +85,8 @@ export function publicQuote(q: Quote) {
 		rounding: q.rounding,
 		total: q.total,
 		deposit: q.deposit,
-		balance: q.balance
+		balance: q.balance,
+		/** 'reverse-charge': priced without VAT, the buyer accounts for it (from the billing details sent). */
+		vatTreatment: q.vatTreatment ?? 'standard'
 	};
 }

@@ -71,7 +71,8 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		rounding: q.rounding,
 		total: q.total,
 		deposit: q.deposit,
-		balance: q.balance
+		balance: q.balance,
+		vatTreatment: q.vatTreatment
 	};
 	return {
 		booking: {
