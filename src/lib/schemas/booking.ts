@@ -59,7 +59,8 @@ const billFields = {
 	billVatId: z.string().default(''),
 	saveBilling: z.boolean().default(false)
 };
-const BILL_FIELD = {
+/** Each billing detail's field on the booking form (the kind is `billKind`). */
+export const BILL_FIELD = {
 	name: 'billName',
 	street: 'billStreet',
 	postalCode: 'billPostalCode',
