@@ -5,22 +5,12 @@
  * detail Stripe does not document, the README says so.
  */
 import Stripe from 'stripe';
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { DEFAULT_API_VERSION } from './objects.js';
-import { type Fixture, depositParams, sdk, startFixture, waitFor } from './testkit.js';
+import { type Fixture, depositParams, sdk, useFixture, waitFor } from './testkit.js';
 
 let fx: Fixture;
-
-beforeAll(async () => {
-	fx = await startFixture();
-});
-afterAll(async () => {
-	await fx?.close();
-});
-beforeEach(async () => {
-	await fx.control('POST', '/reset');
-	fx.receiver.clear();
-});
+useFixture((f) => (fx = f));
 
 async function paidPaymentIntent(): Promise<string> {
 	const s = await fx.stripe.checkout.sessions.create(depositParams());

@@ -7,22 +7,11 @@
  * named in the README.
  */
 import Stripe from 'stripe';
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
-import { CONNECT_WEBHOOK_SECRET, type Fixture, WEBHOOK_SECRET, depositParams, startFixture, waitFor } from './testkit.js';
+import { describe, expect, it } from 'vitest';
+import { CONNECT_WEBHOOK_SECRET, type Fixture, WEBHOOK_SECRET, depositParams, useFixture, waitFor } from './testkit.js';
 
 let fx: Fixture;
-
-beforeAll(async () => {
-	fx = await startFixture();
-});
-afterAll(async () => {
-	await fx?.close();
-});
-beforeEach(async () => {
-	await fx.control('POST', '/reset');
-	fx.receiver.clear();
-	fx.connect.clear();
-});
+useFixture((f) => (fx = f));
 
 /** A connected account that can take charges, made through the control route as seeds make them. */
 async function readyAccount(id: string): Promise<string> {

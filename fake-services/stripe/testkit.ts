@@ -2,6 +2,7 @@
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import Stripe from 'stripe';
+import { afterAll, beforeAll, beforeEach } from 'vitest';
 import { type StripeFake, type StripeFakeOptions, startStripeFake } from './app.js';
 
 export interface Received {
@@ -179,4 +180,24 @@ export function depositParams(overrides: Partial<Stripe.Checkout.SessionCreatePa
 		expires_at: Math.floor(Date.now() / 1000) + 31 * 60,
 		...overrides
 	};
+}
+
+/**
+ * One fake and its two receivers for a whole spec file, everything forgotten before each test.
+ * `use` is handed the fixture once it runs: `let fx: Fixture; useFixture((f) => (fx = f));`
+ */
+export function useFixture(use: (fx: Fixture) => void, options: StripeFakeOptions = {}): void {
+	let fx: Fixture | undefined;
+	beforeAll(async () => {
+		fx = await startFixture(options);
+		use(fx);
+	});
+	afterAll(async () => {
+		await fx?.close();
+	});
+	beforeEach(async () => {
+		await fx!.control('POST', '/reset');
+		fx!.receiver.clear();
+		fx!.connect.clear();
+	});
 }

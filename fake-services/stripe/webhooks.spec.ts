@@ -4,22 +4,21 @@
  * Delivery rules follow Stripe's webhook docs: at least once, no guaranteed order, non-2xx retried.
  */
 import Stripe from 'stripe';
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { startStripeFake } from './app.js';
-import { type Fixture, WEBHOOK_SECRET, depositParams, sleep, startFixture, startReceiver, waitFor } from './testkit.js';
+import {
+	type Fixture,
+	WEBHOOK_SECRET,
+	depositParams,
+	sleep,
+	startFixture,
+	useFixture,
+	startReceiver,
+	waitFor
+} from './testkit.js';
 
 let fx: Fixture;
-
-beforeAll(async () => {
-	fx = await startFixture();
-});
-afterAll(async () => {
-	await fx?.close();
-});
-beforeEach(async () => {
-	await fx.control('POST', '/reset');
-	fx.receiver.clear();
-});
+useFixture((f) => (fx = f));
 
 function verify(r: { body: string; headers: Record<string, unknown> }, tolerance?: number): Stripe.Event {
 	return fx.stripe.webhooks.constructEvent(r.body, String(r.headers['stripe-signature']), WEBHOOK_SECRET, tolerance);
