@@ -13,7 +13,7 @@ import {
 	type BookingChoices
 } from '$lib/components/booking/choices';
 import { addWallMinutes } from '$lib/domain/time';
-import { BUYER_KINDS, billingFields, billingSchema, checkVatIdOf } from '$lib/domain/billing';
+import { BUYER_KINDS, billingFields, billingSchema, checkVatIdOf, normaliseBilling } from '$lib/domain/billing';
 import { lineText, multilineText } from './input';
 
 /** The fields the form and the API share. */
@@ -36,7 +36,8 @@ export const bookingRequestSchema = z.object({
 	...shared,
 	start: lineText({ error: 'Choose a start time.' }).trim().min(1, { error: 'Choose a start time.' }).max(40),
 	end: lineText({ error: 'Choose an end time.' }).trim().min(1, { error: 'Choose an end time.' }).max(40),
-	billing: billingSchema.nullish()
+	// Normalised once here (the VAT ID's form, none for a person), so pricing and the hold keep the same details.
+	billing: billingSchema.transform(normaliseBilling).nullish()
 });
 export type BookingRequest = z.infer<typeof bookingRequestSchema>;
 

@@ -9,7 +9,7 @@ import { db } from './db';
 import { studio } from './db/schema';
 import { stripe } from './payments/stripe';
 import { accountFacts, applyAccountState } from './payments/accounts';
-import { payoutStatus as statusOf, type PayoutFacts, type PayoutStatus } from '$lib/domain/payouts';
+import { payoutStatus, type PayoutStatus } from '$lib/domain/payouts';
 
 export { type PayoutStatus } from '$lib/domain/payouts';
 
@@ -101,11 +101,6 @@ export async function refreshAccount(studioId: string): Promise<boolean> {
 	return true;
 }
 
-/** none, incomplete (with what is missing in words) or ready. */
-export function payoutStatus(s: PayoutFacts): PayoutStatus {
-	return statusOf(s);
-}
-
 /** The studio's payout state as its owner's pages show it, with the platform's fee. */
 export async function payoutState(studioId: string): Promise<{ status: PayoutStatus; platformFeeBp: number }> {
 	const [row] = await db
@@ -119,7 +114,7 @@ export async function payoutState(studioId: string): Promise<{ status: PayoutSta
 		.from(studio)
 		.where(eq(studio.id, studioId));
 	if (!row) throw new Error(`no studio ${studioId}`);
-	return { status: statusOf(row), platformFeeBp: row.platformFeeBp };
+	return { status: payoutStatus(row), platformFeeBp: row.platformFeeBp };
 }
 
 export const BOOKINGS_NOT_OPEN =

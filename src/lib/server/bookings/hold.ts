@@ -9,7 +9,6 @@ import { audit } from '../audit';
 import { pgCode } from '../payments/core';
 import { startCheckout } from '../payments/checkout';
 import { holdExpiry } from '$lib/domain/lifecycle';
-import { normaliseBilling } from '$lib/domain/billing';
 import type { Quote } from '$lib/domain/pricing';
 import { nearestStarts } from './availability';
 import type { PricingContext } from './context';
@@ -98,7 +97,7 @@ export async function createHold(
 						total: quote.total,
 						deposit: quote.deposit,
 						// Whom to bill, as chosen at booking (the request's rules were checked when it was read).
-						billing: req.billing ? normaliseBilling(req.billing) : null
+						billing: req.billing ?? null
 					})
 					.returning();
 				if (gear.length) {

@@ -5,7 +5,6 @@ import { isUnboundedTime, quoteBooking, validateBookingTimes, type Quote } from 
 import { closedDays } from './availability';
 import { hireableGear, type GearRow } from './resources';
 import type { PricingContext } from './context';
-import { normaliseBilling } from '$lib/domain/billing';
 import { vatTreatmentFor } from '$lib/domain/vat-treatment';
 import {
 	invalidRequest,
@@ -59,7 +58,7 @@ export async function priceRequest(req: BookingRequest, ctx: PricingContext, now
 		gear: gear.map((g) => ({ id: g.id, label: g.name, fee: g.hireFee })),
 		policy: ctx.policy,
 		holidays: ctx.holidays,
-		vatTreatment: vatTreatmentFor(ctx.studio, req.billing ? normaliseBilling(req.billing) : null)
+		vatTreatment: vatTreatmentFor(ctx.studio, req.billing ?? null)
 	});
 	return { ok: true, quote, room: roomRow, start, end, gear };
 }

@@ -3,7 +3,7 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireUser } from '$lib/server/guard';
 import * as billing from '$lib/server/billing';
-import { billingCountries, billingSchema, normaliseBilling, type BillingForm } from '$lib/domain/billing';
+import { billingCountries, billingSchema, type BillingForm } from '$lib/domain/billing';
 import type { Actions, PageServerLoad } from './$types';
 
 type Note = { kind: 'saved' | 'error'; text: string };
@@ -25,7 +25,7 @@ export const actions: Actions = {
 		const form = await superValidate<BillingForm, Note>(request, zod4(billingSchema));
 		// Every field comes back as typed, so nothing is lost; each problem sits beside its field.
 		if (!form.valid) return fail(422, { form });
-		form.data = await billing.save(me, normaliseBilling(form.data));
+		form.data = await billing.save(me, form.data);
 		return message(form, { kind: 'saved', text: 'Saved. They are offered whenever you book.' });
 	}
 };
