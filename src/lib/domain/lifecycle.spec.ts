@@ -34,7 +34,7 @@ describe('closing a session', () => {
 
 	it('needs a confirmed booking, whatever the time', () => {
 		const later = new Date(start.getTime() + 3_600_000);
-		for (const status of ['held', 'pending', 'cancelled', 'expired', 'completed']) {
+		for (const status of ['held', 'pending', 'cancelled', 'expired', 'completed', 'no_show']) {
 			expect(closeRefusal({ status, startsAt: start }, later)?.code).toBe('not_confirmed');
 		}
 	});
@@ -101,13 +101,15 @@ describe('the rules written out whole', () => {
 	it('lists every move of the life of a booking, and nothing else', () => {
 		// The moves as the header rule states them: a hold is paid, waits for a delayed payment,
 		// lapses or is cancelled; a pending payment lands, fails or is cancelled; a confirmed
-		// booking is completed or cancelled; an expired hold comes back only through a payment.
+		// booking is completed, a no-show or cancelled; an expired hold comes back only through a
+		// payment.
 		expect(BOOKING_MOVES).toEqual({
 			held: ['pending', 'confirmed', 'cancelled', 'expired'],
 			pending: ['confirmed', 'cancelled', 'expired'],
-			confirmed: ['completed', 'cancelled'],
+			confirmed: ['completed', 'no_show', 'cancelled'],
 			expired: ['pending', 'confirmed'],
 			completed: [],
+			no_show: [],
 			cancelled: []
 		});
 		expect(canMove('pending', 'confirmed')).toBe(true);
@@ -115,8 +117,8 @@ describe('the rules written out whole', () => {
 		expect(canMove('pending', 'held')).toBe(false);
 	});
 
-	it('counts as occupying the room what is held, pending, confirmed or completed; as awaiting a deposit what is held or pending', () => {
-		expect(OCCUPYING_STATUSES).toEqual(['held', 'pending', 'confirmed', 'completed']);
+	it('counts as occupying the room what is held, pending, confirmed, completed or a no-show; as awaiting a deposit what is held or pending', () => {
+		expect(OCCUPYING_STATUSES).toEqual(['held', 'pending', 'confirmed', 'completed', 'no_show']);
 		expect(AWAITING_DEPOSIT_STATUSES).toEqual(['held', 'pending']);
 		expect(BOOKING_STATUSES.filter(awaitsDeposit)).toEqual(['held', 'pending']);
 	});

@@ -1,5 +1,6 @@
 /**
- * A booking's life: held → pending → confirmed → completed, or cancelled or expired on the way.
+ * A booking's life: held → pending → confirmed → completed, or cancelled or expired on the way,
+ * or no_show when the session's time came and nobody did.
  * The statuses, the moves allowed between them and when a hold has lapsed, in one place: the
  * database schema, the server and the browser all read them from here. Pure rules, no framework
  * or database.
@@ -10,7 +11,7 @@
  */
 
 /** Every status a booking can have (the database's check constraint lists the same words). */
-export const BOOKING_STATUSES = ['held', 'pending', 'confirmed', 'completed', 'cancelled', 'expired'] as const;
+export const BOOKING_STATUSES = ['held', 'pending', 'confirmed', 'completed', 'no_show', 'cancelled', 'expired'] as const;
 export type BookingStatus = (typeof BOOKING_STATUSES)[number];
 
 export function isBookingStatus(s: unknown): s is BookingStatus {
@@ -21,14 +22,17 @@ export function isBookingStatus(s: unknown): s is BookingStatus {
  * The moves a booking may make. A hold becomes pending when a delayed payment is on its way,
  * confirmed when the deposit is paid, expired when its time or its payment runs out, cancelled
  * when the artist or the owner says so. An expired hold comes back (pending or confirmed) only
- * when a deposit still arrives and the slot is still free. Completed, cancelled: nothing follows.
+ * when a deposit still arrives and the slot is still free. A confirmed session ends completed or,
+ * when nobody came, no_show. Completed, no_show, cancelled: nothing follows. The database refuses
+ * any other move (the trigger of drizzle/0011_session_lifecycle.sql lists the same pairs).
  */
 export const BOOKING_MOVES: Readonly<Record<BookingStatus, readonly BookingStatus[]>> = {
 	held: ['pending', 'confirmed', 'cancelled', 'expired'],
 	pending: ['confirmed', 'cancelled', 'expired'],
-	confirmed: ['completed', 'cancelled'],
+	confirmed: ['completed', 'no_show', 'cancelled'],
 	expired: ['pending', 'confirmed'],
 	completed: [],
+	no_show: [],
 	cancelled: []
 };
 
@@ -43,10 +47,11 @@ export function statusesBefore(to: BookingStatus): BookingStatus[] {
 
 /**
  * Statuses that occupy the room, the engineer and the gear (the exclusion constraints of
- * drizzle/0001_booking_exclusions.sql count the same ones). A held booking whose hold has lapsed
- * occupies nothing, though it may not be marked expired yet.
+ * drizzle/0011_session_lifecycle.sql count the same ones). A held booking whose hold has lapsed
+ * occupies nothing, though it may not be marked expired yet. A no-show keeps its time: it is not
+ * sold again after the fact.
  */
-export const OCCUPYING_STATUSES: readonly BookingStatus[] = ['held', 'pending', 'confirmed', 'completed'];
+export const OCCUPYING_STATUSES: readonly BookingStatus[] = ['held', 'pending', 'confirmed', 'completed', 'no_show'];
 
 /** Waiting for its deposit: held, or pending while a delayed payment is on its way. */
 export const AWAITING_DEPOSIT_STATUSES: readonly BookingStatus[] = ['held', 'pending'];

@@ -6,6 +6,7 @@ export const STATUS_LABELS: Record<BookingStatus, string> = {
 	pending: 'Payment on its way',
 	confirmed: 'Confirmed',
 	completed: 'Completed',
+	no_show: 'Nobody came',
 	cancelled: 'Cancelled',
 	expired: 'Expired'
 };
@@ -16,6 +17,7 @@ export const STATUS_TONES: Record<BookingStatus, string> = {
 	pending: 'bg-brass-light text-ink',
 	confirmed: 'bg-pine-light text-pine-dark',
 	completed: 'bg-paper-sunk text-ink-soft',
+	no_show: 'bg-warn-light text-warn',
 	cancelled: 'bg-warn-light text-warn',
 	expired: 'bg-paper-sunk text-ink-faint'
 };

@@ -115,11 +115,24 @@ export const studio = pgTable(
 		accountEventAt: ts('account_event_at'),
 		/** The platform's fee on each charge, in basis points of the amount (application_fee_amount). */
 		platformFeeBp: integer('platform_fee_bp').notNull().default(0),
+		/** Hours before each session that a reminder goes to the artist (7 days and 48 hours unless the studio says otherwise). */
+		reminderHours: integer('reminder_hours')
+			.array()
+			.notNull()
+			.default(sql`'{168,48}'::integer[]`),
+		/**
+		 * The moving policy for artists (the owner moves any booking): free with at least
+		 * move_free_hours' notice, for move_fee between that and move_min_hours, not at all closer.
+		 */
+		moveFreeHours: integer('move_free_hours').notNull().default(168),
+		moveMinHours: integer('move_min_hours').notNull().default(48),
+		moveFee: money('move_fee').notNull().default(0),
 		updatedAt: updated()
 	},
 	(t) => [
 		check('studio_reference_prefix_shape', sql`${t.referencePrefix} ~ '^[A-Z]{2,4}$'`),
-		check('studio_platform_fee_range', sql`${t.platformFeeBp} between 0 and 10000`)
+		check('studio_platform_fee_range', sql`${t.platformFeeBp} between 0 and 10000`),
+		check('studio_move_policy', sql`${t.moveMinHours} >= 0 and ${t.moveFreeHours} >= ${t.moveMinHours} and ${t.moveFee} >= 0`)
 	]
 );
 
@@ -248,6 +261,9 @@ export const booking = pgTable(
 		cancelReason: text('cancel_reason'),
 		/** RFC 5545 SEQUENCE: rises each time the booking is moved. */
 		sequence: integer('sequence').notNull().default(0),
+		/** When the owner recorded that nobody came (status no_show), and who did. */
+		noShowAt: ts('no_show_at'),
+		noShowBy: text('no_show_by').references(() => user.id),
 		/** The buyer chosen at booking; null: the artist's name alone (documents issued earlier keep theirs). */
 		billing: jsonb('billing').$type<BillingDetails>(),
 		createdAt: created(),
@@ -345,7 +361,7 @@ export const payment = pgTable(
 		id: uuid('id').primaryKey().defaultRandom(),
 		studioId: studioId(),
 		bookingId: uuid('booking_id').notNull(),
-		/** 'deposit' or 'balance'. */
+		/** 'deposit', 'balance', or 'move' (what a move to a dearer time adds to the deposit). */
 		kind: text('kind').notNull(),
 		amount: money('amount').notNull(),
 		currency: text('currency').notNull(),
@@ -385,7 +401,7 @@ export const payment = pgTable(
 		uniqueIndex('payment_booking_kind_attempt_idx').on(t.bookingId, t.kind, t.attempt),
 		index('payment_status_idx').on(t.status),
 		check('payment_amount', sql`${t.amount} > 0`),
-		check('payment_kind_known', sql`${t.kind} in ('deposit','balance')`),
+		check('payment_kind_known', sql`${t.kind} in ('deposit','balance','move')`),
 		check('payment_status_known', sql`${t.status} in ('open','processing','paid','failed','expired')`)
 	]
 );
@@ -426,6 +442,139 @@ export const refund = pgTable(
 		index('refund_status_idx').on(t.status),
 		check('refund_amount', sql`${t.amount} >= 0`),
 		check('refund_status_known', sql`${t.status} in ('pending','succeeded','failed')`)
+	]
+);
+
+/**
+ * A payment the owner took outside Checkout (cash or bank transfer). Never edited or deleted (a
+ * trigger refuses both): a mistake is reversed by a negative entry that names the one it reverses
+ * and why.
+ */
+export const recordedPayment = pgTable(
+	'recorded_payment',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		studioId: studioId(),
+		bookingId: uuid('booking_id').notNull(),
+		/** Minor units; negative only on a reversal. */
+		amount: money('amount').notNull(),
+		currency: text('currency').notNull(),
+		/** 'cash' or 'bank_transfer'. */
+		method: text('method').notNull(),
+		/** The day the money changed hands, in the studio's calendar. */
+		paidOn: date('paid_on').notNull(),
+		note: text('note').notNull().default(''),
+		/** On a reversal: the entry it reverses (each at most once) and why. */
+		reversesId: uuid('reverses_id'),
+		reason: text('reason'),
+		recordedBy: text('recorded_by').references(() => user.id),
+		createdAt: created()
+	},
+	(t) => [
+		unique('recorded_payment_studio_id_key').on(t.studioId, t.id),
+		foreignKey({
+			name: 'recorded_payment_booking_fk',
+			columns: [t.studioId, t.bookingId],
+			foreignColumns: [booking.studioId, booking.id]
+		}),
+		foreignKey({
+			name: 'recorded_payment_reverses_fk',
+			columns: [t.studioId, t.reversesId],
+			foreignColumns: [t.studioId, t.id]
+		}),
+		uniqueIndex('recorded_payment_reverses_idx').on(t.reversesId),
+		index('recorded_payment_booking_idx').on(t.bookingId),
+		index('recorded_payment_studio_paid_idx').on(t.studioId, t.paidOn),
+		check('recorded_payment_method_known', sql`${t.method} in ('cash','bank_transfer')`),
+		check(
+			'recorded_payment_sign',
+			sql`(${t.amount} > 0 and ${t.reversesId} is null and ${t.reason} is null) or (${t.amount} < 0 and ${t.reversesId} is not null and ${t.reason} is not null and ${t.reason} <> '')`
+		)
+	]
+);
+
+/**
+ * A move of a booking to another time, room, engineer or gear. A move that costs more waits for
+ * its payment ('awaiting_payment', the old slot stays the booking's until then); one that costs the
+ * same or less is applied at once. The booking row is changed in the same transaction that marks
+ * the move applied.
+ */
+export const bookingMove = pgTable(
+	'booking_move',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		studioId: studioId(),
+		bookingId: uuid('booking_id').notNull(),
+		fromStartsAt: ts('from_starts_at').notNull(),
+		fromEndsAt: ts('from_ends_at').notNull(),
+		fromRoomId: uuid('from_room_id').notNull(),
+		fromEngineerId: text('from_engineer_id'),
+		fromGearIds: uuid('from_gear_ids').array().notNull(),
+		toStartsAt: ts('to_starts_at').notNull(),
+		toEndsAt: ts('to_ends_at').notNull(),
+		toBusyUntil: ts('to_busy_until').notNull(),
+		toRoomId: uuid('to_room_id').notNull(),
+		toEngineerId: text('to_engineer_id'),
+		toGearIds: uuid('to_gear_ids').array().notNull(),
+		/** The quote of the new time at the booking's own rate card, and the totals before and after. */
+		quote: jsonb('quote').notNull(),
+		oldTotal: money('old_total').notNull(),
+		newTotal: money('new_total').notNull(),
+		oldDeposit: money('old_deposit').notNull(),
+		newDeposit: money('new_deposit').notNull(),
+		/** The moving policy's fee for this move (0 when free or moved by the owner). */
+		fee: money('fee').notNull().default(0),
+		/** What the artist pays now (> 0) or gets back (< 0 before the refund ladder) to settle it. */
+		settlement: money('settlement').notNull(),
+		/** 'awaiting_payment', 'applied', 'cancelled' (given up, or the new slot was taken before payment). */
+		status: text('status').notNull(),
+		paymentId: uuid('payment_id'),
+		refundId: uuid('refund_id'),
+		requestedBy: text('requested_by').references(() => user.id),
+		createdAt: created(),
+		appliedAt: ts('applied_at')
+	},
+	(t) => [
+		foreignKey({ name: 'booking_move_booking_fk', columns: [t.studioId, t.bookingId], foreignColumns: [booking.studioId, booking.id] }),
+		index('booking_move_booking_idx').on(t.bookingId, t.createdAt),
+		// At most one move waits for its payment per booking.
+		uniqueIndex('booking_move_one_waiting_idx')
+			.on(t.bookingId)
+			.where(sql`${t.status} = 'awaiting_payment'`),
+		check('booking_move_status_known', sql`${t.status} in ('awaiting_payment','applied','cancelled')`),
+		check('booking_move_times', sql`${t.toEndsAt} > ${t.toStartsAt} and ${t.toBusyUntil} >= ${t.toEndsAt}`)
+	]
+);
+
+/**
+ * An e-mail a booking has coming or has had: reminders before the session, the balance request
+ * after it, a receipt for each payment. Sent once through the outbox by a pg-boss job at due_at;
+ * a move changes due_at, a cancellation sets cancelled_at.
+ */
+export const scheduledMessage = pgTable(
+	'scheduled_message',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		studioId: studioId(),
+		bookingId: uuid('booking_id').notNull(),
+		/** 'reminder', 'balance_request' or 'receipt'. */
+		kind: text('kind').notNull(),
+		/** Tells apart messages of one kind: 'reminder:168', 'receipt:<payment id>'. */
+		key: text('key').notNull(),
+		dueAt: ts('due_at').notNull(),
+		sentAt: ts('sent_at'),
+		cancelledAt: ts('cancelled_at'),
+		createdAt: created()
+	},
+	(t) => [
+		foreignKey({
+			name: 'scheduled_message_booking_fk',
+			columns: [t.studioId, t.bookingId],
+			foreignColumns: [booking.studioId, booking.id]
+		}).onDelete('cascade'),
+		uniqueIndex('scheduled_message_booking_key_idx').on(t.bookingId, t.key),
+		index('scheduled_message_due_idx').on(t.dueAt).where(sql`${t.sentAt} is null and ${t.cancelledAt} is null`),
+		check('scheduled_message_kind_known', sql`${t.kind} in ('reminder','balance_request','receipt')`)
 	]
 );
 
