@@ -535,7 +535,11 @@ export const bookingMove = pgTable(
 		appliedAt: ts('applied_at')
 	},
 	(t) => [
-		foreignKey({ name: 'booking_move_booking_fk', columns: [t.studioId, t.bookingId], foreignColumns: [booking.studioId, booking.id] }),
+		foreignKey({
+			name: 'booking_move_booking_fk',
+			columns: [t.studioId, t.bookingId],
+			foreignColumns: [booking.studioId, booking.id]
+		}),
 		index('booking_move_booking_idx').on(t.bookingId, t.createdAt),
 		// At most one move waits for its payment per booking.
 		uniqueIndex('booking_move_one_waiting_idx')
@@ -573,7 +577,9 @@ export const scheduledMessage = pgTable(
 			foreignColumns: [booking.studioId, booking.id]
 		}).onDelete('cascade'),
 		uniqueIndex('scheduled_message_booking_key_idx').on(t.bookingId, t.key),
-		index('scheduled_message_due_idx').on(t.dueAt).where(sql`${t.sentAt} is null and ${t.cancelledAt} is null`),
+		index('scheduled_message_due_idx')
+			.on(t.dueAt)
+			.where(sql`${t.sentAt} is null and ${t.cancelledAt} is null`),
 		check('scheduled_message_kind_known', sql`${t.kind} in ('reminder','balance_request','receipt')`)
 	]
 );
