@@ -65,6 +65,8 @@ ALTER TABLE "booking" DROP CONSTRAINT "booking_status_known";--> statement-break
 ALTER TABLE "payment" DROP CONSTRAINT "payment_kind_known";--> statement-breakpoint
 ALTER TABLE "booking" ADD COLUMN "no_show_at" timestamp with time zone;--> statement-breakpoint
 ALTER TABLE "booking" ADD COLUMN "no_show_by" text;--> statement-breakpoint
+ALTER TABLE "studio" ADD COLUMN "directions" text DEFAULT '' NOT NULL;--> statement-breakpoint
+ALTER TABLE "studio" ADD COLUMN "load_in_notes" text DEFAULT '' NOT NULL;--> statement-breakpoint
 ALTER TABLE "studio" ADD COLUMN "reminder_hours" integer[] DEFAULT '{168,48}'::integer[] NOT NULL;--> statement-breakpoint
 ALTER TABLE "studio" ADD COLUMN "move_free_hours" integer DEFAULT 168 NOT NULL;--> statement-breakpoint
 ALTER TABLE "studio" ADD COLUMN "move_min_hours" integer DEFAULT 48 NOT NULL;--> statement-breakpoint

@@ -41,7 +41,11 @@ async function seedStudio(db: Database): Promise<string> {
 			vatId: 'SE000000000001',
 			locale: 'en-GB',
 			// Closed on Swedish public holidays (date-holidays' data for SE).
-			closedOnPublicHolidays: true
+			closedOnPublicHolidays: true,
+			directions: 'The loft is above the carpentry workshop: use the outside stair at the back of the yard.',
+			loadInNotes: 'Gear goes up the outside stair, twelve steps; carry heavy cases in pairs.',
+			// Reminders a week before and the day before.
+			reminderHours: [168, 24]
 		})
 		.onConflictDoNothing();
 	await seedSurcharges(db, studioId, P);

@@ -56,7 +56,15 @@ async function seedStudio(): Promise<string> {
 			locale: 'en-GB',
 			closedOnPublicHolidays: false,
 			// The platform keeps 2 % of each of this studio's charges (the second demo studio pays none).
-			platformFeeBp: 200
+			platformFeeBp: 200,
+			directions:
+				'From the main road, take the gravel lane past the red mailbox; the barn is the second building on the left. Park on the grass beside it.',
+			loadInNotes:
+				'Level access through the double barn doors, no steps; a trolley waits inside. Ask before carrying anything heavy alone.',
+			// Artists move a session free with 7 days' notice, for a fee from 7 days to 48 hours, not closer.
+			moveFreeHours: 168,
+			moveMinHours: 48,
+			moveFee: 2500
 		})
 		.onConflictDoNothing();
 

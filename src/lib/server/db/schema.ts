@@ -115,6 +115,9 @@ export const studio = pgTable(
 		accountEventAt: ts('account_event_at'),
 		/** The platform's fee on each charge, in basis points of the amount (application_fee_amount). */
 		platformFeeBp: integer('platform_fee_bp').notNull().default(0),
+		/** How to find the studio and where to park, and how gear comes in: sent with each reminder. */
+		directions: text('directions').notNull().default(''),
+		loadInNotes: text('load_in_notes').notNull().default(''),
 		/** Hours before each session that a reminder goes to the artist (7 days and 48 hours unless the studio says otherwise). */
 		reminderHours: integer('reminder_hours')
 			.array()
