@@ -91,7 +91,8 @@ ALTER TABLE "booking" ADD CONSTRAINT "booking_no_show_by_user_id_fk" FOREIGN KEY
 ALTER TABLE "booking" ADD CONSTRAINT "booking_status_known" CHECK ("booking"."status" in ('held','pending','confirmed','completed','no_show','cancelled','expired'));--> statement-breakpoint
 ALTER TABLE "payment" ADD CONSTRAINT "payment_kind_known" CHECK ("payment"."kind" in ('deposit','balance','move'));--> statement-breakpoint
 ALTER TABLE "studio" ADD CONSTRAINT "studio_move_policy" CHECK ("studio"."move_min_hours" >= 0 and "studio"."move_free_hours" >= "studio"."move_min_hours" and "studio"."move_fee" >= 0);--> statement-breakpoint
--- A no-show keeps its time, like a completed session: the exclusion constraints of 0001 now count
+-- A no-show keeps its time, like a completed session: the exclusion constraints of 0001 (the
+-- engineer's as 0006 made it, within one studio) now count
 -- the statuses of src/lib/domain/lifecycle.ts OCCUPYING_STATUSES, no_show among them.
 ALTER TABLE "booking" DROP CONSTRAINT "booking_room_no_overlap";
 --> statement-breakpoint
@@ -102,7 +103,7 @@ ALTER TABLE "booking" ADD CONSTRAINT "booking_room_no_overlap"
 ALTER TABLE "booking" DROP CONSTRAINT "booking_engineer_no_overlap";
 --> statement-breakpoint
 ALTER TABLE "booking" ADD CONSTRAINT "booking_engineer_no_overlap"
-	EXCLUDE USING gist ("engineer_id" WITH =, tstzrange("starts_at", "busy_until", '[)') WITH &&)
+	EXCLUDE USING gist ("studio_id" WITH =, "engineer_id" WITH =, tstzrange("starts_at", "busy_until", '[)') WITH &&)
 	WHERE ("engineer_id" IS NOT NULL AND "status" IN ('held', 'pending', 'confirmed', 'completed', 'no_show'));
 --> statement-breakpoint
 CREATE OR REPLACE FUNCTION booking_gear_copy_booking() RETURNS trigger AS $$
