@@ -45,14 +45,10 @@ describe('the reminders a confirmed session wants', () => {
 	it('keep a reminder already planned for the same instant when its time comes, not one planned for another', () => {
 		const now = at('2027-03-08T08:00:05Z');
 		const due = at('2027-03-08T08:00:00Z');
-		expect(wantedMessages(booking(), [48], now, [{ key: 'reminder:48', dueAt: due }]).map((m) => m.key)).toEqual([
-			'reminder:48'
-		]);
+		expect(wantedMessages(booking(), [48], now, [{ key: 'reminder:48', dueAt: due }]).map((m) => m.key)).toEqual(['reminder:48']);
 		expect(wantedMessages(booking(), [48], now, [{ key: 'reminder:48', dueAt: at('2027-03-01T08:00:00Z') }])).toEqual([]);
 		// Once the session has begun no reminder is wanted at all.
-		expect(
-			wantedMessages(booking(), [48], at('2027-03-10T08:00:00Z'), [{ key: 'reminder:48', dueAt: due }])
-		).toEqual([]);
+		expect(wantedMessages(booking(), [48], at('2027-03-10T08:00:00Z'), [{ key: 'reminder:48', dueAt: due }])).toEqual([]);
 	});
 
 	it('are none for a hold, a pending deposit, or a cancelled, expired, no-show or completed session', () => {
@@ -66,7 +62,11 @@ describe('the reminders a confirmed session wants', () => {
 		// Finland's clocks go forward on Sunday 28 March 2027 at 03:00 (to 04:00). A session at
 		// 10:00 on Monday the 29th: 48 hours before is 09:00 on Saturday the 27th by the wall clock.
 		const start = localToInstant('2027-03-29', 10 * 60, HELSINKI).instant;
-		const [m] = wantedMessages(booking({ startsAt: start, endsAt: new Date(start.getTime() + 4 * HOUR_MS) }), [48], at('2027-03-01T00:00:00Z'));
+		const [m] = wantedMessages(
+			booking({ startsAt: start, endsAt: new Date(start.getTime() + 4 * HOUR_MS) }),
+			[48],
+			at('2027-03-01T00:00:00Z')
+		);
 		expect(start.getTime() - m!.dueAt.getTime()).toBe(48 * HOUR_MS);
 		const wall = localParts(m!.dueAt, HELSINKI);
 		expect([wall.ymd, wall.minuteOfDay]).toEqual(['2027-03-27', 9 * 60]);
@@ -119,9 +119,7 @@ describe('checking again at send time', () => {
 	});
 
 	it('leaves receipts to their own writer', () => {
-		expect(stillWanted({ kind: 'receipt', key: 'receipt:x', dueAt: due }, booking({ status: 'cancelled' }), [], due)).toBe(
-			true
-		);
+		expect(stillWanted({ kind: 'receipt', key: 'receipt:x', dueAt: due }, booking({ status: 'cancelled' }), [], due)).toBe(true);
 	});
 });
 

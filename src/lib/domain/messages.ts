@@ -30,6 +30,16 @@ export const REMINDER_CHOICES: readonly { hours: number; label: string }[] = [
 	{ hours: 2, label: '2 hours before' }
 ];
 
+/** A scheduled message as people read it: 'Reminder, 7 days before', 'Balance request', 'Receipt'. */
+export function messageLabel(kind: MessageKind, key: string): string {
+	if (kind === 'reminder') {
+		const hours = Number(key.split(':')[1]);
+		const choice = REMINDER_CHOICES.find((c) => c.hours === hours);
+		return `Reminder, ${choice ? choice.label : `${hours} hours before`}`;
+	}
+	return kind === 'balance_request' ? 'Balance request' : 'Receipt';
+}
+
 /** The longest offset the rules accept (30 days); a longer one is a mistake in the settings. */
 export const MAX_REMINDER_HOURS = 720;
 
