@@ -18,6 +18,7 @@ import { wav } from '../support/audio';
 import * as t from '../../src/lib/server/db/schema';
 
 const { db, client } = testDb();
+afterAll(() => client.end());
 const HOUR = 3_600_000;
 
 /** This file's days: working weekdays two weeks and more ahead, so both default reminders are still ahead. */
@@ -141,95 +142,145 @@ function stopInstance(child: ChildProcess): Promise<number | null> {
 	});
 }
 
+/**
+ * Moves a confirmed session (as a move by the owner would) so that its reminder `hours` before
+ * falls `aheadMs` from now: a one-minute session at that odd time, tried a few minutes later
+ * while another session has the room then (SQLSTATE 23P01).
+ */
+async function moveSoWanted(bookingId: string, hours: number, aheadMs: number): Promise<Date> {
+	for (let i = 0; i < 10; i++) {
+		const startsAt = new Date(Math.ceil((Date.now() + hours * HOUR + aheadMs) / 1000) * 1000 + i * 120_000);
+		const endsAt = new Date(startsAt.getTime() + 60_000);
+		try {
+			await db.update(t.booking).set({ startsAt, endsAt, busyUntil: endsAt }).where(eq(t.booking.id, bookingId));
+			return new Date(startsAt.getTime() - hours * HOUR);
+		} catch (e) {
+			if ((e as { cause?: { code?: string } }).cause?.code === '23P01') continue;
+			throw e;
+		}
+	}
+	throw new Error('no free minute to move the session to');
+}
+
 describe('a reminder coming due', () => {
 	let second: ChildProcess | null = null;
 	afterAll(async () => {
 		if (second) await stopInstance(second);
-		await client.end();
 	});
 
 	it('is sent once with the session’s details, across a restart and with two instances running', async () => {
 		const artist = await signedIn(DEMO.artist);
-		const b = await book(artist);
-		const planned = await waitFor(async () => {
-			const r = await rowsOf(b.id);
-			return r.length === 2 ? r : undefined;
-		}, 'the reminders planned');
+		const [a, b] = [await book(artist), await book(artist)];
+		for (const x of [a, b]) await waitFor(async () => (await rowsOf(x.id)).length === 2, 'the reminders planned');
 		const form = new FormData();
 		form.set('file', new Blob([wav()], { type: 'audio/wav' }), 'guide-vocal.wav');
-		expect((await artist.fetch(`/api/bookings/${b.id}/uploads`, { method: 'POST', body: form })).status).toBe(201);
+		expect((await artist.fetch(`/api/bookings/${a.id}/uploads`, { method: 'POST', body: form })).status).toBe(201);
 
 		const port = await freePort();
 		second = await startInstance(port);
-		// Their time has come (as if the days had passed): both due a few seconds from now. The
-		// messages sweep of either instance puts their jobs on the queue for that time.
-		const soon = new Date(Date.now() + 20_000);
-		await db.update(t.scheduledMessage).set({ dueAt: soon }).where(eq(t.scheduledMessage.bookingId, b.id));
-		for (const r of planned) {
-			const jobs = await waitFor(async () => {
-				const j = (await jobsOf(r.id)).filter((x) => new Date(x.start_after).getTime() === soon.getTime());
-				return j.length ? j : undefined;
-			}, 'the job at the new time');
-			expect(jobs.map((j) => j.singleton_key)).toEqual([`${r.id}:${soon.toISOString()}`]);
+		// The sessions move so that the 7-day reminder of one and the 48-hour reminder of the other
+		// fall due in half a minute. The messages sweep (of either instance) finds the reminders'
+		// rows at their old times, plans them anew and puts a job on the queue for each new time;
+		// a reminder whose time is now past is cancelled, one still ahead moves with its session.
+		const dueA = await moveSoWanted(a.id, 168, 30_000);
+		const dueB = await moveSoWanted(b.id, 48, 30_000);
+		const wanted = [
+			{ booking: a.id, key: 'reminder:168', dueAt: dueA, other: 'reminder:48', otherCancelled: false },
+			{ booking: b.id, key: 'reminder:48', dueAt: dueB, other: 'reminder:168', otherCancelled: true }
+		];
+		const messages: (typeof t.scheduledMessage.$inferSelect)[] = [];
+		for (const w of wanted) {
+			const row = await waitFor(async () => {
+				const r = (await rowsOf(w.booking)).find((m) => m.key === w.key);
+				return r && r.dueAt.getTime() === w.dueAt.getTime() ? r : undefined;
+			}, `${w.key} moved`);
+			await waitFor(async () => {
+				const j = (await jobsOf(row.id)).filter((x) => new Date(x.start_after).getTime() === w.dueAt.getTime());
+				return j.length === 1 && j[0]!.singleton_key === `${row.id}:${w.dueAt.toISOString()}`;
+			}, `the job of ${w.key} at its new time`);
+			messages.push(row);
 		}
-		// The second instance restarts while the jobs wait; they are rows in the database, not timers in a process.
+		// The second instance restarts while the jobs wait: they are rows in the database, not timers in a process.
 		expect(await stopInstance(second)).toBe(0);
 		second = await startInstance(port);
 
-		const sent = await waitFor(async () => {
-			const r = await rowsOf(b.id);
-			return r.every((m) => m.sentAt) ? r : undefined;
-		}, 'both reminders sent');
-		expect(sent.every((m) => m.cancelledAt === null)).toBe(true);
+		for (const w of wanted) {
+			const rows = await waitFor(async () => {
+				const r = await rowsOf(w.booking);
+				return r.find((m) => m.key === w.key)?.sentAt ? r : undefined;
+			}, `${w.key} sent`);
+			const other = rows.find((m) => m.key === w.other)!;
+			// The 48-hour reminder of the session moved 7 days ahead moved with it; the 7-day one of the
+			// session moved 2 days ahead is past and cancelled.
+			expect([other.sentAt, other.cancelledAt !== null]).toEqual([null, w.otherCancelled]);
+		}
+		const mine = async () =>
+			(await caught()).filter(
+				(x) => x.subject.startsWith('Coming up:') && [a.id, b.id].some((id) => x.text.includes(`/bookings/${id}`))
+			);
 		const mails = await waitFor(async () => {
-			const m = (await caught()).filter((x) => x.subject.startsWith('Coming up:') && x.text.includes(`/bookings/${b.id}`));
+			const m = await mine();
 			return m.length >= 2 ? m : undefined;
 		}, 'both reminders in the mail catcher');
-		// Each once: one outbox row per reminder, one e-mail each, every job of theirs done.
+		// Each once: one outbox row per reminder, one e-mail each, every job of theirs at the new time done.
 		const outbox = await db
 			.select()
 			.from(t.emailOutbox)
-			.where(and(eq(t.emailOutbox.studioId, await studioIdOf(db)), sql`${t.emailOutbox.dedupeKey} like ${`reminder:${b.id}:%`}`));
-		expect(outbox.map((o) => o.dedupeKey).sort()).toEqual([`reminder:${b.id}:reminder:168`, `reminder:${b.id}:reminder:48`]);
-		// The jobs of the new time are done (those of the old time still wait, and will find the row moved).
-		const atSoon = async () =>
-			(await Promise.all(planned.map((r) => jobsOf(r.id))))
-				.flat()
-				.filter((j) => new Date(j.start_after).getTime() === soon.getTime());
-		await waitFor(async () => (await atSoon()).every((j) => j.state === 'completed'), 'the jobs completed');
-		expect((await atSoon()).length).toBe(2);
-		// A later sweep of both instances has come and gone: still one e-mail each.
+			.where(
+				and(
+					eq(t.emailOutbox.studioId, await studioIdOf(db)),
+					sql`(${t.emailOutbox.dedupeKey} like ${`reminder:${a.id}:%`} or ${t.emailOutbox.dedupeKey} like ${`reminder:${b.id}:%`})`
+				)
+			);
+		expect(outbox.map((o) => o.dedupeKey).sort()).toEqual(
+			[`reminder:${a.id}:reminder:168`, `reminder:${b.id}:reminder:48`].sort()
+		);
+		const atNewTime = async () =>
+			(
+				await Promise.all(
+					messages.map(async (r) => (await jobsOf(r.id)).filter((j) => new Date(j.start_after).getTime() === r.dueAt.getTime()))
+				)
+			).flat();
+		await waitFor(async () => (await atNewTime()).every((j) => j.state === 'completed'), 'the jobs completed');
+		expect(await atNewTime()).toHaveLength(2);
+		// Later sweeps of both instances have come and gone: still one e-mail each.
 		const later = Date.now();
 		await waitFor(async () => {
 			const [row] = await db.execute(
-				sql`select count(*)::int as n from pgboss.job where name = 'sweep-messages' and state = 'completed' and completed_on > to_timestamp(${later / 1000})`
+				sql`select count(*)::int as n from pgboss.job where name = 'sweep-messages' and state = 'completed' and started_on > to_timestamp(${later / 1000})`
 			);
 			return Number((row as { n: number }).n) >= 2;
 		}, 'two later message sweeps');
-		const again = (await caught()).filter((x) => x.subject.startsWith('Coming up:') && x.text.includes(`/bookings/${b.id}`));
-		expect(again).toHaveLength(2);
+		expect(await mine()).toHaveLength(2);
 		expect(mails).toHaveLength(2);
 
-		const [seven, two] = [mails.find((m) => m.text.includes('in 7 days')), mails.find((m) => m.text.includes('in 48 hours'))];
-		expect(seven).toBeDefined();
-		expect(two).toBeDefined();
-		const text = seven!.text;
-		expect(seven!.to[0]!.address).toBe(DEMO.artist);
-		expect(seven!.subject).toMatch(/^Coming up: Vocal booth on \w+, \d{1,2} \w+ \d{4}, \d\d:\d\d–\d\d:\d\d$/);
-		expect(text).toMatch(/When: {6}\w+, \d{1,2} \w+ \d{4}, (21:00–23:00|19:00–21:00) \(Europe\/Helsinki time\)/);
+		const seven = mails.find((m) => m.text.includes(`/bookings/${a.id}`))!;
+		const two = mails.find((m) => m.text.includes(`/bookings/${b.id}`))!;
+		expect(seven.text).toContain('is in 7 days.');
+		expect(two.text).toContain('is in 48 hours.');
+		const text = seven.text;
+		expect(seven.to[0]!.address).toBe(DEMO.artist);
+		expect(seven.subject).toMatch(/^Coming up: Vocal booth on \w+, \d{1,2} \w+ \d{4}, \d\d:\d\d–\d\d:\d\d$/);
+		expect(text).toMatch(/When: {6}\w+, \d{1,2} \w+ \d{4}, \d\d:\d\d–\d\d:\d\d \(Europe\/Helsinki time\)/);
 		expect(text).toContain('Room:      Vocal booth');
 		expect(text).toContain('take the gravel lane past the red mailbox');
 		expect(text).toContain('Level access through the double barn doors');
 		expect(text).toContain('tune again with the capo on');
 		expect(text).toContain('80 and 85 dB(A)');
 		expect(text).toContain('guide-vocal.wav');
-		expect(text).toContain(`${APP_URL}/bookings/${b.id}`);
-		expect(seven!.html).toContain('<h3>Getting here</h3>');
-		expect(seven!.html).toContain('guide-vocal.wav');
+		expect(two.text).toContain('Nothing yet.');
+		expect(text).toContain(`${APP_URL}/bookings/${a.id}`);
+		expect(seven.html).toContain('<h3>Getting here</h3>');
+		expect(seven.html).toContain('guide-vocal.wav');
 
-		// The booking's JSON says when each went.
-		const body = (await (await artist.fetch(`/api/bookings/${b.id}`)).json()) as { messages: { sentAt: string | null }[] };
-		expect(body.messages.every((m) => m.sentAt !== null)).toBe(true);
+		// The booking's JSON says when it went, and when the other is due.
+		const body = (await (await artist.fetch(`/api/bookings/${a.id}`)).json()) as {
+			messages: { kind: string; sentAt: string | null; cancelledAt: string | null }[];
+		};
+		expect(body.messages.map((m) => [m.kind, m.sentAt !== null, m.cancelledAt !== null]).sort()).toEqual([
+			['reminder', false, false],
+			['reminder', true, false]
+		]);
 	});
 });
 
