@@ -15,10 +15,16 @@
 // the outbox want about 15 s. So each sweep is a queue with the `stately` policy (at most one job
 // waiting and one running per key, across every instance: a second `send` while one waits is
 // dropped by pg-boss's unique index), and each run ends by sending the next one 15 s ahead
-// (`startAfter`). A chain broken by an outage (the next `send` failed) is picked up again by a
-// once-a-minute `schedule` of the same job, which the stately policy also drops while a run is
-// already waiting. Start-up sends one at once. The outbox is also nudged in-process right after a
-// message is queued (mail/outbox.ts flushSoon); its row locks keep a message from going twice.
+// (`startAfter`). A chain broken by an outage (the next `send` failed) is picked up again by every
+// instance sending each sweep once a minute, which the stately policy drops while one waits.
+//
+// How jobs are taken: each instance asks every queue for its next job (`fetch`) once a second
+// when idle, runs it, and marks it done (`complete`) or failed (`fail`, which retries it with
+// back-off), each awaited and its failure caught. pg-boss's own `work` loop and its cron
+// timekeeper are not used: in 10.4 they mark a job done without awaiting it, and a connection
+// the database ends at that moment (tests/outage/ stops it) would be an unhandled rejection that
+// stops the whole app. The outbox is also nudged in-process right after a message is queued
+// (mail/outbox.ts flushSoon); its row locks keep a message from going twice.
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
 import { expireLapsedHolds } from './bookings/occupancy';
@@ -76,6 +82,10 @@ let started = false;
 let stopping = false;
 let boss: PgBoss | null = null;
 let restartTimer: ReturnType<typeof setTimeout> | null = null;
+let reviveTimer: ReturnType<typeof setInterval> | null = null;
+const pollTimers = new Set<ReturnType<typeof setTimeout>>();
+/** Jobs running now, awaited (briefly) on shutdown. */
+const running = new Set<Promise<unknown>>();
 
 /** Logs a queue error at most once a minute per message: an outage repeats the same one every poll. */
 const lastLogged = new Map<string, number>();
@@ -87,6 +97,52 @@ function logError(e: unknown) {
 	console.warn('[jobs]', message);
 }
 
+/** Takes the jobs of one queue, one at a time, for as long as the process runs; see the top of this file. */
+function poll<T extends object>(b: PgBoss, name: string, handle: (data: T) => Promise<unknown>) {
+	const runOne = async (): Promise<boolean> => {
+		const [job] = await b.fetch<T>(name, { batchSize: 1 });
+		if (!job) return false;
+		try {
+			await handle(job.data);
+		} catch (e) {
+			logError(e);
+			await b.fail(name, job.id, { message: String((e as Error)?.message ?? e) });
+			return true;
+		}
+		await b.complete(name, job.id);
+		return true;
+	};
+	const loop = async () => {
+		if (stopping) return;
+		let worked = false;
+		const turn = runOne();
+		running.add(turn);
+		try {
+			worked = await turn;
+		} catch (e) {
+			logError(e);
+		} finally {
+			running.delete(turn);
+		}
+		if (stopping) return;
+		const timer = setTimeout(
+			() => {
+				pollTimers.delete(timer);
+				void loop();
+			},
+			worked ? 0 : POLL_SECONDS * 1000
+		);
+		timer.unref();
+		pollTimers.add(timer);
+	};
+	void loop();
+}
+
+/** Sends the next run of each sweep unless one waits already (the stately policy drops the copy). */
+async function sendSweeps(b: PgBoss) {
+	for (const s of SWEEPS) await b.send(s.name, {}, { singletonKey: TICK }).catch(logError);
+}
+
 async function startQueue(): Promise<void> {
 	const url = env.DATABASE_URL;
 	if (!url) return;
@@ -95,20 +151,26 @@ async function startQueue(): Promise<void> {
 		schema: 'pgboss',
 		application_name: 'slateroom-jobs',
 		// Its own few connections, apart from the requests' pool.
-		max: 4
+		max: 4,
+		// No cron timekeeper (see the top of this file); maintenance (expiring, archiving) stays on.
+		schedule: false
 	});
-	// pg-boss reports a failed poll (the database down) as an 'error' event; without a listener
-	// Node would treat it as an uncaught error and stop the app.
+	// pg-boss reports a failed maintenance run (the database down) as an 'error' event; without a
+	// listener Node would treat it as an uncaught error and stop the app.
 	b.on('error', logError);
 	try {
 		await b.start();
 		for (const s of SWEEPS) await b.createQueue(s.name, { name: s.name, ...SWEEP_QUEUE });
 		await b.createQueue(MESSAGE_QUEUE, { name: MESSAGE_QUEUE, ...MESSAGE_QUEUE_OPTIONS });
+		if (stopping) {
+			await b.stop({ graceful: false, timeout: 1000 }).catch(logError);
+			return;
+		}
 		// Open for scheduling before the first sweep runs (it may plan messages).
+		boss = b;
 		setQueue(b);
 		for (const s of SWEEPS) {
-			await b.schedule(s.name, '* * * * *', {}, { singletonKey: TICK });
-			await b.work(s.name, { pollingIntervalSeconds: POLL_SECONDS }, async () => {
+			poll(b, s.name, async () => {
 				try {
 					await s.run();
 				} finally {
@@ -117,20 +179,15 @@ async function startQueue(): Promise<void> {
 					}
 				}
 			});
-			await b.send(s.name, {}, { singletonKey: TICK });
 		}
-		await b.work<MessageJob>(MESSAGE_QUEUE, { pollingIntervalSeconds: POLL_SECONDS, batchSize: 1 }, async (jobs) => {
-			for (const job of jobs) await deliverMessage(job.data);
-		});
-		if (stopping) {
-			setQueue(null);
-			await b.stop({ graceful: false, timeout: 1000 }).catch(logError);
-			return;
-		}
-		boss = b;
+		poll<MessageJob>(b, MESSAGE_QUEUE, (data) => deliverMessage(data));
+		await sendSweeps(b);
+		reviveTimer = setInterval(() => void sendSweeps(b), 60_000);
+		reviveTimer.unref();
 	} catch (e) {
 		logError(e);
 		setQueue(null);
+		boss = null;
 		// A start that failed half-way leaves its pool open: close it, and start afresh later.
 		await b.stop({ graceful: false, timeout: 1000 }).catch(() => {});
 		if (!stopping) {
@@ -149,7 +206,7 @@ export function startBackgroundJobs() {
 }
 
 /**
- * Stops the workers on shutdown: a job running gets a moment to finish, then pg-boss closes its
+ * Stops taking jobs on shutdown: a job running gets a moment to finish, then pg-boss closes its
  * connections. Jobs waiting stay in the database for the next start (this instance's or another's).
  */
 export async function stopBackgroundJobs(): Promise<void> {
@@ -157,8 +214,14 @@ export async function stopBackgroundJobs(): Promise<void> {
 	started = false;
 	if (restartTimer) clearTimeout(restartTimer);
 	restartTimer = null;
+	if (reviveTimer) clearInterval(reviveTimer);
+	reviveTimer = null;
+	for (const t of pollTimers) clearTimeout(t);
+	pollTimers.clear();
 	const b = boss;
 	boss = null;
 	setQueue(null);
-	if (b) await b.stop({ graceful: true, timeout: 2000, close: true }).catch(logError);
+	const grace = new Promise((r) => setTimeout(r, 2000).unref());
+	await Promise.race([Promise.allSettled([...running]), grace]);
+	if (b) await b.stop({ graceful: false, timeout: 1000, close: true }).catch(logError);
 }
