@@ -25,11 +25,11 @@ if (!building) {
 	startBackgroundJobs();
 	ensureDemoLedger().catch((e) => console.warn('[demo]', (e as Error).message));
 	// adapter-node emits this once the HTTP server has closed (after SIGTERM or SIGINT). The
-	// periodic jobs keep pooled database connections busy, so without this the process would
+	// job queue and its workers keep database connections busy, so without this the process would
 	// never exit on its own.
 	process.once('sveltekit:shutdown', () => {
-		stopBackgroundJobs();
-		void sqlClient.end({ timeout: 5 });
+		// The job queue first (a running job may still use the pool), then the pool.
+		void stopBackgroundJobs().finally(() => sqlClient.end({ timeout: 5 }));
 	});
 }
 

@@ -278,6 +278,8 @@ const ENTRIES: Record<string, Entry> = {
 		into: false,
 		form: {
 			save: () => ({ name: '' }),
+			// An offset that is not among the choices: refused (422), so the walk changes nothing.
+			reminders: () => ({ reminderHours: '5', directions: 'Taken over' }),
 			surcharge: (b) => ({
 				id: b.surcharge,
 				label: 'Taken over',

@@ -144,3 +144,35 @@ export async function addSurcharge(actor: Actor, values: SurchargeValues): Promi
 	});
 	return row!;
 }
+
+/** What the reminder e-mails block of the settings page changes. */
+export interface ReminderValues {
+	/** Hours before a session, from REMINDER_CHOICES ($lib/domain/messages). */
+	reminderHours: number[];
+	directions: string;
+	loadInNotes: string;
+}
+
+/**
+ * Saves when reminders go out and what they say about getting there and loading in; returns the
+ * names of the fields that changed. Bookings already planned follow on their own: the messages
+ * sweep plans a newly chosen reminder for upcoming sessions, and one no longer chosen is not sent
+ * (it is checked again at its time).
+ */
+export async function updateReminders(actor: Actor, values: ReminderValues): Promise<string[]> {
+	const before = await getStudio(actor.studioId);
+	const diff = changes(before, values);
+	const changed = Object.keys(diff);
+	if (changed.length === 0) return [];
+	await db.update(studio).set(values).where(eq(studio.id, actor.studioId));
+	await audit({
+		studioId: actor.studioId,
+		actorId: actor.user.id,
+		action: 'studio.reminders_changed',
+		entity: 'studio',
+		entityId: actor.studioId,
+		data: diff,
+		ip: actor.ip
+	});
+	return changed;
+}

@@ -17,6 +17,7 @@ import { publicHolidayChecker } from '$lib/domain/holidays';
 import { closeRefusal } from '$lib/domain/lifecycle';
 // A reverse-charged booking's overtime and gear added on the day carry no VAT either.
 import { treatmentOf } from '$lib/domain/vat-treatment';
+import { syncBookingMessagesQuietly } from '../messages';
 
 export const closeSchema = z.object({
 	actualEnd: z
@@ -80,7 +81,7 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 	const actualEnd = new Date(Math.ceil(recordedEnd.getTime() / 60_000) * 60_000);
 
 	try {
-		return await inTransaction<CloseOutcome>(async (tx) => {
+		return await inTransaction<CloseOutcome>(async (tx, after) => {
 			const b = await lockBooking(tx, bookingId);
 			if (!b) return { ok: false, status: 404, code: 'not_found', message: 'No such booking.' };
 			if (b.status === 'completed') {
@@ -153,6 +154,8 @@ export async function closeBooking(actor: SessionUser, bookingId: string, input:
 			}
 
 			await setBookingStatus(tx, b, 'completed', { actualEndsAt: actualEnd });
+			// The balance request, when one is owed, is planned once this has committed.
+			after.push(() => syncBookingMessagesQuietly(b.id));
 			const final = await issueFinalInvoice(tx, { bookingId: b.id, overtimeLines: overtime?.lines ?? [], extraLines });
 			await auditTx(
 				tx,

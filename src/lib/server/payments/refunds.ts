@@ -33,6 +33,7 @@ import { applyRefundObject, auditTx, queueRefund, unresolvedFailures } from './s
 import { expireSession } from './checkout';
 import { onAccount, stripe } from './stripe';
 import { queueCancellation } from '../mail';
+import { syncBookingMessagesQuietly } from '../messages';
 import { refundForCancellation } from '$lib/domain/pricing';
 import { isCancellable } from '$lib/domain/lifecycle';
 import { toStripeAmount } from '$lib/domain/money';
@@ -178,6 +179,8 @@ export async function cancelBooking(
 		});
 		// The notice to the artist is queued in the transaction that cancels, so it exists exactly once with it.
 		await queueCancellation(tx, { bookingId: b.id, was: b.status, refund: r.refund, rule: r.rungLabel, retained: r.retained });
+		// Its reminders and any balance request not yet sent are cancelled once this has committed.
+		after.push(() => syncBookingMessagesQuietly(b.id));
 		// The refund comes out of the paid payments, the deposit first.
 		const refunds: RefundRow[] = [];
 		let left = r.refund;

@@ -26,6 +26,7 @@ import {
 	type Tx
 } from './core';
 import { queueConfirmation } from '../mail';
+import { syncBookingMessagesQuietly } from '../messages';
 import { sendRefund } from './refunds';
 import { expireAndReconcile } from './jobs';
 import type Stripe from 'stripe';
@@ -233,6 +234,8 @@ async function confirmed(tx: Tx, b: BookingRow, p: PaymentRow, after: AfterCommi
 	await auditTx(tx, 'booking.confirmed', b.id, { paymentId: p.id });
 	// The confirmation e-mail is queued in the transaction that confirms, so it exists exactly once with it.
 	await queueConfirmation(tx, b.id);
+	// Its reminders are planned once the confirmation has committed.
+	after.push(() => syncBookingMessagesQuietly(b.id));
 	// Other open deposit sessions of this booking can no longer be wanted.
 	for (const other of await paymentsOf(tx, b.id)) {
 		if (other.kind === 'deposit' && other.status === 'open' && other.checkoutSessionId && other.id !== p.id) {
@@ -250,6 +253,8 @@ async function balanceArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: After
 	const paidBalance = (await paymentsOf(tx, b.id))
 		.filter((x) => x.kind === 'balance' && x.status === 'paid')
 		.reduce((s, x) => s + x.amount, 0);
+	// A balance request not yet sent is no longer wanted once the balance is paid.
+	after.push(() => syncBookingMessagesQuietly(b.id));
 	const over = paidBalance - (final?.amountDue ?? 0);
 	if (over > 0) {
 		await queueRefund(tx, after, { booking: b, payment: p, amount: Math.min(over, p.amount), reason: 'duplicate' });

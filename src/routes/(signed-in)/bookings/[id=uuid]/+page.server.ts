@@ -8,6 +8,8 @@ import { formFields } from '$lib/server/payments/http';
 import type { QuoteView } from '$lib/types/quote';
 import { readFileField } from '$lib/server/multipart';
 import * as uploads from '$lib/server/uploads';
+import { messagesOf } from '$lib/server/messages';
+import { messageLabel } from '$lib/domain/messages';
 import { localDateOf, wallClock } from '$lib/domain/time';
 import type { Role } from '$lib/roles';
 import { formText, readFormData } from '$lib/server/api';
@@ -22,13 +24,14 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 	// The booking itself matters more than its payment panel: if payments cannot be read, the
 	// page still shows the booking and says so.
 	let moneyUnavailable = false;
-	const [money, listed] = await Promise.all([
+	const [money, listed, scheduled] = await Promise.all([
 		payments.loadMoneyPanel(me, b).catch((e: unknown) => {
 			console.error('[booking page] could not load the payment panel', b.id, e);
 			moneyUnavailable = true;
 			return null;
 		}),
-		uploads.listForViewer(me, b.id)
+		uploads.listForViewer(me, b.id),
+		messagesOf(b.id)
 	]);
 	const q = b.quote;
 	// The booking is read through its own studio: its zone, and the viewer's role there (the
@@ -99,6 +102,10 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		rebook,
 		money,
 		moneyUnavailable,
+		// The session's scheduled e-mails, sent or still to come; those no longer wanted are left out.
+		messages: scheduled
+			.filter((m) => !m.cancelledAt)
+			.map((m) => ({ key: m.key, label: messageLabel(m.kind, m.key), dueAt: m.dueAt, sentAt: m.sentAt })),
 		files: listed.ok
 			? {
 					items: listed.uploads.map((u) => ({

@@ -9,6 +9,7 @@ import * as setup from '$lib/server/studio-setup';
 import { formText, readFormData } from '$lib/server/api';
 import { blockRateFindings, surchargeFindings } from '$lib/schemas/rate-card';
 import { isEuMemberState } from '$lib/domain/vat-treatment';
+import { normaliseReminderHours, REMINDER_CHOICES } from '$lib/domain/messages';
 import {
 	engineerRates,
 	policyValuesFrom,
@@ -25,6 +26,8 @@ import type { Actions, PageServerLoad } from './$types';
 type Saved = { kind: 'saved' | 'error'; text: string };
 
 const NEW_SURCHARGE = 'surcharge-new';
+/** The longest directions or load-in note the reminders carry. */
+const MAX_NOTE_CHARS = 2000;
 const NEW_SURCHARGE_VALUES: SurchargeForm = {
 	id: '',
 	label: '',
@@ -63,6 +66,11 @@ export const load: PageServerLoad = async ({ locals }) => {
 		blocks,
 		updatedAt: studio.updatedAt.toISOString(),
 		published: studio.published,
+		reminders: {
+			hours: normaliseReminderHours(studio.reminderHours),
+			directions: studio.directions,
+			loadInNotes: studio.loadInNotes
+		},
 		reverseCharge: {
 			on: studio.reverseChargeAbroad,
 			// What keeps the setting from applying to this studio at all, in words; null when nothing does.
@@ -120,6 +128,36 @@ export const actions: Actions = {
 		const on = formText(fd.get('reverseChargeAbroad')) === 'on';
 		const changed = await settings.setReverseChargeAbroad(staffActor(locals, getClientAddress()), on);
 		return { reverseCharge: changed ? ('saved' as const) : ('unchanged' as const) };
+	},
+
+	// The reminder e-mails block: its own form and action, apart from the policy form.
+	reminders: async ({ request, locals, getClientAddress }) => {
+		requireRole(locals, 'owner');
+		const fd = await readFormData(request);
+		if (!fd) return fail(400, { reminders: { ok: false as const, text: 'Nothing was saved.' } });
+		const allowed = new Set(REMINDER_CHOICES.map((c) => c.hours));
+		const picked = fd.getAll('reminderHours').map((v) => Number(formText(v)));
+		const directions = formText(fd.get('directions')).trim();
+		const loadInNotes = formText(fd.get('loadInNotes')).trim();
+		if (picked.some((h) => !allowed.has(h))) {
+			return fail(422, { reminders: { ok: false as const, text: 'Nothing was saved: choose reminder times from the list.' } });
+		}
+		if (directions.length > MAX_NOTE_CHARS || loadInNotes.length > MAX_NOTE_CHARS) {
+			return fail(422, {
+				reminders: { ok: false as const, text: `Nothing was saved: keep each note under ${MAX_NOTE_CHARS} characters.` }
+			});
+		}
+		const changed = await settings.updateReminders(staffActor(locals, getClientAddress()), {
+			reminderHours: normaliseReminderHours(picked),
+			directions,
+			loadInNotes
+		});
+		return {
+			reminders: {
+				ok: true as const,
+				text: changed.length ? 'Saved. Reminders of upcoming sessions follow it from now on.' : 'Nothing had changed.'
+			}
+		};
 	},
 
 	unpublish: async ({ request, locals, getClientAddress }) => {

@@ -1,6 +1,8 @@
 import { json } from '@sveltejs/kit';
 import * as bookings from '$lib/server/bookings';
 import { apiError } from '$lib/server/api';
+import { messagesOf } from '$lib/server/messages';
+import { isoInZone } from '$lib/domain/time';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, params }) => {
@@ -10,5 +12,15 @@ export const GET: RequestHandler = async ({ locals, params }) => {
 	if (!b) return apiError(404, 'not_found', 'No such booking.');
 	// `billing`: whom it is billed to (null: the artist's name alone), for all but its engineers.
 	const billing = bookings.billedTo(b);
-	return json({ ...bookings.bookingJson(b, b.studio), ...(billing === undefined ? {} : { billing }) });
+	// `messages`: its scheduled e-mails by due time, sent or not; one cancelled (no longer wanted:
+	// the booking was cancelled or moved away from it) keeps its row and says when.
+	const zone = b.studio.timeZone;
+	const at = (d: Date | null) => (d ? isoInZone(d, zone) : null);
+	const messages = (await messagesOf(b.id)).map((m) => ({
+		kind: m.kind,
+		dueAt: at(m.dueAt),
+		sentAt: at(m.sentAt),
+		cancelledAt: at(m.cancelledAt)
+	}));
+	return json({ ...bookings.bookingJson(b, b.studio), ...(billing === undefined ? {} : { billing }), messages });
 };
