@@ -163,9 +163,8 @@ describe('moving a session', () => {
 		expect(feedRow).toBeDefined();
 		{
 			const text = await (await fetch(`${APP_URL}/feed/${feedRow!.token}/sessions.ics`)).text();
-			const event = Object.values(ical.sync.parseICS(text)).find(
-				(c) => c?.type === 'VEVENT' && (c as ical.VEvent).uid === b.id
-			) as ical.VEvent | undefined;
+			const event = Object.values(ical.sync.parseICS(text)).find((c) => c?.type === 'VEVENT' && c.uid === b.id) as
+				ical.VEvent | undefined;
 			expect(event).toBeDefined();
 			expect(new Date(event!.start).getTime()).toBe(after.startsAt.getTime());
 			expect(Number(event!.sequence)).toBe(after.sequence);
@@ -332,6 +331,36 @@ describe('moving a session', () => {
 			async () => (await mailTo(DEMO.artist)).find((x) => x.subject.includes('was not moved') && x.text.includes(mine.id)),
 			'the note that the move could not be made'
 		);
+	});
+});
+
+describe('the moving policy setting', () => {
+	it('is the owner’s to set on the rates & policy page, checked field by field', async () => {
+		const studioRow = async () => (await db.select().from(t.studio).where(eq(t.studio.id, studioId)))[0]!;
+		try {
+			const saved = await owner.form('/studio/settings?/movePolicy', {
+				moveFreeHours: '120',
+				moveMinHours: '24',
+				moveFee: '15.50'
+			});
+			expect(saved.status).toBe(200);
+			expect(await studioRow()).toMatchObject({ moveFreeHours: 120, moveMinHours: 24, moveFee: 1550 });
+			const page = await (await owner.fetch('/studio/settings', { headers: { accept: 'text/html' } })).text();
+			expect(page).toContain('value="15.50"');
+			// The shortest notice longer than the free one, or a fee with a comma: nothing saved.
+			const bad = await owner.form('/studio/settings?/movePolicy', { moveFreeHours: '24', moveMinHours: '48', moveFee: '1,5' });
+			expect(bad.status).toBe(422);
+			expect(await studioRow()).toMatchObject({ moveFreeHours: 120, moveMinHours: 24, moveFee: 1550 });
+			const artistTry = await artist.form('/studio/settings?/movePolicy', {
+				moveFreeHours: '1',
+				moveMinHours: '0',
+				moveFee: '0'
+			});
+			expect(artistTry.status).not.toBe(200);
+			expect((await studioRow()).moveFreeHours).toBe(120);
+		} finally {
+			await setPolicy(168, 48, 0);
+		}
 	});
 });
 

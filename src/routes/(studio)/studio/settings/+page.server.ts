@@ -9,6 +9,7 @@ import * as setup from '$lib/server/studio-setup';
 import { formText, readFormData } from '$lib/server/api';
 import { blockRateFindings, surchargeFindings } from '$lib/schemas/rate-card';
 import { isEuMemberState } from '$lib/domain/vat-treatment';
+import { toDecimalString } from '$lib/domain/money';
 import {
 	engineerRates,
 	policyValuesFrom,
@@ -63,6 +64,11 @@ export const load: PageServerLoad = async ({ locals }) => {
 		blocks,
 		updatedAt: studio.updatedAt.toISOString(),
 		published: studio.published,
+		movePolicy: {
+			freeHours: studio.moveFreeHours,
+			minHours: studio.moveMinHours,
+			fee: toDecimalString(studio.moveFee, studio.currency)
+		},
 		reverseCharge: {
 			on: studio.reverseChargeAbroad,
 			// What keeps the setting from applying to this studio at all, in words; null when nothing does.
@@ -120,6 +126,22 @@ export const actions: Actions = {
 		const on = formText(fd.get('reverseChargeAbroad')) === 'on';
 		const changed = await settings.setReverseChargeAbroad(staffActor(locals, getClientAddress()), on);
 		return { reverseCharge: changed ? ('saved' as const) : ('unchanged' as const) };
+	},
+
+	movePolicy: async ({ request, locals, getClientAddress }) => {
+		requireRole(locals, 'owner');
+		const { currency } = await staffStudio(locals);
+		const fd = await readFormData(request);
+		if (!fd) return fail(400, { movePolicy: { state: 'error' as const, fields: {} } });
+		const typed = {
+			freeHours: formText(fd.get('moveFreeHours')),
+			minHours: formText(fd.get('moveMinHours')),
+			fee: formText(fd.get('moveFee'))
+		};
+		const read = settings.readMovePolicy(typed, currency);
+		if (!read.ok) return fail(422, { movePolicy: { state: 'error' as const, fields: read.fields, typed } });
+		const changed = await settings.setMovePolicy(staffActor(locals, getClientAddress()), read.values);
+		return { movePolicy: { state: changed ? ('saved' as const) : ('unchanged' as const), fields: {} as Record<string, string> } };
 	},
 
 	unpublish: async ({ request, locals, getClientAddress }) => {
