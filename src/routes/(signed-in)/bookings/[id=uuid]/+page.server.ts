@@ -198,7 +198,7 @@ async function moveSection(me: SessionUser, b: bookings.BookingDetail, q: URLSea
 
 /** The move form's fields as the move API's request: the artist moves the time, the owner also the room and engineer. */
 function moveInput(f: Record<string, unknown>, owner: boolean) {
-	const text = (k: string) => (typeof f[k] === 'string' ? (f[k]) : '');
+	const text = (k: string) => (typeof f[k] === 'string' ? f[k] : '');
 	const date = text('date') || text('moveDate');
 	const endDate = text('endDate') || date;
 	return {
