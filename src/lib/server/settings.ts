@@ -6,6 +6,7 @@ import type { Actor } from './actor';
 import { studio, surchargeRule } from './db/schema';
 import { audit } from './audit';
 import { getStudio } from './studio';
+import { parseMoney } from '$lib/domain/money';
 import type { CancellationRung, OpeningHours } from '$lib/domain/types';
 
 export type SurchargeRow = typeof surchargeRule.$inferSelect;
@@ -175,4 +176,56 @@ export async function updateReminders(actor: Actor, values: ReminderValues): Pro
 		ip: actor.ip
 	});
 	return changed;
+}
+
+/** The moving policy for artists ($lib/domain/move.ts): free with freeHours' notice, for fee down to minHours, not closer. */
+export interface MovePolicyValues {
+	freeHours: number;
+	minHours: number;
+	/** Minor units of the studio's currency. */
+	fee: number;
+}
+
+const MAX_MOVE_HOURS = 24 * 365;
+
+/** The moving policy as typed on the rates & policy page: field messages, or the values. */
+export function readMovePolicy(
+	input: { freeHours: string; minHours: string; fee: string },
+	currency: string
+): { ok: true; values: MovePolicyValues } | { ok: false; fields: Record<string, string> } {
+	const fields: Record<string, string> = {};
+	const hours = (text: string, key: string) => {
+		const n = /^\d{1,5}$/.test(text.trim()) ? Number(text.trim()) : NaN;
+		if (!Number.isInteger(n) || n > MAX_MOVE_HOURS) fields[key] = `Whole hours from 0 to ${MAX_MOVE_HOURS}.`;
+		return n;
+	};
+	const freeHours = hours(input.freeHours, 'freeHours');
+	const minHours = hours(input.minHours, 'minHours');
+	const fee = parseMoney(input.fee || '0', currency);
+	if (!fee.ok) fields.fee = 'An amount such as 25 or 25.50, or 0 for none.';
+	if (!fields.freeHours && !fields.minHours && minHours > freeHours)
+		fields.minHours = 'The shortest notice cannot be longer than the notice for a free move.';
+	if (Object.keys(fields).length || !fee.ok) return { ok: false, fields };
+	return { ok: true, values: { freeHours, minHours, fee: fee.value } };
+}
+
+/** Saves the moving policy; returns whether anything changed. Bookings already moved keep what they paid. */
+export async function setMovePolicy(actor: Actor, values: MovePolicyValues): Promise<boolean> {
+	const before = await getStudio(actor.studioId);
+	const from = { freeHours: before.moveFreeHours, minHours: before.moveMinHours, fee: before.moveFee };
+	if (from.freeHours === values.freeHours && from.minHours === values.minHours && from.fee === values.fee) return false;
+	await db
+		.update(studio)
+		.set({ moveFreeHours: values.freeHours, moveMinHours: values.minHours, moveFee: values.fee })
+		.where(eq(studio.id, actor.studioId));
+	await audit({
+		studioId: actor.studioId,
+		actorId: actor.user.id,
+		action: 'studio.move_policy_changed',
+		entity: 'studio',
+		entityId: actor.studioId,
+		data: { from, to: values },
+		ip: actor.ip
+	});
+	return true;
 }

@@ -142,7 +142,8 @@ export async function issueDepositInvoice(tx: Tx, input: { paymentId: string; is
 	const s = b.studio;
 	const tz = s.timeZone;
 	const paidAt = pay.paidAt ?? new Date();
-	const lines = lumpSumLines(pay.amount, 'deposit', `Deposit on account for ${sessionWords(b, tz)}`, grossByRate(b.quote.vat));
+	const what = pay.kind === 'move' ? 'Deposit on account, added when the session was moved,' : 'Deposit on account';
+	const lines = lumpSumLines(pay.amount, 'deposit', `${what} for ${sessionWords(b, tz)}`, grossByRate(b.quote.vat));
 	// Money received is an amount incl. VAT; it is paid in full, so nothing is due (BR-CO-16).
 	const totals = documentTotals(lines, {
 		currency: pay.currency,
@@ -264,7 +265,8 @@ const REFUND_WORDS: Record<string, string> = {
 	cancellation: 'refund after cancellation',
 	slot_unavailable: 'refund: the slot was no longer free when the payment arrived',
 	cancelled_before_payment: 'refund: the booking was cancelled before the payment arrived',
-	duplicate: 'refund of a second payment'
+	duplicate: 'refund of a second payment',
+	move: 'refund of deposit after the session was moved to a lower price'
 };
 
 /**
@@ -280,7 +282,8 @@ export async function issueCreditNote(tx: Tx, input: { refundId: string; issuedA
 	const [pay] = await tx.select().from(payment).where(eq(payment.id, r.paymentId));
 	if (!pay) return null;
 	const [preceding] =
-		pay.kind === 'deposit'
+		// A move's payment adds to the deposit and has its own prepayment invoice, under the same key.
+		pay.kind === 'deposit' || pay.kind === 'move'
 			? await tx
 					.select()
 					.from(invoice)

@@ -9,6 +9,7 @@ import { composeCancellation, composeConfirmation, type ConfirmationFacts } from
 import { enqueueMail, flushSoon } from './outbox';
 import { publicOrigin } from './transport';
 import { composeInvitation } from './invitation';
+import { composeMoved, composeMoveFailed } from './move';
 import { db } from '../db';
 import { getStudio } from '../studio';
 import type { Role } from '$lib/roles';
@@ -94,6 +95,57 @@ export async function queueCancellation(tx: Tx, fact: CancellationFact): Promise
 		subject: mail.subject,
 		text: mail.text,
 		attachments: [calendarAttachment(facts.reference, mail.ics, 'CANCEL')]
+	});
+	flushSoon();
+}
+
+/**
+ * Queues the e-mails of a move inside the transaction that applies it: to the artist and to the
+ * booking's engineer, each with the calendar file at the booking's new SEQUENCE. Keyed by the
+ * booking and that sequence, so each move's message exists once.
+ */
+export async function queueMoveNotice(tx: Tx, bookingId: string, sequence: number): Promise<void> {
+	const facts = await bookingFacts(tx, bookingId);
+	if (!facts) return;
+	const artist = composeMoved(facts, 'artist');
+	await enqueueMail(tx, {
+		studioId: facts.studioId,
+		dedupeKey: `booking-moved:${bookingId}:${sequence}`,
+		to: facts.artistEmail,
+		subject: artist.subject,
+		text: artist.text,
+		attachments: [calendarAttachment(facts.reference, artist.ics, 'PUBLISH')]
+	});
+	const [row] = await tx
+		.select({ email: user.email })
+		.from(booking)
+		.innerJoin(user, eq(user.id, booking.engineerId))
+		.where(eq(booking.id, bookingId));
+	if (row) {
+		const mail = composeMoved(facts, 'engineer');
+		await enqueueMail(tx, {
+			studioId: facts.studioId,
+			dedupeKey: `booking-moved:${bookingId}:${sequence}:engineer`,
+			to: row.email,
+			subject: mail.subject,
+			text: mail.text,
+			attachments: [calendarAttachment(facts.reference, mail.ics, 'PUBLISH')]
+		});
+	}
+	flushSoon();
+}
+
+/** Queues the note that a paid move could not be made and its payment goes back. */
+export async function queueMoveFailed(tx: Tx, bookingId: string, moveId: string, refund: number): Promise<void> {
+	const facts = await bookingFacts(tx, bookingId);
+	if (!facts) return;
+	const mail = composeMoveFailed(facts, refund);
+	await enqueueMail(tx, {
+		studioId: facts.studioId,
+		dedupeKey: `booking-move-failed:${moveId}`,
+		to: facts.artistEmail,
+		subject: mail.subject,
+		text: mail.text
 	});
 	flushSoon();
 }

@@ -20,7 +20,7 @@
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import { db } from '../db';
-import { booking, invoice, payment, room, studio, user } from '../db/schema';
+import { booking, bookingMove, invoice, payment, room, studio, user } from '../db/schema';
 import { inTransaction, lockBooking, paymentsOf, type PaymentRow } from './core';
 import { refreshAccountState } from './accounts';
 import { onAccount, stripe } from './stripe';
@@ -30,7 +30,8 @@ import { formatDate, formatTimes } from '$lib/domain/time';
 import { formatMoney } from '$lib/domain/money';
 import { holdLive } from '$lib/domain/lifecycle';
 
-export type CheckoutKind = 'deposit' | 'balance';
+/** 'move': what a move to a dearer time adds to the deposit (its booking_move waits for it). */
+export type CheckoutKind = 'deposit' | 'balance' | 'move';
 
 export class CheckoutError extends Error {
 	constructor(
@@ -82,6 +83,7 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 		const mine = payments.filter((p) => p.kind === kind);
 		let amount: number;
 		let expiresAt: Date;
+		let waitingMove: typeof bookingMove.$inferSelect | undefined;
 		if (kind === 'deposit') {
 			if (!holdLive(b, now)) {
 				throw new CheckoutError('not_payable', 'This booking is not waiting for its deposit.');
@@ -91,6 +93,17 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 			}
 			amount = b.deposit;
 			expiresAt = depositSessionExpiry(b.holdExpiresAt, now);
+		} else if (kind === 'move') {
+			// The move waiting for this payment (one per booking, by the unique index): its settlement.
+			const [waiting] = await tx
+				.select()
+				.from(bookingMove)
+				.where(and(eq(bookingMove.bookingId, b.id), eq(bookingMove.status, 'awaiting_payment')));
+			if (!waiting || b.status !== 'confirmed')
+				throw new CheckoutError('not_payable', 'No move of this session is waiting for a payment.');
+			waitingMove = waiting;
+			amount = waiting.settlement;
+			expiresAt = depositSessionExpiry(null, now);
 		} else {
 			if (b.status !== 'completed')
 				throw new CheckoutError('not_payable', 'The balance is due once the session has been closed.');
@@ -154,7 +167,15 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 				if (sessionId) after.push(() => expireSession(sessionId, p.stripeAccountId));
 			}
 		}
-		let row = mine.find((p) => p.status === 'open' && !stale.includes(p) && !elsewhere.includes(p) && p.amount === amount);
+		let row = mine.find(
+			(p) =>
+				p.status === 'open' &&
+				!stale.includes(p) &&
+				!elsewhere.includes(p) &&
+				p.amount === amount &&
+				// A move's checkout is its own move's, never an earlier move's of the same amount.
+				(!waitingMove || p.id === waitingMove.paymentId)
+		);
 		if (!row) {
 			const attempt = mine.reduce((m, p) => Math.max(m, p.attempt), 0) + 1;
 			[row] = await tx
@@ -172,6 +193,7 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 					applicationFee: platformFee(amount, merchant.feeBp, b.currency)
 				})
 				.returning();
+			if (waitingMove) await tx.update(bookingMove).set({ paymentId: row!.id }).where(eq(bookingMove.id, waitingMove.id));
 		}
 		const [details] = await tx
 			.select({ roomName: room.name, email: user.email, timeZone: studio.timeZone, studioName: studio.name })
@@ -181,9 +203,18 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 			.innerJoin(studio, eq(studio.id, booking.studioId))
 			.where(eq(booking.id, b.id));
 		const tz = details!.timeZone;
-		const when = `${formatDate(b.startsAt, tz)}, ${formatTimes(b.startsAt, b.endsAt, tz)}`;
-		const metadata = { bookingId: b.id, kind, paymentId: row!.id, reference: b.reference };
-		const label = kind === 'deposit' ? 'Deposit' : 'Balance';
+
+		const metadata = {
+			bookingId: b.id,
+			kind,
+			paymentId: row!.id,
+			reference: b.reference,
+			...(waitingMove ? { moveId: waitingMove.id } : {})
+		};
+		const label = kind === 'deposit' ? 'Deposit' : kind === 'move' ? 'Moving a session' : 'Balance';
+		// A move's line names the new time it pays for.
+		const shown = waitingMove ? { startsAt: waitingMove.toStartsAt, endsAt: waitingMove.toEndsAt } : b;
+		const when = `${formatDate(shown.startsAt, tz)}, ${formatTimes(shown.startsAt, shown.endsAt, tz)}`;
 		const params: Stripe.Checkout.SessionCreateParams = {
 			mode: 'payment',
 			line_items: [
@@ -193,7 +224,7 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 						currency: b.currency.toLowerCase(),
 						unit_amount: toStripeAmount(row!.amount, b.currency),
 						product_data: {
-							name: `${label} for ${details!.roomName} ${formatDate(b.startsAt, tz)}`,
+							name: `${label} for ${details!.roomName} ${formatDate(shown.startsAt, tz)}`,
 							description: `${details!.studioName}, booking ${b.reference}: ${when}`
 						}
 					}
@@ -209,7 +240,7 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 				// Stripe refuses a fee of 0 on some accounts and a fee without an account: left out then.
 				...(row!.applicationFee > 0 ? { application_fee_amount: toStripeAmount(row!.applicationFee, b.currency) } : {})
 			},
-			success_url: `${origin}/bookings/${b.id}?paid=1`,
+			success_url: `${origin}/bookings/${b.id}?${kind === 'move' ? 'moved' : 'paid'}=1`,
 			cancel_url: `${origin}/bookings/${b.id}`,
 			expires_at: Math.floor((row!.expiresAt ?? expiresAt).getTime() / 1000)
 		};

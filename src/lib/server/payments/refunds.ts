@@ -261,7 +261,7 @@ export async function retryFailedRefunds(
 			if (!failed.paymentId) continue;
 			const amount = Math.min(failed.amount, state.refundable.get(failed.paymentId) ?? 0);
 			if (amount <= 0) continue;
-			const reason = failed.reason as 'cancellation' | 'slot_unavailable' | 'cancelled_before_payment' | 'duplicate';
+			const reason = failed.reason as 'cancellation' | 'slot_unavailable' | 'cancelled_before_payment' | 'duplicate' | 'move';
 			await queueRefund(tx, after, { booking: b, payment: { id: failed.paymentId }, amount, reason, requestedBy: actor.id });
 			n++;
 		}

@@ -33,6 +33,7 @@ import type Stripe from 'stripe';
 import { formatMoney, fromStripeAmount, toStripeAmount } from '$lib/domain/money';
 import { awaitsDeposit } from '$lib/domain/lifecycle';
 import { isUuid } from '$lib/uuid';
+import { moveArrived, moveUnpaid } from '../bookings/move';
 
 export async function auditTx(tx: Tx, action: string, bookingId: string, data: unknown, actorId: string | null = null) {
 	await tx.insert(auditLog).values({
@@ -173,6 +174,7 @@ async function markPaid(
 		.where(eq(payment.id, p.id))
 		.returning();
 	await auditTx(tx, `payment.${p.kind}.paid`, b.id, { paymentId: p.id, amount: p.amount, session: session.id });
+	if (p.kind === 'move') return moveArrived(tx, b, paid!, after);
 	return p.kind === 'deposit' ? depositArrived(tx, b, paid!, after) : balanceArrived(tx, b, paid!, after);
 }
 
@@ -314,6 +316,8 @@ async function markEnded(
 ): Promise<string> {
 	if (p.status === 'paid' || p.status === 'failed' || p.status === 'expired') return `already_${p.status}`;
 	await tx.update(payment).set({ status, failureReason: reason }).where(eq(payment.id, p.id));
+	// A move whose payment did not come is given up; the booking keeps its slot.
+	if (p.kind === 'move') await moveUnpaid(tx, b, p);
 	if (p.kind === 'deposit' && awaitsDeposit(b.status)) {
 		const live = (await paymentsOf(tx, b.id)).some((x) => x.id !== p.id && isLiveDeposit(x));
 		if (!live) {
@@ -330,7 +334,7 @@ export interface QueueRefund {
 	booking: Pick<BookingRow, 'id' | 'studioId' | 'currency'>;
 	payment: Pick<PaymentRow, 'id'>;
 	amount: number;
-	reason: 'cancellation' | 'slot_unavailable' | 'cancelled_before_payment' | 'duplicate';
+	reason: 'cancellation' | 'slot_unavailable' | 'cancelled_before_payment' | 'duplicate' | 'move';
 	requestedBy?: string | null;
 }
 

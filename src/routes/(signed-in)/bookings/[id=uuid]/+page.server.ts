@@ -14,9 +14,14 @@ import { localDateOf, wallClock } from '$lib/domain/time';
 import type { Role } from '$lib/roles';
 import { formText, readFormData } from '$lib/server/api';
 import { holdGone } from '$lib/domain/lifecycle';
+import * as moves from '$lib/server/bookings/move';
+import { moveTerms } from '$lib/domain/move';
+import { listRooms } from '$lib/server/studio';
+import { CheckoutError, startCheckout } from '$lib/server/payments/checkout';
+import type { SessionUser } from '$lib/server/auth';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async ({ locals, params }) => {
+export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const me = requireUser(locals);
 	const b = await bookings.getForViewer(me, params.id);
 	// Another artist's booking, or another studio's, is a 404, not a 403: its existence is not theirs to know.
@@ -66,6 +71,7 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 			calendarHref: `${studioPath(slug, 'calendar')}?room=${encodeURIComponent(b.roomSlug)}&date=${at.date}`
 		};
 	}
+	const move = await moveSection(me, b, url.searchParams, now);
 	const quote: QuoteView = {
 		currency: q.currency,
 		pricesIncludeVat: q.pricesIncludeVat,
@@ -100,6 +106,7 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		},
 		quote,
 		rebook,
+		move,
 		money,
 		moneyUnavailable,
 		// The session's scheduled e-mails, sent or still to come; those no longer wanted are left out.
@@ -135,6 +142,83 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 		showDetails: role !== 'accountant'
 	};
 };
+
+/**
+ * "Move this session", for the artist of the booking and its studio's owner while it is confirmed
+ * and ahead: the moving policy in words, a move waiting for its payment, and the outcome of the
+ * time asked for in the address (?moveDate=&moveStart=&moveEnd=&moveRoom=&moveEngineer=), priced
+ * by the server before anyone confirms.
+ */
+async function moveSection(me: SessionUser, b: bookings.BookingDetail, q: URLSearchParams, now: Date) {
+	const role = b.viewerRole;
+	const mayMove = role === 'owner' || (role === 'artist' && b.artistId === me.id);
+	const waiting = mayMove ? await moves.waitingMove(b.id) : null;
+	if (!mayMove || (b.status !== 'confirmed' && !waiting)) return null;
+	const { studio: s } = await bookings.pricingContext(b.studioId);
+	const policy = { freeHours: s.moveFreeHours, minHours: s.moveMinHours, fee: s.moveFee };
+	const terms = moveTerms({
+		mover: role === 'owner' ? 'owner' : 'artist',
+		own: b.artistId === me.id,
+		status: b.status,
+		startsAt: b.startsAt,
+		now,
+		policy
+	});
+	const tz = s.timeZone;
+	const at = wallClock(b.startsAt, tz);
+	const endAt = wallClock(b.endsAt, tz);
+	const asked = {
+		date: q.get('moveDate') ?? '',
+		start: q.get('moveStart') ?? '',
+		end: q.get('moveEnd') ?? '',
+		room: q.get('moveRoom') ?? b.roomSlug,
+		engineer: q.get('moveEngineer') ?? (b.engineerId ? 'yes' : 'no')
+	};
+	let outcome = null;
+	let problem: { message: string; fields?: Record<string, string[]> } | null = null;
+	if (asked.date && asked.start && asked.end) {
+		const previewed = await moves.previewMove(me, b.id, moveInput(asked, role === 'owner'), now);
+		if (previewed.ok) outcome = previewed.body;
+		else problem = { message: previewed.message, fields: 'fields' in previewed ? previewed.fields : undefined };
+	}
+	const rooms = role === 'owner' ? (await listRooms(b.studioId)).map((r) => ({ slug: r.slug, name: r.name })) : [];
+	return {
+		mover: role === 'owner' ? ('owner' as const) : ('artist' as const),
+		policy,
+		terms,
+		current: { date: at.date, start: at.time, end: endAt.time },
+		asked,
+		outcome,
+		problem,
+		rooms,
+		waiting: waiting
+			? {
+					startsAt: waiting.m.toStartsAt,
+					endsAt: waiting.m.toEndsAt,
+					roomName: waiting.roomName,
+					amount: waiting.m.settlement,
+					checkoutUrl: waiting.paymentStatus === 'open' ? waiting.checkoutUrl : null
+				}
+			: null
+	};
+}
+
+/** The move form's fields as the move API's request: the artist moves the time, the owner also the room and engineer. */
+function moveInput(f: Record<string, unknown>, owner: boolean) {
+	const text = (k: string) => (typeof f[k] === 'string' ? f[k] : '');
+	const date = text('date') || text('moveDate');
+	const endDate = text('endDate') || date;
+	return {
+		start: `${date}T${text('start') || text('moveStart')}`,
+		end: `${endDate}T${text('end') || text('moveEnd')}`,
+		...(owner
+			? {
+					room: text('room') || text('moveRoom') || undefined,
+					engineer: (text('engineer') || text('moveEngineer')) === 'no' ? false : undefined
+				}
+			: {})
+	};
+}
 
 /** Back to the list each role may open: every link on the page leads somewhere its viewer may go. */
 function backLink(role: Role, day: string, accountsDay: string): { href: string; label: string } {
@@ -206,6 +290,42 @@ export const actions: Actions = {
 			backWith(params.id, `close-${outcome.code}`);
 		}
 		backWith(params.id, 'closed');
+	},
+	/** Moves the session to the time (and, for the owner, room and engineer) of the form: at once, or to Checkout for the difference. */
+	move: async ({ request, locals, params, url }) => {
+		const me = requireUser(locals);
+		const body = await formOf(request);
+		const found = await bookings.getRow(me, params.id);
+		if (!found) refuse(404, 'not_found', 'No such booking.');
+		const owner = found.as.role === 'owner';
+		let outcome: Awaited<ReturnType<typeof moves.moveBooking>>;
+		try {
+			outcome = await moves.moveBooking(me, params.id, moveInput(body, owner), { origin: url.origin });
+		} catch (e) {
+			if (e instanceof CheckoutError) redirect(303, `/bookings/${params.id}#move`);
+			throw e;
+		}
+		if (!outcome.ok) {
+			if (outcome.status === 403 || outcome.status === 404) refuse(outcome.status, outcome.code, outcome.message);
+			return fail(outcome.status, {
+				move: {
+					message: outcome.message,
+					nearestStarts: 'nearestStarts' in outcome ? (outcome.nearestStarts ?? []) : [],
+					fields: 'fields' in outcome ? outcome.fields : {}
+				}
+			});
+		}
+		if (outcome.state === 'awaiting_payment') redirect(303, outcome.body.checkoutUrl as string);
+		redirect(303, `/bookings/${params.id}?moved=1#move`);
+	},
+	/** Pays for the move waiting for its payment: its Checkout again. */
+	payMove: async ({ request, locals, params, url }) => {
+		const me = requireUser(locals);
+		await formOf(request);
+		const found = await bookings.getRow(me, params.id);
+		if (!found || (found.as.role !== 'owner' && found.booking.artistId !== me.id)) refuse(404, 'not_found', 'No such booking.');
+		const checkout = await startCheckout(params.id, 'move', url.origin).catch(() => null);
+		redirect(303, checkout?.url ?? `/bookings/${params.id}#move`);
 	},
 	/** A file for the session, posted as multipart/form-data and stored as it streams in. */
 	upload: async ({ request, locals, params, getClientAddress }) => {

@@ -10,6 +10,7 @@ import { formText, readFormData } from '$lib/server/api';
 import { blockRateFindings, surchargeFindings } from '$lib/schemas/rate-card';
 import { isEuMemberState } from '$lib/domain/vat-treatment';
 import { normaliseReminderHours, REMINDER_CHOICES } from '$lib/domain/messages';
+import { toDecimalString } from '$lib/domain/money';
 import {
 	engineerRates,
 	policyValuesFrom,
@@ -70,6 +71,11 @@ export const load: PageServerLoad = async ({ locals }) => {
 			hours: normaliseReminderHours(studio.reminderHours),
 			directions: studio.directions,
 			loadInNotes: studio.loadInNotes
+		},
+		movePolicy: {
+			freeHours: studio.moveFreeHours,
+			minHours: studio.moveMinHours,
+			fee: toDecimalString(studio.moveFee, studio.currency)
 		},
 		reverseCharge: {
 			on: studio.reverseChargeAbroad,
@@ -158,6 +164,22 @@ export const actions: Actions = {
 				text: changed.length ? 'Saved. Reminders of upcoming sessions follow it from now on.' : 'Nothing had changed.'
 			}
 		};
+	},
+
+	movePolicy: async ({ request, locals, getClientAddress }) => {
+		requireRole(locals, 'owner');
+		const { currency } = await staffStudio(locals);
+		const fd = await readFormData(request);
+		if (!fd) return fail(400, { movePolicy: { state: 'error' as const, fields: {} } });
+		const typed = {
+			freeHours: formText(fd.get('moveFreeHours')),
+			minHours: formText(fd.get('moveMinHours')),
+			fee: formText(fd.get('moveFee'))
+		};
+		const read = settings.readMovePolicy(typed, currency);
+		if (!read.ok) return fail(422, { movePolicy: { state: 'error' as const, fields: read.fields, typed } });
+		const changed = await settings.setMovePolicy(staffActor(locals, getClientAddress()), read.values);
+		return { movePolicy: { state: changed ? ('saved' as const) : ('unchanged' as const), fields: {} as Record<string, string> } };
 	},
 
 	unpublish: async ({ request, locals, getClientAddress }) => {
