@@ -48,6 +48,7 @@ import { auditTx, queueRefund } from '../payments/state';
 import { expireSession, startCheckout } from '../payments/checkout';
 import { issueDepositInvoice } from '../invoices/documents';
 import { queueMoveFailed, queueMoveNotice } from '../mail';
+import { syncBookingMessagesQuietly } from '../messages';
 import { nearestStarts } from './availability';
 import { pricingContext, type PricingContext } from './context';
 import { occupying } from './occupancy';
@@ -578,6 +579,8 @@ export async function moveBooking(
 				actor.id
 			);
 			await queueMoveNotice(tx, b.id, placed.sequence);
+			// The reminders follow the new start (and the balance request the new end).
+			after.push(() => syncBookingMessagesQuietly(b.id));
 			return { ok: true, moveId: m!.id };
 		}
 	);
@@ -631,6 +634,7 @@ export async function moveArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: A
 		m.requestedBy
 	);
 	await queueMoveNotice(tx, b.id, placed.sequence);
+	after.push(() => syncBookingMessagesQuietly(b.id));
 	return 'move_applied';
 }
 
