@@ -15,7 +15,8 @@ import { APP_URL, DEMO } from '../support/env';
 import { testDb } from '../support/db';
 import { waitFor } from '../support/wait';
 import { moveIntoPast } from '../support/started';
-import { workdaysAhead } from '../support/dates';
+import { workdaysAhead, ymdInZone } from '../support/dates';
+import ical from 'node-ical';
 import { expectRefused } from '../support/refusal';
 import { bookAndPay, type Held } from '../support/booking';
 import { joinTeam, mailTo, makeStudio, userIdOf, type TestStudio } from '../support/team';
@@ -154,6 +155,30 @@ describe('recording that nobody came, at the demo studio', () => {
 		expect(page).toContain('data-status="no_show"');
 		expect(page).toContain('Nobody came');
 		expect(page).not.toContain('data-testid="no-show"');
+	});
+
+	it('shows on the day plan as "Nobody came", and the engineers’ feed marks it cancelled', async () => {
+		const row = await bookingRow(b.id);
+		const day = ymdInZone(row.startsAt);
+		const plan = (await (await engineer.fetch(`/api/studios/hollow-pine/plan?date=${day}`)).json()) as {
+			rooms: { slug: string; sessions: { id: string; status: string }[] }[];
+		};
+		const listed = plan.rooms.flatMap((r) => r.sessions).find((s) => s.id === b.id);
+		expect(listed?.status).toBe('no_show');
+		const planPage = await engineer.fetch(`/plan?date=${day}`).then((r) => r.text());
+		expect(planPage).toMatch(/data-testid="plan-status"[^>]*>Nobody came</);
+
+		// The feed reaches a month back; the session was moved back a few weeks at most.
+		expect(Date.now() - row.startsAt.getTime()).toBeLessThan(31 * 86_400_000);
+		expect((await engineer.form('/plan?/feed', {})).status).toBe(200);
+		const [feed] = await db
+			.select({ token: t.calendarFeed.token })
+			.from(t.calendarFeed)
+			.where(eq(t.calendarFeed.userId, await userIdOf(db, DEMO.engineer)));
+		const text = await fetch(`${APP_URL}/feed/${feed!.token}/sessions.ics`).then((r) => r.text());
+		const event = Object.values(ical.sync.parseICS(text)).find((c): c is ical.VEvent => c?.type === 'VEVENT' && c.uid === b.id);
+		expect(event?.status).toBe('CANCELLED');
+		expect(event?.summary).toMatch(/\(nobody came\)$/);
 	});
 
 	it('keeps the slot: nobody can book that time again after the fact', async () => {
