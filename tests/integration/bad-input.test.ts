@@ -213,10 +213,11 @@ describe('the booking form posted without JavaScript with a date or start that i
 });
 
 describe('an id that is not a UUID', () => {
-	it('is a 404 on cancel, close and cancel/retry, as on every other [id] route', async () => {
+	it('is a 404 on cancel, close, no-show and cancel/retry, as on every other [id] route', async () => {
 		for (const [who, path] of [
 			[artist, '/api/bookings/not-a-uuid/cancel'],
 			[engineer, '/api/bookings/not-a-uuid/close'],
+			[engineer, '/api/bookings/not-a-uuid/no-show'],
 			[owner, '/api/bookings/not-a-uuid/cancel/retry'],
 			[owner, '/api/bookings/1234/cancel'],
 			[artist, `/api/bookings/${artistBooking.id}x/cancel`]

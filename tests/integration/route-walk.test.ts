@@ -237,6 +237,7 @@ const ENTRIES: Record<string, Entry> = {
 	'/api/bookings/[id=uuid]/cancel/retry': { path: (b) => `/api/bookings/${b.booking}/cancel/retry`, into: true },
 	'/api/bookings/[id=uuid]/cancellation': { path: (b) => `/api/bookings/${b.booking}/cancellation`, into: true },
 	'/api/bookings/[id=uuid]/close': { path: (b) => `/api/bookings/${b.booking}/close`, into: true },
+	'/api/bookings/[id=uuid]/no-show': { path: (b) => `/api/bookings/${b.booking}/no-show`, into: true },
 	'/api/bookings/[id=uuid]/pay': { path: (b) => `/api/bookings/${b.booking}/pay`, into: true },
 	'/api/bookings/[id=uuid]/uploads': {
 		path: (b) => `/api/bookings/${b.booking}/uploads`,

@@ -14,8 +14,11 @@ import {
 	holdLive,
 	isBookingStatus,
 	isCancellable,
+	noShowPolicyMoment,
+	noShowRefusal,
 	statusesBefore
 } from './lifecycle';
+import { refundForCancellation } from './pricing';
 
 const start = new Date('2027-03-02T08:00:00Z');
 
@@ -37,6 +40,50 @@ describe('closing a session', () => {
 		for (const status of ['held', 'pending', 'cancelled', 'expired', 'completed', 'no_show']) {
 			expect(closeRefusal({ status, startsAt: start }, later)?.code).toBe('not_confirmed');
 		}
+	});
+});
+
+describe('recording that nobody came', () => {
+	it('is refused before the start, saying when it opens, and allowed from the start on', () => {
+		expect(noShowRefusal({ status: 'confirmed', startsAt: start }, new Date(start.getTime() - 1))).toMatchObject({
+			code: 'not_started',
+			opensAt: start
+		});
+		expect(noShowRefusal({ status: 'confirmed', startsAt: start }, start)).toBeNull();
+		expect(noShowRefusal({ status: 'confirmed', startsAt: start }, new Date(start.getTime() + 30 * 86_400_000))).toBeNull();
+	});
+
+	it('needs a confirmed booking, whatever the time', () => {
+		const later = new Date(start.getTime() + 3_600_000);
+		for (const status of BOOKING_STATUSES.filter((s) => s !== 'confirmed')) {
+			expect(noShowRefusal({ status, startsAt: start }, later)?.code, status).toBe('not_confirmed');
+		}
+	});
+
+	it('is a move only a confirmed booking makes, and nothing follows it', () => {
+		expect(statusesBefore('no_show')).toEqual(['confirmed']);
+		for (const to of BOOKING_STATUSES) expect(canMove('no_show', to)).toBe(false);
+	});
+
+	it('keeps the slot taken: a no-show occupies its time like a completed session', () => {
+		expect(OCCUPYING_STATUSES).toContain('no_show');
+		expect(isCancellable('no_show')).toBe(false);
+		expect(hasEnded('no_show')).toBe(false);
+	});
+
+	it('reads the cancellation ladder at zero notice, whenever it is recorded', () => {
+		const policy = {
+			cancellation: [
+				{ minNoticeHours: 48, refundBp: 5000 },
+				{ minNoticeHours: 0, refundBp: 2000 }
+			]
+		};
+		const at = noShowPolicyMoment({ startsAt: start });
+		expect(at).toEqual(start);
+		// 20 % of a 100.00 deposit: the last rung, although it is recorded a day late.
+		expect(refundForCancellation({ paid: 10_000, deposit: 10_000, bookingStart: start, cancelledAt: at, policy }).refund).toBe(
+			2000
+		);
 	});
 });
 

@@ -127,3 +127,34 @@ export function closeRefusal(b: Closable, now: Date): CloseRefusal | null {
 	}
 	return null;
 }
+
+export type NoShowRefusal = { code: 'not_confirmed'; message: string } | { code: 'not_started'; message: string; opensAt: Date };
+
+/**
+ * Whether "nobody came" may be recorded now; null when it may. Like the end of a session, only on
+ * a confirmed booking and only once its start has passed (the database's trigger refuses a
+ * no-show before the start too): before that, the artist may still turn up.
+ */
+export function noShowRefusal(b: Closable, now: Date): NoShowRefusal | null {
+	if (b.status !== 'confirmed') {
+		return { code: 'not_confirmed', message: 'Only a confirmed booking (deposit paid) can be marked as “nobody came”.' };
+	}
+	if (now.getTime() < b.startsAt.getTime()) {
+		return {
+			code: 'not_started',
+			message: 'The session has not started yet: that nobody came can be recorded once its start has passed.',
+			opensAt: b.startsAt
+		};
+	}
+	return null;
+}
+
+/**
+ * When a no-show is recorded, the deposit is treated as a cancellation with no notice at all: the
+ * cancellation ladder is read at the session's start (0 hours' notice), so its last rung (the one
+ * for the least notice) decides what, if anything, goes back. The moment it was recorded does not
+ * count: recording it late does not take away what the ladder gives.
+ */
+export function noShowPolicyMoment(b: Pick<Closable, 'startsAt'>): Date {
+	return b.startsAt;
+}

@@ -58,7 +58,7 @@ export async function feedFor(token: string, now = new Date()): Promise<string |
 					booking.studioId,
 					studios.map((s) => s.id)
 				),
-				inArray(booking.status, ['pending', 'confirmed', 'completed', 'cancelled']),
+				inArray(booking.status, ['pending', 'confirmed', 'completed', 'no_show', 'cancelled']),
 				gte(booking.startsAt, new Date(now.getTime() - PAST_DAYS * 86_400_000)),
 				lt(booking.startsAt, new Date(now.getTime() + AHEAD_DAYS * 86_400_000))
 			)
@@ -88,7 +88,7 @@ export async function feedFor(token: string, now = new Date()): Promise<string |
 			// UTC times (RFC 5545 §3.3.5 form 2): no VTIMEZONE needed, the same instant on any device.
 			start: b.startsAt,
 			end: b.endsAt,
-			summary: `${roomName}: ${artist}${b.status === 'cancelled' ? ' (cancelled)' : ''}`,
+			summary: `${roomName}: ${artist}${b.status === 'cancelled' ? ' (cancelled)' : b.status === 'no_show' ? ' (nobody came)' : ''}`,
 			description: [
 				`Booking ${b.reference}`,
 				b.project ? `Project: ${b.project}` : null,
@@ -99,8 +99,10 @@ export async function feedFor(token: string, now = new Date()): Promise<string |
 				.join('\n'),
 			location: several ? `${roomName}, ${studioName}` : roomName,
 			// RFC 5545 §3.8.1.11: a cancelled session stays in the feed as CANCELLED, so calendars drop it.
+			// A no-show too: the event was CONFIRMED in the feed until then, and a session nobody came
+			// to is not one to show as having taken place; the same UID marked CANCELLED replaces it.
 			status:
-				b.status === 'cancelled'
+				b.status === 'cancelled' || b.status === 'no_show'
 					? ICalEventStatus.CANCELLED
 					: b.status === 'pending'
 						? ICalEventStatus.TENTATIVE

@@ -10,7 +10,11 @@ import { isoInZone, localDateOf, localDayBounds } from '$lib/domain/time';
 import { summariesFor } from './uploads';
 import { isStudioDate } from '$lib/schemas/input';
 
-export const PLAN_STATUSES = ['pending', 'confirmed', 'completed'] as const;
+/**
+ * The sessions a day plan shows: those ahead, those held, and a no-show too, so that the plan of a
+ * past day says what happened in each room (its tag reads "Nobody came").
+ */
+export const PLAN_STATUSES = ['pending', 'confirmed', 'completed', 'no_show'] as const;
 
 /** A day the plan can show: a real calendar date (2027-02-30 is not one) within the calendar's years. */
 export function isPlanDate(date: string): boolean {

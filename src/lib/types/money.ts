@@ -86,6 +86,11 @@ export interface MoneyPanelData {
 			open: boolean;
 			gear: { id: string; name: string; booked: boolean; hireFee: number }[];
 		} | null;
+		/**
+		 * Recording that nobody came (owner, engineer), offered once the session's start has passed:
+		 * what the cancellation terms at zero notice give back (`refund`) and keep (`keeps`).
+		 */
+		noShow: { refund: number; keeps: number; rule: string } | null;
 		retryRefunds: boolean;
 	};
 }

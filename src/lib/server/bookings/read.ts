@@ -199,6 +199,7 @@ export async function getForViewer(actor: SessionUser, id: string) {
 			actualEndsAt: booking.actualEndsAt,
 			cancelledAt: booking.cancelledAt,
 			cancelReason: booking.cancelReason,
+			noShowAt: booking.noShowAt,
 			sequence: booking.sequence,
 			studio: {
 				slug: organization.slug,

@@ -2,7 +2,7 @@
 // transaction that confirms or cancels it (payments/state.ts and payments/refunds.ts call these),
 // and its invitations into the team; the periodic jobs (src/lib/server/jobs.ts) send what is queued.
 import { and, eq } from 'drizzle-orm';
-import { booking, bookingGear, gearItem, room, studio, user } from '../db/schema';
+import { booking, bookingGear, gearItem, organization, room, studio, user } from '../db/schema';
 import type { CancellationFact } from '../payments/refunds';
 import type { Tx } from '../payments/core';
 import { composeCancellation, composeConfirmation, type ConfirmationFacts } from './confirmation';
@@ -10,6 +10,8 @@ import { enqueueMail, flushSoon } from './outbox';
 import { publicOrigin } from './transport';
 import { composeInvitation } from './invitation';
 import { composeMoved, composeMoveFailed } from './move';
+import { composeNoShow } from './no-show';
+import { studioPath } from '$lib/studio-paths';
 import { db } from '../db';
 import { getStudio } from '../studio';
 import type { Role } from '$lib/roles';
@@ -143,6 +145,34 @@ export async function queueMoveFailed(tx: Tx, bookingId: string, moveId: string,
 	await enqueueMail(tx, {
 		studioId: facts.studioId,
 		dedupeKey: `booking-move-failed:${moveId}`,
+		to: facts.artistEmail,
+		subject: mail.subject,
+		text: mail.text
+	});
+	flushSoon();
+}
+
+/**
+ * Queues the note that nobody came, inside the transaction that records it: what the cancellation
+ * terms at zero notice do with the deposit, and where to book again. Once per booking.
+ */
+export async function queueNoShow(
+	tx: Tx,
+	fact: { bookingId: string; refund: number; retained: number; rule: string }
+): Promise<void> {
+	const facts = await bookingFacts(tx, fact.bookingId);
+	if (!facts) return;
+	const [org] = await tx.select({ slug: organization.slug }).from(organization).where(eq(organization.id, facts.studioId));
+	const mail = composeNoShow({
+		...facts,
+		refund: fact.refund,
+		retained: fact.retained,
+		rule: fact.rule,
+		bookAgainUrl: `${publicOrigin()}${studioPath(org?.slug ?? '', 'book')}`
+	});
+	await enqueueMail(tx, {
+		studioId: facts.studioId,
+		dedupeKey: `booking-no-show:${fact.bookingId}`,
 		to: facts.artistEmail,
 		subject: mail.subject,
 		text: mail.text

@@ -12,6 +12,7 @@ export { startCheckout, CheckoutError, PaymentsNotReadyError, PAYMENTS_NOT_READY
 export { loadMoneyPanel } from './panel';
 export { cancelBooking, previewCancellation, retryFailedRefunds, cancelAccess, type CancellationFact } from './refunds';
 export { closeBooking } from './close';
+export { recordNoShow, mayRecordNoShow, type NoShowOutcome } from './no-show';
 export { cancel, pay, payable, type MoneyRefusal } from './actions';
 export { processStripeEvent } from './webhook';
 export { receiveWebhook } from './receive';

@@ -6,14 +6,15 @@
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from '../db';
 import { booking, bookingGear, gearItem, invoice } from '../db/schema';
-import { getStudio } from '../studio';
+import { getPolicy, getStudio } from '../studio';
 import { actorAt } from '../bookings/read';
 import type { SessionUser } from '../auth';
 import { loadMoneyState } from './core';
 import { unresolvedFailures } from './state';
 import { cancelAccess, previewCancellation } from './refunds';
 import { documentKindLabel, payableTotal } from '$lib/domain/invoice';
-import { closeRefusal, holdLive, isCancellable } from '$lib/domain/lifecycle';
+import { closeRefusal, holdLive, isCancellable, noShowPolicyMoment, noShowRefusal } from '$lib/domain/lifecycle';
+import { refundForCancellation } from '$lib/domain/pricing';
 import { wallDateTime } from '$lib/domain/time';
 import type { MoneyPanelData } from '$lib/types/money';
 
@@ -83,6 +84,20 @@ export async function loadMoneyPanel(
 		};
 	}
 
+	// "Nobody came": for those who record the end, once the start has passed (the same rule the server applies).
+	let noShow: MoneyPanelData['actions']['noShow'] = null;
+	if ((isOwner || viewer.role === 'engineer') && noShowRefusal(row, now) === null) {
+		const { policy } = await getPolicy(row.studioId);
+		const r = refundForCancellation({
+			paid: state.held,
+			deposit: row.deposit,
+			bookingStart: row.startsAt,
+			cancelledAt: noShowPolicyMoment(row),
+			policy
+		});
+		noShow = { refund: r.refund, keeps: r.retained, rule: r.rungLabel };
+	}
+
 	return {
 		bookingId: row.id,
 		status: row.status,
@@ -150,6 +165,7 @@ export async function loadMoneyPanel(
 					}
 				: null,
 			recordEnd,
+			noShow,
 			retryRefunds: isOwner && unresolved.size > 0
 		}
 	};

@@ -193,7 +193,7 @@ async function revive(tx: Tx, bookingId: string, status: 'confirmed' | 'pending'
 
 async function depositArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: AfterCommit): Promise<string> {
 	const otherPaid = (await paymentsOf(tx, b.id)).some((x) => x.kind === 'deposit' && x.status === 'paid' && x.id !== p.id);
-	if (otherPaid || b.status === 'confirmed' || b.status === 'completed') {
+	if (otherPaid || b.status === 'confirmed' || b.status === 'completed' || b.status === 'no_show') {
 		await queueRefund(tx, after, { booking: b, payment: p, amount: p.amount, reason: 'duplicate' });
 		return 'refunded_duplicate';
 	}

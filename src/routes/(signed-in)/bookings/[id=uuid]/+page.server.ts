@@ -101,6 +101,7 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 			billedTo: bookings.billedTo(b),
 			cancelledAt: b.cancelledAt,
 			cancelReason: b.cancelReason,
+			noShowAt: b.noShowAt,
 			durationMinutes: q.durationMinutes,
 			gear: b.gear.map((g) => ({ id: g.id, name: g.name, category: g.category, hireFee: g.hireFee, caution: g.caution }))
 		},
@@ -326,6 +327,17 @@ export const actions: Actions = {
 		if (!found || (found.as.role !== 'owner' && found.booking.artistId !== me.id)) refuse(404, 'not_found', 'No such booking.');
 		const checkout = await startCheckout(params.id, 'move', url.origin).catch(() => null);
 		redirect(303, checkout?.url ?? `/bookings/${params.id}#move`);
+	},
+	/** The owner or an engineer records that nobody came, after the confirm step on the panel. */
+	noShow: async ({ request, locals, params }) => {
+		const me = requireUser(locals);
+		await formOf(request);
+		const outcome = await payments.recordNoShow(me, params.id);
+		if (!outcome.ok) {
+			if (outcome.status === 403 || outcome.status === 404) refuse(outcome.status, outcome.code, outcome.message);
+			backWith(params.id, `no-show-${outcome.code}`);
+		}
+		backWith(params.id, 'no-show');
 	},
 	/** A file for the session, posted as multipart/form-data and stored as it streams in. */
 	upload: async ({ request, locals, params, getClientAddress }) => {
