@@ -21,6 +21,7 @@ import { inTransaction, loadMoneyState, lockBooking, setBookingStatus, type Book
 import { auditTx, queueRefund } from './state';
 import { expireSession } from './checkout';
 import { queueNoShow } from '../mail';
+import { syncBookingMessagesQuietly } from '../messages';
 import { refundForCancellation } from '$lib/domain/pricing';
 import { noShowPolicyMoment, noShowRefusal } from '$lib/domain/lifecycle';
 
@@ -119,6 +120,8 @@ export async function recordNoShow(actor: SessionUser, bookingId: string, now = 
 			}
 		}
 		await queueNoShow(tx, { bookingId: b.id, refund: r.refund, retained: r.retained, rule: r.rungLabel });
+		// No reminder or balance request is wanted any more (those not sent are cancelled).
+		after.push(() => syncBookingMessagesQuietly(b.id));
 		await auditTx(tx, 'booking.no_show', b.id, { refund: r.refund, retained: r.retained, rule: r.rungLabel }, actor.id);
 		const [updated] = await tx.select().from(booking).where(eq(booking.id, b.id));
 		return {
