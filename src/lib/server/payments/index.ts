@@ -14,5 +14,6 @@ export { cancelBooking, previewCancellation, retryFailedRefunds, cancelAccess, t
 export { closeBooking } from './close';
 export { cancel, pay, payable, type MoneyRefusal } from './actions';
 export { processStripeEvent } from './webhook';
+export { recordPayment, reversePayment, recordedEntries, moneyFigures } from './recorded';
 export { receiveWebhook } from './receive';
 export type { MoneyPanelData } from '$lib/types/money';

@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import * as bookings from '$lib/server/bookings';
 import { apiError } from '$lib/server/api';
+import { moneyFigures } from '$lib/server/payments/recorded';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, params }) => {
@@ -10,5 +11,7 @@ export const GET: RequestHandler = async ({ locals, params }) => {
 	if (!b) return apiError(404, 'not_found', 'No such booking.');
 	// `billing`: whom it is billed to (null: the artist's name alone), for all but its engineers.
 	const billing = bookings.billedTo(b);
-	return json({ ...bookings.bookingJson(b, b.studio), ...(billing === undefined ? {} : { billing }) });
+	// `money`: paid by card, recorded by hand, refunded, invoiced and still owed; `recordedPayments`: the entries.
+	const money = await moneyFigures(b);
+	return json({ ...bookings.bookingJson(b, b.studio), ...(billing === undefined ? {} : { billing }), ...money });
 };
