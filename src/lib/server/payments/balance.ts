@@ -48,9 +48,10 @@ export async function owedOn(tx: Pick<Tx, 'select'>, b: Pick<BookingRow, 'id' | 
 	let shortfall: number;
 	if (final) {
 		const deposits = (await prepaidOf(tx, b.id)).amount;
+		// Card payments of the balance, less what went back of them (an overpayment refunded).
 		const cardBalance = state.payments
 			.filter((p) => p.kind === 'balance' && p.status === 'paid')
-			.reduce((s, p) => s + p.amount, 0);
+			.reduce((s, p) => s + (state.refundable.get(p.id) ?? p.amount), 0);
 		shortfall = amountOwed({ final: { payable: payableTotal(final), deposits }, cardBalance, recorded: recordedTotal });
 	} else {
 		shortfall = amountOwed({ final: null, total: b.total, held: state.held, recorded: recordedTotal });
