@@ -43,6 +43,20 @@ export interface MoneyPanelDocument {
 	pdfUrl: string | null;
 }
 
+/** A payment the owner recorded by hand (cash, bank transfer), or its reversal (a negative amount). */
+export interface MoneyPanelRecorded {
+	id: string;
+	amount: number;
+	/** 'cash' or 'bank_transfer' */
+	method: string;
+	/** 'YYYY-MM-DD' in the studio's calendar. */
+	paidOn: string;
+	note: string;
+	reversesId: string | null;
+	reason: string | null;
+	reversed: boolean;
+}
+
 /** What the booking page shows about money: payments, refunds, documents and what the viewer may do. */
 export interface MoneyPanelData {
 	bookingId: string;
@@ -57,13 +71,17 @@ export interface MoneyPanelData {
 	paid: number;
 	refunded: number;
 	held: number;
+	/** Σ payments recorded by hand, less their reversals. */
+	recordedTotal: number;
 	/** From the final invoice once the session is closed. */
 	invoicedTotal: number | null;
+	/** Still owed: once the final invoice is issued, or before it once a payment was recorded by hand. */
 	balanceDue: number | null;
 	/** A delayed deposit payment is on its way. */
 	awaitingPayment: boolean;
 	payments: MoneyPanelPayment[];
 	refunds: MoneyPanelRefund[];
+	recorded: MoneyPanelRecorded[];
 	invoices: MoneyPanelDocument[];
 	actions: {
 		/** checkoutUrl: the open Checkout page, when one is ready. */
@@ -92,5 +110,9 @@ export interface MoneyPanelData {
 		 */
 		noShow: { refund: number; keeps: number; rule: string } | null;
 		retryRefunds: boolean;
+		/** The owner records a payment taken outside Checkout: at most `owed`, on a day from `earliest` to `today`. */
+		recordPayment: { owed: number; today: string; earliest: string } | null;
+		/** The owner reverses a recorded payment. */
+		reverseRecorded: boolean;
 	};
 }

@@ -3,7 +3,18 @@
 // bookings, its accountant those in its accounts; staff of one studio see nothing of another's.
 import { and, asc, desc, eq, gte, inArray, lt, sql } from 'drizzle-orm';
 import { db } from '../db';
-import { booking, bookingGear, gearItem, invoice, organization, payment, room, studio, user } from '../db/schema';
+import {
+	booking,
+	bookingGear,
+	gearItem,
+	invoice,
+	organization,
+	payment,
+	recordedPayment,
+	room,
+	studio,
+	user
+} from '../db/schema';
 import type { SessionUser } from '../auth';
 import type { Role } from '$lib/roles';
 import { roleIn } from '../team';
@@ -168,19 +179,20 @@ export async function getRow(actor: SessionUser, id: string): Promise<{ booking:
 }
 
 /**
- * Whether a booking appears in the accounts: it has a document, or money paid or on its way. The accountant reads
+ * Whether a booking appears in the accounts: it has a document, money paid or on its way, or a payment recorded by hand. The accountant reads
  * those bookings (the references in the month lead to them), and no others.
  */
 async function inTheAccounts(bookingId: string): Promise<boolean> {
-	const [documents, payments] = await Promise.all([
+	const [documents, payments, recorded] = await Promise.all([
 		db.select({ id: invoice.id }).from(invoice).where(eq(invoice.bookingId, bookingId)).limit(1),
 		db
 			.select({ id: payment.id })
 			.from(payment)
 			.where(and(eq(payment.bookingId, bookingId), inArray(payment.status, ['paid', 'processing'])))
-			.limit(1)
+			.limit(1),
+		db.select({ id: recordedPayment.id }).from(recordedPayment).where(eq(recordedPayment.bookingId, bookingId)).limit(1)
 	]);
-	return documents.length > 0 || payments.length > 0;
+	return documents.length > 0 || payments.length > 0 || recorded.length > 0;
 }
 
 /**

@@ -5,7 +5,8 @@
 //   Article 65 makes VAT chargeable on a payment on account when it is received;
 // - final invoice, code 380, when the session is closed: every line of the quote plus overtime
 //   and gear added on the day, the deposit shown as paid (EN 16931 BT-113) and referred to
-//   (BT-25), amount due = gross − paid + rounding (BR-CO-16);
+//   (BT-25), with the payments the owner recorded before it (cash, bank transfer) counted in the
+//   paid amount too, amount due = gross − paid + rounding (BR-CO-16);
 // - credit note, code 381, when a refund has gone through: positive amounts (the type says they
 //   are credited), referring to the invoice it corrects (BT-25; Article 219).
 //
@@ -19,7 +20,7 @@
 // a reverse-charged booking's deposit invoice, final invoice and credit notes carry no VAT,
 // category AE, and say "Reverse charge" (Directive 2006/112/EC, Article 226(11a)).
 import { and, eq, inArray } from 'drizzle-orm';
-import { booking, invoice, payment, refund, room, studio, user } from '../db/schema';
+import { booking, invoice, payment, recordedPayment, refund, room, studio, user } from '../db/schema';
 import { findBySource, issueDocument, type InvoiceRow, type Party, type Tx } from './issue';
 import {
 	DOCUMENT_TYPE,
@@ -33,9 +34,10 @@ import {
 	type VatRow
 } from '$lib/domain/invoice';
 import type { PriceLine, Quote } from '$lib/domain/pricing';
-import { formatDate, formatTimes, localDateOf } from '$lib/domain/time';
+import { formatCalendarDate, formatDate, formatTimes, localDateOf } from '$lib/domain/time';
 import { formatMoney } from '$lib/domain/money';
 import type { BillingDetails } from '$lib/domain/billing';
+import { methodLabel, RECEIVED_BEFORE_INVOICE, recordedNet } from '$lib/domain/recorded-payments';
 import { REVERSE_CHARGE_WORDS, treatmentOf, type VatTreatment } from '$lib/domain/vat-treatment';
 
 type StudioRow = typeof studio.$inferSelect;
@@ -173,7 +175,7 @@ export async function issueDepositInvoice(tx: Tx, input: { paymentId: string; is
 }
 
 /** Deposit invoices of a booking and what is left of them after credit notes: the prepaid amount and its VAT. */
-async function prepaidOf(tx: Tx, bookingId: string) {
+export async function prepaidOf(tx: Pick<Tx, 'select'>, bookingId: string) {
 	const docs = await tx
 		.select()
 		.from(invoice)
@@ -226,6 +228,15 @@ export async function issueFinalInvoice(tx: Tx, input: FinalInvoiceInput): Promi
 	const s = b.studio;
 	const tz = s.timeZone;
 	const prepaid = await prepaidOf(tx, b.id);
+	// Payments the owner recorded so far (the caller holds the booking's row lock, so none comes in
+	// meanwhile). They are not VAT events of their own: the VAT of the whole supply is on this
+	// invoice, and the money received only lowers what is due, as paid amount (EN 16931 BT-113).
+	const recorded = await tx
+		.select()
+		.from(recordedPayment)
+		.where(eq(recordedPayment.bookingId, input.bookingId))
+		.orderBy(recordedPayment.createdAt);
+	const recordedPaid = recordedNet(recorded);
 	const lines: DocumentLineInput[] = linesFromPriceLines([
 		...b.quote.lines,
 		...(input.overtimeLines ?? []),
@@ -234,9 +245,20 @@ export async function issueFinalInvoice(tx: Tx, input: FinalInvoiceInput): Promi
 	const totals = documentTotals(lines, {
 		currency: b.currency,
 		amountsIncludeVat: b.quote.pricesIncludeVat,
-		prepaid: prepaid.amount,
+		prepaid: prepaid.amount + recordedPaid,
 		vatCategory: categoryOf(b.vatTreatment)
 	});
+	const reversed = new Set(recorded.map((r) => r.reversesId).filter(Boolean));
+	const kept = recorded.filter((r) => r.amount > 0 && !reversed.has(r.id));
+	const recordedWords =
+		recordedPaid > 0
+			? `${RECEIVED_BEFORE_INVOICE}: ${kept
+					.map(
+						(r) =>
+							`${methodLabel(r.method).toLowerCase()} ${formatMoney(r.amount, r.currency)} on ${formatCalendarDate(r.paidOn, { day: 'numeric', month: 'long', year: 'numeric' })}`
+					)
+					.join(', ')}; counted as paid. `
+			: '';
 	const depositWords = prepaid.deposits.length
 		? `Paid on account: ${prepaid.deposits.map((d) => `${d.displayNumber} (${formatMoney(payableTotal(d), d.currency)})`).join(', ')}; ` +
 			'the VAT on it was declared on that deposit invoice. '
@@ -256,7 +278,7 @@ export async function issueFinalInvoice(tx: Tx, input: FinalInvoiceInput): Promi
 		prepaidVat: prepaid.vat,
 		note:
 			(b.vatTreatment === 'reverse-charge' ? REVERSE_CHARGE_NOTE : '') +
-			`Session: ${sessionWords(b, tz)}. ${depositWords}Amount due: ${formatMoney(totals.amountDue, b.currency)}.`
+			`Session: ${sessionWords(b, tz)}. ${depositWords}${recordedWords}Amount due: ${formatMoney(totals.amountDue, b.currency)}.`
 	});
 	return row;
 }

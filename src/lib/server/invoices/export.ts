@@ -3,7 +3,9 @@
 // document's PDF and EN 16931 e-invoice (ubl.ts). The documents register names each buyer with
 // their VAT ID and country when the document has them; the VAT register has a row per category
 // and rate, reverse charge apart. Amounts are exact decimal text in the currency's ISO 4217 minor unit; credit
-// notes and refunds count negatively, so each amount column adds up to the month's figure.
+// notes and refunds count negatively, so each amount column adds up to the month's figure. The
+// payments register has a row per Checkout payment, per payment recorded by hand and per reversal
+// of one (negative), with its method and note or reason.
 import { zipSync, strToU8 } from 'fflate';
 import { toDecimalString } from '$lib/domain/money';
 import { localDateOf } from '$lib/domain/time';
@@ -43,12 +45,15 @@ export function monthRegisters(report: MonthReport, timeZone: string): Record<st
 		{ header: 'Currency', kind: 'text', value: (d) => d.currency }
 	];
 	const payments: CsvColumn<Pay>[] = [
-		{ header: 'Paid on', kind: 'date', value: (p) => localDateOf(p.paidAt, timeZone) },
+		{ header: 'Paid on', kind: 'date', value: (p) => p.paidOn },
 		{ header: 'Booking', kind: 'text', value: (p) => p.bookingReference },
 		{ header: 'Artist', kind: 'text', value: (p) => p.artist },
 		{ header: 'For', kind: 'text', value: (p) => p.kind },
+		// card (Checkout), cash or bank_transfer (recorded by the owner); a reversal is negative.
+		{ header: 'Method', kind: 'text', value: (p) => p.method },
 		{ header: 'Amount', kind: 'number', value: (p) => amount(p.amount) },
-		{ header: 'Currency', kind: 'text', value: (p) => p.currency }
+		{ header: 'Currency', kind: 'text', value: (p) => p.currency },
+		{ header: 'Note', kind: 'text', value: (p) => p.note }
 	];
 	const refunds: CsvColumn<Ref>[] = [
 		{ header: 'Created on', kind: 'date', value: (r) => localDateOf(r.createdAt, timeZone) },

@@ -1,9 +1,11 @@
 // A month of the books, for the accountant and the owner: the documents issued in it, the
-// payments received and refunds made in it, what is still owed, refunds that failed, and VAT by
+// payments received in it (through Checkout, and those the owner recorded by hand with their
+// reversals) and refunds made in it, what is still owed, refunds that failed, and VAT by
 // category and rate (ledger.ts: reverse charge apart). Months are calendar months in the studio's zone.
 import { and, asc, eq, gte, inArray, lt } from 'drizzle-orm';
 import { db } from '../db';
-import { booking, invoice, payment, refund, user } from '../db/schema';
+import { booking, invoice, payment, recordedPayment, refund, user } from '../db/schema';
+import { owedOn } from '../payments/balance';
 import { documentKindLabel, payableTotal, vatLedger, type LedgerRow } from '$lib/domain/invoice';
 import { unresolvedFailures } from '../payments/state';
 import type { Party } from './issue';
@@ -53,14 +55,27 @@ export interface MonthReport {
 		currency: string;
 		pdfUrl: string;
 	}[];
+	/**
+	 * Money received: Checkout payments by the day Stripe took them, and payments the owner
+	 * recorded by hand (cash, bank transfer) by their day paid, each reversal a row of its own with
+	 * a negative amount (by the day it was recorded), so the amounts add up to `totals.received`.
+	 */
 	payments: {
 		id: string;
 		bookingId: string;
 		bookingReference: string;
 		artist: string;
+		/** 'deposit', 'balance' (Checkout), 'recorded' (by hand) or 'reversal'. */
 		kind: string;
+		/** 'card', 'cash' or 'bank_transfer'. */
+		method: string;
 		amount: number;
+		/** The instant for a Checkout payment; noon of the day paid (studio time) for a recorded one. */
 		paidAt: string;
+		/** The day paid in the studio's calendar, 'YYYY-MM-DD'. */
+		paidOn: string;
+		/** A recorded payment's note, or a reversal's reason. */
+		note: string;
 		currency: string;
 	}[];
 	refunds: {
@@ -90,7 +105,17 @@ export interface MonthReport {
 	}[];
 	vatByRate: LedgerRow[];
 	/** invoiced: final invoices (380); deposits: deposit invoices (386, deducted again on the 380s); credited: credit notes (381). */
-	totals: { invoiced: number; deposits: number; credited: number; received: number; refunded: number; owed: number; vat: number };
+	/** received: every row of `payments`; recorded: the part recorded by hand (less reversals). */
+	totals: {
+		invoiced: number;
+		deposits: number;
+		credited: number;
+		received: number;
+		recorded: number;
+		refunded: number;
+		owed: number;
+		vat: number;
+	};
 }
 
 type RefundWithBooking = { r: typeof refund.$inferSelect; reference: string; artist: string };
@@ -133,51 +158,39 @@ export async function unresolvedFailedRefunds(studioId: string): Promise<MonthRe
 	return rows.filter((x) => unresolved.has(x.r.id)).map(refundRow);
 }
 
-/** Final invoices issued before `to` whose balance is not paid (as of now). */
+/** Final invoices issued before `to` whose balance is not paid (as of now): payments/balance.ts decides what is owed. */
 export async function outstandingBalances(studioId: string, to: Date): Promise<MonthReport['outstanding']> {
 	const finals = await db
-		.select({ doc: invoice, reference: booking.reference, artist: user.name })
+		.select({ doc: invoice, reference: booking.reference, artist: user.name, total: booking.total })
 		.from(invoice)
 		.innerJoin(booking, eq(booking.id, invoice.bookingId))
 		.innerJoin(user, eq(user.id, booking.artistId))
 		.where(and(eq(invoice.studioId, studioId), eq(invoice.typeCode, 380), lt(invoice.issuedAt, to)));
-	const balancePaid = finals.length
-		? await db
-				.select({ bookingId: payment.bookingId, amount: payment.amount })
-				.from(payment)
-				.where(
-					and(
-						eq(payment.studioId, studioId),
-						eq(payment.kind, 'balance'),
-						eq(payment.status, 'paid'),
-						inArray(
-							payment.bookingId,
-							finals.map((f) => f.doc.bookingId!)
-						)
-					)
-				)
-		: [];
-	return finals
-		.map((f) => {
-			const got = balancePaid.filter((p) => p.bookingId === f.doc.bookingId).reduce((s, p) => s + p.amount, 0);
-			return {
-				bookingId: f.doc.bookingId!,
-				bookingReference: f.reference,
-				artist: f.artist,
-				invoiceNumber: f.doc.displayNumber,
-				amountDue: f.doc.amountDue,
-				paid: got,
-				owed: f.doc.amountDue - got,
-				currency: f.doc.currency
-			};
-		})
-		.filter((o) => o.owed > 0);
+	const rows: MonthReport['outstanding'] = [];
+	for (const f of finals) {
+		const { owed } = await owedOn(db, { id: f.doc.bookingId!, total: f.total });
+		if (owed <= 0) continue;
+		rows.push({
+			bookingId: f.doc.bookingId!,
+			bookingReference: f.reference,
+			artist: f.artist,
+			invoiceNumber: f.doc.displayNumber,
+			amountDue: f.doc.amountDue,
+			paid: Math.max(0, f.doc.amountDue - owed),
+			owed,
+			currency: f.doc.currency
+		});
+	}
+	return rows;
 }
 
 /** A studio's month: its documents, payments and refunds, and what is still to resolve. */
 export async function monthReport(studioId: string, month: string, timeZone: string, currency: string): Promise<MonthReport> {
 	const { from, to } = monthRange(month, timeZone);
-	const [docs, paid, refunds, failedRefunds, outstanding] = await Promise.all([
+	// Recorded payments are dated by calendar day, so the month is its days.
+	const fromDay = `${month}-01`;
+	const toDay = `${addMonths(month, 1)}-01`;
+	const [docs, paid, refunds, failedRefunds, outstanding, recorded] = await Promise.all([
 		db
 			.select({ doc: invoice, reference: booking.reference })
 			.from(invoice)
@@ -199,7 +212,14 @@ export async function monthReport(studioId: string, month: string, timeZone: str
 			.where(and(eq(refund.studioId, studioId), gte(refund.createdAt, from), lt(refund.createdAt, to)))
 			.orderBy(asc(refund.createdAt)),
 		unresolvedFailedRefunds(studioId),
-		outstandingBalances(studioId, to)
+		outstandingBalances(studioId, to),
+		db
+			.select({ r: recordedPayment, reference: booking.reference, artist: user.name })
+			.from(recordedPayment)
+			.innerJoin(booking, eq(booking.id, recordedPayment.bookingId))
+			.innerJoin(user, eq(user.id, booking.artistId))
+			.where(and(eq(recordedPayment.studioId, studioId), gte(recordedPayment.paidOn, fromDay), lt(recordedPayment.paidOn, toDay)))
+			.orderBy(asc(recordedPayment.paidOn), asc(recordedPayment.createdAt))
 	]);
 	const byId = new Map(docs.map((d) => [d.doc.id, d.doc.displayNumber]));
 	const precedingIds = docs.map((d) => d.doc.precedingInvoiceId).filter((x): x is string => !!x && !byId.has(x));
@@ -241,20 +261,39 @@ export async function monthReport(studioId: string, month: string, timeZone: str
 		docs.map(({ doc: d }) => ({ typeCode: d.typeCode, vat: d.vatBreakdown, prepaidVat: d.prepaidVatBreakdown }))
 	);
 	const refundRows = refunds.map(refundRow);
-	return {
-		month,
-		currency,
-		documents,
-		payments: paid.map(({ p, reference, artist }) => ({
+	const payments: MonthReport['payments'] = [
+		...paid.map(({ p, reference, artist }) => ({
 			id: p.id,
 			bookingId: p.bookingId,
 			bookingReference: reference,
 			artist,
 			kind: p.kind,
+			method: 'card',
 			amount: p.amount,
 			paidAt: p.paidAt!.toISOString(),
+			paidOn: localDateOf(p.paidAt!, timeZone),
+			note: '',
 			currency: p.currency
 		})),
+		...recorded.map(({ r, reference, artist }) => ({
+			id: r.id,
+			bookingId: r.bookingId,
+			bookingReference: reference,
+			artist,
+			kind: r.reversesId ? 'reversal' : 'recorded',
+			method: r.method,
+			amount: r.amount,
+			paidAt: localToInstant(r.paidOn, 12 * 60, timeZone).instant.toISOString(),
+			paidOn: r.paidOn,
+			note: r.reason ?? r.note,
+			currency: r.currency
+		}))
+	].sort((a, b) => (a.paidOn < b.paidOn ? -1 : a.paidOn > b.paidOn ? 1 : a.paidAt.localeCompare(b.paidAt)));
+	return {
+		month,
+		currency,
+		documents,
+		payments,
 		refunds: refundRows,
 		failedRefunds,
 		outstanding,
@@ -263,7 +302,8 @@ export async function monthReport(studioId: string, month: string, timeZone: str
 			invoiced: documents.filter((d) => d.typeCode === 380).reduce((s, d) => s + d.total, 0),
 			deposits: documents.filter((d) => d.typeCode === 386).reduce((s, d) => s + d.total, 0),
 			credited: documents.filter((d) => d.typeCode === 381).reduce((s, d) => s + d.total, 0),
-			received: paid.reduce((s, x) => s + x.p.amount, 0),
+			received: payments.reduce((s, x) => s + x.amount, 0),
+			recorded: recorded.reduce((s, x) => s + x.r.amount, 0),
 			refunded: refundRows.filter((r) => r.status === 'succeeded').reduce((s, r) => s + r.amount, 0),
 			owed: outstanding.reduce((s, o) => s + o.owed, 0),
 			vat: vatByRate.reduce((s, r) => s + r.vat, 0)

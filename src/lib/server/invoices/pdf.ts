@@ -14,6 +14,7 @@ import { invoiceFonts } from './fonts';
 import { basisPointsToPercent, formatMoney } from '$lib/domain/money';
 import { payableTotal, vatCategoryOf } from '$lib/domain/invoice';
 import { REVERSE_CHARGE_WORDS } from '$lib/domain/vat-treatment';
+import { RECEIVED_BEFORE_INVOICE } from '$lib/domain/recorded-payments';
 import { formatCalendarDate, localDateOf } from '$lib/domain/time';
 import { postalLines } from '$lib/domain/setup';
 
@@ -242,7 +243,15 @@ export function renderInvoicePdf(input: PdfInput): Promise<Buffer> {
 	y = top;
 	const tx = left + width * 0.5;
 	const tw = right - tx;
-	const paidLabel = inv.typeCode === 381 ? 'Refunded' : inv.typeCode === 386 ? 'Paid on account' : 'Deposit paid (deducted)';
+	// A final invoice deducts its deposit, and any payment recorded before it (its note lists them).
+	const paidLabel =
+		inv.typeCode === 381
+			? 'Refunded'
+			: inv.typeCode === 386
+				? 'Paid on account'
+				: inv.note.includes(RECEIVED_BEFORE_INVOICE)
+					? 'Paid before this invoice (deducted)'
+					: 'Deposit paid (deducted)';
 	const rows: [string, string, boolean][] = [
 		['Sum of lines excl. VAT', money(inv.lineNetTotal), false],
 		['Taxable amount', money(inv.net), false],

@@ -18,7 +18,8 @@ import { enqueueMail, flushSoon } from '../mail/outbox';
 import { publicOrigin } from '../mail/transport';
 import { summariesFor } from '../uploads';
 import { MESSAGE_QUEUE, queue } from '../queue';
-import type { Tx } from '../payments/core';
+import type { BookingRow, Tx } from '../payments/core';
+import { owedOn } from '../payments/balance';
 import {
 	BALANCE_REQUEST_KEY,
 	MAX_REMINDER_HOURS,
@@ -39,23 +40,27 @@ export interface MessageJob {
 }
 
 /**
- * What is still to pay on a booking after its final invoice: the invoice's amount due, less the
- * balance paid through Checkout and the payments the owner recorded (a reversal is a negative
- * entry); null before that invoice. The one place the scheduled messages read a balance from.
+ * What is still to pay on a booking after its final invoice, as the money panel reads it
+ * (payments/balance.ts `owedOn`); null before that invoice. The one place the scheduled messages
+ * read a balance from.
  */
-function balanceOwedSql(bookingId: unknown) {
-	return sql<number | null>`(
-		select greatest(0, i.amount_due
-			- coalesce((select sum(p.amount) from payment p where p.booking_id = i.booking_id and p.kind = 'balance' and p.status = 'paid'), 0)
-			- coalesce((select sum(r.amount) from recorded_payment r where r.booking_id = i.booking_id), 0))::int
-		from invoice i where i.source_key = 'final:' || ${bookingId}::text
-	)`;
+async function balanceOwed(tx: Tx, b: BookingRow): Promise<number | null> {
+	const owed = await owedOn(tx, b);
+	return owed.final ? owed.owed : null;
 }
 
-async function balanceOwed(tx: Pick<Tx, 'execute'>, bookingId: string): Promise<number | null> {
-	const rows = await tx.execute<{ owed: number | null }>(sql`select ${balanceOwedSql(bookingId)} as owed`);
-	const owed = rows[0]?.owed;
-	return owed === null || owed === undefined ? null : Number(owed);
+/**
+ * A cheap first sift for the sweep, in SQL: a final invoice whose amount due is not yet met by the
+ * balance paid by card and the payments recorded after it (those recorded before are already
+ * deducted on it). The sync then decides with `owedOn`.
+ */
+function mayOweSql(bookingId: unknown) {
+	return sql<boolean>`exists (
+		select 1 from invoice i where i.source_key = 'final:' || ${bookingId}::text
+			and i.amount_due
+				- coalesce((select sum(p.amount) from payment p where p.booking_id = i.booking_id and p.kind = 'balance' and p.status = 'paid'), 0)
+				- coalesce((select sum(r.amount) from recorded_payment r where r.booking_id = i.booking_id and r.created_at > i.issued_at), 0) > 0
+	)`;
 }
 
 const singletonKey = (id: string, dueAt: Date) => `${id}:${dueAt.toISOString()}`;
@@ -103,7 +108,7 @@ export async function syncBookingMessages(bookingId: string, now = new Date()): 
 				startsAt: b.startsAt,
 				endsAt: b.endsAt,
 				actualEndsAt: b.actualEndsAt,
-				balanceOwed: b.status === 'completed' ? await balanceOwed(tx, b.id) : null
+				balanceOwed: b.status === 'completed' ? await balanceOwed(tx, b) : null
 			},
 			row.hours,
 			now,
@@ -220,7 +225,7 @@ export async function deliverMessage(job: MessageJob, now = new Date()): Promise
 			.for('update', { of: booking });
 		if (!row) return 'skipped';
 		const { b } = row;
-		const owed = b.status === 'completed' ? await balanceOwed(tx, b.id) : null;
+		const owed = b.status === 'completed' ? await balanceOwed(tx, b) : null;
 		const state = { status: b.status, startsAt: b.startsAt, endsAt: b.endsAt, actualEndsAt: b.actualEndsAt, balanceOwed: owed };
 		if (PLANNED_KINDS.includes(kind) && !stillWanted({ kind, key: m.key, dueAt: m.dueAt }, state, row.hours, now)) {
 			await tx.update(scheduledMessage).set({ cancelledAt: now }).where(eq(scheduledMessage.id, m.id));
@@ -300,7 +305,7 @@ export async function sweepMessages(now = new Date()): Promise<void> {
 		select b.id from booking b
 		where b.status = 'completed'
 			and coalesce(b.actual_ends_at, b.ends_at) > ${nowTs}::timestamptz - interval '30 days'
-			and ${balanceOwedSql(sql`b.id`)} > 0
+			and ${mayOweSql(sql`b.id`)}
 			and not exists (
 				select 1 from scheduled_message m
 				where m.booking_id = b.id and m.key = ${BALANCE_REQUEST_KEY} and (m.sent_at is not null or m.cancelled_at is null)

@@ -22,6 +22,7 @@ import type Stripe from 'stripe';
 import { db } from '../db';
 import { booking, bookingMove, invoice, payment, room, studio, user } from '../db/schema';
 import { inTransaction, lockBooking, paymentsOf, type PaymentRow } from './core';
+import { owedOn } from './balance';
 import { refreshAccountState } from './accounts';
 import { onAccount, stripe } from './stripe';
 import { isExactStripeAmount, toStripeAmount } from '$lib/domain/money';
@@ -107,12 +108,10 @@ async function prepare(bookingId: string, kind: CheckoutKind, origin: string, no
 		} else {
 			if (b.status !== 'completed')
 				throw new CheckoutError('not_payable', 'The balance is due once the session has been closed.');
-			const [final] = await tx
-				.select()
-				.from(invoice)
-				.where(eq(invoice.sourceKey, `final:${b.id}`));
-			const paid = mine.filter((p) => p.status === 'paid').reduce((s, p) => s + p.amount, 0);
-			amount = (final?.amountDue ?? 0) - paid;
+			// Only what is still owed: the final invoice less card payments of the balance and what
+			// the owner recorded by hand (cash, bank transfer).
+			const { final, owed } = await owedOn(tx, b);
+			amount = final ? owed : 0;
 			if (amount <= 0) throw new CheckoutError('nothing_due', 'Nothing is due on this booking.');
 			if (mine.some((p) => p.status === 'processing'))
 				throw new CheckoutError('not_payable', 'A payment of the balance is on its way.');

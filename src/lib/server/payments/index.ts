@@ -15,5 +15,6 @@ export { closeBooking } from './close';
 export { recordNoShow, mayRecordNoShow, type NoShowOutcome } from './no-show';
 export { cancel, pay, payable, type MoneyRefusal } from './actions';
 export { processStripeEvent } from './webhook';
+export { recordPayment, reversePayment, recordedEntries, moneyFigures } from './recorded';
 export { receiveWebhook } from './receive';
 export type { MoneyPanelData } from '$lib/types/money';

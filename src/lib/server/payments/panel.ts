@@ -2,20 +2,23 @@
 // sees their own booking's payments, refunds and documents; the owner also sees why a refund
 // failed and may try it again; the owner and engineers record the end of a session. Engineers see
 // the money (they read bookings with their price) and which documents exist, but not the
-// documents themselves (those are for the artist, the owner and the accountant).
+// documents themselves (those are for the artist, the owner and the accountant). Payments recorded
+// by hand are lines everyone who sees the panel sees; only the owner records and reverses them.
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from '../db';
 import { booking, bookingGear, gearItem, invoice } from '../db/schema';
 import { getPolicy, getStudio } from '../studio';
 import { actorAt } from '../bookings/read';
 import type { SessionUser } from '../auth';
-import { loadMoneyState } from './core';
+import { owedOn } from './balance';
+import { entryView } from './recorded';
 import { unresolvedFailures } from './state';
 import { cancelAccess, previewCancellation } from './refunds';
 import { documentKindLabel, payableTotal } from '$lib/domain/invoice';
 import { closeRefusal, holdLive, isCancellable, noShowPolicyMoment, noShowRefusal } from '$lib/domain/lifecycle';
 import { refundForCancellation } from '$lib/domain/pricing';
-import { wallDateTime } from '$lib/domain/time';
+import { localDateOf, wallDateTime } from '$lib/domain/time';
+import { acceptsRecordedPayment } from '$lib/domain/recorded-payments';
 import type { MoneyPanelData } from '$lib/types/money';
 
 const OPEN_LINK_MARGIN_MS = 60_000;
@@ -31,21 +34,25 @@ export async function loadMoneyPanel(
 	const isArtist = viewer.role === 'artist';
 	if (isArtist && row.artistId !== viewer.id) return null;
 	const now = new Date();
-	const [studioRow, state, docs] = await Promise.all([
+	const [studioRow, owing, docs] = await Promise.all([
 		getStudio(row.studioId),
-		loadMoneyState(db, row.id),
+		owedOn(db, row),
 		db.select().from(invoice).where(eq(invoice.bookingId, row.id)).orderBy(asc(invoice.issuedAt))
 	]);
+	const { state } = owing;
 	const isOwner = viewer.role === 'owner';
 	// The same rule as the PDF route (invoices/access.ts): the booking's artist, the owner and the
 	// accountant open documents; an engineer sees that they exist, not a link that would answer 403.
 	const mayOpenDocuments = isOwner || viewer.role === 'accountant' || (isArtist && row.artistId === viewer.id);
 	const mayPay = isOwner || (isArtist && row.artistId === viewer.id);
 	const final = docs.find((d) => d.typeCode === 380);
-	const paidBalance = state.payments.filter((p) => p.kind === 'balance' && p.status === 'paid').reduce((s, p) => s + p.amount, 0);
-	// The one balance of a booking: its final invoice's amount due, less what was paid against it;
-	// none before that invoice, and none to pay on a cancelled booking.
-	const balanceDue = final && row.status !== 'cancelled' ? Math.max(0, final.amountDue - paidBalance) : null;
+	// The one balance of a booking (payments/balance.ts): its final invoice less what was paid
+	// against it by card or recorded by hand; before that invoice only once a payment was recorded
+	// by hand (the quote's balance stands until then), and none to pay on a cancelled booking.
+	const balanceDue =
+		row.status !== 'cancelled' && (final || (owing.recorded.length > 0 && acceptsRecordedPayment(row.status)))
+			? owing.owed
+			: null;
 	const unresolved = new Set(unresolvedFailures(state.refunds).map((r) => r.id));
 	const openLink = (kind: 'deposit' | 'balance') => {
 		const open = state.payments
@@ -109,6 +116,7 @@ export async function loadMoneyPanel(
 		paid: state.paid,
 		refunded: state.refunded,
 		held: state.held,
+		recordedTotal: owing.recordedTotal,
 		invoicedTotal: final ? payableTotal(final) : null,
 		balanceDue,
 		awaitingPayment: state.payments.some((p) => p.kind === 'deposit' && p.status === 'processing'),
@@ -132,6 +140,19 @@ export async function loadMoneyPanel(
 			unresolved: unresolved.has(r.id),
 			createdAt: r.createdAt.toISOString()
 		})),
+		recorded: owing.recorded.map((r) => {
+			const v = entryView(r, owing.recorded);
+			return {
+				id: v.id,
+				amount: v.amount,
+				method: v.method,
+				paidOn: v.paidOn,
+				note: v.note,
+				reversesId: v.reversesId,
+				reason: v.reason,
+				reversed: v.reversed
+			};
+		}),
 		invoices: docs.map((d) => ({
 			id: d.id,
 			number: d.displayNumber,
@@ -166,7 +187,16 @@ export async function loadMoneyPanel(
 				: null,
 			recordEnd,
 			noShow,
-			retryRefunds: isOwner && unresolved.size > 0
+			retryRefunds: isOwner && unresolved.size > 0,
+			recordPayment:
+				isOwner && acceptsRecordedPayment(row.status) && owing.owed > 0
+					? {
+							owed: owing.owed,
+							today: localDateOf(now, studioRow.timeZone),
+							earliest: localDateOf(row.createdAt, studioRow.timeZone)
+						}
+					: null,
+			reverseRecorded: isOwner
 		}
 	};
 }

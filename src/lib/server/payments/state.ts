@@ -10,7 +10,7 @@
 //   was taken, the booking was cancelled, or a deposit was already paid) is refunded in full,
 //   automatically. Whether a freed slot is still free is for the exclusion constraints to say.
 import { and, eq, isNull, sql } from 'drizzle-orm';
-import { auditLog, booking, invoice, payment, refund } from '../db/schema';
+import { auditLog, booking, invoice, payment, refund, studio } from '../db/schema';
 import { issueCreditNote, issueDepositInvoice } from '../invoices/documents';
 import {
 	isLiveDeposit,
@@ -27,6 +27,8 @@ import {
 } from './core';
 import { queueConfirmation } from '../mail';
 import { syncBookingMessagesQuietly } from '../messages';
+import { queueReceipt } from '../mail/receipt';
+import { owedOn } from './balance';
 import { sendRefund } from './refunds';
 import { expireAndReconcile } from './jobs';
 import type Stripe from 'stripe';
@@ -34,6 +36,7 @@ import { formatMoney, fromStripeAmount, toStripeAmount } from '$lib/domain/money
 import { awaitsDeposit } from '$lib/domain/lifecycle';
 import { isUuid } from '$lib/uuid';
 import { moveArrived, moveUnpaid } from '../bookings/move';
+import { localDateOf } from '$lib/domain/time';
 
 export async function auditTx(tx: Tx, action: string, bookingId: string, data: unknown, actorId: string | null = null) {
 	await tx.insert(auditLog).values({
@@ -174,8 +177,23 @@ async function markPaid(
 		.where(eq(payment.id, p.id))
 		.returning();
 	await auditTx(tx, `payment.${p.kind}.paid`, b.id, { paymentId: p.id, amount: p.amount, session: session.id });
-	if (p.kind === 'move') return moveArrived(tx, b, paid!, after);
-	return p.kind === 'deposit' ? depositArrived(tx, b, paid!, after) : balanceArrived(tx, b, paid!, after);
+	const outcome = await (p.kind === 'move'
+		? moveArrived(tx, b, paid!, after)
+		: p.kind === 'deposit'
+			? depositArrived(tx, b, paid!, after)
+			: balanceArrived(tx, b, paid!, after));
+	// Every payment that becomes paid gets its receipt, once (keyed by the payment; this point is
+	// reached once per payment, and the key holds however often the webhook comes). Money that
+	// goes straight back is refunded by its own flow; the receipt still says what came in.
+	const [studioRow] = await tx.select({ timeZone: studio.timeZone }).from(studio).where(eq(studio.id, b.studioId));
+	await queueReceipt(tx, {
+		bookingId: b.id,
+		paymentId: p.id,
+		amount: p.amount,
+		method: 'card',
+		paidOn: localDateOf(paidAt, studioRow?.timeZone ?? 'UTC')
+	});
+	return outcome;
 }
 
 /** Tries to put a freed booking back in the calendar; false when its slot has gone (SQLSTATE 23P01). */
@@ -257,7 +275,9 @@ async function balanceArrived(tx: Tx, b: BookingRow, p: PaymentRow, after: After
 		.reduce((s, x) => s + x.amount, 0);
 	// A balance request not yet sent is no longer wanted once the balance is paid.
 	after.push(() => syncBookingMessagesQuietly(b.id));
-	const over = paidBalance - (final?.amountDue ?? 0);
+	// Paid beyond the final invoice: by card twice, or by card while the owner recorded cash at the
+	// desk. What is over goes back to the card.
+	const over = final ? -(await owedOn(tx, b)).shortfall : paidBalance;
 	if (over > 0) {
 		await queueRefund(tx, after, { booking: b, payment: p, amount: Math.min(over, p.amount), reason: 'duplicate' });
 		return 'refunded_overpayment';

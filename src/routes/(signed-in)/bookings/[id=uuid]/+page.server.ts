@@ -19,6 +19,11 @@ import { moveTerms } from '$lib/domain/move';
 import { listRooms } from '$lib/server/studio';
 import { CheckoutError, startCheckout } from '$lib/server/payments/checkout';
 import type { SessionUser } from '$lib/server/auth';
+import { message, setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { recordPaymentSchema, type RecordPaymentForm } from '$lib/schemas/recorded-payment';
+import { parseMoney, toDecimalString } from '$lib/domain/money';
+import type { MoneyPanelData } from '$lib/types/money';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
@@ -84,6 +89,7 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		vatTreatment: q.vatTreatment
 	};
 	return {
+		recordForm: await recordFormFor(money),
 		booking: {
 			id: b.id,
 			reference: b.reference,
@@ -221,6 +227,21 @@ function moveInput(f: Record<string, unknown>, owner: boolean) {
 	};
 }
 
+type RecordNote = { kind: 'saved' | 'error'; text: string };
+
+/** The owner's "Record a payment" form, filled with what is owed and today; null for anyone else. */
+async function recordFormFor(money: MoneyPanelData | null) {
+	const offer = money?.actions.recordPayment;
+	if (!money || !offer) return null;
+	return superValidate<RecordPaymentForm, RecordNote>(
+		{ amount: toDecimalString(offer.owed, money.currency), method: 'cash', paidOn: offer.today, note: '' },
+		zod4(recordPaymentSchema(money.currency)),
+		{ id: RECORD_FORM_ID, errors: false }
+	);
+}
+
+const RECORD_FORM_ID = 'record-payment';
+
 /** Back to the list each role may open: every link on the page leads somewhere its viewer may go. */
 function backLink(role: Role, day: string, accountsDay: string): { href: string; label: string } {
 	switch (role) {
@@ -338,6 +359,38 @@ export const actions: Actions = {
 			backWith(params.id, `no-show-${outcome.code}`);
 		}
 		backWith(params.id, 'no-show');
+	},
+	/** The owner records a payment taken outside Checkout (cash, bank transfer). */
+	record: async ({ request, locals, params }) => {
+		const me = requireUser(locals);
+		const found = await bookings.getForViewer(me, params.id);
+		if (!found) refuse(404, 'not_found', 'No such booking.');
+		const schema = recordPaymentSchema(found.currency);
+		const form = await superValidate<RecordPaymentForm, RecordNote>(request, zod4(schema), { id: RECORD_FORM_ID });
+		if (!form.valid) return message(form, { kind: 'error', text: 'Not recorded: check the marked fields.' }, { status: 422 });
+		const parsed = parseMoney(form.data.amount, found.currency);
+		if (!parsed.ok) return setError(form, 'amount', 'Enter an amount, e.g. 45.00.', { status: 422 });
+		const outcome = await payments.recordPayment(me, params.id, { ...form.data, amount: parsed.value });
+		if (!outcome.ok) {
+			if (outcome.status === 403 || outcome.status === 404) refuse(outcome.status, outcome.code, outcome.message);
+			for (const [field, messages] of Object.entries(outcome.fields ?? {})) {
+				if (field === 'amount' || field === 'paidOn' || field === 'method' || field === 'note') setError(form, field, messages);
+			}
+			return message(form, { kind: 'error', text: outcome.message }, { status: outcome.status });
+		}
+		backWith(params.id, 'recorded');
+	},
+	/** The owner reverses a recorded payment, giving a reason. */
+	reverse: async ({ request, locals, params }) => {
+		const me = requireUser(locals);
+		const body = await formOf(request);
+		const recordedId = typeof body.recordedId === 'string' ? body.recordedId : '';
+		const outcome = await payments.reversePayment(me, params.id, recordedId, { reason: body.reason ?? '' });
+		if (!outcome.ok) {
+			if (outcome.status === 403 || outcome.status === 404) refuse(outcome.status, outcome.code, outcome.message);
+			backWith(params.id, outcome.status === 422 ? 'reverse-reason' : 'reverse-refused');
+		}
+		backWith(params.id, 'reversed');
 	},
 	/** A file for the session, posted as multipart/form-data and stored as it streams in. */
 	upload: async ({ request, locals, params, getClientAddress }) => {

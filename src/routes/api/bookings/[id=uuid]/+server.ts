@@ -3,6 +3,7 @@ import * as bookings from '$lib/server/bookings';
 import { apiError } from '$lib/server/api';
 import { messagesOf } from '$lib/server/messages';
 import { isoInZone } from '$lib/domain/time';
+import { moneyFigures } from '$lib/server/payments/recorded';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ locals, params }) => {
@@ -22,5 +23,7 @@ export const GET: RequestHandler = async ({ locals, params }) => {
 		sentAt: at(m.sentAt),
 		cancelledAt: at(m.cancelledAt)
 	}));
-	return json({ ...bookings.bookingJson(b, b.studio), ...(billing === undefined ? {} : { billing }), messages });
+	// `money`: paid by card, recorded by hand, refunded, invoiced and still owed; `recordedPayments`: the entries.
+	const money = await moneyFigures(b);
+	return json({ ...bookings.bookingJson(b, b.studio), ...(billing === undefined ? {} : { billing }), ...money, messages });
 };
