@@ -148,7 +148,9 @@ describe('recording that nobody came, at the demo studio', () => {
 		const close = await owner.json(`/api/bookings/${b.id}/close`, { actualEnd: b.end });
 		expect(close.status).toBe(409);
 		expect(await close.json()).toMatchObject({ error: 'not_confirmed' });
-		expect((await owner.json(`/api/bookings/${b.id}/cancel`, {})).status).toBe(409);
+		const cancel = await owner.json(`/api/bookings/${b.id}/cancel`, {});
+		expect(cancel.status).toBe(409);
+		expect(((await cancel.json()) as { message: string }).message).toMatch(/^Nobody came to this session/);
 		expect((await artist.json(`/api/bookings/${b.id}/pay`, { kind: 'balance' })).status).toBe(409);
 		expect((await documentsOf(b.id)).map((d) => d.typeCode)).toEqual([386]);
 		const page = await artist.fetch(`/bookings/${b.id}`).then((r) => r.text());

@@ -167,7 +167,9 @@ export async function cancelBooking(
 			const message =
 				b.status === 'completed'
 					? 'This session has taken place; it can no longer be cancelled.'
-					: 'This booking has lapsed already.';
+					: b.status === 'no_show'
+						? 'Nobody came to this session, and that has been recorded; it can no longer be cancelled.'
+						: 'This booking has lapsed already.';
 			return { ok: false, status: 409, code: 'not_cancellable', message };
 		}
 		const r = refundForCancellation({ paid: state.held, deposit: b.deposit, bookingStart: b.startsAt, cancelledAt: now, policy });
