@@ -20,7 +20,7 @@
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import { db } from '../db';
-import { booking, bookingMove, invoice, payment, room, studio, user } from '../db/schema';
+import { booking, bookingMove, payment, room, studio, user } from '../db/schema';
 import { inTransaction, lockBooking, paymentsOf, type PaymentRow } from './core';
 import { owedOn } from './balance';
 import { refreshAccountState } from './accounts';
