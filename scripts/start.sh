@@ -59,6 +59,9 @@ trap cleanup EXIT
 trap on_interrupt INT TERM
 
 ensure_node_modules
+# The migration and seed scripts import app modules that use SvelteKit's $lib alias: its paths come
+# from .svelte-kit/tsconfig.json, which a fresh clone does not have yet.
+npx svelte-kit sync
 LOCAL_DB=1
 case "$DATABASE_URL" in *"127.0.0.1:$PG_PORT"* | *"localhost:$PG_PORT"*) ;; *) LOCAL_DB=0 ;; esac
 if [ "$LOCAL_DB" = "1" ]; then
