@@ -238,6 +238,21 @@ const ENTRIES: Record<string, Entry> = {
 	'/api/bookings/[id=uuid]/cancellation': { path: (b) => `/api/bookings/${b.booking}/cancellation`, into: true },
 	'/api/bookings/[id=uuid]/close': { path: (b) => `/api/bookings/${b.booking}/close`, into: true },
 	'/api/bookings/[id=uuid]/no-show': { path: (b) => `/api/bookings/${b.booking}/no-show`, into: true },
+	'/api/bookings/[id=uuid]/move': {
+		path: (b) => `/api/bookings/${b.booking}/move?start=2027-03-03T10:00&end=2027-03-03T12:00`,
+		into: true,
+		json: { POST: () => ({ start: '2027-03-03T10:00', end: '2027-03-03T12:00' }) }
+	},
+	'/api/bookings/[id=uuid]/payments': {
+		path: (b) => `/api/bookings/${b.booking}/payments`,
+		into: true,
+		json: { POST: () => ({ amount: 1000, method: 'cash', paidOn: '2026-12-01', note: 'walk' }) }
+	},
+	'/api/bookings/[id=uuid]/payments/[paymentId=uuid]/reverse': {
+		path: (b) => `/api/bookings/${b.booking}/payments/${crypto.randomUUID()}/reverse`,
+		into: true,
+		json: { POST: () => ({ reason: 'walk' }) }
+	},
 	'/api/bookings/[id=uuid]/pay': { path: (b) => `/api/bookings/${b.booking}/pay`, into: true },
 	'/api/bookings/[id=uuid]/uploads': {
 		path: (b) => `/api/bookings/${b.booking}/uploads`,
