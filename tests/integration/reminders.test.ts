@@ -6,7 +6,7 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { createServer } from 'node:net';
 import { afterAll, describe, expect, it } from 'vitest';
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq, ne, sql } from 'drizzle-orm';
 import { signedIn } from '../support/http';
 import { APP_URL, DEMO, MAIL_API } from '../support/env';
 import { studioIdOf, testDb } from '../support/db';
@@ -44,8 +44,13 @@ async function caught(): Promise<CaughtMail[]> {
 	return (await (await fetch(`${MAIL_API}/api/email`)).json()) as CaughtMail[];
 }
 
+/** A booking's planned messages (reminders, the balance request); its receipts are the receipts' tests' subject. */
 const rowsOf = (bookingId: string) =>
-	db.select().from(t.scheduledMessage).where(eq(t.scheduledMessage.bookingId, bookingId)).orderBy(t.scheduledMessage.dueAt);
+	db
+		.select()
+		.from(t.scheduledMessage)
+		.where(and(eq(t.scheduledMessage.bookingId, bookingId), ne(t.scheduledMessage.kind, 'receipt')))
+		.orderBy(t.scheduledMessage.dueAt);
 
 /** The queue's jobs of one message (pg-boss keeps them in pgboss.job until they are archived). */
 async function jobsOf(messageId: string) {
@@ -77,9 +82,12 @@ describe('reminders', () => {
 		const res = await artist.fetch(`/api/bookings/${b.id}`);
 		expect(res.status).toBe(200);
 		const body = (await res.json()) as { messages: { kind: string; dueAt: string; sentAt: string | null }[] };
-		expect(body.messages.map((m) => [m.kind, new Date(m.dueAt).getTime(), m.sentAt])).toEqual(
+		const planned = body.messages.filter((m) => m.kind !== 'receipt');
+		expect(planned.map((m) => [m.kind, new Date(m.dueAt).getTime(), m.sentAt])).toEqual(
 			rows.map((r) => ['reminder', r.dueAt.getTime(), null])
 		);
+		// The deposit's receipt is listed with them, already sent.
+		expect(body.messages.filter((m) => m.kind === 'receipt').map((m) => m.sentAt !== null)).toEqual([true]);
 		// The booking page lists them for the artist.
 		const page = await (await artist.fetch(`/bookings/${b.id}`)).text();
 		expect(page).toContain('E-mails for this session');
@@ -98,12 +106,15 @@ describe('reminders', () => {
 		}, 'the reminders cancelled');
 		expect(rows.map((r) => r.sentAt)).toEqual([null, null]);
 		const body = (await (await artist.fetch(`/api/bookings/${b.id}`)).json()) as {
-			messages: { cancelledAt: string | null }[];
+			messages: { kind: string; cancelledAt: string | null }[];
 		};
-		expect(body.messages).toHaveLength(2);
-		expect(body.messages.every((m) => m.cancelledAt !== null)).toBe(true);
-		// A message no longer wanted is not on the page.
-		expect(await (await artist.fetch(`/bookings/${b.id}`)).text()).not.toContain('E-mails for this session');
+		const planned = body.messages.filter((m) => m.kind !== 'receipt');
+		expect(planned).toHaveLength(2);
+		expect(planned.every((m) => m.cancelledAt !== null)).toBe(true);
+		// A message no longer wanted is not on the page (the deposit's receipt still is).
+		const page = await (await artist.fetch(`/bookings/${b.id}`)).text();
+		expect(page).not.toContain('Reminder, 7 days before');
+		expect(page).not.toContain('Reminder, 48 hours before');
 	});
 });
 
@@ -277,7 +288,8 @@ describe('a reminder coming due', () => {
 		const body = (await (await artist.fetch(`/api/bookings/${a.id}`)).json()) as {
 			messages: { kind: string; sentAt: string | null; cancelledAt: string | null }[];
 		};
-		expect(body.messages.map((m) => [m.kind, m.sentAt !== null, m.cancelledAt !== null]).sort()).toEqual([
+		const planned = body.messages.filter((m) => m.kind !== 'receipt');
+		expect(planned.map((m) => [m.kind, m.sentAt !== null, m.cancelledAt !== null]).sort()).toEqual([
 			['reminder', false, false],
 			['reminder', true, false]
 		]);
