@@ -21,12 +21,19 @@ const { db, client } = testDb();
 afterAll(() => client.end());
 const HOUR = 3_600_000;
 
-// The demo studio's reminder times are its owner's to change, and other files post its settings
-// forms (the fuzz and the route walk): this file asks for the seeded 7 days and 48 hours itself.
+// The demo studio's reminder settings are its owner's to change, and other files post its settings
+// forms (the fuzz and the route walk): this file sets the seeded 7 days and 48 hours, directions
+// and load-in notes itself (the same words as scripts/seed.ts).
 beforeAll(async () => {
 	await db
 		.update(t.studio)
-		.set({ reminderHours: [168, 48] })
+		.set({
+			reminderHours: [168, 48],
+			directions:
+				'From the main road, take the gravel lane past the red mailbox; the barn is the second building on the left. Park on the grass beside it.',
+			loadInNotes:
+				'Level access through the double barn doors, no steps; a trolley waits inside. Ask before carrying anything heavy alone.'
+		})
 		.where(eq(t.studio.id, await studioIdOf(db)));
 });
 
